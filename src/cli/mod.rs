@@ -1,0 +1,107 @@
+//! The command layer: parse the command line, call the library, write the result.
+//!
+//! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
+
+mod io;
+mod mean;
+mod output;
+mod progress;
+
+use clap::{Args, Parser, Subcommand};
+pub use io::{write_atomic, write_figure, Inputs};
+pub use output::{jnum, write_report, Cell, Format, Report, Section};
+
+/// Options accepted anywhere on the command line.
+#[derive(Debug, Clone, Args)]
+pub struct Global {
+    /// Output format: table (for people), csv (the main table), json (everything).
+    #[arg(long, global = true, value_enum, default_value_t = Format::Table)]
+    pub format: Format,
+    /// Seed of every random result; the same seed gives the same answer on any number of threads.
+    #[arg(long, global = true, default_value_t = lodestone::montecarlo::DEFAULT_SEED)]
+    pub seed: u64,
+    /// Worker threads for Monte Carlo work (default: all cores). Results do not depend on it.
+    #[arg(long, global = true)]
+    pub threads: Option<usize>,
+    /// No progress bars.
+    #[arg(long, global = true)]
+    pub quiet: bool,
+}
+
+/// lodestone: paleomagnetic directions, field tests, poles, polarity columns and reversal statistics.
+#[derive(Debug, Parser)]
+#[command(name = "lodestone", version, about, long_about = None, propagate_version = true)]
+pub struct Cli {
+    #[command(flatten)]
+    global: Global,
+    #[command(subcommand)]
+    verb: Verb,
+}
+
+#[derive(Debug, Subcommand)]
+enum Verb {
+    /// Fisher mean per site (or per --by column), with k, α95 and θ63.
+    Mean(mean::MeanArgs),
+}
+
+/// Shared context for a verb: global options, progress sink, and the input paths.
+pub struct Ctx {
+    /// Global options.
+    pub global: Global,
+    /// Progress sink for Monte Carlo work.
+    pub progress: progress::Bar,
+    /// Paths read by this run (outputs may not replace them).
+    pub inputs: Inputs,
+}
+
+impl Ctx {
+    /// Monte Carlo settings from the global options.
+    pub fn monte_carlo(&self, resamples: usize) -> lodestone::montecarlo::MonteCarlo<'_> {
+        lodestone::montecarlo::MonteCarlo { seed: self.global.seed, resamples, progress: &self.progress }
+    }
+}
+
+/// Run the command line; returns the process exit code.
+pub fn run() -> i32 {
+    let cli = match Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let code = if e.use_stderr() { 2 } else { 0 };
+            let _ = e.print();
+            return code;
+        }
+    };
+    let mut ctx = Ctx { progress: progress::Bar::new(cli.global.quiet), global: cli.global, inputs: Inputs::default() };
+    let result = match ctx.global.threads {
+        Some(n) if n > 0 => match rayon::ThreadPoolBuilder::new().num_threads(n).build() {
+            Ok(pool) => pool.install(|| dispatch(cli.verb, &mut ctx)),
+            Err(e) => Err(anyhow::anyhow!("cannot start {n} threads: {e}")),
+        },
+        Some(_) => Err(anyhow::anyhow!("--threads must be at least 1")),
+        None => dispatch(cli.verb, &mut ctx),
+    };
+    match result {
+        Ok(report) => {
+            let stdout = std::io::stdout();
+            let stderr = std::io::stderr();
+            match write_report(&report, ctx.global.format, &mut stdout.lock(), &mut stderr.lock()) {
+                Ok(()) => 0,
+                Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => 0,
+                Err(e) => {
+                    eprintln!("error: cannot write the output: {e}");
+                    1
+                }
+            }
+        }
+        Err(e) => {
+            eprintln!("error: {e:#}");
+            1
+        }
+    }
+}
+
+fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
+    match verb {
+        Verb::Mean(a) => mean::run(a, ctx),
+    }
+}

@@ -1,0 +1,16 @@
+//! Sphere geometry: vectors, directions, rotations, tilt correction and specimen orientation.
+
+mod direction;
+mod rotation;
+mod specimen_frame;
+mod tilt;
+mod vector;
+
+pub use direction::{angle_between, wrap360, Direction};
+pub use rotation::{rotate_about, Rotation};
+pub use specimen_frame::SpecimenOrientation;
+pub use tilt::Bedding;
+pub use vector::Vec3;
+
+#[cfg(test)]
+mod tests;

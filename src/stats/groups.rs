@@ -1,0 +1,69 @@
+//! Fisher means of the groups of a directions table (sites, or any grouping column).
+
+use super::fisher::{fisher_from_vectors, FisherStats};
+use crate::error::{Error, Result};
+use crate::table::DirectionSet;
+
+/// Coordinate frame of a mean.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Frame {
+    /// Geographic (in situ) coordinates.
+    Geo,
+    /// Tilt-corrected (stratigraphic) coordinates, from each row's bedding.
+    Tilt,
+}
+
+/// The Fisher mean of one group.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct GroupMean {
+    /// Group name (`None` for the whole file when there is no grouping column).
+    pub group: Option<String>,
+    /// File lines of the group's rows.
+    pub lines: Vec<usize>,
+    /// The statistics.
+    pub stats: FisherStats,
+}
+
+/// Fisher mean per group, groups in order of first appearance.
+///
+/// Rows without a group value form their own group (`None`). In the tilt frame every row must carry
+/// bedding; the error names the first row that does not.
+pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<Vec<GroupMean>> {
+    let mut order: Vec<Option<String>> = Vec::new();
+    let mut members: Vec<Vec<usize>> = Vec::new();
+    for (i, r) in set.records.iter().enumerate() {
+        match order.iter().position(|g| *g == r.group) {
+            Some(j) => members[j].push(i),
+            None => {
+                order.push(r.group.clone());
+                members.push(vec![i]);
+            }
+        }
+    }
+    let mut out = Vec::with_capacity(order.len());
+    for (group, idx) in order.into_iter().zip(members) {
+        let mut vectors = Vec::with_capacity(idx.len());
+        for &i in &idx {
+            let r = &set.records[i];
+            let v = r.direction.to_vector();
+            vectors.push(match frame {
+                Frame::Geo => v,
+                Frame::Tilt => match r.bedding {
+                    Some(b) => b.untilt(v),
+                    None => {
+                        return Err(Error::Table(crate::error::TableError {
+                            file: set.source.clone(),
+                            line: r.line,
+                            column: Some("bed_dip".into()),
+                            message: "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip".into(),
+                        }))
+                    }
+                },
+            });
+        }
+        let stats = fisher_from_vectors(vectors, confidence)?;
+        out.push(GroupMean { group, lines: idx.iter().map(|&i| set.records[i].line).collect(), stats });
+    }
+    Ok(out)
+}

@@ -1,0 +1,207 @@
+//! The CSV table reader shared by every table kind.
+//!
+//! Rules (see the contract): UTF-8 with an optional BOM, one header row, lines starting with `#` are
+//! comments, header names matched case-insensitively with surrounding blanks trimmed, CRLF accepted,
+//! extra columns ignored. Every error names `FILE:LINE` and, where it concerns a cell, the column.
+
+use crate::error::TableError;
+use std::path::Path;
+
+/// One data row with the line it came from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Row {
+    /// 1-based line number in the file.
+    pub line: usize,
+    /// Cells, trimmed of surrounding blanks.
+    pub cells: Vec<String>,
+}
+
+/// A parsed table: header names (lower-cased, trimmed) and rows.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Table {
+    /// File name for messages.
+    pub name: String,
+    /// Line of the header row.
+    pub header_line: usize,
+    /// Header names, lower-cased and trimmed.
+    pub headers: Vec<String>,
+    /// Data rows in file order.
+    pub rows: Vec<Row>,
+}
+
+impl Table {
+    /// Read and parse a file. The file name in messages is the path as given.
+    pub fn read(path: &Path) -> Result<Table, TableError> {
+        let name = path.display().to_string();
+        let bytes = std::fs::read(path)
+            .map_err(|e| TableError { file: name.clone(), line: 0, column: None, message: format!("cannot read: {e}") })?;
+        Table::parse(&name, &bytes)
+    }
+
+    /// Parse table text.
+    pub fn parse(name: &str, bytes: &[u8]) -> Result<Table, TableError> {
+        let err = |line: usize, msg: String| TableError { file: name.to_string(), line, column: None, message: msg };
+        let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
+        let text = std::str::from_utf8(bytes).map_err(|e| {
+            let line = bytes[..e.valid_up_to()].iter().filter(|&&b| b == b'\n').count() + 1;
+            err(line, "the file is not valid UTF-8 text".into())
+        })?;
+        // Comment lines are blanked (keeping their line breaks) so that line numbers stay true, and the
+        // csv crate's own comment handling (which loses count of lines) is not used.
+        let blanked: String = if text.lines().any(|l| l.trim_start().starts_with('#')) {
+            text.split_inclusive('\n')
+                .map(|l| if l.trim_start().starts_with('#') { if l.ends_with("\r\n") { "\r\n" } else if l.ends_with('\n') { "\n" } else { "" } } else { l })
+                .collect()
+        } else {
+            String::new()
+        };
+        let text = if blanked.is_empty() { text } else { blanked.as_str() };
+        let newlines: Vec<usize> = text.bytes().enumerate().filter(|(_, b)| *b == b'\n').map(|(i, _)| i).collect();
+        let line_of = |byte: u64| newlines.partition_point(|&i| (i as u64) < byte) + 1;
+        let mut rdr = csv::ReaderBuilder::new()
+            .has_headers(false)
+            .flexible(true)
+            .trim(csv::Trim::All)
+            .from_reader(text.as_bytes());
+        let mut headers: Option<(usize, Vec<String>)> = None;
+        let mut rows = Vec::new();
+        let mut rec = csv::StringRecord::new();
+        loop {
+            let more = rdr.read_record(&mut rec).map_err(|e| {
+                let line = e.position().map(|p| line_of(p.byte())).unwrap_or(0);
+                err(line, format!("unreadable CSV: {e}"))
+            })?;
+            if !more {
+                break;
+            }
+            // The record's own position points at the end of the previous one (before skipped blank
+            // lines); the reader's position after the record is exact, so use the line it ends on.
+            let line = line_of(rdr.position().byte().saturating_sub(1));
+            if rec.iter().all(|c| c.is_empty()) {
+                continue; // blank line
+            }
+            match &headers {
+                None => {
+                    let h: Vec<String> = rec.iter().map(|c| c.trim().to_lowercase()).collect();
+                    for (i, a) in h.iter().enumerate() {
+                        if a.is_empty() {
+                            return Err(err(line, format!("header cell {} is empty", i + 1)));
+                        }
+                        if h[..i].contains(a) {
+                            return Err(TableError {
+                                file: name.to_string(),
+                                line,
+                                column: Some(a.clone()),
+                                message: "the column appears twice in the header".into(),
+                            });
+                        }
+                    }
+                    headers = Some((line, h));
+                }
+                Some((_, h)) => {
+                    let mut cells: Vec<String> = rec.iter().map(str::to_string).collect();
+                    if cells.len() < h.len() {
+                        return Err(err(line, format!("expected {} cells as in the header, found {}", h.len(), cells.len())));
+                    }
+                    if cells[h.len()..].iter().any(|c| !c.is_empty()) {
+                        return Err(err(line, format!("expected {} cells as in the header, found {}", h.len(), cells.len())));
+                    }
+                    cells.truncate(h.len());
+                    rows.push(Row { line, cells });
+                }
+            }
+        }
+        let Some((header_line, headers)) = headers else {
+            return Err(err(1, "the file is empty: expected a header row naming the columns".into()));
+        };
+        Ok(Table { name: name.to_string(), header_line, headers, rows })
+    }
+
+    /// Index of a column, if present.
+    pub fn col(&self, name: &str) -> Option<usize> {
+        self.headers.iter().position(|h| h == name)
+    }
+
+    /// Index of a required column, or an error naming the header line and the column.
+    pub fn require(&self, name: &str) -> Result<usize, TableError> {
+        self.col(name).ok_or_else(|| TableError {
+            file: self.name.clone(),
+            line: self.header_line,
+            column: Some(name.to_string()),
+            message: format!("required column is missing (header has: {})", self.headers.join(", ")),
+        })
+    }
+
+    /// An error at `line`, optionally naming a column.
+    pub fn error(&self, line: usize, column: Option<&str>, message: impl Into<String>) -> TableError {
+        TableError { file: self.name.clone(), line, column: column.map(str::to_string), message: message.into() }
+    }
+
+    /// Error unless the table has at least one data row.
+    pub fn require_rows(&self) -> Result<(), TableError> {
+        if self.rows.is_empty() {
+            Err(self.error(self.header_line, None, "the table has a header but no data rows"))
+        } else {
+            Ok(())
+        }
+    }
+
+    /// A cell as text (`""` when empty).
+    pub fn text<'a>(&'a self, row: &'a Row, idx: usize) -> &'a str {
+        row.cells[idx].as_str()
+    }
+
+    /// An optional text cell: `None` when the column is absent or the cell empty.
+    pub fn opt_text(&self, row: &Row, idx: Option<usize>) -> Option<String> {
+        idx.map(|i| row.cells[i].as_str()).filter(|s| !s.is_empty()).map(str::to_string)
+    }
+
+    /// A required finite number.
+    pub fn number(&self, row: &Row, idx: usize) -> Result<f64, TableError> {
+        let name = &self.headers[idx];
+        let s = self.text(row, idx);
+        if s.is_empty() {
+            return Err(self.error(row.line, Some(name), "is empty; expected a number"));
+        }
+        let v: f64 = s.parse().map_err(|_| self.error(row.line, Some(name), format!("'{s}' is not a number")))?;
+        if !v.is_finite() {
+            return Err(self.error(row.line, Some(name), format!("'{s}' is not a finite number")));
+        }
+        Ok(v)
+    }
+
+    /// A required number within `[lo, hi]`.
+    pub fn number_in(&self, row: &Row, idx: usize, lo: f64, hi: f64) -> Result<f64, TableError> {
+        let v = self.number(row, idx)?;
+        if v < lo || v > hi {
+            return Err(self.error(row.line, Some(&self.headers[idx]), format!("{v} is outside [{lo}, {hi}]")));
+        }
+        Ok(v)
+    }
+
+    /// An optional number: `None` when the column is absent or the cell empty.
+    pub fn opt_number(&self, row: &Row, idx: Option<usize>) -> Result<Option<f64>, TableError> {
+        match idx {
+            Some(i) if !row.cells[i].is_empty() => self.number(row, i).map(Some),
+            _ => Ok(None),
+        }
+    }
+
+    /// An optional number within `[lo, hi]`.
+    pub fn opt_number_in(&self, row: &Row, idx: Option<usize>, lo: f64, hi: f64) -> Result<Option<f64>, TableError> {
+        match idx {
+            Some(i) if !row.cells[i].is_empty() => self.number_in(row, i, lo, hi).map(Some),
+            _ => Ok(None),
+        }
+    }
+
+    /// An optional yes/no cell (`true/false`, `yes/no`, `y/n`, `1/0`, any case); empty means `false`.
+    pub fn flag(&self, row: &Row, idx: Option<usize>) -> Result<bool, TableError> {
+        let Some(i) = idx else { return Ok(false) };
+        match row.cells[i].to_lowercase().as_str() {
+            "" | "false" | "no" | "n" | "0" => Ok(false),
+            "true" | "yes" | "y" | "1" => Ok(true),
+            s => Err(self.error(row.line, Some(&self.headers[i]), format!("'{s}' is not yes/no (true/false, y/n, 1/0)"))),
+        }
+    }
+}
