@@ -24,6 +24,8 @@
 //! | Fisher random directions | [`stats::FisherSampler`] |
 //! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`] |
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
+//! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
+//! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout
@@ -36,6 +38,7 @@ pub mod error;
 pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
+pub mod poles;
 pub mod sphere;
 pub mod stats;
 pub mod table;

@@ -1,12 +1,14 @@
 //! Sphere geometry: vectors, directions, rotations, tilt correction and specimen orientation.
 
 mod direction;
+mod geo;
 mod rotation;
 mod specimen_frame;
 mod tilt;
 mod vector;
 
 pub use direction::{angle_between, wrap360, Direction};
+pub use geo::GeoPoint;
 pub use rotation::{rotate_about, Rotation};
 pub use specimen_frame::SpecimenOrientation;
 pub use tilt::Bedding;

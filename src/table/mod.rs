@@ -2,11 +2,13 @@
 
 mod directions;
 mod reader;
+mod timescale;
 
 pub use directions::{
     read_bedding, read_directions, strat_axis, DirectionKind, DirectionRecord, DirectionSet, GroupBy, StratAxis,
 };
 pub use reader::{Row, Table};
+pub use timescale::{Chron, Polarity, TimeScale, AGE_TOLERANCE};
 
 #[cfg(test)]
 mod tests;

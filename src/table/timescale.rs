@@ -1,0 +1,144 @@
+//! The timescale table: polarity chrons with their young and old boundary ages.
+
+use super::reader::Table;
+use crate::error::TableError;
+
+/// Polarity of a chron.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+pub enum Polarity {
+    /// Normal (field as today), code `N`.
+    #[serde(rename = "N")]
+    Normal,
+    /// Reversed, code `R`.
+    #[serde(rename = "R")]
+    Reversed,
+}
+
+impl Polarity {
+    /// The one-letter code.
+    pub fn code(self) -> &'static str {
+        match self {
+            Polarity::Normal => "N",
+            Polarity::Reversed => "R",
+        }
+    }
+    /// The other polarity.
+    pub fn flip(self) -> Polarity {
+        match self {
+            Polarity::Normal => Polarity::Reversed,
+            Polarity::Reversed => Polarity::Normal,
+        }
+    }
+}
+
+/// One polarity chron.
+///
+/// # Units
+/// Ages in Ma, growing into the past; `young < old`.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Chron {
+    /// Chron name, if given (e.g. `C1n`).
+    pub name: Option<String>,
+    /// Age of the young boundary, Ma.
+    pub young: f64,
+    /// Age of the old boundary, Ma.
+    pub old: f64,
+    /// Polarity.
+    pub polarity: Polarity,
+    /// Line in the source file.
+    pub line: usize,
+}
+
+impl Chron {
+    /// Duration, Myr.
+    pub fn duration(&self) -> f64 {
+        self.old - self.young
+    }
+}
+
+/// A validated polarity time scale: chrons sorted young → old, tiling time without gap or overlap.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct TimeScale {
+    /// File name for messages.
+    pub source: String,
+    /// Chrons, youngest first.
+    pub chrons: Vec<Chron>,
+}
+
+/// Boundaries closer than this (Myr) are treated as touching.
+pub const AGE_TOLERANCE: f64 = 1e-9;
+
+impl TimeScale {
+    /// Read and validate a timescale table (`young`, `old`, `polarity`; optional `name`).
+    ///
+    /// Refused: negative ages, `old ≤ young` (zero-length or inverted chrons), unknown polarity codes,
+    /// and, once sorted by age, gaps or overlaps between neighbours (the message names both lines).
+    /// Adjacent chrons of the same polarity are allowed (some scales split a chron into named parts).
+    pub fn from_table(t: &Table) -> Result<TimeScale, TableError> {
+        t.require_rows()?;
+        let (y, o, p) = (t.require("young")?, t.require("old")?, t.require("polarity")?);
+        let name = t.col("name");
+        let mut chrons = Vec::with_capacity(t.rows.len());
+        for row in &t.rows {
+            let young = t.number(row, y)?;
+            let old = t.number(row, o)?;
+            if young < 0.0 {
+                return Err(t.error(row.line, Some("young"), format!("{young} is negative; ages are in Ma before present")));
+            }
+            if old <= young {
+                return Err(t.error(row.line, Some("old"), format!("{old} is not older than young = {young} (a chron must have positive length)")));
+            }
+            let polarity = match t.text(row, p).to_uppercase().as_str() {
+                "N" | "NORMAL" => Polarity::Normal,
+                "R" | "REVERSED" | "REVERSE" => Polarity::Reversed,
+                other => return Err(t.error(row.line, Some("polarity"), format!("'{other}' is not a polarity code (N or R)"))),
+            };
+            chrons.push(Chron { name: t.opt_text(row, name), young, old, polarity, line: row.line });
+        }
+        chrons.sort_by(|a, b| a.young.total_cmp(&b.young));
+        for w in chrons.windows(2) {
+            let (a, b) = (&w[0], &w[1]);
+            if (b.young - a.old).abs() > AGE_TOLERANCE {
+                let what = if b.young > a.old { "a gap" } else { "an overlap" };
+                return Err(t.error(
+                    b.line,
+                    Some("young"),
+                    format!("{what} between line {} (old = {}) and line {} (young = {}): chrons must tile time", a.line, a.old, b.line, b.young),
+                ));
+            }
+        }
+        Ok(TimeScale { source: t.name.clone(), chrons })
+    }
+
+    /// Age of the youngest boundary, Ma.
+    pub fn young(&self) -> f64 {
+        self.chrons.first().map_or(0.0, |c| c.young)
+    }
+    /// Age of the oldest boundary, Ma.
+    pub fn old(&self) -> f64 {
+        self.chrons.last().map_or(0.0, |c| c.old)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn ts(s: &str) -> Result<TimeScale, TableError> {
+        TimeScale::from_table(&Table::parse("ts.csv", s.as_bytes()).unwrap())
+    }
+
+    #[test]
+    fn sorted_and_validated() {
+        let t = ts("young,old,polarity,name\n0.5,1.0,R,b\n0,0.5,N,a\n").unwrap();
+        assert_eq!(t.chrons[0].name.as_deref(), Some("a"));
+        assert_eq!(t.old(), 1.0);
+        let e = ts("young,old,polarity\n0,0.5,N\n0.6,1.0,R\n").unwrap_err();
+        assert!(e.to_string().contains("a gap between line 2"), "{e}");
+        let e = ts("young,old,polarity\n0,0.5,N\n0.4,1.0,R\n").unwrap_err();
+        assert!(e.to_string().contains("an overlap"), "{e}");
+        assert!(ts("young,old,polarity\n0,0.5,X\n").unwrap_err().to_string().contains("column 'polarity'"));
+        assert!(ts("young,old,polarity\n0.5,0.5,N\n").is_err());
+        assert!(ts("young,old,polarity\n-1,0.5,N\n").is_err());
+    }
+}
