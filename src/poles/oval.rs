@@ -63,6 +63,34 @@ pub fn paleolatitude_range(inc_deg: f64, a95_deg: f64) -> Result<PaleolatitudeRa
     Ok(PaleolatitudeRange { paleolat: lat(inc_deg), low: lat(inc_deg - a95_deg), high: lat(inc_deg + a95_deg) })
 }
 
+/// Uncertainty of the direction expected at a site from a pole known to within A95.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct ExpectedOval {
+    /// Half-range of the expected declination, degrees; `None` when the A95 circle contains the site or
+    /// its antipode (every declination is possible).
+    pub delta_dec: Option<f64>,
+    /// Half-range of the expected inclination, degrees.
+    pub delta_inc: f64,
+}
+
+/// ΔD and ΔI of the direction expected at `site` from `pole` with confidence circle `a95_deg`.
+///
+/// # Formula
+/// With p the site–pole distance: ΔI = 2 A95 / (1 + 3 cos² p) (the inverse of the dp transfer) and
+/// ΔD = asin(sin A95 / sin p) (the half-angle subtended at the site by the A95 circle).
+///
+/// # References
+/// Butler (1992), §11.1 (expected directions and their confidence limits); Beck (1980), *J. Geophys.
+/// Res.* 85, 7115–7131.
+pub fn expected_oval(site: crate::sphere::GeoPoint, pole: crate::sphere::GeoPoint, a95_deg: f64) -> Result<ExpectedOval> {
+    check_range("A95", a95_deg, 0.0, 90.0, "[0, 90]")?;
+    let (p, _) = site.distance_azimuth(pole);
+    let (sp, c2) = (p.to_radians().sin(), p.to_radians().cos().powi(2));
+    let ratio = a95_deg.to_radians().sin() / sp;
+    let delta_dec = (a95_deg < p && a95_deg < 180.0 - p && ratio <= 1.0).then(|| ratio.asin().to_degrees());
+    Ok(ExpectedOval { delta_dec, delta_inc: 2.0 * a95_deg / (1.0 + 3.0 * c2) })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

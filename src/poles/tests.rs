@@ -175,3 +175,27 @@ fn scatter_edges() {
     let same = vec![ScatterSite { pole: GeoPoint::new(80.0, 0.0).unwrap(), within: None }; 3];
     assert_abs_diff_eq!(vgp_scatter(&same, Cutoff::None).unwrap().s_total, 0.0, epsilon = 1e-6);
 }
+
+#[test]
+fn expected_declination_range_is_the_angle_subtended_by_the_a95_circle() {
+    // GeographicLib (geographiclib-rs 0.2.7) on a unit sphere: walk the A95 circle about the pole and take the
+    // largest azimuth deviation seen from the site; Butler (1992) §11.1 gives asin(sin A95 / sin p).
+    let sphere = Geodesic::new(1.0, 0.0);
+    let site = GeoPoint::new(35.0, 250.0).unwrap();
+    let pole = GeoPoint::new(78.0, 160.0).unwrap();
+    let a95 = 6.0;
+    let o = expected_oval(site, pole, a95).unwrap();
+    let (az0, _, _): (f64, f64, f64) = sphere.inverse(site.lat, site.lon, pole.lat, pole.lon);
+    let mut widest: f64 = 0.0;
+    for k in 0..3600 {
+        let (la, lo): (f64, f64) = sphere.direct(pole.lat, pole.lon, k as f64 / 10.0, a95.to_radians());
+        let (az, _, _): (f64, f64, f64) = sphere.inverse(site.lat, site.lon, la, lo);
+        widest = widest.max(lon_diff(az, az0));
+    }
+    assert_abs_diff_eq!(o.delta_dec.unwrap(), widest, epsilon = 1e-3);
+    // Delta I is A95 divided by the dp factor: inverse of Butler eq. 7.5.
+    let p = site.distance_azimuth(pole).0;
+    assert_abs_diff_eq!(o.delta_inc * pole_oval(p, 1.0).unwrap().dp, a95, epsilon = 1e-9);
+    // A site inside the A95 circle: every declination possible.
+    assert!(expected_oval(GeoPoint::new(80.0, 160.0).unwrap(), pole, 6.0).unwrap().delta_dec.is_none());
+}
