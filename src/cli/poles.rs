@@ -162,6 +162,7 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
     if !a.northern && n_south > 0 && n_south < set.records.len() {
         notes.push("The paleopole averages VGPs of both hemispheres as given; with mixed polarity it is not meaningful without --northern.".into());
     }
+    notes.push("VGPs and the paleopole rest on a model: a geocentric dipole field at each site, averaged over enough time for secular variation to cancel; the paleopole uses every site (the cutoff applies to the scatter only).".into());
     if !missing_oval.is_empty() {
         notes.push(format!("dp, dm and the paleolatitude range are empty for {} site(s) without a95 (or n and k): {}.", missing_oval.len(), missing_oval.join(", ")));
     }
