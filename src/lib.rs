@@ -26,6 +26,13 @@
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
+//! | VGP confidence oval dp, dm; paleolatitude range | [`poles::pole_oval`], [`poles::paleolatitude_range`] |
+//! | uncertainty of an expected direction (ΔD, ΔI) | [`poles::expected_oval`] |
+//! | paleopole (Fisher mean of VGPs, K, A95) | [`poles::paleopole`], [`poles::northern`] |
+//! | VGP scatter S_B, within-site correction, cutoffs, bootstrap | [`poles::vgp_scatter`], [`poles::bootstrap_scatter`] |
+//! | VADM, VDM, dipole of Gauss coefficients | [`poles::vadm`], [`poles::vdm`], [`poles::gauss_dipole`] |
+//! | sites table (site means) | [`table::read_sites`] |
+//! | map of VGPs and paleopole | [`figures::PolePlot`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout

@@ -2,8 +2,11 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
+mod dipole;
+mod expected;
 mod io;
 mod mean;
+mod poles;
 mod output;
 mod progress;
 
@@ -42,6 +45,12 @@ pub struct Cli {
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
+    /// Virtual geomagnetic pole per site, paleopole (K, A95) and VGP scatter S_B.
+    Poles(poles::PolesArgs),
+    /// Dipole moments: VADM, VDM, or moment, tilt and pole of Gauss coefficients.
+    Dipole(dipole::DipoleArgs),
+    /// Direction expected at a site (or every site of a table) from a given pole.
+    Expected(expected::ExpectedArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -103,5 +112,8 @@ pub fn run() -> i32 {
 fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
     match verb {
         Verb::Mean(a) => mean::run(a, ctx),
+        Verb::Poles(a) => poles::run(a, ctx),
+        Verb::Dipole(a) => dipole::run(a, ctx),
+        Verb::Expected(a) => expected::run(a, ctx),
     }
 }
