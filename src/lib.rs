@@ -26,6 +26,11 @@
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
+//! | principal-component lines and planes, MAD, DANG (Kirschvink 1980) | [`demag::fit_line`], [`demag::fit_plane`], [`demag::fit_range`] |
+//! | automatic choice of a specimen's line segment | [`demag::auto_line`], [`demag::AutoRule`] |
+//! | steps and picks tables (stepwise demagnetization) | [`table::read_steps`], [`table::read_picks`] |
+//! | combined mean of lines and great circles (McFadden & McElhinny 1988) | [`stats::mixed_mean`] |
+//! | vector-endpoint diagram of a specimen | [`figures::VectorEndpointPlot`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout
@@ -34,6 +39,7 @@
 //! - Fisher, N. I., Lewis, T. & Embleton, B. J. J. (1987), *Statistical Analysis of Spherical Data*. CUP.
 #![warn(missing_docs)]
 
+pub mod demag;
 pub mod error;
 pub mod figures;
 pub mod linalg;

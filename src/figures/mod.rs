@@ -3,7 +3,9 @@
 
 mod equal_area;
 mod render;
+mod vector_endpoint;
 pub mod theme;
 
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
 pub use render::{de, register_fonts, render, Figure, FigureFormat};
+pub use vector_endpoint::{endpoint_projections, VectorEndpointPlot};
