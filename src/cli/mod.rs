@@ -2,6 +2,7 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
+mod components;
 mod io;
 mod mean;
 mod output;
@@ -42,6 +43,8 @@ pub struct Cli {
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
+    /// Principal-component lines and planes per specimen from stepwise demagnetization (MAD, DANG).
+    Components(components::ComponentsArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -103,5 +106,6 @@ pub fn run() -> i32 {
 fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
     match verb {
         Verb::Mean(a) => mean::run(a, ctx),
+        Verb::Components(a) => components::run(a, ctx),
     }
 }

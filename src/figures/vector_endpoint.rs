@@ -120,12 +120,11 @@ impl VectorEndpointPlot {
                 area.draw(&Text::new(format_step(*step), (ph.0 + 6, ph.1 - 14), small.clone())).map_err(de)?;
             }
         }
-        let tick = format!("{} A·m² per grid step", sig(nice_step(ext)));
-        area.draw(&Text::new(tick, (10, h as i32 - 18), small.clone())).map_err(de)?;
-        // A scale bar of one "nice" length.
-        let bar = nice_step(ext) * scale;
-        let y0 = h as i32 - 24;
-        area.draw(&PathElement::new(vec![(10, y0), (10 + bar.round() as i32, y0)], theme::INK.stroke_width(2))).map_err(de)?;
+        // A scale bar of one round length, labelled to its right.
+        let bar = (nice_step(ext) * scale).round() as i32;
+        let y0 = h as i32 - 12;
+        area.draw(&PathElement::new(vec![(10, y0), (10 + bar, y0)], theme::INK.stroke_width(2))).map_err(de)?;
+        area.draw(&Text::new(format!("{} A·m²", sig(nice_step(ext))), (16 + bar, y0 - 7), small)).map_err(de)?;
         Ok(())
     }
 }
