@@ -115,6 +115,18 @@ fn mean_mixes_lines_and_planes_and_stays_fisher_without_planes() {
     assert_eq!(g["planes"], 3);
     assert!((g["dec"].as_f64().unwrap() - 3.88943373).abs() < 1e-6);
     assert!((g["r"].as_f64().unwrap() - 6.913500479025619).abs() < 1e-9);
+    // A group of one great circle alone has no mean: reported with nulls and a note, not an error.
+    let one = write(&d, "one.csv", "site,dec,inc,kind
+T,100,10,plane
+U,10,40,line
+U,12,44,line
+");
+    let out = cmd().args(["mean", one.to_str().unwrap(), "--format", "json"]).output().unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!(v["groups"][0]["dec"].is_null() && v["groups"][0]["k"].is_null());
+    assert!(v["notes"][0].as_str().unwrap().contains("no combined mean"));
+    assert_eq!(v["groups"][1]["n"], 2);
 }
 
 #[test]

@@ -93,12 +93,16 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
             j["alpha"] = jnum(alpha);
         }
         groups.push(j);
-        if g.planes > 0 {
+        if let Some(why) = &g.undefined {
+            notes.push(format!("{name}: no combined mean of lines and great circles: {why}."));
+        } else if g.planes > 0 {
             notes.push(format!(
                 "{name}: {} line(s) and {} great circle(s) combined (McFadden & McElhinny 1988); n counts both, k and a95 use N' = M + N/2.",
                 s.n - g.planes, g.planes));
         }
-        if s.n == 1 {
+        if g.undefined.is_some() {
+            // Already explained by the note above.
+        } else if s.n == 1 {
             notes.push(format!("{name}: one direction only; k, a95 and theta63 need at least two directions."));
         } else if s.mean.is_none() {
             notes.push(format!("{name}: the resultant vanishes (R ≈ 0): the directions cancel out and have no mean."));

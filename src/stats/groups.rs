@@ -26,6 +26,9 @@ pub struct GroupMean {
     pub stats: FisherStats,
     /// Number of planes (great circles, `kind = plane`) in the group; 0 means a plain Fisher mean.
     pub planes: usize,
+    /// Why a group with planes has no combined mean (e.g. a single great circle and no line), when it
+    /// has none; its statistics are then empty (`mean`, `k`, `alpha`, `theta63` all `None`).
+    pub undefined: Option<String>,
 }
 
 /// Fisher mean per group, groups in order of first appearance.
@@ -70,18 +73,24 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
             });
         }
         let planes = is_plane.iter().filter(|p| **p).count();
+        let mut undefined = None;
         let stats = if planes == 0 {
             fisher_from_vectors(vectors, confidence)?
         } else {
             let dir = |v: &crate::sphere::Vec3| crate::sphere::Direction::from_vector(*v).expect("unit vector");
             let lines: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| !**p).map(|(v, _)| dir(v)).collect();
             let poles: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| **p).map(|(v, _)| dir(v)).collect();
-            let name = group.clone().unwrap_or_else(|| "(all)".into());
-            super::mixed_mean(&lines, &poles, confidence)
-                .map_err(|e| Error::Invalid(format!("{}: group {name} (with {planes} great circle(s)): {e}", set.source)))?
-                .as_fisher()
+            match super::mixed_mean(&lines, &poles, confidence) {
+                Ok(m) => m.as_fisher(),
+                Err(Error::OutOfRange { .. }) => return Err(Error::OutOfRange { name: "confidence", value: confidence, range: "(0, 1)" }),
+                Err(e) => {
+                    undefined = Some(e.to_string());
+                    let r = vectors.iter().fold(crate::sphere::Vec3::ZERO, |a, b| a + *b).norm();
+                    FisherStats { n: vectors.len(), mean: None, r, k: None, alpha: None, confidence, theta63: None }
+                }
+            }
         };
-        out.push(GroupMean { group, lines: idx.iter().map(|&i| set.records[i].line).collect(), stats, planes });
+        out.push(GroupMean { group, lines: idx.iter().map(|&i| set.records[i].line).collect(), stats, planes, undefined });
     }
     Ok(out)
 }

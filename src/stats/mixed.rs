@@ -2,7 +2,6 @@
 
 use super::fisher::{FisherStats, Precision};
 use crate::error::{check_range, Error, Result};
-use crate::linalg::sym_eigen;
 use crate::sphere::{Direction, Vec3};
 use crate::tolerance;
 
@@ -110,16 +109,7 @@ pub fn mixed_mean(lines: &[Direction], planes: &[Direction], confidence: f64) ->
     let mut mean = if m > 0 {
         line_sum.normalized().ok_or_else(|| Error::Undefined("the lines cancel out (R ≈ 0): no starting mean".into()))?
     } else {
-        let mut t = [[0.0; 3]; 3];
-        for p in &pv {
-            let a = p.to_array();
-            for i in 0..3 {
-                for j in 0..3 {
-                    t[i][j] += a[i] * a[j];
-                }
-            }
-        }
-        let e = sym_eigen(t);
+        let e = super::principal_axes(&pv);
         if e.values[1] - e.values[2] <= 1e-12 * e.values[0].max(1e-300) {
             return Err(Error::Undefined("the great circles do not intersect in one direction (their poles are identical or spread evenly)".into()));
         }
