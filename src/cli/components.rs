@@ -62,9 +62,22 @@ pub enum PlotFormat {
 
 /// A file name made from a specimen name: letters, digits, `.`, `-`, `_` kept; anything else `_`.
 fn sanitise(name: &str) -> String {
-    let s: String = name.chars().map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '_' }).collect();
+    let s: String = name
+        .chars()
+        .map(|c| {
+            if c.is_ascii_alphanumeric() || "-_.".contains(c) {
+                c
+            } else {
+                '_'
+            }
+        })
+        .collect();
     let s = s.trim_start_matches('.').to_string();
-    if s.is_empty() { "specimen".into() } else { s }
+    if s.is_empty() {
+        "specimen".into()
+    } else {
+        s
+    }
 }
 
 fn unit_of(sp: &SpecimenSteps) -> &'static str {
@@ -88,7 +101,11 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         ctx.inputs.add(p);
     }
     let set: StepSet = read_steps(&Table::read(&a.steps)?)?;
-    let anchor = if a.anchor { Anchor::Origin } else { Anchor::Free };
+    let anchor = if a.anchor {
+        Anchor::Origin
+    } else {
+        Anchor::Free
+    };
     let mut fits: Vec<SpecimenFit> = Vec::new();
     let mut unfitted: Vec<(String, String)> = Vec::new();
     let mut notes = Vec::new();
@@ -100,7 +117,8 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         let picks = read_picks(&pt, &set)?;
         for p in &picks {
             let sp = set.get(&p.specimen).expect("checked by read_picks");
-            let f = fit_range(sp, p.from, p.to, p.kind, p.anchor).map_err(|e| pt.error(p.line, Some("from"), e.to_string()))?;
+            let f = fit_range(sp, p.from, p.to, p.kind, p.anchor)
+                .map_err(|e| pt.error(p.line, Some("from"), e.to_string()))?;
             fits.push(f);
         }
         for sp in &set.specimens {
@@ -110,7 +128,12 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         }
     } else if a.auto {
         method = "auto";
-        let rule = AutoRule { min_steps: a.min_steps, max_mad: a.max_mad, max_dang: a.max_dang, anchor };
+        let rule = AutoRule {
+            min_steps: a.min_steps,
+            max_mad: a.max_mad,
+            max_dang: a.max_dang,
+            anchor,
+        };
         notes.push(format!(
             "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
              among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
@@ -135,19 +158,33 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         for sp in &set.specimens {
             match fit_range(sp, from, to, kind, anchor) {
                 Ok(f) => fits.push(f),
-                Err(e) => unfitted.push((sp.specimen.clone(), e.to_string().trim_start_matches(&format!("specimen {}: ", sp.specimen)).to_string())),
+                Err(e) => unfitted.push((
+                    sp.specimen.clone(),
+                    e.to_string()
+                        .trim_start_matches(&format!("specimen {}: ", sp.specimen))
+                        .to_string(),
+                )),
             }
         }
     }
     let axis = set.axis;
-    let mut columns = vec!["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"];
+    let mut columns = vec![
+        "specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang",
+    ];
     if let Some(ax) = axis {
         columns.push(ax.column());
     }
     if set.has_bedding {
         columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
     }
-    let mut sec = Section::new(&format!("Principal components of {} ({} fits)", a.steps.display(), method), &columns);
+    let mut sec = Section::new(
+        &format!(
+            "Principal components of {} ({} fits)",
+            a.steps.display(),
+            method
+        ),
+        &columns,
+    );
     let mut fits_json = Vec::new();
     for f in &fits {
         let sp = set.get(&f.specimen).expect("fitted specimen exists");
@@ -170,7 +207,14 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         if set.has_bedding {
             row.push(Cell::opt(sp.bedding.map(|b| b.dip_dir), 1));
             row.push(Cell::opt(sp.bedding.map(|b| b.dip), 1));
-            row.push(Cell::Text(if sp.bedding.is_some_and(|b| b.overturned) { "yes" } else { "no" }.into()));
+            row.push(Cell::Text(
+                if sp.bedding.is_some_and(|b| b.overturned) {
+                    "yes"
+                } else {
+                    "no"
+                }
+                .into(),
+            ));
         }
         sec.rows.push(row);
         let mut j = json!({
@@ -186,12 +230,16 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     if !unfitted.is_empty() {
         let mut u = Section::new("Specimens not fitted", &["specimen", "reason"]);
         for (s, why) in &unfitted {
-            u.rows.push(vec![Cell::Text(s.clone()), Cell::Text(why.clone())]);
+            u.rows
+                .push(vec![Cell::Text(s.clone()), Cell::Text(why.clone())]);
             notes.push(format!("{s}: not fitted: {why}."));
         }
         sections.push(u);
     }
-    if fits.iter().any(|f| f.kind == FitKind::Line && f.anchor == Anchor::Free) {
+    if fits
+        .iter()
+        .any(|f| f.kind == FitKind::Line && f.anchor == Anchor::Free)
+    {
         notes.push("Free lines point from the last step used toward the first (the component removed over the range); anchored lines point from the origin toward the steps.".into());
     }
     if fits.iter().any(|f| f.kind == FitKind::Plane) {
@@ -215,11 +263,18 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     })
 }
 
-fn write_plots(dir: &Path, set: &StepSet, fits: &[SpecimenFit], format: PlotFormat, ctx: &Ctx) -> Result<()> {
+fn write_plots(
+    dir: &Path,
+    set: &StepSet,
+    fits: &[SpecimenFit],
+    format: PlotFormat,
+    ctx: &Ctx,
+) -> Result<()> {
     if dir.exists() && !dir.is_dir() {
         bail!("--plot {}: exists and is not a folder", dir.display());
     }
-    std::fs::create_dir_all(dir).with_context(|| format!("cannot create the figure folder {}", dir.display()))?;
+    std::fs::create_dir_all(dir)
+        .with_context(|| format!("cannot create the figure folder {}", dir.display()))?;
     let ext = match format {
         PlotFormat::Svg => "svg",
         PlotFormat::Png => "png",
@@ -238,7 +293,11 @@ fn write_plots(dir: &Path, set: &StepSet, fits: &[SpecimenFit], format: PlotForm
             specimen: sp.specimen.clone(),
             unit: unit_of(sp).into(),
             steps: sp.steps.iter().map(|s| (s.step, s.vector())).collect(),
-            fits: fits.iter().filter(|f| f.specimen == sp.specimen).cloned().collect(),
+            fits: fits
+                .iter()
+                .filter(|f| f.specimen == sp.specimen)
+                .cloned()
+                .collect(),
         };
         super::write_figure(&fig, &dir.join(format!("{name}.{ext}")), &ctx.inputs)?;
     }

