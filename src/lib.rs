@@ -33,6 +33,11 @@
 //! | VADM, VDM, dipole of Gauss coefficients | [`poles::vadm`], [`poles::vdm`], [`poles::gauss_dipole`] |
 //! | sites table (site means) | [`table::read_sites`] |
 //! | map of VGPs and paleopole | [`figures::PolePlot`] |
+//! | principal-component lines and planes, MAD, DANG (Kirschvink 1980) | [`demag::fit_line`], [`demag::fit_plane`], [`demag::fit_range`] |
+//! | automatic choice of a specimen's line segment | [`demag::auto_line`], [`demag::AutoRule`] |
+//! | steps and picks tables (stepwise demagnetization) | [`table::read_steps`], [`table::read_picks`] |
+//! | combined mean of lines and great circles (McFadden & McElhinny 1988) | [`stats::mixed_mean`] |
+//! | vector-endpoint diagram of a specimen | [`figures::VectorEndpointPlot`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout
@@ -41,6 +46,7 @@
 //! - Fisher, N. I., Lewis, T. & Embleton, B. J. J. (1987), *Statistical Analysis of Spherical Data*. CUP.
 #![warn(missing_docs)]
 
+pub mod demag;
 pub mod error;
 pub mod figures;
 pub mod linalg;

@@ -4,6 +4,7 @@
 
 mod dipole;
 mod expected;
+mod components;
 mod io;
 mod mean;
 mod poles;
@@ -51,6 +52,8 @@ enum Verb {
     Dipole(dipole::DipoleArgs),
     /// Direction expected at a site (or every site of a table) from a given pole.
     Expected(expected::ExpectedArgs),
+    /// Principal-component lines and planes per specimen from stepwise demagnetization (MAD, DANG).
+    Components(components::ComponentsArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -115,5 +118,6 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Poles(a) => poles::run(a, ctx),
         Verb::Dipole(a) => dipole::run(a, ctx),
         Verb::Expected(a) => expected::run(a, ctx),
+        Verb::Components(a) => components::run(a, ctx),
     }
 }

@@ -4,8 +4,10 @@
 mod equal_area;
 mod pole_plot;
 mod render;
+mod vector_endpoint;
 pub mod theme;
 
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
 pub use pole_plot::{pole_map_rim, pole_map_xy, MappedVgp, PolePlot};
 pub use render::{de, register_fonts, render, Figure, FigureFormat};
+pub use vector_endpoint::{endpoint_projections, VectorEndpointPlot};
