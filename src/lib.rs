@@ -26,6 +26,9 @@
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
+//! | polarity per level from VGP latitude | [`strat::read_levels`], [`strat::classify`] |
+//! | magnetozones with boundary uncertainties | [`strat::build_zones`], [`strat::read_zones`] |
+//! | correlation with a time scale (dynamic programming), age model, rates | [`strat::correlate`], [`strat::Candidate`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout
@@ -41,6 +44,7 @@ pub mod montecarlo;
 pub mod poles;
 pub mod sphere;
 pub mod stats;
+pub mod strat;
 pub mod table;
 pub mod tolerance;
 
