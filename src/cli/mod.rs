@@ -2,6 +2,8 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
+mod column;
+mod correlate;
 mod io;
 mod mean;
 mod output;
@@ -42,6 +44,10 @@ pub struct Cli {
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
+    /// Polarity of each level from its VGP latitude, and the magnetozones with boundary intervals.
+    Column(column::ColumnArgs),
+    /// Rank correlations of a polarity column with a time scale; ties, age model, accumulation rates.
+    Correlate(correlate::CorrelateArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -103,5 +109,7 @@ pub fn run() -> i32 {
 fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
     match verb {
         Verb::Mean(a) => mean::run(a, ctx),
+        Verb::Column(a) => column::run(a, ctx),
+        Verb::Correlate(a) => correlate::run(a, ctx),
     }
 }

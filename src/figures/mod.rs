@@ -1,9 +1,11 @@
 //! Figures: an outer ring that only reads results. Each figure renders to SVG or PNG bytes with the
 //! embedded font, so figures come out the same on a machine with no fonts installed.
 
+mod column;
 mod equal_area;
 mod render;
 pub mod theme;
 
+pub use column::{ColumnFigure, ScalePanel};
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
 pub use render::{de, register_fonts, render, Figure, FigureFormat};

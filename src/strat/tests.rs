@@ -119,7 +119,8 @@ fn true_correlation_ranks_first_on_synthetic_sections() {
 /// Remove C2n (the whole normal chron) and a little of the reversed chrons on either side. Measured: in
 /// 17 of these 20 sections the winner skips C2n and every tie is true. In seed 20 the sampled C2r.1n
 /// subchron is taken for C2n (a steady-rate reading without a hiatus, which the score prefers when nothing
-/// else tells them apart); in seeds 21 and 29 the winner places the column elsewhere in the scale. A
+/// else tells them apart); in seeds 21 and 29 at least one tie of the winner is misplaced (in seed 29 the whole column is put
+/// among the C3n chrons, 3.5 Myr too old). A
 /// hiatus is exactly where independent age control (an anchor) is needed. The test requires 17 of 20.
 #[test]
 fn a_chron_removed_by_a_hiatus_is_skipped_by_the_winner() {
@@ -180,25 +181,5 @@ fn bundled_scale_is_valid_and_its_chrons_tile_its_span() {
 fn a_column_without_a_polarity_change_cannot_be_correlated() {
     let col = build_zones(StratAxis::Height, &[1.0, 2.0], &[ZonePolarity::Normal; 2], 2).unwrap();
     assert!(correlate(&col, &scale(), &CorrelateOptions::default()).is_err());
-}
-
-#[test]
-#[ignore]
-fn debug_print() {
-    let ts = scale();
-    let seed: u64 = std::env::var("SEED").map(|s| s.parse().unwrap()).unwrap_or(1);
-    let s = synth(&ts, 0.25, 3.45, &[], seed);
-    let col = column_of(&s);
-    for z in col.young_to_old() {
-        eprintln!("{:?} n={} top={:.2} base={:.2} conf={}", z.polarity, z.n_levels, z.top.mid, z.base.mid, z.confirmed);
-    }
-    for (h, a) in s.heights.iter().zip(&s.ages).rev().take(30) { eprint!("{h:.2}:{a:.3} "); }
-    eprintln!();
-    let res = correlate(&col, &ts, &CorrelateOptions::default()).unwrap();
-    for c in &res.candidates {
-        eprintln!("rank {} score {:.3} rate {:.3} miss {} skip {}", c.rank, c.score, c.mean_rate, c.missing_chrons, c.skipped_zones);
-        for t in &c.ties { eprintln!("   tie {:.2} {} {}/{}", t.position, t.age, t.chron_above, t.chron_below); }
-        for r in &c.runs { eprintln!("   run {:.2}-{:.2} {:.3}-{:.3} {:?} {:?} {:?}", r.top, r.base, r.age_young, r.age_old, r.rate, r.missing, r.reading); }
-    }
 }
 
