@@ -255,4 +255,18 @@ mod tests {
         assert_eq!((d.zones[1].top.low, d.zones[1].top.high), (2.0, 3.5));
         assert!(build_zones(StratAxis::Height, &[1.0, 1.0], &[Normal, Normal], 2).is_err());
     }
+
+    #[test]
+    fn zones_table_is_validated() {
+        let h = "polarity,n_levels,base,base_low,base_high,top,top_low,top_high\n";
+        let ok = format!("{h}N,2,0,0,0,1.5,1,2\nR,3,1.5,1,2,5,5,5\n");
+        let c = read_zones(&Table::parse("z.csv", ok.as_bytes()).unwrap()).unwrap();
+        assert_eq!(c.zones.len(), 2);
+        assert!(c.zones[0].top.change && !c.zones[1].top.change);
+        let over = format!("{h}N,2,0,0,0,1.5,1,2\nR,3,0.9,0.5,1,5,5,5\n");
+        let e = read_zones(&Table::parse("z.csv", over.as_bytes()).unwrap()).unwrap_err();
+        assert!(e.to_string().contains("overlaps the zone on line 2"), "{e}");
+        let same = format!("{h}N,2,0,0,0,1.5,1,2\nN,3,1.5,1,2,5,5,5\n");
+        assert!(read_zones(&Table::parse("z.csv", same.as_bytes()).unwrap()).unwrap_err().to_string().contains("same polarity"));
+    }
 }
