@@ -38,6 +38,9 @@
 //! | steps and picks tables (stepwise demagnetization) | [`table::read_steps`], [`table::read_picks`] |
 //! | combined mean of lines and great circles (McFadden & McElhinny 1988) | [`stats::mixed_mean`] |
 //! | vector-endpoint diagram of a specimen | [`figures::VectorEndpointPlot`] |
+//! | polarity per level from VGP latitude | [`strat::read_levels`], [`strat::classify`] |
+//! | magnetozones with boundary uncertainties | [`strat::build_zones`], [`strat::read_zones`] |
+//! | correlation with a time scale (dynamic programming), age model, rates | [`strat::correlate`], [`strat::Candidate`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout
@@ -54,6 +57,7 @@ pub mod montecarlo;
 pub mod poles;
 pub mod sphere;
 pub mod stats;
+pub mod strat;
 pub mod table;
 pub mod tolerance;
 

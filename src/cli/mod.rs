@@ -5,6 +5,8 @@
 mod dipole;
 mod expected;
 mod components;
+mod column;
+mod correlate;
 mod io;
 mod mean;
 mod poles;
@@ -54,6 +56,10 @@ enum Verb {
     Expected(expected::ExpectedArgs),
     /// Principal-component lines and planes per specimen from stepwise demagnetization (MAD, DANG).
     Components(components::ComponentsArgs),
+    /// Polarity of each level from its VGP latitude, and the magnetozones with boundary intervals.
+    Column(column::ColumnArgs),
+    /// Rank correlations of a polarity column with a time scale; ties, age model, accumulation rates.
+    Correlate(correlate::CorrelateArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -119,5 +125,7 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Dipole(a) => dipole::run(a, ctx),
         Verb::Expected(a) => expected::run(a, ctx),
         Verb::Components(a) => components::run(a, ctx),
+        Verb::Column(a) => column::run(a, ctx),
+        Verb::Correlate(a) => correlate::run(a, ctx),
     }
 }
