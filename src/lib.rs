@@ -27,6 +27,10 @@
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
+//! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
+//! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
+//! | synthetic section: levels, specimens, two-component demagnetization | [`simulate::simulate_section`] |
+//! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -39,6 +43,7 @@ pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
 pub mod poles;
+pub mod simulate;
 pub mod sphere;
 pub mod stats;
 pub mod table;
