@@ -30,6 +30,7 @@
 //! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
 //! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
 //! | synthetic section: levels, specimens, two-component demagnetization | [`simulate::simulate_section`] |
+//! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
 //! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //!
 //! ## References used throughout

@@ -4,9 +4,9 @@ use super::{write_atomic, Cell, Ctx, Report, Section};
 use anyhow::{bail, Context, Result};
 use clap::{Args, Subcommand, ValueEnum};
 use lodestone::simulate::{
-    parse_rates, sampling_csv, settings_text, simulate_section, simulate_timescale, steps_csv, timescale_csv,
-    FirstPolarity, Overprint, RenewalModel, SectionModel, SyntheticSection, TimeScaleModel, Treatment, Unblocking,
-    SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+    catch_probability, chron_thickness, parse_rates, sampling_csv, settings_text, simulate_section, simulate_timescale,
+    steps_csv, timescale_csv, FirstPolarity, Overprint, RenewalModel, SectionModel, SyntheticSection, TimeScaleModel,
+    Treatment, Unblocking, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::{Polarity, StratAxis, Table, TimeScale};
@@ -223,16 +223,27 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
     if named {
         cols.insert(0, "name");
     }
-    let mut sec = Section::new(&format!("Synthetic {} time scale, seed {}", m.model.name(), ctx.global.seed), &cols);
+    let mut sec = Section::new(
+        &format!("Synthetic {} time scale, seed {}", m.model.name(), ctx.global.seed),
+        &cols,
+    );
     for c in &ts.chrons {
-        let mut row = vec![Cell::Num(c.young, 6), Cell::Num(c.old, 6), Cell::Text(c.polarity.code().into())];
+        let mut row = vec![
+            Cell::Num(c.young, 6),
+            Cell::Num(c.old, 6),
+            Cell::Text(c.polarity.code().into()),
+        ];
         if named {
             row.insert(0, Cell::opt_text(c.name.as_deref()));
         }
         sec.rows.push(row);
     }
     let n = ts.chrons.len();
-    let complete: Vec<f64> = if n > 2 { ts.chrons[1..n - 1].iter().map(|c| c.duration()).collect() } else { vec![] };
+    let complete: Vec<f64> = if n > 2 {
+        ts.chrons[1..n - 1].iter().map(|c| c.duration()).collect()
+    } else {
+        vec![]
+    };
     let sample_mean = (!complete.is_empty()).then(|| complete.iter().sum::<f64>() / complete.len() as f64);
     let mut notes = vec![format!(
         "{n} chrons over {} Myr; {} complete intervals (the youngest and oldest chrons are cut by the ends of the span){}; model mean {:.4} Myr.",
@@ -246,11 +257,19 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
         if path.exists() && !a.force {
             bail!("{} exists; add --force to replace it", path.display());
         }
-        let comment = format!("Synthetic polarity time scale: lodestone simulate timescale, seed {}.\nModel: {}", ctx.global.seed, serde_json::to_string(&m.model)?);
+        let comment = format!(
+            "Synthetic polarity time scale: lodestone simulate timescale, seed {}.\nModel: {}",
+            ctx.global.seed,
+            serde_json::to_string(&m.model)?
+        );
         write_atomic(path, timescale_csv(&ts, &comment).as_bytes(), &ctx.inputs)?;
         notes.push(format!("Wrote {}.", path.display()));
     }
-    let chrons: Vec<_> = ts.chrons.iter().map(|c| json!({"name": c.name, "young": c.young, "old": c.old, "polarity": c.polarity})).collect();
+    let chrons: Vec<_> = ts
+        .chrons
+        .iter()
+        .map(|c| json!({"name": c.name, "young": c.young, "old": c.old, "polarity": c.polarity}))
+        .collect();
     Ok(Report {
         json: json!({
             "seed": ctx.global.seed,
@@ -269,8 +288,14 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
 }
 
 fn pair(text: &str, sep: char, what: &str) -> Result<(f64, f64)> {
-    let (a, b) = text.split_once(sep).with_context(|| format!("{what} '{text}': expected two numbers separated by '{sep}'"))?;
-    let p = |s: &str| s.trim().parse::<f64>().with_context(|| format!("{what} '{text}': '{}' is not a number", s.trim()));
+    let (a, b) = text
+        .split_once(sep)
+        .with_context(|| format!("{what} '{text}': expected two numbers separated by '{sep}'"))?;
+    let p = |s: &str| {
+        s.trim()
+            .parse::<f64>()
+            .with_context(|| format!("{what} '{text}': '{}' is not a number", s.trim()))
+    };
     Ok((p(a)?, p(b)?))
 }
 
@@ -293,7 +318,11 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
         None => treatment.default_steps(),
         Some(s) => s
             .split(',')
-            .map(|x| x.trim().parse::<f64>().with_context(|| format!("--steps: '{}' is not a number", x.trim())))
+            .map(|x| {
+                x.trim()
+                    .parse::<f64>()
+                    .with_context(|| format!("--steps: '{}' is not a number", x.trim()))
+            })
             .collect::<Result<_>>()?,
     };
     let bedding = match &a.bedding {
@@ -332,7 +361,11 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
         bedding,
         treatment,
         steps,
-        characteristic: unblocking(&a.characteristic, treatment.default_characteristic(), "--characteristic")?,
+        characteristic: unblocking(
+            &a.characteristic,
+            treatment.default_characteristic(),
+            "--characteristic",
+        )?,
         overprint,
         moment: a.moment,
         moment_sigma: a.moment_spread,
@@ -347,7 +380,10 @@ fn prepare_folder(dir: &Path, force: bool) -> Result<()> {
         if !dir.is_dir() {
             bail!("{} exists and is not a folder", dir.display());
         }
-        let non_empty = std::fs::read_dir(dir).with_context(|| format!("cannot read {}", dir.display()))?.next().is_some();
+        let non_empty = std::fs::read_dir(dir)
+            .with_context(|| format!("cannot read {}", dir.display()))?
+            .next()
+            .is_some();
         if non_empty && !force {
             bail!("{} is not empty; add --force to write into it", dir.display());
         }
@@ -357,7 +393,13 @@ fn prepare_folder(dir: &Path, force: bool) -> Result<()> {
     Ok(())
 }
 
-fn truth_json(m: &SectionModel, sec: &SyntheticSection, ts: &TimeScale, source: &serde_json::Value, seed: u64) -> serde_json::Value {
+fn truth_json(
+    m: &SectionModel,
+    sec: &SyntheticSection,
+    ts: &TimeScale,
+    source: &serde_json::Value,
+    seed: u64,
+) -> serde_json::Value {
     let levels: Vec<_> = sec
         .levels
         .iter()
@@ -372,8 +414,10 @@ fn truth_json(m: &SectionModel, sec: &SyntheticSection, ts: &TimeScale, source: 
     let specimens: Vec<_> = sec
         .specimens
         .iter()
-        .map(|s| json!({"specimen": s.name, "site": sec.levels[s.level].site, "characteristic_tilt": s.characteristic_tilt,
-            "characteristic_geo": s.characteristic_geo, "moment": s.moment}))
+        .map(|s| {
+            json!({"specimen": s.name, "site": sec.levels[s.level].site, "characteristic_tilt": s.characteristic_tilt,
+            "characteristic_geo": s.characteristic_geo, "moment": s.moment})
+        })
         .collect();
     json!({
         "what": "the true model behind a synthetic project folder (lodestone simulate section)",
@@ -396,13 +440,19 @@ fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     let (ts, source) = match &a.timescale {
         Some(p) => {
             ctx.inputs.add(p);
-            (TimeScale::from_table(&Table::read(p)?)?, json!({"file": p.display().to_string()}))
+            (
+                TimeScale::from_table(&Table::read(p)?)?,
+                json!({"file": p.display().to_string()}),
+            )
         }
         None => {
             // Cover the section with one mean interval to spare below its base.
             let span = a.base_age + a.renewal.mean_interval;
             let m = a.renewal.model(0.0, span)?;
-            (simulate_timescale(&m, seed)?, json!({"renewal": timescale_model_json(&m)}))
+            (
+                simulate_timescale(&m, seed)?,
+                json!({"renewal": timescale_model_json(&m)}),
+            )
         }
     };
     let mc = ctx.monte_carlo(0);
@@ -418,16 +468,46 @@ fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     let files = [
         (STEPS_FILE, steps_csv(&model, &sec, &what)),
         (SAMPLING_FILE, sampling_csv(&model, &sec, &what)),
-        (TIMESCALE_FILE, timescale_csv(&ts, &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}"))),
-        (SETTINGS_FILE, settings_text(seed, "Settings for lodestone section (flat key = value; see the README, 'Project folder').")),
-        (TRUTH_FILE, serde_json::to_string_pretty(&truth_json(&model, &sec, &ts, &source, seed))? + "\n"),
+        (
+            TIMESCALE_FILE,
+            timescale_csv(
+                &ts,
+                &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}"),
+            ),
+        ),
+        (
+            SETTINGS_FILE,
+            settings_text(
+                seed,
+                "Settings for lodestone section (flat key = value; see the README, 'Project folder').",
+            ),
+        ),
+        (
+            TRUTH_FILE,
+            serde_json::to_string_pretty(&truth_json(&model, &sec, &ts, &source, seed))? + "\n",
+        ),
     ];
     for (name, text) in &files {
         write_atomic(&a.out.join(name), text.as_bytes(), &ctx.inputs)?;
     }
     let mut table = Section::new(
-        &format!("Chrons in the synthetic section ({} m, {} levels every {} m)", round3(sec.history.thickness()), sec.levels.len(), model.spacing),
-        &["chron", "polarity", "young", "old", "base", "top", "thickness", "n_levels", "status"],
+        &format!(
+            "Chrons in the synthetic section ({} m, {} levels every {} m)",
+            round3(sec.history.thickness()),
+            sec.levels.len(),
+            model.spacing
+        ),
+        &[
+            "chron",
+            "polarity",
+            "young",
+            "old",
+            "base",
+            "top",
+            "thickness",
+            "n_levels",
+            "status",
+        ],
     );
     let mut missed = Vec::new();
     let mut thin = Vec::new();
@@ -459,7 +539,10 @@ fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
             Cell::Text(status.into()),
         ]);
     }
-    let mut notes = vec![format!("Wrote {} (steps, sampling, time scale, settings, truth).", a.out.display())];
+    let mut notes = vec![format!(
+        "Wrote {} (steps, sampling, time scale, settings, truth).",
+        a.out.display()
+    )];
     let complete = sec.chrons.iter().filter(|c| c.complete).count();
     notes.push(format!(
         "Sampling check: {} of {complete} complete chrons hold no level and {} hold only one (a single level cannot make a magnetozone).{}",
@@ -468,7 +551,11 @@ fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
         if missed.is_empty() { String::new() } else { format!(" Missed: {}.", missed.join(", ")) }
     ));
     let spans = &sec.history.spans;
-    let min_rate = spans.iter().filter(|s| s.rate > 0.0).map(|s| s.rate).fold(f64::INFINITY, f64::min);
+    let min_rate = spans
+        .iter()
+        .filter(|s| s.rate > 0.0)
+        .map(|s| s.rate)
+        .fold(f64::INFINITY, f64::min);
     // At rate r cm/kyr a chron of length t Myr is 10·r·t m thick: it holds at least one level for
     // sure only if that exceeds the spacing, and at least two only if it exceeds twice the spacing.
     notes.push(format!(
@@ -476,6 +563,33 @@ fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
         model.spacing / (min_rate * 10.0),
         2.0 * model.spacing / (min_rate * 10.0)
     ));
+    let max_rate = spans.iter().map(|s| s.rate).fold(0.0, f64::max);
+    let mut plan = Section::new(
+        &format!("Sampling plan: chance that a chron holds at least one / two levels every {} m (random position against the grid)", model.spacing),
+        &["length", "rate", "thickness", "p_one", "p_two"],
+    );
+    let mut plan_json = Vec::new();
+    let mut rates = vec![min_rate];
+    if max_rate > min_rate {
+        rates.push(max_rate);
+    }
+    for &rate in &rates {
+        for length in [0.005, 0.01, 0.02, 0.05, 0.1, 0.2] {
+            let d = chron_thickness(length, rate);
+            let (p1, p2) = (
+                catch_probability(d, model.spacing, 1),
+                catch_probability(d, model.spacing, 2),
+            );
+            plan.rows.push(vec![
+                Cell::Num(length, 3),
+                Cell::Num(rate, 2),
+                Cell::Num(d, 3),
+                Cell::Num(p1, 3),
+                Cell::Num(p2, 3),
+            ]);
+            plan_json.push(json!({"length": length, "rate": rate, "thickness": d, "p_one": p1, "p_two": p2}));
+        }
+    }
     if spans.iter().any(|s| s.rate == 0.0) {
         notes.push("The rate history has a hiatus: chrons inside it leave no rock and no record.".into());
     }
@@ -491,10 +605,11 @@ fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
             "chrons": sec.chrons,
             "ties": sec.ties,
             "missed": missed,
+            "plan": plan_json,
             "single_level": thin,
             "notes": notes,
         }),
-        sections: vec![table],
+        sections: vec![table, plan],
         csv_section: 0,
         notes,
     })

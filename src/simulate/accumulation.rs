@@ -77,7 +77,9 @@ impl AccumulationHistory {
     pub fn new(base_age: f64, top_age: f64, segments: &[RateSegment]) -> Result<Self> {
         crate::error::check_range("top age", top_age, 0.0, f64::MAX, "[0, ∞) Ma")?;
         if !(base_age > top_age && base_age.is_finite()) {
-            return Err(Error::Invalid(format!("the base age ({base_age} Ma) must be older than the top age ({top_age} Ma)")));
+            return Err(Error::Invalid(format!(
+                "the base age ({base_age} Ma) must be older than the top age ({top_age} Ma)"
+            )));
         }
         if segments.is_empty() {
             return Err(Error::Invalid("the rate history is empty".into()));
@@ -96,18 +98,35 @@ impl AccumulationHistory {
                     a
                 }
                 None if i + 1 == segments.len() => top_age,
-                _ => return Err(Error::Invalid(format!("rate segment {}: only the last segment runs to the top", i + 1))),
+                _ => {
+                    return Err(Error::Invalid(format!(
+                        "rate segment {}: only the last segment runs to the top",
+                        i + 1
+                    )))
+                }
             };
             if !(s.rate >= 0.0 && s.rate.is_finite()) {
-                return Err(Error::OutOfRange { name: "accumulation rate", value: s.rate, range: "[0, ∞) cm/kyr" });
+                return Err(Error::OutOfRange {
+                    name: "accumulation rate",
+                    value: s.rate,
+                    range: "[0, ∞) cm/kyr",
+                });
             }
             let top = h + s.rate * M_PER_MYR_PER_CM_PER_KYR * (old - young);
-            spans.push(AccumulationSpan { young, old, rate: s.rate, base: h, top });
+            spans.push(AccumulationSpan {
+                young,
+                old,
+                rate: s.rate,
+                base: h,
+                top,
+            });
             h = top;
             old = young;
         }
         if !(h > 0.0) {
-            return Err(Error::Invalid("the rate history lays down no sediment (every rate is 0)".into()));
+            return Err(Error::Invalid(
+                "the rate history lays down no sediment (every rate is 0)".into(),
+            ));
         }
         Ok(Self { spans })
     }

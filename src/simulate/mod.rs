@@ -5,11 +5,13 @@
 //! the same folder, byte for byte, on any number of threads.
 
 mod accumulation;
+mod planning;
 mod project;
 mod section;
 mod timescale;
 
 pub use accumulation::{parse_rates, AccumulationHistory, AccumulationSpan, RateSegment, M_PER_MYR_PER_CM_PER_KYR};
+pub use planning::{catch_probability, chron_thickness};
 pub use project::{
     sampling_csv, settings_text, steps_csv, timescale_csv, Setting, SettingValue, Settings, PICKS_FILE, SAMPLING_FILE,
     SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,

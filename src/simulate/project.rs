@@ -75,7 +75,12 @@ impl Settings {
         let mut values = BTreeMap::new();
         for (i, raw) in text.lines().enumerate() {
             let line = i + 1;
-            let err = |col: Option<&str>, m: String| TableError { file: name.into(), line, column: col.map(String::from), message: m };
+            let err = |col: Option<&str>, m: String| TableError {
+                file: name.into(),
+                line,
+                column: col.map(String::from),
+                message: m,
+            };
             let body = strip_comment(raw).trim();
             if body.is_empty() {
                 continue;
@@ -85,7 +90,10 @@ impl Settings {
             };
             let key = k.trim().to_lowercase();
             if key.is_empty() || !key.chars().all(|c| c.is_ascii_alphanumeric() || c == '_') {
-                return Err(err(None, format!("'{}' is not a key (letters, digits and _ only)", k.trim())));
+                return Err(err(
+                    None,
+                    format!("'{}' is not a key (letters, digits and _ only)", k.trim()),
+                ));
             }
             let v = v.trim();
             let value = if let Some(s) = v.strip_prefix('"') {
@@ -98,18 +106,31 @@ impl Settings {
             } else {
                 match v.replace('_', "").parse::<f64>() {
                     Ok(x) if x.is_finite() => SettingValue::Number(x),
-                    _ => return Err(err(Some(&key), format!("'{v}' is not a number, true/false, or a \"quoted string\""))),
+                    _ => {
+                        return Err(err(
+                            Some(&key),
+                            format!("'{v}' is not a number, true/false, or a \"quoted string\""),
+                        ))
+                    }
                 }
             };
             if let Some(prev) = values.insert(key.clone(), Setting { value, line }) {
                 return Err(err(Some(&key), format!("set twice (first on line {})", prev.line)));
             }
         }
-        Ok(Settings { source: name.into(), values })
+        Ok(Settings {
+            source: name.into(),
+            values,
+        })
     }
 
     fn err(&self, key: &str, s: &Setting, m: String) -> TableError {
-        TableError { file: self.source.clone(), line: s.line, column: Some(key.into()), message: m }
+        TableError {
+            file: self.source.clone(),
+            line: s.line,
+            column: Some(key.into()),
+            message: m,
+        }
     }
 
     /// A number in `[lo, hi]`, if set.
@@ -137,7 +158,10 @@ impl Settings {
     pub fn boolean(&self, key: &str) -> Result<Option<bool>, TableError> {
         match self.values.get(key) {
             None => Ok(None),
-            Some(Setting { value: SettingValue::Bool(b), .. }) => Ok(Some(*b)),
+            Some(Setting {
+                value: SettingValue::Bool(b),
+                ..
+            }) => Ok(Some(*b)),
             Some(s) => Err(self.err(key, s, "expected true or false".into())),
         }
     }
@@ -146,14 +170,21 @@ impl Settings {
     pub fn text(&self, key: &str) -> Result<Option<&str>, TableError> {
         match self.values.get(key) {
             None => Ok(None),
-            Some(Setting { value: SettingValue::Text(t), .. }) => Ok(Some(t)),
+            Some(Setting {
+                value: SettingValue::Text(t),
+                ..
+            }) => Ok(Some(t)),
             Some(s) => Err(self.err(key, s, "expected a \"quoted string\"".into())),
         }
     }
 
     /// Keys present but not in `known` (for a warning: probably a typing mistake).
     pub fn unknown_keys<'a>(&'a self, known: &[&str]) -> Vec<&'a str> {
-        self.values.keys().map(String::as_str).filter(|k| !known.contains(k)).collect()
+        self.values
+            .keys()
+            .map(String::as_str)
+            .filter(|k| !known.contains(k))
+            .collect()
     }
 }
 
@@ -187,7 +218,11 @@ pub fn timescale_csv(ts: &TimeScale, comment: &str) -> String {
     for l in comment.lines() {
         let _ = writeln!(s, "# {l}");
     }
-    s.push_str(if named { "name,young,old,polarity\n" } else { "young,old,polarity\n" });
+    s.push_str(if named {
+        "name,young,old,polarity\n"
+    } else {
+        "young,old,polarity\n"
+    });
     for c in &ts.chrons {
         if named {
             let _ = write!(s, "{},", c.name.as_deref().unwrap_or(""));

@@ -36,14 +36,19 @@ impl Treatment {
     /// Default steps (first step 0 = NRM): °C or mT.
     pub fn default_steps(self) -> Vec<f64> {
         match self {
-            Treatment::Thermal => vec![0.0, 100.0, 150.0, 200.0, 250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 530.0, 560.0],
+            Treatment::Thermal => vec![
+                0.0, 100.0, 150.0, 200.0, 250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 530.0, 560.0,
+            ],
             Treatment::Af => vec![0.0, 5.0, 10.0, 15.0, 20.0, 25.0, 30.0, 40.0, 50.0, 60.0, 80.0, 100.0],
         }
     }
     /// Default unblocking range of the characteristic component.
     pub fn default_characteristic(self) -> Unblocking {
         match self {
-            Treatment::Thermal => Unblocking { low: 250.0, high: 590.0 },
+            Treatment::Thermal => Unblocking {
+                low: 250.0,
+                high: 590.0,
+            },
             Treatment::Af => Unblocking { low: 10.0, high: 150.0 },
         }
     }
@@ -87,7 +92,10 @@ impl Unblocking {
         if self.low.is_finite() && self.high.is_finite() && self.low >= 0.0 && self.high > self.low {
             Ok(())
         } else {
-            Err(Error::Invalid(format!("{what} unblocking range {}–{} must satisfy 0 ≤ low < high", self.low, self.high)))
+            Err(Error::Invalid(format!(
+                "{what} unblocking range {}–{} must satisfy 0 ≤ low < high",
+                self.low, self.high
+            )))
         }
     }
 }
@@ -260,7 +268,11 @@ impl SectionModel {
             if v > 0.0 && v.is_finite() {
                 Ok(())
             } else {
-                Err(Error::OutOfRange { name, value: v, range: "(0, ∞)" })
+                Err(Error::OutOfRange {
+                    name,
+                    value: v,
+                    range: "(0, ∞)",
+                })
             }
         };
         pos("sampling interval", self.spacing)?;
@@ -272,13 +284,28 @@ impl SectionModel {
         crate::error::check_range("noise", self.noise, 0.0, 10.0, "[0, 10]")?;
         crate::error::check_range("moment spread", self.moment_sigma, 0.0, 5.0, "[0, 5]")?;
         if self.specimens == 0 {
-            return Err(Error::TooFew { what: "a level", needed: 1, got: 0, unit: "specimens" });
+            return Err(Error::TooFew {
+                what: "a level",
+                needed: 1,
+                got: 0,
+                unit: "specimens",
+            });
         }
         if self.steps.len() < 2 {
-            return Err(Error::TooFew { what: "demagnetization", needed: 2, got: self.steps.len(), unit: "steps" });
+            return Err(Error::TooFew {
+                what: "demagnetization",
+                needed: 2,
+                got: self.steps.len(),
+                unit: "steps",
+            });
         }
-        if self.steps[0] != 0.0 || self.steps.windows(2).any(|w| !(w[1] > w[0])) || !self.steps.iter().all(|s| s.is_finite()) {
-            return Err(Error::Invalid("steps must start at 0 (the NRM) and increase strictly".into()));
+        if self.steps[0] != 0.0
+            || self.steps.windows(2).any(|w| !(w[1] > w[0]))
+            || !self.steps.iter().all(|s| s.is_finite())
+        {
+            return Err(Error::Invalid(
+                "steps must start at 0 (the NRM) and increase strictly".into(),
+            ));
         }
         self.characteristic.check("characteristic")?;
         if let Some(o) = &self.overprint {
@@ -300,7 +327,10 @@ impl SectionModel {
     /// # Formula
     /// D = 0°, I = atan(2 tan λ) for normal polarity; the antipode for reversed (common practice).
     pub fn dipole_direction(&self, polarity: Polarity) -> Direction {
-        let n = Direction { dec: 0.0, inc: dipole_inclination(self.site.lat) };
+        let n = Direction {
+            dec: 0.0,
+            inc: dipole_inclination(self.site.lat),
+        };
         match polarity {
             Polarity::Normal => n,
             Polarity::Reversed => n.antipode(),
@@ -370,14 +400,19 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
     for i in 0..n_levels {
         let height = (i as f64 + 0.5) * model.spacing;
         let age = history.age_at(height);
-        let chron = chron_at(ts, age).ok_or_else(|| Error::Invalid(format!("no chron of the time scale holds age {age} Ma")))?;
+        let chron = chron_at(ts, age)
+            .ok_or_else(|| Error::Invalid(format!("no chron of the time scale holds age {age} Ma")))?;
         let polarity = ts.chrons[chron].polarity;
         let mean = model.dipole_direction(polarity);
         let field_tilt = match model.level_kappa {
-            Some(k) => FisherSampler::new(mean, k)?.sample_direction(&mut replicate_rng(mc.seed, LEVEL_STREAM, i as u64)),
+            Some(k) => {
+                FisherSampler::new(mean, k)?.sample_direction(&mut replicate_rng(mc.seed, LEVEL_STREAM, i as u64))
+            }
             None => mean,
         };
-        let bedding = (!model.bedding.is_empty()).then(|| model.bedding[i % model.bedding.len()]).filter(|b| b.dip > 0.0);
+        let bedding = (!model.bedding.is_empty())
+            .then(|| model.bedding[i % model.bedding.len()])
+            .filter(|b| b.dip > 0.0);
         let field_geo = match bedding {
             Some(b) => Direction::from_vector(b.retilt(field_tilt.to_vector())).expect("unit vector"),
             None => field_tilt,
@@ -395,7 +430,11 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
         });
     }
     let n_spec = model.specimens;
-    let mc_spec = MonteCarlo { seed: mc.seed, resamples: n_levels * n_spec, progress: mc.progress };
+    let mc_spec = MonteCarlo {
+        seed: mc.seed,
+        resamples: n_levels * n_spec,
+        progress: mc.progress,
+    };
     let specimens = mc_spec.run("simulating specimens", SPECIMEN_STREAM, |rng, j| {
         let lv = &levels[j / n_spec];
         let sampler = FisherSampler::new(lv.field_tilt, model.kappa).expect("kappa checked");
@@ -405,7 +444,9 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
             None => c_tilt,
         };
         let m_c = model.moment * (model.moment_sigma * gaussian(rng)).exp();
-        let o_vec = model.overprint.map(|o| (o.direction.to_vector() * (o.ratio * m_c), o.unblocking));
+        let o_vec = model
+            .overprint
+            .map(|o| (o.direction.to_vector() * (o.ratio * m_c), o.unblocking));
         let steps = model
             .steps
             .iter()
@@ -416,7 +457,11 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
                 }
                 let sd = model.noise * m_c;
                 let v = v + Vec3::new(gaussian(rng), gaussian(rng), gaussian(rng)) * sd;
-                SyntheticStep { step: s, direction: Direction::from_vector(v), moment: v.norm() }
+                SyntheticStep {
+                    step: s,
+                    direction: Direction::from_vector(v),
+                    moment: v.norm(),
+                }
             })
             .collect();
         SyntheticSpecimen {
@@ -449,9 +494,24 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
         });
         if c.young > top_age && i > 0 {
             let h = history.height_at(c.young);
-            let in_hiatus = history.spans.iter().any(|s| s.rate == 0.0 && c.young > s.young && c.young < s.old);
-            ties.push(TrueTie { age: c.young, height: h, below: c.polarity, above: ts.chrons[i - 1].polarity, in_hiatus });
+            let in_hiatus = history
+                .spans
+                .iter()
+                .any(|s| s.rate == 0.0 && c.young > s.young && c.young < s.old);
+            ties.push(TrueTie {
+                age: c.young,
+                height: h,
+                below: c.polarity,
+                above: ts.chrons[i - 1].polarity,
+                in_hiatus,
+            });
         }
     }
-    Ok(SyntheticSection { history, levels, specimens, chrons, ties })
+    Ok(SyntheticSection {
+        history,
+        levels,
+        specimens,
+        chrons,
+        ties,
+    })
 }

@@ -31,11 +31,36 @@ fn renewal_models_match_scipy_quantiles_and_means() {
     // stats.lognorm(s=0.9, scale=exp(log(0.25)-0.405)), stats.invgauss(mu=0.5, scale=0.5) (mean 0.25,
     // shape 0.5), stats.expon(scale=0.25); `.ppf([0.25, 0.5, 0.75])`, `.mean()`, `.std()`.
     let cases: [(RenewalModel, [f64; 3], f64, f64); 5] = [
-        (RenewalModel::with_mean("gamma", 0.25, Some(1.5)).unwrap(), [0.10104440858713905, 0.19716449036461148, 0.3423620779693593], 0.25, 0.2041241452319315),
-        (RenewalModel::with_mean("weibull", 0.3, Some(0.8)).unwrap(), [0.05578676222491856, 0.16746420200265164, 0.3982992410596125], 0.3, 0.3781538360421324),
-        (RenewalModel::with_mean("lognormal", 0.25, Some(0.9)).unwrap(), [0.09086911211161565, 0.1667442027146186, 0.30597447793681837], 0.25, 0.2792745050434778),
-        (RenewalModel::with_mean("inverse_gaussian", 0.25, Some(0.5)).unwrap(), [0.12955950841078287, 0.20108476032400036, 0.31583830603997937], 0.25, 0.1767766952966369),
-        (RenewalModel::with_mean("exponential", 0.25, None).unwrap(), [0.07192051811294523, 0.17328679513998632, 0.34657359027997264], 0.25, 0.25),
+        (
+            RenewalModel::with_mean("gamma", 0.25, Some(1.5)).unwrap(),
+            [0.10104440858713905, 0.19716449036461148, 0.3423620779693593],
+            0.25,
+            0.2041241452319315,
+        ),
+        (
+            RenewalModel::with_mean("weibull", 0.3, Some(0.8)).unwrap(),
+            [0.05578676222491856, 0.16746420200265164, 0.3982992410596125],
+            0.3,
+            0.3781538360421324,
+        ),
+        (
+            RenewalModel::with_mean("lognormal", 0.25, Some(0.9)).unwrap(),
+            [0.09086911211161565, 0.1667442027146186, 0.30597447793681837],
+            0.25,
+            0.2792745050434778,
+        ),
+        (
+            RenewalModel::with_mean("inverse_gaussian", 0.25, Some(0.5)).unwrap(),
+            [0.12955950841078287, 0.20108476032400036, 0.31583830603997937],
+            0.25,
+            0.1767766952966369,
+        ),
+        (
+            RenewalModel::with_mean("exponential", 0.25, None).unwrap(),
+            [0.07192051811294523, 0.17328679513998632, 0.34657359027997264],
+            0.25,
+            0.25,
+        ),
     ];
     for (seed, (model, q, mean, sd)) in cases.into_iter().enumerate() {
         assert_abs_diff_eq!(model.mean(), mean, epsilon = 1e-12);
@@ -47,10 +72,19 @@ fn renewal_models_match_scipy_quantiles_and_means() {
         for (p, qv) in [0.25, 0.5, 0.75].into_iter().zip(q) {
             let f = x.iter().filter(|&&v| v <= qv).count() as f64 / n;
             let se = (p * (1.0 - p) / n).sqrt();
-            assert!((f - p).abs() < 4.0 * se, "{}: F({qv}) = {f}, expected {p} ± {}", model.name(), 4.0 * se);
+            assert!(
+                (f - p).abs() < 4.0 * se,
+                "{}: F({qv}) = {f}, expected {p} ± {}",
+                model.name(),
+                4.0 * se
+            );
         }
         let m = x.iter().sum::<f64>() / n;
-        assert!((m - mean).abs() < 4.0 * sd / n.sqrt(), "{}: mean {m}, model {mean}", model.name());
+        assert!(
+            (m - mean).abs() < 4.0 * sd / n.sqrt(),
+            "{}: mean {m}, model {mean}",
+            model.name()
+        );
     }
 }
 
@@ -72,7 +106,13 @@ fn weibull_scale_follows_the_gamma_function() {
 #[test]
 fn timescale_alternates_tiles_and_reads_back_exactly() {
     let model = RenewalModel::with_mean("gamma", 0.25, Some(1.5)).unwrap();
-    let m = TimeScaleModel { model, young: 0.0, span: 12.0, first: FirstPolarity::Fixed(Polarity::Reversed), name_prefix: Some("Q".into()) };
+    let m = TimeScaleModel {
+        model,
+        young: 0.0,
+        span: 12.0,
+        first: FirstPolarity::Fixed(Polarity::Reversed),
+        name_prefix: Some("Q".into()),
+    };
     let ts = simulate_timescale(&m, 7).unwrap();
     assert_eq!(ts.chrons[0].polarity, Polarity::Reversed);
     assert_eq!(ts.chrons[0].young, 0.0);
@@ -96,8 +136,13 @@ fn timescale_alternates_tiles_and_reads_back_exactly() {
     assert_eq!(simulate_timescale(&m, 7).unwrap(), ts);
     assert_ne!(simulate_timescale(&m, 8).unwrap().chrons, ts.chrons);
     // Random first polarity: both occur over a few seeds.
-    let r = TimeScaleModel { first: FirstPolarity::Random, ..m };
-    let firsts: Vec<Polarity> = (0..16).map(|s| simulate_timescale(&r, s).unwrap().chrons[0].polarity).collect();
+    let r = TimeScaleModel {
+        first: FirstPolarity::Random,
+        ..m
+    };
+    let firsts: Vec<Polarity> = (0..16)
+        .map(|s| simulate_timescale(&r, s).unwrap().chrons[0].polarity)
+        .collect();
     assert!(firsts.contains(&Polarity::Normal) && firsts.contains(&Polarity::Reversed));
 }
 
@@ -107,19 +152,35 @@ fn youngest_chron_is_length_biased_not_a_fresh_interval() {
     // one side of it (a recurrence time) has mean E[X²]/(2 E[X]) in a process already running.
     // Exponential model: memoryless, mean 1/rate = 0.25 Myr (a sanity check; a fresh start agrees).
     let model = RenewalModel::with_mean("exponential", 0.25, None).unwrap();
-    let m = TimeScaleModel { model, young: 0.0, span: 5.0, first: FirstPolarity::Fixed(Polarity::Normal), name_prefix: None };
+    let m = TimeScaleModel {
+        model,
+        young: 0.0,
+        span: 5.0,
+        first: FirstPolarity::Fixed(Polarity::Normal),
+        name_prefix: None,
+    };
     let n = 600;
-    let first: Vec<f64> = (0..n).map(|s| simulate_timescale(&m, 1000 + s).unwrap().chrons[0].duration()).collect();
+    let first: Vec<f64> = (0..n)
+        .map(|s| simulate_timescale(&m, 1000 + s).unwrap().chrons[0].duration())
+        .collect();
     let mean = first.iter().sum::<f64>() / n as f64;
     // Standard error 0.25/sqrt(600) ≈ 0.0102; allow 4 of them.
     assert!((mean - 0.25).abs() < 0.041, "mean youngest chron {mean}");
     // For a gamma model with shape 4 the backward recurrence time has mean E[X²]/(2E[X]) =
     // (1 + 1/k)·mean/2 = 0.15625 Myr for mean 0.25 (Cox 1962, eq. 5.3), against 0.25 for a fresh start.
-    let g = TimeScaleModel { model: RenewalModel::with_mean("gamma", 0.25, Some(4.0)).unwrap(), ..m };
-    let first: Vec<f64> = (0..n).map(|s| simulate_timescale(&g, 5000 + s).unwrap().chrons[0].duration()).collect();
+    let g = TimeScaleModel {
+        model: RenewalModel::with_mean("gamma", 0.25, Some(4.0)).unwrap(),
+        ..m
+    };
+    let first: Vec<f64> = (0..n)
+        .map(|s| simulate_timescale(&g, 5000 + s).unwrap().chrons[0].duration())
+        .collect();
     let mean = first.iter().sum::<f64>() / n as f64;
     let var = first.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (n - 1) as f64;
-    assert!((mean - 0.15625).abs() < 4.0 * (var / n as f64).sqrt(), "gamma(4) youngest chron mean {mean}");
+    assert!(
+        (mean - 0.15625).abs() < 4.0 * (var / n as f64).sqrt(),
+        "gamma(4) youngest chron mean {mean}"
+    );
 }
 
 fn demo_model() -> SectionModel {
@@ -132,7 +193,10 @@ fn demo_model() -> SectionModel {
         specimens: 4,
         kappa: 60.0,
         level_kappa: None,
-        bedding: vec![Bedding::from_dip_direction(120.0, 20.0, false).unwrap(), Bedding::from_dip_direction(300.0, 35.0, false).unwrap()],
+        bedding: vec![
+            Bedding::from_dip_direction(120.0, 20.0, false).unwrap(),
+            Bedding::from_dip_direction(300.0, 35.0, false).unwrap(),
+        ],
         treatment: Treatment::Thermal,
         steps: Treatment::Thermal.default_steps(),
         characteristic: Treatment::Thermal.default_characteristic(),
@@ -150,7 +214,8 @@ fn demo_model() -> SectionModel {
 }
 
 fn fixed_scale() -> TimeScale {
-    let text = "young,old,polarity\n0,0.78,N\n0.78,0.99,R\n0.99,1.07,N\n1.07,1.78,R\n1.78,1.94,N\n1.94,2.58,R\n2.58,3.0,N\n";
+    let text =
+        "young,old,polarity\n0,0.78,N\n0.78,0.99,R\n0.99,1.07,N\n1.07,1.78,R\n1.78,1.94,N\n1.94,2.58,R\n2.58,3.0,N\n";
     TimeScale::from_table(&Table::parse("ts.csv", text.as_bytes()).unwrap()).unwrap()
 }
 
@@ -181,7 +246,11 @@ fn levels_follow_the_rate_history_and_the_time_scale() {
 
 #[test]
 fn characteristic_directions_recover_the_axial_dipole_within_the_fisher_spread() {
-    let m = SectionModel { specimens: 6, spacing: 0.5, ..demo_model() };
+    let m = SectionModel {
+        specimens: 6,
+        spacing: 0.5,
+        ..demo_model()
+    };
     let sec = simulate_section(&m, &fixed_scale(), &MonteCarlo::new(11, 0)).unwrap();
     // Above 300 °C the overprint is gone and what remains is the characteristic component scaled by
     // its remaining fraction: the 350 °C direction is the characteristic direction plus noise.
@@ -189,16 +258,31 @@ fn characteristic_directions_recover_the_axial_dipole_within_the_fisher_spread()
     let mut tilt = Vec::new();
     for sp in &sec.specimens {
         let lv = &sec.levels[sp.level];
-        let v = lv.bedding.unwrap().untilt(sp.steps[i350].direction.unwrap().to_vector());
+        let v = lv
+            .bedding
+            .unwrap()
+            .untilt(sp.steps[i350].direction.unwrap().to_vector());
         let d = Direction::from_vector(v).unwrap();
-        tilt.push(if lv.polarity == Polarity::Reversed { d.antipode() } else { d });
+        tilt.push(if lv.polarity == Polarity::Reversed {
+            d.antipode()
+        } else {
+            d
+        });
     }
     let f = fisher_mean(&tilt, 0.95).unwrap();
     let truth = m.dipole_direction(Polarity::Normal);
     // Axial dipole at 38.2° S: I = atan(2 tan(−38.2°)) = −57.55° (dipole formula, common practice).
-    assert_abs_diff_eq!(truth.inc, (2.0 * (-38.2f64).to_radians().tan()).atan().to_degrees(), epsilon = 1e-12);
+    assert_abs_diff_eq!(
+        truth.inc,
+        (2.0 * (-38.2f64).to_radians().tan()).atan().to_degrees(),
+        epsilon = 1e-12
+    );
     let mean = f.mean.unwrap();
-    assert!(mean.angle_to(truth) < f.alpha.unwrap(), "mean {mean:?} vs {truth:?}, a95 {:?}", f.alpha);
+    assert!(
+        mean.angle_to(truth) < f.alpha.unwrap(),
+        "mean {mean:?} vs {truth:?}, a95 {:?}",
+        f.alpha
+    );
     // Fisher's k = (N−1)/(N−R) estimates κ = 60 with relative standard error ≈ 1/√N (N ≈ 600).
     let k = f.k.unwrap().0;
     assert!((k - 60.0).abs() < 0.2 * 60.0, "k = {k}");
@@ -209,7 +293,11 @@ fn characteristic_directions_recover_the_axial_dipole_within_the_fisher_spread()
         .iter()
         .map(|sp| {
             let d = sp.steps[i350].direction.unwrap();
-            if sec.levels[sp.level].polarity == Polarity::Reversed { d.antipode() } else { d }
+            if sec.levels[sp.level].polarity == Polarity::Reversed {
+                d.antipode()
+            } else {
+                d
+            }
         })
         .collect();
     assert!(fisher_mean(&geo, 0.95).unwrap().k.unwrap().0 < 0.5 * k);
@@ -237,10 +325,14 @@ fn project_tables_pass_the_readers_and_repeat_byte_for_byte() {
     let m = demo_model();
     let ts = fixed_scale();
     let run = |threads: usize| {
-        rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap().install(|| {
-            let sec = simulate_section(&m, &ts, &MonteCarlo::new(21, 0)).unwrap();
-            (steps_csv(&m, &sec, "synthetic"), sampling_csv(&m, &sec, "synthetic"))
-        })
+        rayon::ThreadPoolBuilder::new()
+            .num_threads(threads)
+            .build()
+            .unwrap()
+            .install(|| {
+                let sec = simulate_section(&m, &ts, &MonteCarlo::new(21, 0)).unwrap();
+                (steps_csv(&m, &sec, "synthetic"), sampling_csv(&m, &sec, "synthetic"))
+            })
     };
     let (steps, sampling) = run(1);
     assert_eq!((steps.clone(), sampling.clone()), run(2));
@@ -258,7 +350,10 @@ fn project_tables_pass_the_readers_and_repeat_byte_for_byte() {
     let sec_other = simulate_section(&m, &ts, &MonteCarlo::new(22, 0)).unwrap();
     assert_ne!(steps_csv(&m, &sec_other, "synthetic"), steps);
     // A core: depth below the top instead of height.
-    let core = SectionModel { axis: StratAxis::Depth, ..m.clone() };
+    let core = SectionModel {
+        axis: StratAxis::Depth,
+        ..m.clone()
+    };
     let sec = simulate_section(&core, &ts, &MonteCarlo::new(21, 0)).unwrap();
     let t = Table::parse("steps.csv", steps_csv(&core, &sec, "").as_bytes()).unwrap();
     let set = read_directions(&t, &GroupBy::Default).unwrap();
@@ -271,14 +366,45 @@ fn section_edges_are_refused_with_reasons() {
     let ts = fixed_scale();
     let mc = MonteCarlo::new(1, 0);
     let bad = |m: SectionModel| simulate_section(&m, &ts, &mc).unwrap_err().to_string();
-    assert!(bad(SectionModel { base_age: 3.5, ..demo_model() }).contains("time scale covers"));
-    assert!(bad(SectionModel { spacing: 100.0, ..demo_model() }).contains("no level"));
-    assert!(bad(SectionModel { specimens: 0, ..demo_model() }).contains("specimens"));
-    assert!(bad(SectionModel { steps: vec![0.0, 300.0, 600.0], ..demo_model() }).contains("removes the whole"));
-    assert!(bad(SectionModel { steps: vec![10.0, 300.0], ..demo_model() }).contains("start at 0"));
-    assert!(bad(SectionModel { kappa: 0.0, ..demo_model() }).contains("kappa"));
+    assert!(bad(SectionModel {
+        base_age: 3.5,
+        ..demo_model()
+    })
+    .contains("time scale covers"));
+    assert!(bad(SectionModel {
+        spacing: 100.0,
+        ..demo_model()
+    })
+    .contains("no level"));
+    assert!(bad(SectionModel {
+        specimens: 0,
+        ..demo_model()
+    })
+    .contains("specimens"));
+    assert!(bad(SectionModel {
+        steps: vec![0.0, 300.0, 600.0],
+        ..demo_model()
+    })
+    .contains("removes the whole"));
+    assert!(bad(SectionModel {
+        steps: vec![10.0, 300.0],
+        ..demo_model()
+    })
+    .contains("start at 0"));
+    assert!(bad(SectionModel {
+        kappa: 0.0,
+        ..demo_model()
+    })
+    .contains("kappa"));
     // One level, one specimen, flat bedding, no overprint, no noise: still fine.
-    let one = SectionModel { spacing: 40.0, specimens: 1, bedding: vec![], overprint: None, noise: 0.0, ..demo_model() };
+    let one = SectionModel {
+        spacing: 40.0,
+        specimens: 1,
+        bedding: vec![],
+        overprint: None,
+        noise: 0.0,
+        ..demo_model()
+    };
     let sec = simulate_section(&one, &ts, &mc).unwrap();
     assert_eq!(sec.levels.len(), 1);
     assert!(sec.levels[0].bedding.is_none());
@@ -295,11 +421,17 @@ fn settings_file_parses_and_names_lines() {
     assert_eq!(s.boolean("flag").unwrap(), Some(true));
     assert_eq!(s.integer("n", 10_000).unwrap(), Some(1000));
     assert_eq!(s.unknown_keys(&["name", "flag"]), vec!["n"]);
-    let e = Settings::parse("x.toml", "a = 1\n\nb = oops\n").unwrap_err().to_string();
+    let e = Settings::parse("x.toml", "a = 1\n\nb = oops\n")
+        .unwrap_err()
+        .to_string();
     assert!(e.contains("x.toml:3") && e.contains("'b'"), "{e}");
     let e = Settings::parse("x.toml", "a = 1\na = 2\n").unwrap_err().to_string();
     assert!(e.contains("first on line 1"), "{e}");
     let s = Settings::parse("x.toml", "confidence = 1.5\n").unwrap();
-    assert!(s.number("confidence", 0.0, 1.0).unwrap_err().to_string().contains("x.toml:1"));
+    assert!(s
+        .number("confidence", 0.0, 1.0)
+        .unwrap_err()
+        .to_string()
+        .contains("x.toml:1"));
     assert!(Settings::parse("x.toml", "just words\n").is_err());
 }
