@@ -42,6 +42,11 @@
 //! | magnetozones with boundary uncertainties | [`strat::build_zones`], [`strat::read_zones`] |
 //! | correlation with a time scale (dynamic programming), age model, rates | [`strat::correlate`], [`strat::Candidate`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
+//! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
+//! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
+//! | synthetic section: levels, specimens, two-component demagnetization | [`simulate::simulate_section`] |
+//! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
+//! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -55,6 +60,7 @@ pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
 pub mod poles;
+pub mod simulate;
 pub mod sphere;
 pub mod stats;
 pub mod strat;

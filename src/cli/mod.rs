@@ -12,6 +12,7 @@ mod mean;
 mod poles;
 mod output;
 mod progress;
+mod simulate;
 
 use clap::{Args, Parser, Subcommand};
 pub use io::{write_atomic, write_figure, Inputs};
@@ -60,6 +61,8 @@ enum Verb {
     Column(column::ColumnArgs),
     /// Rank correlations of a polarity column with a time scale; ties, age model, accumulation rates.
     Correlate(correlate::CorrelateArgs),
+    /// Synthetic time scales and synthetic sampled sections (project folders) from a stated model.
+    Simulate(simulate::SimulateArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -127,5 +130,6 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Components(a) => components::run(a, ctx),
         Verb::Column(a) => column::run(a, ctx),
         Verb::Correlate(a) => correlate::run(a, ctx),
+        Verb::Simulate(a) => simulate::run(a, ctx),
     }
 }
