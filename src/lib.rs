@@ -26,6 +26,11 @@
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
+//! | reversal test (McFadden & McElhinny 1990; Watson V_w; bootstrap) | [`fieldtests::reversal_test`] |
+//! | common-mean test of two sets | [`fieldtests::compare_means`], [`fieldtests::mm90_critical_angle`] |
+//! | Watson's V_w with simulated critical value | [`fieldtests::watson_v`] |
+//! | bootstrap fold test (Tauxe & Watson 1994), precision ratio (McElhinny 1964) | [`fieldtests::fold_test`] |
+//! | randomness of directions, exact R₀ (Watson 1956) | [`fieldtests::randomness_test`], [`fieldtests::watson_r0`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout
@@ -35,6 +40,7 @@
 #![warn(missing_docs)]
 
 pub mod error;
+pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
 pub mod montecarlo;

@@ -6,6 +6,7 @@ mod io;
 mod mean;
 mod output;
 mod progress;
+mod test;
 
 use clap::{Args, Parser, Subcommand};
 pub use io::{write_atomic, write_figure, Inputs};
@@ -42,6 +43,8 @@ pub struct Cli {
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
+    /// Field tests: reversal, common-mean, fold, random.
+    Test(test::TestArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -103,5 +106,6 @@ pub fn run() -> i32 {
 fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
     match verb {
         Verb::Mean(a) => mean::run(a, ctx),
+        Verb::Test(a) => test::run(a, ctx),
     }
 }

@@ -2,8 +2,10 @@
 //! embedded font, so figures come out the same on a machine with no fonts installed.
 
 mod equal_area;
+mod fold;
 mod render;
 pub mod theme;
 
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
+pub use fold::FoldPlot;
 pub use render::{de, register_fonts, render, Figure, FigureFormat};
