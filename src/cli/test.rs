@@ -327,6 +327,12 @@ fn fold(a: FoldArgs, ctx: &mut Ctx) -> Result<Report> {
             100.0 * t.at_edge, opt.from, opt.to
         ));
     }
+    if t.bedding_spread < 20.0 {
+        notes.push(format!(
+            "The bedding attitudes differ by at most {:.0}°: untilting turns the set almost rigidly, so the fold test has little power here.",
+            t.bedding_spread
+        ));
+    }
     notes.push(format!(
         "Classic ratio k_tilt/k_geo = {:.2} against F = {:.2}: {}. Shown for comparison only: both k come from the same directions, so the F test does not strictly apply.",
         p.ratio,
@@ -344,7 +350,7 @@ fn fold(a: FoldArgs, ctx: &mut Ctx) -> Result<Report> {
         "best_untilt": t.best_untilt, "ci_low": t.ci_low, "ci_high": t.ci_high, "verdict": t.verdict.name(),
         "confidence": t.confidence,
         "range": {"from": opt.from, "to": opt.to, "step": opt.step},
-        "at_edge": t.at_edge,
+        "at_edge": t.at_edge, "bedding_spread": t.bedding_spread,
         "classic": {"k_geo": jnum(Some(p.k_geo)), "k_tilt": jnum(Some(p.k_tilt)), "ratio": p.ratio, "f_crit": p.f_crit,
                     "increase": p.increase, "decrease": p.decrease},
         "seed": ctx.global.seed, "resamples": a.resamples,

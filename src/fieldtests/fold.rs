@@ -112,6 +112,8 @@ pub struct FoldTest {
     pub classic: PrecisionRatio,
     /// Share of resamples whose maximum sits at either end of the range (the range may be too short).
     pub at_edge: f64,
+    /// Largest angle between two bedding poles, degrees (see [`bedding_spread`]).
+    pub bedding_spread: f64,
 }
 
 /// Largest eigenvalue of a symmetric 3 × 3 matrix given as (a11, a22, a33, a12, a13, a23).
@@ -246,13 +248,36 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
         curves,
         classic,
         at_edge,
+        bedding_spread: bedding_spread(beds),
     })
+}
+
+/// Resultant length after flipping the directions of the second polarity mode (split on the
+/// principal axis), so that mixed-polarity sets have a meaningful k.
+fn common_polarity_resultant(v: &[Vec3]) -> Result<f64> {
+    let split = super::split_modes(v)?;
+    let a = split.axis.to_vector();
+    Ok(v.iter().fold(Vec3::ZERO, |s, u| if u.dot(a) >= 0.0 { s + *u } else { s - *u }).norm())
+}
+
+/// Largest angle between the poles of any two bedding attitudes, degrees. A small spread leaves
+/// the fold test without power: untilting then rotates the whole set almost rigidly.
+pub fn bedding_spread(beds: &[Bedding]) -> f64 {
+    let poles: Vec<Vec3> = beds.iter().map(|b| b.retilt(Vec3::new(0.0, 0.0, 1.0))).collect();
+    let mut worst: f64 = 0.0;
+    for (i, p) in poles.iter().enumerate() {
+        for q in &poles[i + 1..] {
+            worst = worst.max(crate::sphere::angle_between(*p, *q));
+        }
+    }
+    worst
 }
 
 /// The classic precision-ratio fold test (see [`fold_test`] for its weaknesses).
 ///
 /// # Formula
-/// ratio = k_tilt/k_geo, k = (N − 1)/(N − R); F_crit = F⁻¹(0.95; 2(N − 1), 2(N − 1)).
+/// ratio = k_tilt/k_geo, k = (N − 1)/(N − R), with the second polarity mode flipped in each frame;
+/// F_crit = F⁻¹(0.95; 2(N − 1), 2(N − 1)).
 ///
 /// # References
 /// McElhinny (1964); McFadden & Jones (1981).
@@ -261,8 +286,8 @@ pub fn precision_ratio(v: &[Vec3], beds: &[Bedding]) -> Result<PrecisionRatio> {
     if n < 2 {
         return Err(Error::TooFew { what: "a precision ratio", needed: 2, got: n, unit: "directions" });
     }
-    let geo = super::resultant(v).norm();
-    let tilt = v.iter().zip(beds).fold(Vec3::ZERO, |a, (u, b)| a + b.untilt(*u)).norm();
+    let tilted: Vec<Vec3> = v.iter().zip(beds).map(|(u, b)| b.untilt(*u)).collect();
+    let (geo, tilt) = (common_polarity_resultant(v)?, common_polarity_resultant(&tilted)?);
     let (k_geo, k_tilt) = (super::capped_k(n, geo), super::capped_k(n, tilt));
     let dof = 2.0 * (n as f64 - 1.0);
     let f = FisherSnedecor::new(dof, dof).map_err(|e| Error::Invalid(e.to_string()))?;
@@ -320,8 +345,18 @@ mod tests {
         assert!(t.best_untilt.abs() <= 10.0, "{}", t.best_untilt);
         assert_eq!(t.verdict, FoldVerdict::PostFolding, "{} {}", t.ci_low, t.ci_high);
         assert!(t.classic.decrease);
+        assert!((t.bedding_spread - 80.0).abs() < 1e-9);
         assert_eq!(t.steps.len(), 161);
         assert_eq!(t.curves.len(), 40);
+    }
+
+    #[test]
+    fn classic_ratio_ignores_polarity() {
+        // Flipping half of the directions to their antipodes must not change k in either frame.
+        let (v, b) = synthetic_fold(3, 20, true);
+        let flipped: Vec<Vec3> = v.iter().enumerate().map(|(i, u)| if i % 3 == 0 { -*u } else { *u }).collect();
+        let (p, q) = (precision_ratio(&v, &b).unwrap(), precision_ratio(&flipped, &b).unwrap());
+        assert!((p.k_geo - q.k_geo).abs() < 1e-9 * p.k_geo && (p.k_tilt - q.k_tilt).abs() < 1e-9 * p.k_tilt);
     }
 
     #[test]

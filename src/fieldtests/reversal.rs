@@ -119,6 +119,25 @@ mod tests {
         }
     }
 
+    /// The rate check at full size (run with `cargo test -- --ignored`): 400 seeds of exactly antipodal
+    /// modes (k = 30, N = 15 each). The 95 % test should pass about 95 % of the time; with 400 seeds
+    /// the binomial standard error is 1.1 %, so [0.92, 0.98] is a ±2.7σ band.
+    #[test]
+    #[ignore]
+    fn antipodal_pass_rate_over_400_seeds() {
+        let mc = MonteCarlo::new(1, 200);
+        let mut counts = [0usize; 3];
+        for s in 0..400 {
+            let c = reversal_test(&two_modes(1000 + s, 15, 30.0, 0.0), &mc, 0.95).unwrap().comparison;
+            counts[0] += c.passed as usize;
+            counts[1] += c.watson.passed as usize;
+            counts[2] += c.bootstrap.passed as usize;
+        }
+        let rate = counts.map(|c| c as f64 / 400.0);
+        println!("pass rates (MM90, V_w, bootstrap): {rate:?}");
+        assert!((0.92..=0.98).contains(&rate[0]), "{rate:?}");
+    }
+
     #[test]
     fn one_mode_is_an_error() {
         let v: Vec<Vec3> = two_modes(3, 10, 50.0, 0.0).into_iter().take(10).collect();

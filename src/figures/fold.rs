@@ -70,6 +70,7 @@ impl Figure for FoldPlot {
             .disable_mesh()
             .x_desc("untilting (%)")
             .y_desc("τ1")
+            .x_label_formatter(&|x| format!("{x:.0}"))
             .label_style((theme::FONT, 12))
             .axis_desc_style((theme::FONT, 13))
             .draw()
@@ -108,6 +109,7 @@ impl Figure for FoldPlot {
             .disable_mesh()
             .x_desc("untilting at the peak (%)")
             .y_desc("cumulative share")
+            .x_label_formatter(&|x| format!("{x:.0}"))
             .label_style((theme::FONT, 12))
             .axis_desc_style((theme::FONT, 13))
             .draw()
@@ -128,7 +130,7 @@ impl Figure for FoldPlot {
         }
         let font = (theme::FONT, 13).into_font().color(&theme::INK);
         right
-            .draw(&Text::new(format!("interval {:.0} to {:.0} %: {}", self.ci.0, self.ci.1, self.verdict), (80, 60), font))
+            .draw(&Text::new(format!("interval {:.0} to {:.0} %: {}", self.ci.0, self.ci.1, self.verdict), (150, 330), font))
             .map_err(de)?;
         Ok(())
     }
