@@ -69,13 +69,7 @@ fn bounds(means: &[Vec3], confidence: f64) -> ComponentBounds {
 /// Tauxe, L., Kylstra, N. & Constable, C. (1991), Bootstrap statistics for paleomagnetic data,
 /// *J. Geophys. Res.* 96, 11723–11740; Efron & Tibshirani (1993), *An Introduction to the Bootstrap*.
 pub fn bootstrap_overlap(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<BootstrapOverlap> {
-    crate::error::check_range("confidence", confidence, 1e-12, 1.0 - 1e-12, "(0, 1)")?;
-    if a.len() < 2 || b.len() < 2 {
-        return Err(Error::TooFew { what: "a bootstrap of two means", needed: 2, got: a.len().min(b.len()), unit: "directions in each set" });
-    }
-    if mc.resamples < 20 {
-        return Err(Error::TooFew { what: "a bootstrap", needed: 20, got: mc.resamples, unit: "resamples" });
-    }
+    super::check_two_sets("a bootstrap of two means", a, b, mc.resamples, confidence)?;
     let pairs = mc.run("bootstrap of the means", streams::BOOTSTRAP, |rng, _| (resampled_mean(a, rng), resampled_mean(b, rng)));
     let ma: Vec<Vec3> = pairs.iter().filter_map(|p| p.0).collect();
     let mb: Vec<Vec3> = pairs.iter().filter_map(|p| p.1).collect();

@@ -42,6 +42,26 @@ pub(crate) fn capped_k(n: usize, r: f64) -> f64 {
     if nr <= 0.0 { K_CAP } else { ((nf - 1.0) / nr).min(K_CAP) }
 }
 
+/// Guards shared by the two-set Monte Carlo comparisons: a confidence in (0, 1), at least two
+/// directions per set, at least 20 resamples.
+pub(crate) fn check_two_sets(
+    what: &'static str,
+    a: &[crate::sphere::Vec3],
+    b: &[crate::sphere::Vec3],
+    resamples: usize,
+    confidence: f64,
+) -> crate::error::Result<()> {
+    use crate::error::Error;
+    crate::error::check_range("confidence", confidence, 1e-12, 1.0 - 1e-12, "(0, 1)")?;
+    if a.len() < 2 || b.len() < 2 {
+        return Err(Error::TooFew { what, needed: 2, got: a.len().min(b.len()), unit: "directions in each set" });
+    }
+    if resamples < 20 {
+        return Err(Error::TooFew { what, needed: 20, got: resamples, unit: "resamples" });
+    }
+    Ok(())
+}
+
 /// Sum of vectors.
 pub(crate) fn resultant(v: &[crate::sphere::Vec3]) -> crate::sphere::Vec3 {
     v.iter().fold(crate::sphere::Vec3::ZERO, |a, b| a + *b)

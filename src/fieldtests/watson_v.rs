@@ -1,7 +1,7 @@
 //! Watson's V_w statistic for a common mean of two sets, with a simulated critical value.
 
 use super::{capped_k, resultant, streams};
-use crate::error::{Error, Result};
+use crate::error::Result;
 use crate::montecarlo::{quantile_sorted, MonteCarlo};
 use crate::sphere::{Direction, Vec3};
 use crate::stats::FisherSampler;
@@ -51,13 +51,7 @@ pub fn watson_v_statistic(a: &[Vec3], b: &[Vec3]) -> f64 {
 /// # References
 /// Watson (1983); simulation of Fisher sets: Fisher, Lewis & Embleton (1987), §3.6.2.
 pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<WatsonV> {
-    crate::error::check_range("confidence", confidence, 1e-12, 1.0 - 1e-12, "(0, 1)")?;
-    if a.len() < 2 || b.len() < 2 {
-        return Err(Error::TooFew { what: "Watson's V_w", needed: 2, got: a.len().min(b.len()), unit: "directions in each set" });
-    }
-    if mc.resamples < 20 {
-        return Err(Error::TooFew { what: "a simulated critical value", needed: 20, got: mc.resamples, unit: "resamples" });
-    }
+    super::check_two_sets("Watson's V_w", a, b, mc.resamples, confidence)?;
     let v_w = watson_v_statistic(a, b);
     let ka = capped_k(a.len(), resultant(a).norm());
     let kb = capped_k(b.len(), resultant(b).norm());

@@ -4,6 +4,7 @@
 use super::render::{de, Figure};
 use super::theme;
 use crate::fieldtests::FoldTest;
+use plotters::coord::types::RangedCoordf64;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
@@ -41,6 +42,38 @@ impl FoldPlot {
     }
 }
 
+type Chart<'a, DB> = ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>;
+
+/// One panel: caption, axes with integer untilting labels, and guides at 0 % and 100 %.
+fn panel<'a, DB: DrawingBackend>(
+    area: &'a DrawingArea<DB, Shift>,
+    caption: &str,
+    x: (f64, f64),
+    y: (f64, f64),
+    desc: (&str, &str),
+) -> Result<Chart<'a, DB>, String> {
+    let mut c = ChartBuilder::on(area)
+        .margin(10)
+        .caption(caption, (theme::FONT, 14))
+        .x_label_area_size(36)
+        .y_label_area_size(52)
+        .build_cartesian_2d(x.0..x.1, y.0..y.1)
+        .map_err(de)?;
+    c.configure_mesh()
+        .disable_mesh()
+        .x_desc(desc.0)
+        .y_desc(desc.1)
+        .x_label_formatter(&|v| format!("{v:.0}"))
+        .label_style((theme::FONT, 12))
+        .axis_desc_style((theme::FONT, 13))
+        .draw()
+        .map_err(de)?;
+    for g in [0.0, 100.0] {
+        c.draw_series(LineSeries::new([(g, y.0), (g, y.1)], theme::GUIDE.stroke_width(1))).map_err(de)?;
+    }
+    Ok(c)
+}
+
 impl Figure for FoldPlot {
     fn size(&self) -> (u32, u32) {
         (1000, 460)
@@ -59,25 +92,7 @@ impl Figure for FoldPlot {
         let all = self.curves.iter().flatten().chain(self.data_curve.iter());
         let (lo, hi) = all.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &x| (a.min(x), b.max(x)));
         let (lo, hi) = if lo.is_finite() && hi > lo { (lo - 0.02 * (hi - lo), hi + 0.02 * (hi - lo)) } else { (0.3, 1.0) };
-        let mut c = ChartBuilder::on(&left)
-            .margin(10)
-            .caption("largest eigenvalue τ1 against untilting", (theme::FONT, 14))
-            .x_label_area_size(36)
-            .y_label_area_size(52)
-            .build_cartesian_2d(x0..x1, lo..hi)
-            .map_err(de)?;
-        c.configure_mesh()
-            .disable_mesh()
-            .x_desc("untilting (%)")
-            .y_desc("τ1")
-            .x_label_formatter(&|x| format!("{x:.0}"))
-            .label_style((theme::FONT, 12))
-            .axis_desc_style((theme::FONT, 13))
-            .draw()
-            .map_err(de)?;
-        for x in [0.0, 100.0] {
-            c.draw_series(LineSeries::new([(x, lo), (x, hi)], theme::GUIDE.stroke_width(1))).map_err(de)?;
-        }
+        let mut c = panel(&left, "largest eigenvalue τ1 against untilting", (x0, x1), (lo, hi), ("untilting (%)", "τ1"))?;
         for curve in &self.curves {
             c.draw_series(LineSeries::new(self.steps.iter().copied().zip(curve.iter().copied()), theme::series(1).mix(0.45).stroke_width(1)))
                 .map_err(de)?;
@@ -98,25 +113,7 @@ impl Figure for FoldPlot {
             .draw()
             .map_err(de)?;
 
-        let mut d = ChartBuilder::on(&right)
-            .margin(10)
-            .caption("share of resamples peaking at or below", (theme::FONT, 14))
-            .x_label_area_size(36)
-            .y_label_area_size(52)
-            .build_cartesian_2d(x0..x1, 0.0..1.0)
-            .map_err(de)?;
-        d.configure_mesh()
-            .disable_mesh()
-            .x_desc("untilting at the peak (%)")
-            .y_desc("cumulative share")
-            .x_label_formatter(&|x| format!("{x:.0}"))
-            .label_style((theme::FONT, 12))
-            .axis_desc_style((theme::FONT, 13))
-            .draw()
-            .map_err(de)?;
-        for x in [0.0, 100.0] {
-            d.draw_series(LineSeries::new([(x, 0.0), (x, 1.0)], theme::GUIDE.stroke_width(1))).map_err(de)?;
-        }
+        let mut d = panel(&right, "share of resamples peaking at or below", (x0, x1), (0.0, 1.0), ("untilting at the peak (%)", "cumulative share"))?;
         let m = self.maxima.len().max(1) as f64;
         let mut pts = vec![(x0, 0.0)];
         for (i, x) in self.maxima.iter().enumerate() {
