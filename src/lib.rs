@@ -26,6 +26,21 @@
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
+//! | VGP confidence oval dp, dm; paleolatitude range | [`poles::pole_oval`], [`poles::paleolatitude_range`] |
+//! | uncertainty of an expected direction (ΔD, ΔI) | [`poles::expected_oval`] |
+//! | paleopole (Fisher mean of VGPs, K, A95) | [`poles::paleopole`], [`poles::northern`] |
+//! | VGP scatter S_B, within-site correction, cutoffs, bootstrap | [`poles::vgp_scatter`], [`poles::bootstrap_scatter`] |
+//! | VADM, VDM, dipole of Gauss coefficients | [`poles::vadm`], [`poles::vdm`], [`poles::gauss_dipole`] |
+//! | sites table (site means) | [`table::read_sites`] |
+//! | map of VGPs and paleopole | [`figures::PolePlot`] |
+//! | principal-component lines and planes, MAD, DANG (Kirschvink 1980) | [`demag::fit_line`], [`demag::fit_plane`], [`demag::fit_range`] |
+//! | automatic choice of a specimen's line segment | [`demag::auto_line`], [`demag::AutoRule`] |
+//! | steps and picks tables (stepwise demagnetization) | [`table::read_steps`], [`table::read_picks`] |
+//! | combined mean of lines and great circles (McFadden & McElhinny 1988) | [`stats::mixed_mean`] |
+//! | vector-endpoint diagram of a specimen | [`figures::VectorEndpointPlot`] |
+//! | polarity per level from VGP latitude | [`strat::read_levels`], [`strat::classify`] |
+//! | magnetozones with boundary uncertainties | [`strat::build_zones`], [`strat::read_zones`] |
+//! | correlation with a time scale (dynamic programming), age model, rates | [`strat::correlate`], [`strat::Candidate`] |
 //! | reversal test (McFadden & McElhinny 1990; Watson V_w; bootstrap) | [`fieldtests::reversal_test`] |
 //! | common-mean test of two sets | [`fieldtests::compare_means`], [`fieldtests::mm90_critical_angle`] |
 //! | Watson's V_w with simulated critical value | [`fieldtests::watson_v`] |
@@ -39,6 +54,7 @@
 //! - Fisher, N. I., Lewis, T. & Embleton, B. J. J. (1987), *Statistical Analysis of Spherical Data*. CUP.
 #![warn(missing_docs)]
 
+pub mod demag;
 pub mod error;
 pub mod fieldtests;
 pub mod figures;
@@ -47,6 +63,7 @@ pub mod montecarlo;
 pub mod poles;
 pub mod sphere;
 pub mod stats;
+pub mod strat;
 pub mod table;
 pub mod tolerance;
 

@@ -2,8 +2,14 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
+mod dipole;
+mod expected;
+mod components;
+mod column;
+mod correlate;
 mod io;
 mod mean;
+mod poles;
 mod output;
 mod progress;
 mod test;
@@ -43,6 +49,18 @@ pub struct Cli {
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
+    /// Virtual geomagnetic pole per site, paleopole (K, A95) and VGP scatter S_B.
+    Poles(poles::PolesArgs),
+    /// Dipole moments: VADM, VDM, or moment, tilt and pole of Gauss coefficients.
+    Dipole(dipole::DipoleArgs),
+    /// Direction expected at a site (or every site of a table) from a given pole.
+    Expected(expected::ExpectedArgs),
+    /// Principal-component lines and planes per specimen from stepwise demagnetization (MAD, DANG).
+    Components(components::ComponentsArgs),
+    /// Polarity of each level from its VGP latitude, and the magnetozones with boundary intervals.
+    Column(column::ColumnArgs),
+    /// Rank correlations of a polarity column with a time scale; ties, age model, accumulation rates.
+    Correlate(correlate::CorrelateArgs),
     /// Field tests: reversal, common-mean, fold, random.
     Test(test::TestArgs),
 }
@@ -106,6 +124,12 @@ pub fn run() -> i32 {
 fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
     match verb {
         Verb::Mean(a) => mean::run(a, ctx),
+        Verb::Poles(a) => poles::run(a, ctx),
+        Verb::Dipole(a) => dipole::run(a, ctx),
+        Verb::Expected(a) => expected::run(a, ctx),
+        Verb::Components(a) => components::run(a, ctx),
+        Verb::Column(a) => column::run(a, ctx),
+        Verb::Correlate(a) => correlate::run(a, ctx),
         Verb::Test(a) => test::run(a, ctx),
     }
 }
