@@ -41,6 +41,11 @@
 //! | polarity per level from VGP latitude | [`strat::read_levels`], [`strat::classify`] |
 //! | magnetozones with boundary uncertainties | [`strat::build_zones`], [`strat::read_zones`] |
 //! | correlation with a time scale (dynamic programming), age model, rates | [`strat::correlate`], [`strat::Candidate`] |
+//! | reversal test (McFadden & McElhinny 1990; Watson V_w; bootstrap) | [`fieldtests::reversal_test`] |
+//! | common-mean test of two sets | [`fieldtests::compare_means`], [`fieldtests::mm90_critical_angle`] |
+//! | Watson's V_w with simulated critical value | [`fieldtests::watson_v`] |
+//! | bootstrap fold test (Tauxe & Watson 1994), precision ratio (McElhinny 1964) | [`fieldtests::fold_test`] |
+//! | randomness of directions, exact R₀ (Watson 1956) | [`fieldtests::randomness_test`], [`fieldtests::watson_r0`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
 //! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
@@ -56,6 +61,7 @@
 
 pub mod demag;
 pub mod error;
+pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
 pub mod montecarlo;

@@ -13,6 +13,7 @@ mod poles;
 mod output;
 mod progress;
 mod simulate;
+mod test;
 
 use clap::{Args, Parser, Subcommand};
 pub use io::{write_atomic, write_figure, Inputs};
@@ -63,6 +64,8 @@ enum Verb {
     Correlate(correlate::CorrelateArgs),
     /// Synthetic time scales and synthetic sampled sections (project folders) from a stated model.
     Simulate(simulate::SimulateArgs),
+    /// Field tests: reversal, common-mean, fold, random.
+    Test(test::TestArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -131,5 +134,6 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Column(a) => column::run(a, ctx),
         Verb::Correlate(a) => correlate::run(a, ctx),
         Verb::Simulate(a) => simulate::run(a, ctx),
+        Verb::Test(a) => test::run(a, ctx),
     }
 }

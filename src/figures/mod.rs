@@ -4,6 +4,7 @@
 mod column;
 mod equal_area;
 mod pole_plot;
+mod fold;
 mod render;
 mod vector_endpoint;
 pub mod theme;
@@ -11,5 +12,6 @@ pub mod theme;
 pub use column::{ColumnFigure, ScalePanel};
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
 pub use pole_plot::{pole_map_rim, pole_map_xy, MappedVgp, PolePlot};
+pub use fold::FoldPlot;
 pub use render::{de, register_fonts, render, Figure, FigureFormat};
 pub use vector_endpoint::{endpoint_projections, VectorEndpointPlot};
