@@ -52,6 +52,7 @@
 //! | synthetic section: levels, specimens, two-component demagnetization | [`simulate::simulate_section`] |
 //! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
 //! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
+//! | whole chain on a project folder: tables, figures, HTML report | [`section::run`], [`section::SectionRun`] |
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -66,6 +67,7 @@ pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
 pub mod poles;
+pub mod section;
 pub mod simulate;
 pub mod sphere;
 pub mod stats;

@@ -7,11 +7,13 @@ mod expected;
 mod components;
 mod column;
 mod correlate;
+mod demo;
 mod io;
 mod mean;
 mod poles;
 mod output;
 mod progress;
+mod section;
 mod simulate;
 mod test;
 
@@ -66,6 +68,10 @@ enum Verb {
     Simulate(simulate::SimulateArgs),
     /// Field tests: reversal, common-mean, fold, random.
     Test(test::TestArgs),
+    /// The whole chain on a project folder: tables, figures and an HTML report.
+    Section(section::SectionArgs),
+    /// Run `section` on the embedded invented demo section.
+    Demo(demo::DemoArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -135,5 +141,7 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Correlate(a) => correlate::run(a, ctx),
         Verb::Simulate(a) => simulate::run(a, ctx),
         Verb::Test(a) => test::run(a, ctx),
+        Verb::Section(a) => section::run_cli(a, ctx),
+        Verb::Demo(a) => demo::run(a, ctx),
     }
 }

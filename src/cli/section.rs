@@ -1,0 +1,125 @@
+//! `lodestone section`: the whole chain on a project folder, written as tables, figures and an HTML
+//! report into an output folder.
+
+use super::{Cell, Ctx, Report, Section};
+use anyhow::{bail, Context, Result};
+use clap::Args;
+use lodestone::section::{run, Project, ProjectFile, SectionRun};
+use lodestone::simulate::{PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE};
+use serde_json::json;
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
+
+#[derive(Debug, Args)]
+pub struct SectionArgs {
+    /// Project folder: steps.csv, sampling.csv; optional picks.csv, timescale.csv, settings.toml.
+    pub dir: PathBuf,
+    /// Output folder (default: the project folder's name with "-report" appended, beside it).
+    #[arg(long)]
+    pub out: Option<PathBuf>,
+    /// Write into an output folder that is not empty (files of the same name are replaced).
+    #[arg(long)]
+    pub force: bool,
+}
+
+fn read_file(dir: &Path, name: &str, required: bool, ctx: &mut Ctx) -> Result<Option<ProjectFile>> {
+    let path = dir.join(name);
+    if !path.exists() {
+        if required {
+            bail!("{}: the project folder has no {name} (required; see the README, 'Project folder')", dir.display());
+        }
+        return Ok(None);
+    }
+    ctx.inputs.add(&path);
+    let bytes = std::fs::read(&path).with_context(|| format!("cannot read {}", path.display()))?;
+    Ok(Some(ProjectFile::new(name, bytes)))
+}
+
+/// Create the output folder (and its `tables/`, `figures/`); refuse a non-empty one without `force`.
+/// (A minimal local version: the shared helper was not on main when this verb was written.)
+fn prepare_out(out: &Path, force: bool) -> Result<()> {
+    if out.exists() {
+        if !out.is_dir() {
+            bail!("--out {}: exists and is not a folder", out.display());
+        }
+        let non_empty = std::fs::read_dir(out).with_context(|| format!("cannot read {}", out.display()))?.next().is_some();
+        if non_empty && !force {
+            bail!("--out {}: the folder is not empty; choose another or add --force", out.display());
+        }
+    }
+    for sub in ["", "tables", "figures"] {
+        std::fs::create_dir_all(out.join(sub)).with_context(|| format!("cannot create {}", out.join(sub).display()))?;
+    }
+    Ok(())
+}
+
+/// Run the chain on a project and write its outputs; shared with `demo`.
+pub fn run_project(project: Project, out: &Path, force: bool, ctx: &mut Ctx) -> Result<Report> {
+    let show = !ctx.global.quiet && std::io::stderr().is_terminal();
+    let mut on_stage = |name: &str| {
+        if show {
+            eprintln!("section: {name} …");
+        }
+    };
+    let res = run(&project, &ctx.progress, &mut on_stage)?;
+    prepare_out(out, force)?;
+    let files = res.files();
+    for f in &files {
+        super::write_atomic(&out.join(&f.name), &f.bytes, &ctx.inputs)?;
+    }
+    Ok(summary(&res, &project.title, out, files.len()))
+}
+
+fn summary(res: &SectionRun, title: &str, out: &Path, n_files: usize) -> Report {
+    let mut sec = Section::new(&format!("Section {title}: stages"), &["stage", "ran", "result"]);
+    for st in &res.stages {
+        sec.rows.push(vec![Cell::Text(st.name.clone()), Cell::Text(if st.ran { "yes" } else { "no" }.into()), Cell::Text(st.result.clone())]);
+    }
+    let mut notes: Vec<String> = res.warnings.clone();
+    if !res.rejected.is_empty() {
+        notes.push(format!("{} specimen(s) or site(s) rejected: see tables/rejected.csv and the report.", res.rejected.len()));
+    }
+    notes.extend(res.cautions.iter().cloned());
+    notes.push(format!("Wrote {n_files} files to {} (open {}).", out.display(), out.join("report.html").display()));
+    Report {
+        json: json!({
+            "project": title,
+            "out": out.display().to_string(),
+            "report": out.join("report.html").display().to_string(),
+            "settings": res.settings,
+            "stages": res.stages,
+            "headline": res.headline,
+            "rejected": res.rejected,
+            "warnings": res.warnings,
+            "cautions": res.cautions,
+            "tables": res.tables.iter().map(|t| format!("tables/{}.csv", t.stem)).collect::<Vec<_>>(),
+            "figures": res.figures.iter().map(|f| format!("figures/{}", f.stem)).collect::<Vec<_>>(),
+        }),
+        sections: vec![sec],
+        csv_section: 0,
+        notes,
+    }
+}
+
+pub fn run_cli(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
+    if !a.dir.is_dir() {
+        bail!("{}: not a folder (a project folder holds steps.csv and sampling.csv)", a.dir.display());
+    }
+    let title = std::fs::canonicalize(&a.dir)
+        .ok()
+        .and_then(|p| p.file_name().map(|s| s.to_string_lossy().to_string()))
+        .unwrap_or_else(|| "project".into());
+    let project = Project {
+        title: title.clone(),
+        steps: read_file(&a.dir, STEPS_FILE, true, ctx)?.expect("required"),
+        sampling: read_file(&a.dir, SAMPLING_FILE, true, ctx)?.expect("required"),
+        picks: read_file(&a.dir, PICKS_FILE, false, ctx)?,
+        timescale: read_file(&a.dir, TIMESCALE_FILE, false, ctx)?,
+        settings: read_file(&a.dir, SETTINGS_FILE, false, ctx)?,
+    };
+    let out = a.out.clone().unwrap_or_else(|| {
+        let parent = a.dir.parent().map(Path::to_path_buf).unwrap_or_default();
+        parent.join(format!("{title}-report"))
+    });
+    run_project(project, &out, a.force, ctx)
+}

@@ -1,0 +1,153 @@
+//! The whole chain on one project folder: component fits → site means → field tests → VGPs,
+//! paleopole and scatter → polarity column and magnetozones → correlation with a time scale → age
+//! model, written as CSV tables, SVG and PNG figures and one self-contained HTML report.
+//!
+//! [`run`] takes the folder's files as bytes (no paths, no printing) and returns every output in a
+//! [`SectionRun`]; the same inputs give byte-identical outputs (no clocks, no absolute paths, sorted
+//! iteration, seeded Monte Carlo). A stage that cannot run (too few sites, no bedding variation, no
+//! time scale) is skipped with a warning; it never fails the run.
+//!
+//! # References
+//! Each stage cites its method in the module that implements it ([`crate::demag`],
+//! [`crate::stats`], [`crate::fieldtests`], [`crate::poles`], [`crate::strat`]).
+
+mod pipeline;
+mod report_html;
+mod settings;
+mod tables;
+
+pub use pipeline::{run, Stage};
+pub use report_html::report_html;
+pub use settings::{SectionSettings, KNOWN_KEYS};
+pub use tables::CsvTable;
+
+/// One input file of a project folder: its name (as shown in messages) and its bytes.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ProjectFile {
+    /// File name for messages (e.g. `steps.csv`).
+    pub name: String,
+    /// Contents.
+    pub bytes: Vec<u8>,
+}
+
+impl ProjectFile {
+    /// A file from its name and bytes.
+    pub fn new(name: impl Into<String>, bytes: impl Into<Vec<u8>>) -> Self {
+        Self { name: name.into(), bytes: bytes.into() }
+    }
+}
+
+/// The files of a project folder (see the README, "Project folder").
+#[derive(Debug, Clone, PartialEq)]
+pub struct Project {
+    /// A title for the report (usually the folder name).
+    pub title: String,
+    /// `steps.csv` (required).
+    pub steps: ProjectFile,
+    /// `sampling.csv` (required).
+    pub sampling: ProjectFile,
+    /// `picks.csv` (optional: without it, fits are automatic).
+    pub picks: Option<ProjectFile>,
+    /// `timescale.csv` (optional: without it, correlation and age model are skipped).
+    pub timescale: Option<ProjectFile>,
+    /// `settings.toml` (optional).
+    pub settings: Option<ProjectFile>,
+}
+
+/// One output file: a name relative to the output folder, and its bytes.
+#[derive(Debug, Clone, PartialEq)]
+pub struct OutputFile {
+    /// Relative path with `/` separators, e.g. `tables/site-means.csv`.
+    pub name: String,
+    /// Contents.
+    pub bytes: Vec<u8>,
+}
+
+/// A figure of the run: SVG and PNG renderings of one drawing.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FigureOutput {
+    /// File stem, e.g. `column`.
+    pub stem: String,
+    /// Caption for the report.
+    pub caption: String,
+    /// SVG text.
+    pub svg: String,
+    /// PNG bytes.
+    pub png: Vec<u8>,
+}
+
+/// A rejected specimen or site with the reason.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Rejection {
+    /// `specimen` or `site`.
+    pub what: String,
+    /// Its name.
+    pub name: String,
+    /// The stage that rejected it.
+    pub stage: String,
+    /// Why.
+    pub reason: String,
+}
+
+/// Key numbers of a run (for summaries and tests).
+#[derive(Debug, Clone, PartialEq, Default, serde::Serialize)]
+pub struct Headline {
+    /// Specimens in the steps table.
+    pub specimens: usize,
+    /// Specimens with an accepted component.
+    pub specimens_fitted: usize,
+    /// Sites in the sampling table.
+    pub sites: usize,
+    /// Sites used downstream of the site means.
+    pub sites_used: usize,
+    /// Magnetozones.
+    pub zones: usize,
+    /// Paleopole latitude and longitude, A95 (degrees), if computed.
+    pub pole: Option<[f64; 3]>,
+    /// Ties (position, age) of the best correlation, if any.
+    pub ties: Vec<[f64; 2]>,
+    /// Score of the best and second-best correlation.
+    pub scores: Vec<f64>,
+}
+
+/// Everything a run produces.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SectionRun {
+    /// Settings in force (defaults filled in).
+    pub settings: SectionSettings,
+    /// Tables, in report order.
+    pub tables: Vec<CsvTable>,
+    /// Figures, in report order.
+    pub figures: Vec<FigureOutput>,
+    /// The HTML report.
+    pub report: String,
+    /// Stages run or skipped, in order.
+    pub stages: Vec<Stage>,
+    /// Warnings (stages skipped, unknown settings, …).
+    pub warnings: Vec<String>,
+    /// Cautions on reading the results.
+    pub cautions: Vec<String>,
+    /// Rejected specimens and sites.
+    pub rejected: Vec<Rejection>,
+    /// Key numbers.
+    pub headline: Headline,
+}
+
+impl SectionRun {
+    /// Every output file: `report.html`, `tables/*.csv`, `figures/*.svg` and `figures/*.png`,
+    /// in a fixed order.
+    pub fn files(&self) -> Vec<OutputFile> {
+        let mut out = vec![OutputFile { name: "report.html".into(), bytes: self.report.clone().into_bytes() }];
+        for t in &self.tables {
+            out.push(OutputFile { name: format!("tables/{}.csv", t.stem), bytes: t.to_csv().into_bytes() });
+        }
+        for f in &self.figures {
+            out.push(OutputFile { name: format!("figures/{}.svg", f.stem), bytes: f.svg.clone().into_bytes() });
+            out.push(OutputFile { name: format!("figures/{}.png", f.stem), bytes: f.png.clone() });
+        }
+        out
+    }
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,66 @@
+//! Output tables of a run: titled CSV tables that the report also shows.
+
+use std::fmt::Write as _;
+
+/// A titled table written as `tables/STEM.csv` and shown in the report.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct CsvTable {
+    /// File stem (`site-means` → `tables/site-means.csv`).
+    pub stem: String,
+    /// Title shown in the report.
+    pub title: String,
+    /// Column names.
+    pub columns: Vec<String>,
+    /// Rows of already formatted cells (empty string for a missing value).
+    pub rows: Vec<Vec<String>>,
+}
+
+impl CsvTable {
+    /// An empty table.
+    pub fn new(stem: &str, title: &str, columns: &[&str]) -> Self {
+        Self { stem: stem.into(), title: title.into(), columns: columns.iter().map(|c| c.to_string()).collect(), rows: vec![] }
+    }
+
+    /// Append a row.
+    pub fn push(&mut self, row: Vec<String>) {
+        debug_assert_eq!(row.len(), self.columns.len(), "{}", self.stem);
+        self.rows.push(row);
+    }
+
+    /// CSV text: header row, then rows; cells holding a comma or quote are quoted.
+    pub fn to_csv(&self) -> String {
+        let mut s = String::new();
+        let line = |cells: &[String]| cells.iter().map(|c| quote(c)).collect::<Vec<_>>().join(",");
+        let _ = writeln!(s, "{}", line(&self.columns));
+        for r in &self.rows {
+            let _ = writeln!(s, "{}", line(r));
+        }
+        s
+    }
+}
+
+fn quote(c: &str) -> String {
+    if c.contains([',', '"', '\n']) {
+        format!("\"{}\"", c.replace('"', "\"\""))
+    } else {
+        c.to_string()
+    }
+}
+
+/// A number with fixed decimals (no negative zero); infinite values as `inf`.
+pub fn num(x: f64, d: usize) -> String {
+    if x.is_infinite() {
+        return if x > 0.0 { "inf".into() } else { "-inf".into() };
+    }
+    let s = format!("{x:.d$}");
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+        s[1..].to_string()
+    } else {
+        s
+    }
+}
+
+/// An optional number (empty cell for `None`).
+pub fn opt(x: Option<f64>, d: usize) -> String {
+    x.map_or(String::new(), |v| num(v, d))
+}
