@@ -39,6 +39,7 @@ pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
 pub mod poles;
+pub mod reversals;
 pub mod sphere;
 pub mod stats;
 pub mod table;

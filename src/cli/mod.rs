@@ -2,8 +2,11 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
+mod hazard;
+mod intervals;
 mod io;
 mod mean;
+mod rate;
 mod output;
 mod progress;
 
@@ -42,6 +45,12 @@ pub struct Cli {
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
+    /// Renewal-model fits (exponential, gamma, Weibull, lognormal, inverse Gaussian) to polarity intervals.
+    Intervals(intervals::IntervalsArgs),
+    /// Hazard and P(reversal within a horizon | none so far) from the fitted models (not a forecast).
+    Hazard(hazard::HazardArgs),
+    /// Reversal rate through time, Laplace trend test and clustering test.
+    Rate(rate::RateArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -103,5 +112,8 @@ pub fn run() -> i32 {
 fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
     match verb {
         Verb::Mean(a) => mean::run(a, ctx),
+        Verb::Intervals(a) => intervals::run(a, ctx),
+        Verb::Hazard(a) => hazard::run(a, ctx),
+        Verb::Rate(a) => rate::run(a, ctx),
     }
 }
