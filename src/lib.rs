@@ -26,6 +26,13 @@
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
+//! | polarity intervals, short-chron merging, censored open chron | [`reversals::intervals`] |
+//! | renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian): censored MLE, CDF, hazard, sampler | [`reversals::Model`], [`reversals::Fitted`] |
+//! | AIC, BIC, Akaike weights, likelihood-ratio test | [`reversals::fit_models`] |
+//! | KS and AD goodness of fit, parametric bootstrap (Lilliefors) | [`reversals::goodness_of_fit`] |
+//! | hazard, P(reversal within Δ \| none for T), model averaging | [`reversals::hazard_at`], [`reversals::averaged_interval`] |
+//! | reversal rate through time, Laplace trend test, clustering test | [`reversals::windowed_rate`], [`reversals::laplace_test`], [`reversals::clustering_test`] |
+//! | interval-length, hazard and rate figures | [`figures::IntervalFigure`], [`figures::HazardFigure`], [`figures::RateFigure`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //!
 //! ## References used throughout

@@ -29,10 +29,14 @@ fn scale(dir: &tempfile::TempDir, model: Fitted, n: usize, seed: u64) -> (PathBu
     fs::write(&p, body).unwrap();
     // Re-read the lengths as written (rounded ages) so closed-form checks use the file's own numbers.
     let text = fs::read_to_string(&p).unwrap();
-    let got = text.lines().skip(2).map(|l| {
-        let f: Vec<f64> = l.split(',').take(2).map(|x| x.parse().unwrap()).collect();
-        f[1] - f[0]
-    }).collect();
+    let got = text
+        .lines()
+        .skip(2)
+        .map(|l| {
+            let f: Vec<f64> = l.split(',').take(2).map(|x| x.parse().unwrap()).collect();
+            f[1] - f[0]
+        })
+        .collect();
     (p, got)
 }
 
@@ -42,7 +46,10 @@ fn json(args: &[&str]) -> Value {
     serde_json::from_slice(&out.stdout).unwrap()
 }
 
-const GAMMA2: Fitted = Fitted { model: Model::Gamma, params: [2.0, 0.125] };
+const GAMMA2: Fitted = Fitted {
+    model: Model::Gamma,
+    params: [2.0, 0.125],
+};
 
 #[test]
 fn intervals_follow_the_contract_and_the_censored_closed_form() {
@@ -64,7 +71,10 @@ fn intervals_follow_the_contract_and_the_censored_closed_form() {
     assert!((models[0]["params"]["rate"].as_f64().unwrap() - 79.0 / total).abs() < 1e-9);
     assert!(models[1]["params"]["shape"].is_number() && models[3]["params"]["sigma"].is_number());
     assert!(models[4]["params"]["mean"].is_number() && models[4]["params"]["shape"].is_number());
-    assert!(v["lr_test"]["p_value"].as_f64().unwrap() < 0.05, "gamma(2) intervals reject shape 1");
+    assert!(
+        v["lr_test"]["p_value"].as_f64().unwrap() < 0.05,
+        "gamma(2) intervals reject shape 1"
+    );
     // --no-censor: censored is null and the rate is n / Σ complete.
     let v = json(&["intervals", f.to_str().unwrap(), "--resamples", "20", "--no-censor"]);
     assert!(v["censored"].is_null());
@@ -89,7 +99,16 @@ fn min_length_merges_and_says_so() {
 fn hazard_reports_models_average_and_cautions() {
     let d = tempfile::tempdir().unwrap();
     let (f, _) = scale(&d, GAMMA2, 80, 23);
-    let v = json(&["hazard", f.to_str().unwrap(), "--elapsed", "0.3", "--horizon", "0.1", "--resamples", "40"]);
+    let v = json(&[
+        "hazard",
+        f.to_str().unwrap(),
+        "--elapsed",
+        "0.3",
+        "--horizon",
+        "0.1",
+        "--resamples",
+        "40",
+    ]);
     let models = v["models"].as_array().unwrap();
     assert_eq!(models.len(), 5);
     // The exponential answer does not depend on the elapsed time: 1 − e^(−λΔ) (Cox 1962).
@@ -107,10 +126,31 @@ fn hazard_reports_models_average_and_cautions() {
         assert!(v["notes"].to_string().contains(phrase), "{phrase} in notes");
     }
     // Same seed, any thread count: identical output.
-    let run = |threads: &str| cmd().args(["hazard", f.to_str().unwrap(), "--elapsed", "0.3", "--resamples", "40", "--format", "json", "--threads", threads, "--quiet"]).output().unwrap().stdout;
+    let run = |threads: &str| {
+        cmd()
+            .args([
+                "hazard",
+                f.to_str().unwrap(),
+                "--elapsed",
+                "0.3",
+                "--resamples",
+                "40",
+                "--format",
+                "json",
+                "--threads",
+                threads,
+                "--quiet",
+            ])
+            .output()
+            .unwrap()
+            .stdout
+    };
     assert_eq!(run("1"), run("2"));
     // Table output shows the cautions too.
-    cmd().args(["hazard", f.to_str().unwrap(), "--resamples", "20", "--quiet"]).assert().success()
+    cmd()
+        .args(["hazard", f.to_str().unwrap(), "--resamples", "20", "--quiet"])
+        .assert()
+        .success()
         .stdout(predicate::str::contains("not a forecast"))
         .stdout(predicate::str::contains("averaged (Akaike weights)"));
 }
@@ -118,7 +158,15 @@ fn hazard_reports_models_average_and_cautions() {
 #[test]
 fn rate_outputs_and_figures() {
     let d = tempfile::tempdir().unwrap();
-    let (f, len) = scale(&d, Fitted { model: Model::Exponential, params: [4.0, f64::NAN] }, 60, 24);
+    let (f, len) = scale(
+        &d,
+        Fitted {
+            model: Model::Exponential,
+            params: [4.0, f64::NAN],
+        },
+        60,
+        24,
+    );
     let v = json(&["rate", f.to_str().unwrap(), "--window", "2"]);
     let pts = v["rate"].as_array().unwrap();
     assert!(!pts.is_empty());
@@ -128,10 +176,29 @@ fn rate_outputs_and_figures() {
     }
     assert!(v["laplace"]["u"].is_number() && v["clustering"]["mean_h"].is_number());
     assert_eq!(v["n_reversals"], (len.len() - 1) as u64);
-    cmd().args(["rate", f.to_str().unwrap(), "--format", "csv"]).assert().success().stdout(predicate::str::starts_with("age,rate,low,high,count\n"));
+    cmd()
+        .args(["rate", f.to_str().unwrap(), "--format", "csv"])
+        .assert()
+        .success()
+        .stdout(predicate::str::starts_with("age,rate,low,high,count\n"));
     for (verb, name) in [("rate", "r.svg"), ("intervals", "i.png"), ("hazard", "h.svg")] {
         let out = d.path().join(name);
-        cmd().args([verb, f.to_str().unwrap(), "--plot", out.to_str().unwrap(), "--resamples", "10", "--quiet"].iter().filter(|a| verb != "rate" || (**a != "--resamples" && **a != "10"))).assert().success();
+        cmd()
+            .args(
+                [
+                    verb,
+                    f.to_str().unwrap(),
+                    "--plot",
+                    out.to_str().unwrap(),
+                    "--resamples",
+                    "10",
+                    "--quiet",
+                ]
+                .iter()
+                .filter(|a| verb != "rate" || (**a != "--resamples" && **a != "10")),
+            )
+            .assert()
+            .success();
         let bytes = fs::read(&out).unwrap();
         if name.ends_with(".png") {
             assert_eq!(&bytes[1..4], b"PNG");
@@ -147,14 +214,25 @@ fn bad_input_names_file_line_and_column_and_writes_nothing() {
     let f = d.path().join("bad.csv");
     fs::write(&f, "young,old,polarity\n0,0.5,N\n0.5,1.0,Q\n").unwrap();
     let fig = d.path().join("x.svg");
-    cmd().args(["intervals", f.to_str().unwrap(), "--plot", fig.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["intervals", f.to_str().unwrap(), "--plot", fig.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicate::str::contains("bad.csv:3: column 'polarity'"));
     assert!(!fig.exists());
     // Two chrons leave one complete interval: too few to fit, a clear error.
     fs::write(&f, "young,old,polarity\n0,0.5,N\n0.5,1.0,R\n").unwrap();
-    cmd().args(["intervals", f.to_str().unwrap()]).assert().code(1).stderr(predicate::str::contains("at least 2"));
+    cmd()
+        .args(["intervals", f.to_str().unwrap()])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("at least 2"));
     // No open chron in the window and no --elapsed.
     let (s, _) = scale(&d, GAMMA2, 30, 25);
-    cmd().args(["hazard", s.to_str().unwrap(), "--from", "1"]).assert().code(1).stderr(predicate::str::contains("--elapsed"));
+    cmd()
+        .args(["hazard", s.to_str().unwrap(), "--from", "1"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("--elapsed"));
     cmd().args(["hazard", s.to_str().unwrap(), "--horizon"]).assert().code(2);
 }

@@ -43,20 +43,42 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Report> {
     let fits = reversals::fit_models(&sample, &Model::ALL);
     let mut est = reversals::hazard_at(&fits, &sample, elapsed, a.horizon)?;
     let mut notes = record_notes(&rec, &a.window.timescale);
-    match reversals::averaged_interval(&sample, &Model::ALL, elapsed, a.horizon, a.level, &ctx.monte_carlo(a.resamples), 100) {
+    match reversals::averaged_interval(
+        &sample,
+        &Model::ALL,
+        elapsed,
+        a.horizon,
+        a.level,
+        &ctx.monte_carlo(a.resamples),
+        100,
+    ) {
         Ok(b) => est.interval = Some(b),
         Err(e) => notes.push(format!("No bootstrap interval for the averaged probability: {e}")),
     }
     let mut sec = Section::new(
-        &format!("Hazard at {elapsed} Myr since the last reversal; P(reversal within {} Myr | none so far)", a.horizon),
+        &format!(
+            "Hazard at {elapsed} Myr since the last reversal; P(reversal within {} Myr | none so far)",
+            a.horizon
+        ),
         &[],
     );
-    sec.columns = ["model"].iter().chain(PARAM_COLUMNS.iter()).chain(["weight", "hazard", "survival", "p_within", "cdf"].iter()).map(|s| s.to_string()).collect();
+    sec.columns = ["model"]
+        .iter()
+        .chain(PARAM_COLUMNS.iter())
+        .chain(["weight", "hazard", "survival", "p_within", "cdf"].iter())
+        .map(|s| s.to_string())
+        .collect();
     let mut models = Vec::new();
     for m in &est.models {
         let mut row = vec![Cell::Text(m.fitted.model.name().into())];
         row.extend(param_cells(&m.fitted));
-        row.extend([Cell::Num(m.weight, 3), Cell::Num(m.hazard, 3), Cell::Num(m.survival, 4), Cell::opt(m.p_within, 4), Cell::Num(m.cdf, 3)]);
+        row.extend([
+            Cell::Num(m.weight, 3),
+            Cell::Num(m.hazard, 3),
+            Cell::Num(m.survival, 4),
+            Cell::opt(m.p_within, 4),
+            Cell::Num(m.cdf, 3),
+        ]);
         sec.rows.push(row);
         models.push(json!({
             "model": m.fitted.model.name(), "params": params_json(&m.fitted), "weight": m.weight,

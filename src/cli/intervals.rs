@@ -32,7 +32,12 @@ impl Window {
     pub fn load(&self, ctx: &mut Ctx) -> Result<IntervalRecord> {
         ctx.inputs.add(&self.timescale);
         let ts = TimeScale::from_table(&Table::read(&self.timescale)?)?;
-        let opt = IntervalOptions { from: self.from, to: self.to, min_length: self.min_length, censor: !self.no_censor };
+        let opt = IntervalOptions {
+            from: self.from,
+            to: self.to,
+            min_length: self.min_length,
+            censor: !self.no_censor,
+        };
         Ok(reversals::intervals(&ts, &opt)?)
     }
 }
@@ -47,17 +52,31 @@ pub fn record_notes(rec: &IntervalRecord, file: &Path) -> Vec<String> {
         rec.to
     )];
     if rec.joined > 0 {
-        n.push(format!("{} adjacent chrons of the same polarity were joined into single intervals.", rec.joined));
+        n.push(format!(
+            "{} adjacent chrons of the same polarity were joined into single intervals.",
+            rec.joined
+        ));
     }
     if rec.merged_short > 0 {
-        n.push(format!("{} chrons shorter than the minimum length were merged into their neighbours.", rec.merged_short));
+        n.push(format!(
+            "{} chrons shorter than the minimum length were merged into their neighbours.",
+            rec.merged_short
+        ));
     }
     if rec.left_out > 0 {
-        n.push(format!("{} intervals cut by the window edges were left out (their full length is unknown).", rec.left_out));
+        n.push(format!(
+            "{} intervals cut by the window edges were left out (their full length is unknown).",
+            rec.left_out
+        ));
     }
     match (&rec.open, rec.censored) {
-        (Some(_), Some(c)) => n.push(format!("The open chron at the present ({c:.4} Myr so far, still running) enters the likelihoods as a right-censored length.")),
-        (Some(o), None) => n.push(format!("The open chron at the present ({} Myr so far) is left out (--no-censor).", o.duration())),
+        (Some(_), Some(c)) => n.push(format!(
+            "The open chron at the present ({c:.4} Myr so far, still running) enters the likelihoods as a right-censored length."
+        )),
+        (Some(o), None) => n.push(format!(
+            "The open chron at the present ({} Myr so far) is left out (--no-censor).",
+            o.duration()
+        )),
         _ => {}
     }
     n
@@ -78,7 +97,10 @@ pub const PARAM_COLUMNS: [&str; 6] = ["rate", "shape", "scale", "mu", "sigma", "
 /// Cells for [`PARAM_COLUMNS`].
 pub fn param_cells(f: &lodestone::reversals::Fitted) -> Vec<Cell> {
     let named = f.named_params();
-    PARAM_COLUMNS.iter().map(|c| Cell::opt(named.iter().find(|(k, _)| k == c).map(|p| p.1), 4)).collect()
+    PARAM_COLUMNS
+        .iter()
+        .map(|c| Cell::opt(named.iter().find(|(k, _)| k == c).map(|p| p.1), 4))
+        .collect()
 }
 
 #[derive(Debug, Args)]
@@ -101,7 +123,12 @@ pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Report> {
     let sample = rec.sample()?;
     let fits = reversals::fit_models(&sample, &Model::ALL);
     let mut sec = Section::new("Renewal models (maximum likelihood, open chron censored)", &[]);
-    sec.columns = ["model"].iter().chain(PARAM_COLUMNS.iter()).chain(["loglik", "aic", "bic", "weight", "ks_d", "ks_p", "ad", "ad_p"].iter()).map(|s| s.to_string()).collect();
+    sec.columns = ["model"]
+        .iter()
+        .chain(PARAM_COLUMNS.iter())
+        .chain(["loglik", "aic", "bic", "weight", "ks_d", "ks_p", "ad", "ad_p"].iter())
+        .map(|s| s.to_string())
+        .collect();
     let mut models = Vec::new();
     let mc = ctx.monte_carlo(a.resamples);
     let mut notes = record_notes(&rec, &a.window.timescale);
@@ -116,7 +143,16 @@ pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Report> {
         };
         let mut row = vec![Cell::Text(f.fitted.model.name().into())];
         row.extend(param_cells(&f.fitted));
-        row.extend([Cell::Num(f.loglik, 3), Cell::Num(f.aic, 3), Cell::Num(f.bic, 3), Cell::Num(f.weight, 3), Cell::opt(d, 4), Cell::opt(dp, 3), Cell::opt(ad, 3), Cell::opt(adp, 3)]);
+        row.extend([
+            Cell::Num(f.loglik, 3),
+            Cell::Num(f.aic, 3),
+            Cell::Num(f.bic, 3),
+            Cell::Num(f.weight, 3),
+            Cell::opt(d, 4),
+            Cell::opt(dp, 3),
+            Cell::opt(ad, 3),
+            Cell::opt(adp, 3),
+        ]);
         sec.rows.push(row);
         models.push(json!({
             "model": f.fitted.model.name(), "params": params_json(&f.fitted),
@@ -147,6 +183,10 @@ pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Report> {
             "mean_complete": sample.complete.iter().sum::<f64>() / sample.n() as f64,
             "models": models,
             "lr_test": lr,
+            "intervals": rec.complete.iter().map(|iv| json!({
+                "young": iv.young, "old": iv.old, "length": iv.duration(), "polarity": iv.polarity, "chrons": iv.names,
+            })).collect::<Vec<_>>(),
+            "open_chron": rec.open.as_ref().map(|iv| json!({"young": iv.young, "old": iv.old, "length": iv.duration(), "polarity": iv.polarity, "chrons": iv.names})),
             "resamples": a.resamples, "seed": ctx.global.seed,
             "notes": notes,
         }),
@@ -163,7 +203,11 @@ fn lr_json(fits: &RenewalFits, notes: &mut Vec<String>) -> Value {
                 "Likelihood-ratio test of gamma against exponential (shape = 1): statistic {:.3}, p = {:.4}; {}",
                 t.statistic,
                 t.p_value,
-                if t.p_value < 0.05 { "a constant-rate (memoryless) process is rejected at the 5 % level." } else { "a constant-rate (memoryless) process is not rejected at the 5 % level." }
+                if t.p_value < 0.05 {
+                    "a constant-rate (memoryless) process is rejected at the 5 % level."
+                } else {
+                    "a constant-rate (memoryless) process is not rejected at the 5 % level."
+                }
             ));
             json!({"null": "gamma shape = 1 (exponential)", "statistic": t.statistic, "df": t.df, "p_value": t.p_value})
         }

@@ -1,7 +1,7 @@
 //! Hazard figure: the hazard of each fitted renewal model against time since the last reversal, with
 //! the elapsed time marked.
 
-use super::intervals::{draw_curves, Curve};
+use super::intervals::{axes, draw_curves, Curve};
 use super::render::{de, Figure};
 use super::theme;
 use crate::reversals::RenewalFits;
@@ -22,14 +22,26 @@ pub struct HazardFigure {
 impl HazardFigure {
     /// Build from fitted models, over 0 … max(2 × elapsed, 3 × the longest fitted mean).
     pub fn new(fits: &RenewalFits, elapsed: f64, source: &str) -> Self {
-        let top = fits.fits.iter().map(|f| 3.0 * f.fitted.mean()).fold(2.0 * elapsed, f64::max).max(1e-3);
+        let top = fits
+            .fits
+            .iter()
+            .map(|f| 3.0 * f.fitted.mean())
+            .fold(2.0 * elapsed, f64::max)
+            .max(1e-3);
         let xs: Vec<f64> = (1..=240).map(|i| top * i as f64 / 240.0).collect();
         let curves = fits
             .fits
             .iter()
-            .map(|f| Curve { label: format!("{} (w = {:.2})", f.fitted.model.name(), f.weight), points: xs.iter().map(|&x| (x, f.fitted.hazard(x))).collect() })
+            .map(|f| Curve {
+                label: format!("{} (w = {:.2})", f.fitted.model.name(), f.weight),
+                points: xs.iter().map(|&x| (x, f.fitted.hazard(x))).collect(),
+            })
             .collect();
-        HazardFigure { title: format!("Hazard of a reversal (model statement, not a forecast) — {source}"), curves, elapsed }
+        HazardFigure {
+            title: format!("Hazard of a reversal (model statement, not a forecast) — {source}"),
+            curves,
+            elapsed,
+        }
     }
 }
 
@@ -38,38 +50,41 @@ impl Figure for HazardFigure {
         (820, 560)
     }
     fn draw<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String> {
-        root.fill(&theme::PAPER).map_err(de)?;
         let xmax = self.curves.first().and_then(|c| c.points.last()).map_or(1.0, |p| p.0);
         // Clip the vertical range at a generous multiple of the median hazard so that a curve that
         // diverges near zero (shape < 1) does not flatten the others.
-        let mut hs: Vec<f64> = self.curves.iter().flat_map(|c| c.points.iter().map(|p| p.1)).filter(|h| h.is_finite()).collect();
+        let mut hs: Vec<f64> = self
+            .curves
+            .iter()
+            .flat_map(|c| c.points.iter().map(|p| p.1))
+            .filter(|h| h.is_finite())
+            .collect();
         hs.sort_by(f64::total_cmp);
         let ymax = hs.get(hs.len() * 95 / 100).copied().unwrap_or(1.0).max(1e-9) * 1.2;
-        let mut chart = ChartBuilder::on(root)
-            .caption(&self.title, (theme::FONT, 16).into_font().color(&theme::INK))
-            .margin(16)
-            .x_label_area_size(44)
-            .y_label_area_size(56)
-            .build_cartesian_2d(0.0..xmax, 0.0..ymax)
-            .map_err(de)?;
-        chart
-            .configure_mesh()
-            .light_line_style(theme::GUIDE.mix(0.4))
-            .x_desc("time since the last reversal (Myr)")
-            .y_desc("hazard (per Myr)")
-            .label_style((theme::FONT, 13).into_font().color(&theme::INK))
-            .draw()
-            .map_err(de)?;
+        let mut chart = axes(
+            root,
+            &self.title,
+            0.0..xmax,
+            0.0..ymax * 1.45,
+            "time since the last reversal (Myr)",
+            "hazard (per Myr)",
+        )?;
         let clipped: Vec<Curve> = self
             .curves
             .iter()
-            .map(|c| Curve { label: c.label.clone(), points: c.points.iter().map(|&(x, y)| (x, y.min(ymax))).collect() })
+            .map(|c| Curve {
+                label: c.label.clone(),
+                points: c.points.iter().map(|&(x, y)| (x, y.min(ymax))).collect(),
+            })
             .collect();
         chart
-            .draw_series(LineSeries::new(vec![(self.elapsed, 0.0), (self.elapsed, ymax)], theme::INK.stroke_width(1)))
+            .draw_series(LineSeries::new(
+                vec![(self.elapsed, 0.0), (self.elapsed, ymax)],
+                theme::INK.stroke_width(1),
+            ))
             .map_err(de)?
             .label(format!("elapsed {:.3} Myr", self.elapsed))
             .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], theme::INK.stroke_width(1)));
-        draw_curves(&mut chart, &clipped)
+        draw_curves(&mut chart, &clipped, SeriesLabelPosition::UpperLeft)
     }
 }

@@ -4,6 +4,7 @@
 use super::render::{de, Figure};
 use super::theme;
 use crate::reversals::{RenewalFits, Sample};
+use plotters::coord::types::RangedCoordf64;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
@@ -37,21 +38,64 @@ impl IntervalFigure {
         let curves = fits
             .fits
             .iter()
-            .map(|f| Curve { label: format!("{} (w = {:.2})", f.fitted.model.name(), f.weight), points: xs.iter().map(|&x| (x, f.fitted.cdf(x))).collect() })
+            .map(|f| Curve {
+                label: format!("{} (w = {:.2})", f.fitted.model.name(), f.weight),
+                points: xs.iter().map(|&x| (x, f.fitted.cdf(x))).collect(),
+            })
             .collect();
-        IntervalFigure { title: format!("Polarity interval lengths — {source}"), lengths: s.complete.clone(), censored: s.censored, curves }
+        IntervalFigure {
+            title: format!("Polarity interval lengths — {source}"),
+            lengths: s.complete.clone(),
+            censored: s.censored,
+            curves,
+        }
     }
+}
+
+/// The plot frame shared by the reversal figures: paper, caption, axes with labels and a light mesh.
+pub(crate) type XyChart<'a, DB> = ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>;
+
+/// Fill the paper and build a captioned x–y chart with labelled axes.
+pub(crate) fn axes<'a, DB: DrawingBackend + 'a>(
+    root: &'a DrawingArea<DB, Shift>,
+    title: &str,
+    x: std::ops::Range<f64>,
+    y: std::ops::Range<f64>,
+    x_desc: &str,
+    y_desc: &str,
+) -> Result<XyChart<'a, DB>, String> {
+    root.fill(&theme::PAPER).map_err(de)?;
+    let mut chart = ChartBuilder::on(root)
+        .caption(title, (theme::FONT, 17).into_font().color(&theme::INK))
+        .margin(16)
+        .x_label_area_size(44)
+        .y_label_area_size(56)
+        .build_cartesian_2d(x, y)
+        .map_err(de)?;
+    chart
+        .configure_mesh()
+        .light_line_style(theme::GUIDE.mix(0.4))
+        .x_desc(x_desc)
+        .y_desc(y_desc)
+        .label_style((theme::FONT, 13).into_font().color(&theme::INK))
+        .draw()
+        .map_err(de)?;
+    Ok(chart)
 }
 
 /// Draw curves with a legend on a chart (shared by the reversal figures).
 pub(crate) fn draw_curves<'a, DB: DrawingBackend + 'a>(
-    chart: &mut ChartContext<'a, DB, Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>>,
+    chart: &mut XyChart<'a, DB>,
     curves: &[Curve],
+    legend: SeriesLabelPosition,
 ) -> Result<(), String> {
     for (i, c) in curves.iter().enumerate() {
         let colour = theme::series(i);
         chart
-            .draw_series(LineSeries::new(c.points.iter().copied().filter(|p| p.1.is_finite()), colour.stroke_width(2)))
+            .draw_series(LineSeries::new(
+                c.points.iter().copied().filter(|p| p.1.is_finite()),
+                colour.stroke_width(2),
+            ))
             .map_err(de)?
             .label(c.label.clone())
             .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], colour.stroke_width(2)));
@@ -61,7 +105,7 @@ pub(crate) fn draw_curves<'a, DB: DrawingBackend + 'a>(
         .background_style(theme::PAPER.mix(0.9))
         .border_style(theme::GUIDE)
         .label_font((theme::FONT, 14).into_font().color(&theme::INK))
-        .position(SeriesLabelPosition::LowerRight)
+        .position(legend)
         .draw()
         .map_err(de)
 }
@@ -71,23 +115,15 @@ impl Figure for IntervalFigure {
         (820, 560)
     }
     fn draw<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String> {
-        root.fill(&theme::PAPER).map_err(de)?;
         let xmax = self.curves.first().and_then(|c| c.points.last()).map_or(1.0, |p| p.0);
-        let mut chart = ChartBuilder::on(root)
-            .caption(&self.title, (theme::FONT, 18).into_font().color(&theme::INK))
-            .margin(16)
-            .x_label_area_size(44)
-            .y_label_area_size(56)
-            .build_cartesian_2d(0.0..xmax, 0.0..1.0)
-            .map_err(de)?;
-        chart
-            .configure_mesh()
-            .light_line_style(theme::GUIDE.mix(0.4))
-            .x_desc("interval length (Myr)")
-            .y_desc("fraction of intervals not longer")
-            .label_style((theme::FONT, 13).into_font().color(&theme::INK))
-            .draw()
-            .map_err(de)?;
+        let mut chart = axes(
+            root,
+            &self.title,
+            0.0..xmax,
+            0.0..1.0,
+            "interval length (Myr)",
+            "fraction of intervals not longer",
+        )?;
         let n = self.lengths.len() as f64;
         let mut steps = vec![(0.0, 0.0)];
         for (i, &x) in self.lengths.iter().enumerate() {
@@ -107,6 +143,6 @@ impl Figure for IntervalFigure {
                 .label("open chron so far (censored)")
                 .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], theme::INK.mix(0.6).stroke_width(1)));
         }
-        draw_curves(&mut chart, &self.curves)
+        draw_curves(&mut chart, &self.curves, SeriesLabelPosition::LowerRight)
     }
 }

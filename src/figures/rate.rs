@@ -1,5 +1,6 @@
 //! Rate figure: reversal rate through time with its confidence band and the reversals marked.
 
+use super::intervals::axes;
 use super::render::{de, Figure};
 use super::theme;
 use crate::reversals::RatePoint;
@@ -24,26 +25,24 @@ impl Figure for RateFigure {
         (900, 520)
     }
     fn draw<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String> {
-        root.fill(&theme::PAPER).map_err(de)?;
-        let (x0, x1) = self.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.age), b.max(p.age)));
-        let (x0, x1) = if x0 < x1 { (x0 - self.window / 2.0, x1 + self.window / 2.0) } else { (0.0, 1.0) };
+        let (x0, x1) = self
+            .points
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.age), b.max(p.age)));
+        let (x0, x1) = if x0 < x1 {
+            (x0 - self.window / 2.0, x1 + self.window / 2.0)
+        } else {
+            (0.0, 1.0)
+        };
         let ymax = self.points.iter().map(|p| p.high).fold(0.0, f64::max).max(1e-9) * 1.1;
-        let mut chart = ChartBuilder::on(root)
-            .caption(&self.title, (theme::FONT, 18).into_font().color(&theme::INK))
-            .margin(16)
-            .x_label_area_size(44)
-            .y_label_area_size(56)
-            .build_cartesian_2d(x0..x1, 0.0..ymax)
-            .map_err(de)?;
-        chart
-            .configure_mesh()
-            .light_line_style(theme::GUIDE.mix(0.4))
-            .x_desc("age (Ma)")
-            .y_desc(format!("reversals per Myr ({} Myr window)", self.window))
-            .label_style((theme::FONT, 13).into_font().color(&theme::INK))
-            .draw()
-            .map_err(de)?;
-        let band: Vec<(f64, f64)> = self.points.iter().map(|p| (p.age, p.high)).chain(self.points.iter().rev().map(|p| (p.age, p.low))).collect();
+        let y_desc = format!("reversals per Myr ({} Myr window)", self.window);
+        let mut chart = axes(root, &self.title, x0..x1, 0.0..ymax, "age (Ma)", &y_desc)?;
+        let band: Vec<(f64, f64)> = self
+            .points
+            .iter()
+            .map(|p| (p.age, p.high))
+            .chain(self.points.iter().rev().map(|p| (p.age, p.low)))
+            .collect();
         let fill = theme::series(0).mix(0.2);
         chart
             .draw_series(std::iter::once(Polygon::new(band, fill.filled())))
@@ -58,7 +57,12 @@ impl Figure for RateFigure {
             .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], line));
         let tick = ymax * 0.03;
         chart
-            .draw_series(self.reversals.iter().filter(|a| **a >= x0 && **a <= x1).map(|&a| PathElement::new(vec![(a, 0.0), (a, tick)], theme::INK.stroke_width(1))))
+            .draw_series(
+                self.reversals
+                    .iter()
+                    .filter(|a| **a >= x0 && **a <= x1)
+                    .map(|&a| PathElement::new(vec![(a, 0.0), (a, tick)], theme::INK.stroke_width(1))),
+            )
             .map_err(de)?;
         chart
             .configure_series_labels()

@@ -100,7 +100,11 @@ fn averaged_p(fits: &RenewalFits, elapsed: f64, horizon: f64) -> Option<f64> {
 pub fn hazard_at(fits: &RenewalFits, s: &Sample, elapsed: f64, horizon: f64) -> Result<HazardEstimate> {
     crate::error::check_range("elapsed", elapsed, 0.0, f64::MAX, "[0, ∞) Myr")?;
     if !(horizon > 0.0 && horizon.is_finite()) {
-        return Err(Error::OutOfRange { name: "horizon", value: horizon, range: "(0, ∞) Myr" });
+        return Err(Error::OutOfRange {
+            name: "horizon",
+            value: horizon,
+            range: "(0, ∞) Myr",
+        });
     }
     if fits.fits.is_empty() {
         return Err(Error::Undefined("no renewal model could be fitted".into()));
@@ -117,9 +121,17 @@ pub fn hazard_at(fits: &RenewalFits, s: &Sample, elapsed: f64, horizon: f64) -> 
             weight: f.weight,
         })
         .collect();
-    let averaged = averaged_p(fits, elapsed, horizon).ok_or_else(|| Error::Undefined(format!("no model gives a finite survival at {elapsed} Myr")))?;
+    let averaged =
+        averaged_p(fits, elapsed, horizon).ok_or_else(|| Error::Undefined(format!("no model gives a finite survival at {elapsed} Myr")))?;
     let shorter = s.complete.iter().filter(|&&x| x < elapsed).count();
-    Ok(HazardEstimate { elapsed, horizon, models, averaged, interval: None, percentile: 100.0 * shorter as f64 / s.n() as f64 })
+    Ok(HazardEstimate {
+        elapsed,
+        horizon,
+        models,
+        averaged,
+        interval: None,
+        percentile: 100.0 * shorter as f64 / s.n() as f64,
+    })
 }
 
 /// Bootstrap percentile interval of the Akaike-weighted P(within horizon): the complete intervals are
@@ -128,9 +140,21 @@ pub fn hazard_at(fits: &RenewalFits, s: &Sample, elapsed: f64, horizon: f64) -> 
 /// # References
 /// Efron, B. & Tibshirani, R. J. (1993), *An Introduction to the Bootstrap*, ch. 13 (percentile
 /// interval); Burnham & Anderson (2002), §4.3 (bootstrap of model-averaged estimates).
-pub fn averaged_interval(s: &Sample, models: &[Model], elapsed: f64, horizon: f64, level: f64, mc: &MonteCarlo<'_>, stream: u64) -> Result<BootInterval> {
+pub fn averaged_interval(
+    s: &Sample,
+    models: &[Model],
+    elapsed: f64,
+    horizon: f64,
+    level: f64,
+    mc: &MonteCarlo<'_>,
+    stream: u64,
+) -> Result<BootInterval> {
     if !(level > 0.0 && level < 1.0) {
-        return Err(Error::OutOfRange { name: "level", value: level, range: "(0, 1)" });
+        return Err(Error::OutOfRange {
+            name: "level",
+            value: level,
+            range: "(0, 1)",
+        });
     }
     let n = s.n();
     let mut vals: Vec<f64> = mc
@@ -147,7 +171,12 @@ pub fn averaged_interval(s: &Sample, models: &[Model], elapsed: f64, horizon: f6
     }
     vals.sort_by(f64::total_cmp);
     let a = (1.0 - level) / 2.0;
-    Ok(BootInterval { low: quantile_sorted(&vals, a), high: quantile_sorted(&vals, 1.0 - a), level, resamples: vals.len() })
+    Ok(BootInterval {
+        low: quantile_sorted(&vals, a),
+        high: quantile_sorted(&vals, 1.0 - a),
+        level,
+        resamples: vals.len(),
+    })
 }
 
 #[cfg(test)]
@@ -158,7 +187,10 @@ mod tests {
     fn exponential_has_no_memory() {
         // Commonly stated figure: mean interval 0.25 Myr. P(reversal within 0.1 Myr | elapsed T) =
         // 1 − e^(−0.4) ≈ 0.330 for every T (Cox 1962: the exponential is the memoryless law).
-        let e = Fitted { model: Model::Exponential, params: [4.0, f64::NAN] };
+        let e = Fitted {
+            model: Model::Exponential,
+            params: [4.0, f64::NAN],
+        };
         for t in [0.0, 0.1, 0.77, 3.0] {
             assert!((p_within(&e, t, 0.1).unwrap() - (1.0 - (-0.4f64).exp())).abs() < 1e-12);
         }
@@ -167,7 +199,10 @@ mod tests {
     #[test]
     fn gamma_shape_above_one_has_rising_hazard() {
         // Shape > 1: the hazard increases with elapsed time, so P(within) does too (Cox 1962, §1.3).
-        let g = Fitted { model: Model::Gamma, params: [2.0, 0.125] };
+        let g = Fitted {
+            model: Model::Gamma,
+            params: [2.0, 0.125],
+        };
         assert!(p_within(&g, 0.5, 0.1).unwrap() > p_within(&g, 0.05, 0.1).unwrap());
         // Exact: S(x) = (1 + x/θ) e^(−x/θ) for shape 2 (closed form of the Erlang survival).
         let s = |x: f64| (1.0 + x / 0.125) * (-x / 0.125).exp();
@@ -184,8 +219,29 @@ mod tests {
         assert!((h.averaged - manual).abs() < 1e-12);
         assert!((h.percentile - 100.0 * 14.0 / 40.0).abs() < 1e-12); // 0.02 … 0.28 are shorter than 0.3
         let b = averaged_interval(&s, &Model::ALL, 0.3, 0.1, 0.9, &MonteCarlo::new(1, 60), 0).unwrap();
-        assert!(b.low <= h.averaged + 0.05 && b.high >= h.averaged - 0.05 && b.low <= b.high, "{b:?} {}", h.averaged);
+        assert!(
+            b.low <= h.averaged + 0.05 && b.high >= h.averaged - 0.05 && b.low <= b.high,
+            "{b:?} {}",
+            h.averaged
+        );
         assert!(hazard_at(&fits, &s, -1.0, 0.1).is_err());
         assert!(hazard_at(&fits, &s, 0.3, 0.0).is_err());
+    }
+
+    #[test]
+    fn far_tail_is_handled_without_panics() {
+        // 1000 Myr after a reversal, gamma and Weibull survivals underflow: their conditional
+        // probability is undefined and the average uses the models that remain defined.
+        let xs: Vec<f64> = (1..=30).map(|i| 0.03 * i as f64).collect();
+        let s = Sample::new(xs, Some(0.4)).unwrap();
+        let fits = fit_models(&s, &Model::ALL);
+        let h = hazard_at(&fits, &s, 1000.0, 0.1).unwrap();
+        assert!(h.averaged.is_finite() && (0.0..=1.0).contains(&h.averaged));
+        let exp = h.models.iter().find(|m| m.fitted.model == Model::Exponential).unwrap();
+        assert!((exp.p_within.unwrap() - (1.0 - (-exp.fitted.params[0] * 0.1).exp())).abs() < 1e-12);
+        assert_eq!(h.percentile, 100.0);
+        // Elapsed zero: the hazard at the start of an interval is finite for every model.
+        let h0 = hazard_at(&fits, &s, 0.0, 0.1).unwrap();
+        assert!(h0.models.iter().all(|m| m.hazard.is_finite() && m.survival == 1.0));
     }
 }

@@ -43,7 +43,12 @@ pub struct IntervalOptions {
 
 impl Default for IntervalOptions {
     fn default() -> Self {
-        IntervalOptions { from: None, to: None, min_length: 0.0, censor: true }
+        IntervalOptions {
+            from: None,
+            to: None,
+            min_length: 0.0,
+            censor: true,
+        }
     }
 }
 
@@ -90,10 +95,19 @@ impl IntervalRecord {
 /// (short events and the interval distribution); Lawless (2003), §1.2 (right censoring).
 pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord> {
     if ts.chrons.is_empty() {
-        return Err(Error::TooFew { what: "a time scale", needed: 1, got: 0, unit: "chrons" });
+        return Err(Error::TooFew {
+            what: "a time scale",
+            needed: 1,
+            got: 0,
+            unit: "chrons",
+        });
     }
     if !(opt.min_length.is_finite() && opt.min_length >= 0.0) {
-        return Err(Error::OutOfRange { name: "min_length", value: opt.min_length, range: "[0, ∞) Myr" });
+        return Err(Error::OutOfRange {
+            name: "min_length",
+            value: opt.min_length,
+            range: "[0, ∞) Myr",
+        });
     }
     let from = opt.from.unwrap_or(ts.young()).max(ts.young());
     let to = opt.to.unwrap_or(ts.old()).min(ts.old());
@@ -113,7 +127,12 @@ pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord
                 last.names.extend(c.name.clone());
                 joined += 1;
             }
-            _ => list.push(Interval { young: c.young, old: c.old, polarity: c.polarity, names: c.name.iter().cloned().collect() }),
+            _ => list.push(Interval {
+                young: c.young,
+                old: c.old,
+                polarity: c.polarity,
+                names: c.name.iter().cloned().collect(),
+            }),
         }
     }
     let is_open = |iv: &Interval| iv.young <= AGE_TOLERANCE;
@@ -149,7 +168,17 @@ pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord
             }
         }
     }
-    let mut rec = IntervalRecord { from, to, complete: vec![], open: None, censored: None, merged_short, joined, left_out: 0, reversals: vec![] };
+    let mut rec = IntervalRecord {
+        from,
+        to,
+        complete: vec![],
+        open: None,
+        censored: None,
+        merged_short,
+        joined,
+        left_out: 0,
+        reversals: vec![],
+    };
     for iv in &list {
         let inside = iv.young >= from - AGE_TOLERANCE && iv.old <= to + AGE_TOLERANCE;
         if inside && is_open(iv) {
@@ -163,7 +192,11 @@ pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord
     if opt.censor {
         rec.censored = rec.open.as_ref().map(Interval::duration);
     }
-    rec.reversals = list.windows(2).map(|w| w[0].old).filter(|&a| a > from + AGE_TOLERANCE && a < to - AGE_TOLERANCE).collect();
+    rec.reversals = list
+        .windows(2)
+        .map(|w| w[0].old)
+        .filter(|&a| a > from + AGE_TOLERANCE && a < to - AGE_TOLERANCE)
+        .collect();
     Ok(rec)
 }
 
@@ -177,7 +210,8 @@ mod tests {
     }
 
     // An invented scale: the open chron, a short event, same-polarity parts.
-    const SCALE: &str = "young,old,polarity,name\n0,0.7,N,a\n0.7,1.0,R,b\n1.0,1.02,N,ev\n1.02,1.5,R,c\n1.5,1.8,N,d1\n1.8,2.0,N,d2\n2.0,2.6,R,e\n";
+    const SCALE: &str =
+        "young,old,polarity,name\n0,0.7,N,a\n0.7,1.0,R,b\n1.0,1.02,N,ev\n1.02,1.5,R,c\n1.5,1.8,N,d1\n1.8,2.0,N,d2\n2.0,2.6,R,e\n";
 
     #[test]
     fn joins_censors_and_counts() {
@@ -188,14 +222,28 @@ mod tests {
         let d: Vec<f64> = r.complete.iter().map(|i| (i.duration() * 1e9).round() / 1e9).collect();
         assert_eq!(d, vec![0.3, 0.02, 0.48, 0.5, 0.6]);
         assert_eq!(r.reversals.len(), 5);
-        let no = intervals(&ts(SCALE), &IntervalOptions { censor: false, ..Default::default() }).unwrap();
+        let no = intervals(
+            &ts(SCALE),
+            &IntervalOptions {
+                censor: false,
+                ..Default::default()
+            },
+        )
+        .unwrap();
         assert_eq!(no.censored, None);
         assert_eq!(no.complete.len(), 5);
     }
 
     #[test]
     fn short_chrons_merge_into_neighbours() {
-        let r = intervals(&ts(SCALE), &IntervalOptions { min_length: 0.03, ..Default::default() }).unwrap();
+        let r = intervals(
+            &ts(SCALE),
+            &IntervalOptions {
+                min_length: 0.03,
+                ..Default::default()
+            },
+        )
+        .unwrap();
         assert_eq!(r.merged_short, 1);
         // R 0.7–1.0, N event, R 1.02–1.5 become one reversed interval 0.7–1.5.
         assert!((r.complete[0].duration() - 0.8).abs() < 1e-12);
@@ -208,10 +256,26 @@ mod tests {
 
     #[test]
     fn window_leaves_out_cut_intervals() {
-        let r = intervals(&ts(SCALE), &IntervalOptions { from: Some(0.8), to: Some(2.0), ..Default::default() }).unwrap();
+        let r = intervals(
+            &ts(SCALE),
+            &IntervalOptions {
+                from: Some(0.8),
+                to: Some(2.0),
+                ..Default::default()
+            },
+        )
+        .unwrap();
         assert!(r.open.is_none() && r.censored.is_none());
         assert_eq!(r.left_out, 1); // the reversed interval 0.7–1.0 is cut at 0.8
         assert_eq!(r.complete.len(), 3);
-        assert!(intervals(&ts(SCALE), &IntervalOptions { from: Some(3.0), to: Some(2.0), ..Default::default() }).is_err());
+        assert!(intervals(
+            &ts(SCALE),
+            &IntervalOptions {
+                from: Some(3.0),
+                to: Some(2.0),
+                ..Default::default()
+            }
+        )
+        .is_err());
     }
 }

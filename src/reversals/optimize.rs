@@ -34,7 +34,11 @@ pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(mut f: F, start: &[f64], step: f64, 
     let mut g = |x: &[f64], eval: &mut usize| {
         *eval += 1;
         let v = f(x);
-        if v.is_finite() { v } else { f64::INFINITY }
+        if v.is_finite() {
+            v
+        } else {
+            f64::INFINITY
+        }
     };
     let mut simplex: Vec<Vec<f64>> = vec![start.to_vec()];
     for i in 0..n {
@@ -50,7 +54,10 @@ pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(mut f: F, start: &[f64], step: f64, 
         simplex = order.iter().map(|&i| simplex[i].clone()).collect();
         vals = order.iter().map(|&i| vals[i]).collect();
         let spread = (vals[n] - vals[0]).abs();
-        let size = simplex[1..].iter().flat_map(|p| p.iter().zip(&simplex[0]).map(|(a, b)| (a - b).abs())).fold(0.0, f64::max);
+        let size = simplex[1..]
+            .iter()
+            .flat_map(|p| p.iter().zip(&simplex[0]).map(|(a, b)| (a - b).abs()))
+            .fold(0.0, f64::max);
         if spread <= ftol && size <= xtol {
             converged = true;
             break;
@@ -94,7 +101,12 @@ pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(mut f: F, start: &[f64], step: f64, 
         }
     }
     let best = (0..=n).min_by(|&a, &b| vals[a].total_cmp(&vals[b])).unwrap_or(0);
-    Minimum { x: simplex[best].clone(), value: vals[best], evaluations: eval, converged }
+    Minimum {
+        x: simplex[best].clone(),
+        value: vals[best],
+        evaluations: eval,
+        converged,
+    }
 }
 
 /// Root of a decreasing function `g` on (lo, hi) by Newton steps safeguarded with bisection.
@@ -115,9 +127,17 @@ pub fn newton_bisect<G: FnMut(f64) -> (f64, f64)>(mut g: G, mut lo: f64, mut hi:
         if v == 0.0 {
             return Some(x);
         }
-        if v > 0.0 { lo = x } else { hi = x }
+        if v > 0.0 {
+            lo = x
+        } else {
+            hi = x
+        }
         let newton = x - v / d;
-        let next = if d.is_finite() && d != 0.0 && newton > lo && newton < hi { newton } else { 0.5 * (lo + hi) };
+        let next = if d.is_finite() && d != 0.0 && newton > lo && newton < hi {
+            newton
+        } else {
+            0.5 * (lo + hi)
+        };
         if (next - x).abs() <= tol * (1.0 + x.abs()) {
             return Some(next);
         }
@@ -133,7 +153,14 @@ mod tests {
     #[test]
     fn rosenbrock_minimum() {
         // The Rosenbrock (1960) function has its minimum 0 at (1, 1): a standard optimiser check.
-        let m = nelder_mead(|p| 100.0 * (p[1] - p[0] * p[0]).powi(2) + (1.0 - p[0]).powi(2), &[-1.2, 1.0], 0.5, 1e-14, 1e-9, 5000);
+        let m = nelder_mead(
+            |p| 100.0 * (p[1] - p[0] * p[0]).powi(2) + (1.0 - p[0]).powi(2),
+            &[-1.2, 1.0],
+            0.5,
+            1e-14,
+            1e-9,
+            5000,
+        );
         assert!(m.converged);
         assert!((m.x[0] - 1.0).abs() < 1e-5 && (m.x[1] - 1.0).abs() < 1e-5, "{m:?}");
     }

@@ -24,7 +24,9 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     let mu = s.sum_x / n;
     let inv = s.sum_inv / n - 1.0 / mu;
     if !(inv > 1e-14 / mu) {
-        return Err(Error::Undefined("the inverse Gaussian fit needs intervals of different lengths".into()));
+        return Err(Error::Undefined(
+            "the inverse Gaussian fit needs intervals of different lengths".into(),
+        ));
     }
     let start = [mu, 1.0 / inv];
     let Some(c) = s.censored else { return Ok(start) };
@@ -80,5 +82,9 @@ pub(super) fn sample(p: &[f64; 2], rng: &mut McRng) -> f64 {
     let z: f64 = rand_distr::StandardNormal.sample(rng);
     let y = z * z;
     let x = m + m * m * y / (2.0 * l) - m / (2.0 * l) * (4.0 * m * l * y + m * m * y * y).sqrt();
-    if rng.random::<f64>() <= m / (m + x) { x } else { m * m / x }
+    if rng.random::<f64>() <= m / (m + x) {
+        x
+    } else {
+        m * m / x
+    }
 }

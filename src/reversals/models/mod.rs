@@ -33,7 +33,13 @@ pub enum Model {
 
 impl Model {
     /// All models, in report order.
-    pub const ALL: [Model; 5] = [Model::Exponential, Model::Gamma, Model::Weibull, Model::Lognormal, Model::InverseGaussian];
+    pub const ALL: [Model; 5] = [
+        Model::Exponential,
+        Model::Gamma,
+        Model::Weibull,
+        Model::Lognormal,
+        Model::InverseGaussian,
+    ];
 
     /// The contract name.
     pub fn name(self) -> &'static str {
@@ -71,7 +77,10 @@ impl Model {
             Model::InverseGaussian => inverse_gaussian::fit(s)?,
         };
         if !params[..self.n_params()].iter().all(|p| p.is_finite()) {
-            return Err(Error::Undefined(format!("the {} fit did not converge to finite parameters", self.name())));
+            return Err(Error::Undefined(format!(
+                "the {} fit did not converge to finite parameters",
+                self.name()
+            )));
         }
         Ok(Fitted { model: self, params })
     }
@@ -101,14 +110,26 @@ impl Sample {
             return Err(Error::Invalid(format!("interval length {x} is not a positive number of Myr")));
         }
         if complete.len() < 2 {
-            return Err(Error::TooFew { what: "a renewal-model fit", needed: 2, got: complete.len(), unit: "complete intervals" });
+            return Err(Error::TooFew {
+                what: "a renewal-model fit",
+                needed: 2,
+                got: complete.len(),
+                unit: "complete intervals",
+            });
         }
         complete.sort_by(f64::total_cmp);
         let sum_x = complete.iter().sum();
         let sum_ln = complete.iter().map(|x| x.ln()).sum();
         let sum_ln2 = complete.iter().map(|x| x.ln().powi(2)).sum();
         let sum_inv = complete.iter().map(|x| 1.0 / x).sum();
-        Ok(Sample { complete, censored, sum_x, sum_ln, sum_ln2, sum_inv })
+        Ok(Sample {
+            complete,
+            censored,
+            sum_x,
+            sum_ln,
+            sum_ln2,
+            sum_inv,
+        })
     }
 
     /// Number of complete intervals.
@@ -273,14 +294,16 @@ pub fn trigamma(mut x: f64) -> f64 {
 pub(crate) fn maximise2<F: Fn(f64, f64) -> f64>(ll: F, start: [f64; 2], what: &'static str) -> Result<[f64; 2]> {
     let mut best = start;
     let mut step = 0.1;
-    // Restart once from the optimum to guard against a collapsed simplex (common practice).
+    // Restart once from the optimum with a small simplex, to guard against a collapsed simplex
+    // (common practice with Nelder–Mead). Tolerances: 1e-11 in log-likelihood, 1e-7 in the
+    // (log) parameters, far below the statistical uncertainty of any fit.
     for _ in 0..2 {
-        let m = super::optimize::nelder_mead(|p| -ll(p[0], p[1]), &best, step, 1e-12, 1e-9, 4000);
+        let m = super::optimize::nelder_mead(|p| -ll(p[0], p[1]), &best, step, 1e-11, 1e-7, 4000);
         if !m.value.is_finite() {
             return Err(Error::Undefined(format!("the {what} likelihood is not finite near the data")));
         }
         best = [m.x[0], m.x[1]];
-        step = 0.02;
+        step = 1e-3;
     }
     Ok(best)
 }
