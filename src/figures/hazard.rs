@@ -79,7 +79,7 @@ impl Figure for HazardFigure {
             .collect();
         chart
             .draw_series(LineSeries::new(
-                vec![(self.elapsed, 0.0), (self.elapsed, ymax)],
+                vec![(self.elapsed, 0.0), (self.elapsed, ymax * 1.45)],
                 theme::INK.stroke_width(1),
             ))
             .map_err(de)?
