@@ -26,6 +26,21 @@
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
+//! | VGP confidence oval dp, dm; paleolatitude range | [`poles::pole_oval`], [`poles::paleolatitude_range`] |
+//! | uncertainty of an expected direction (ΔD, ΔI) | [`poles::expected_oval`] |
+//! | paleopole (Fisher mean of VGPs, K, A95) | [`poles::paleopole`], [`poles::northern`] |
+//! | VGP scatter S_B, within-site correction, cutoffs, bootstrap | [`poles::vgp_scatter`], [`poles::bootstrap_scatter`] |
+//! | VADM, VDM, dipole of Gauss coefficients | [`poles::vadm`], [`poles::vdm`], [`poles::gauss_dipole`] |
+//! | sites table (site means) | [`table::read_sites`] |
+//! | map of VGPs and paleopole | [`figures::PolePlot`] |
+//! | principal-component lines and planes, MAD, DANG (Kirschvink 1980) | [`demag::fit_line`], [`demag::fit_plane`], [`demag::fit_range`] |
+//! | automatic choice of a specimen's line segment | [`demag::auto_line`], [`demag::AutoRule`] |
+//! | steps and picks tables (stepwise demagnetization) | [`table::read_steps`], [`table::read_picks`] |
+//! | combined mean of lines and great circles (McFadden & McElhinny 1988) | [`stats::mixed_mean`] |
+//! | vector-endpoint diagram of a specimen | [`figures::VectorEndpointPlot`] |
+//! | polarity per level from VGP latitude | [`strat::read_levels`], [`strat::classify`] |
+//! | magnetozones with boundary uncertainties | [`strat::build_zones`], [`strat::read_zones`] |
+//! | correlation with a time scale (dynamic programming), age model, rates | [`strat::correlate`], [`strat::Candidate`] |
 //! | polarity intervals, short-chron merging, censored open chron | [`reversals::intervals`] |
 //! | renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian): censored MLE, CDF, hazard, sampler | [`reversals::Model`], [`reversals::Fitted`] |
 //! | AIC, BIC, Akaike weights, likelihood-ratio test | [`reversals::fit_models`] |
@@ -34,6 +49,11 @@
 //! | reversal rate through time, Laplace trend test, clustering test | [`reversals::windowed_rate`], [`reversals::laplace_test`], [`reversals::clustering_test`] |
 //! | interval-length, hazard and rate figures | [`figures::IntervalFigure`], [`figures::HazardFigure`], [`figures::RateFigure`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
+//! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
+//! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
+//! | synthetic section: levels, specimens, two-component demagnetization | [`simulate::simulate_section`] |
+//! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
+//! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -41,14 +61,17 @@
 //! - Fisher, N. I., Lewis, T. & Embleton, B. J. J. (1987), *Statistical Analysis of Spherical Data*. CUP.
 #![warn(missing_docs)]
 
+pub mod demag;
 pub mod error;
 pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
 pub mod poles;
+pub mod simulate;
 pub mod reversals;
 pub mod sphere;
 pub mod stats;
+pub mod strat;
 pub mod table;
 pub mod tolerance;
 

@@ -63,7 +63,11 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
     for g in &means {
         let s = &g.stats;
         let name = g.group.clone().unwrap_or_else(|| "(all)".into());
-        let alpha = if other {
+        let alpha = if other && g.planes > 0 {
+            // Combined mean of lines and great circles: N' = M + N/2 (McFadden & McElhinny 1988).
+            let n_eff = (s.n - g.planes) as f64 + g.planes as f64 / 2.0;
+            s.k.and_then(|k| lodestone::stats::mixed_cone(n_eff, s.r, k.0, a.confidence))
+        } else if other {
             s.mean.and_then(|_| lodestone::stats::confidence_cone(s.n, s.r, a.confidence))
         } else {
             s.alpha
@@ -83,12 +87,22 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
             "dec": jnum(s.mean.map(|m| m.dec)), "inc": jnum(s.mean.map(|m| m.inc)),
             "r": s.r, "k": jnum(s.k.map(|k| k.0)), "a95": jnum(s.alpha), "theta63": jnum(s.theta63),
             "lines": g.lines,
+            "planes": g.planes,
         });
         if other {
             j["alpha"] = jnum(alpha);
         }
         groups.push(j);
-        if s.n == 1 {
+        if let Some(why) = &g.undefined {
+            notes.push(format!("{name}: no combined mean of lines and great circles: {why}."));
+        } else if g.planes > 0 {
+            notes.push(format!(
+                "{name}: {} line(s) and {} great circle(s) combined (McFadden & McElhinny 1988); n counts both, k and a95 use N' = M + N/2.",
+                s.n - g.planes, g.planes));
+        }
+        if g.undefined.is_some() {
+            // Already explained by the note above.
+        } else if s.n == 1 {
             notes.push(format!("{name}: one direction only; k, a95 and theta63 need at least two directions."));
         } else if s.mean.is_none() {
             notes.push(format!("{name}: the resultant vanishes (R ≈ 0): the directions cancel out and have no mean."));

@@ -2,13 +2,20 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
-mod hazard;
-mod intervals;
+mod dipole;
+mod expected;
+mod components;
+mod column;
+mod correlate;
 mod io;
 mod mean;
+mod poles;
+mod hazard;
+mod intervals;
 mod rate;
 mod output;
 mod progress;
+mod simulate;
 
 use clap::{Args, Parser, Subcommand};
 pub use io::{write_atomic, write_figure, Inputs};
@@ -45,6 +52,20 @@ pub struct Cli {
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
+    /// Virtual geomagnetic pole per site, paleopole (K, A95) and VGP scatter S_B.
+    Poles(poles::PolesArgs),
+    /// Dipole moments: VADM, VDM, or moment, tilt and pole of Gauss coefficients.
+    Dipole(dipole::DipoleArgs),
+    /// Direction expected at a site (or every site of a table) from a given pole.
+    Expected(expected::ExpectedArgs),
+    /// Principal-component lines and planes per specimen from stepwise demagnetization (MAD, DANG).
+    Components(components::ComponentsArgs),
+    /// Polarity of each level from its VGP latitude, and the magnetozones with boundary intervals.
+    Column(column::ColumnArgs),
+    /// Rank correlations of a polarity column with a time scale; ties, age model, accumulation rates.
+    Correlate(correlate::CorrelateArgs),
+    /// Synthetic time scales and synthetic sampled sections (project folders) from a stated model.
+    Simulate(simulate::SimulateArgs),
     /// Renewal-model fits (exponential, gamma, Weibull, lognormal, inverse Gaussian) to polarity intervals.
     Intervals(intervals::IntervalsArgs),
     /// Hazard and P(reversal within a horizon | none so far) from the fitted models (not a forecast).
@@ -112,6 +133,13 @@ pub fn run() -> i32 {
 fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
     match verb {
         Verb::Mean(a) => mean::run(a, ctx),
+        Verb::Poles(a) => poles::run(a, ctx),
+        Verb::Dipole(a) => dipole::run(a, ctx),
+        Verb::Expected(a) => expected::run(a, ctx),
+        Verb::Components(a) => components::run(a, ctx),
+        Verb::Column(a) => column::run(a, ctx),
+        Verb::Correlate(a) => correlate::run(a, ctx),
+        Verb::Simulate(a) => simulate::run(a, ctx),
         Verb::Intervals(a) => intervals::run(a, ctx),
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),

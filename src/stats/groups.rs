@@ -21,14 +21,22 @@ pub struct GroupMean {
     pub group: Option<String>,
     /// File lines of the group's rows.
     pub lines: Vec<usize>,
-    /// The statistics.
+    /// The statistics (for a group with planes: the combined mean of lines and great circles in
+    /// Fisher's shape, see [`super::MixedStats::as_fisher`]).
     pub stats: FisherStats,
+    /// Number of planes (great circles, `kind = plane`) in the group; 0 means a plain Fisher mean.
+    pub planes: usize,
+    /// Why a group with planes has no combined mean (e.g. a single great circle and no line), when it
+    /// has none; its statistics are then empty (`mean`, `k`, `alpha`, `theta63` all `None`).
+    pub undefined: Option<String>,
 }
 
 /// Fisher mean per group, groups in order of first appearance.
 ///
 /// Rows without a group value form their own group (`None`). In the tilt frame every row must carry
-/// bedding; the error names the first row that does not.
+/// bedding; the error names the first row that does not. A group holding rows with `kind = plane`
+/// uses the combined mean of lines and great circles ([`super::mixed_mean`], McFadden & McElhinny
+/// 1988); a group without planes is exactly Fisher.
 pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<Vec<GroupMean>> {
     let mut order: Vec<Option<String>> = Vec::new();
     let mut members: Vec<Vec<usize>> = Vec::new();
@@ -44,7 +52,9 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
     let mut out = Vec::with_capacity(order.len());
     for (group, idx) in order.into_iter().zip(members) {
         let mut vectors = Vec::with_capacity(idx.len());
+        let mut is_plane = Vec::with_capacity(idx.len());
         for &i in &idx {
+            is_plane.push(set.records[i].kind == crate::table::DirectionKind::Plane);
             let r = &set.records[i];
             let v = r.direction.to_vector();
             vectors.push(match frame {
@@ -62,8 +72,25 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
                 },
             });
         }
-        let stats = fisher_from_vectors(vectors, confidence)?;
-        out.push(GroupMean { group, lines: idx.iter().map(|&i| set.records[i].line).collect(), stats });
+        let planes = is_plane.iter().filter(|p| **p).count();
+        let mut undefined = None;
+        let stats = if planes == 0 {
+            fisher_from_vectors(vectors, confidence)?
+        } else {
+            let dir = |v: &crate::sphere::Vec3| crate::sphere::Direction::from_vector(*v).expect("unit vector");
+            let lines: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| !**p).map(|(v, _)| dir(v)).collect();
+            let poles: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| **p).map(|(v, _)| dir(v)).collect();
+            match super::mixed_mean(&lines, &poles, confidence) {
+                Ok(m) => m.as_fisher(),
+                Err(Error::OutOfRange { .. }) => return Err(Error::OutOfRange { name: "confidence", value: confidence, range: "(0, 1)" }),
+                Err(e) => {
+                    undefined = Some(e.to_string());
+                    let r = vectors.iter().fold(crate::sphere::Vec3::ZERO, |a, b| a + *b).norm();
+                    FisherStats { n: vectors.len(), mean: None, r, k: None, alpha: None, confidence, theta63: None }
+                }
+            }
+        };
+        out.push(GroupMean { group, lines: idx.iter().map(|&i| set.records[i].line).collect(), stats, planes, undefined });
     }
     Ok(out)
 }

@@ -1,12 +1,15 @@
-//! Statistics of directions: Fisher means and cones, orientation matrices, Fisher sampling.
+//! Statistics of directions: Fisher means and cones, orientation matrices, Fisher sampling, and the
+//! combined mean of lines and great circles.
 
 mod fisher;
 mod groups;
+mod mixed;
 mod orientation;
 mod sampler;
 
 pub use fisher::{confidence_cone, fisher_from_vectors, fisher_mean, FisherAccumulator, FisherStats, Precision};
 pub use groups::{group_means, Frame, GroupMean};
+pub use mixed::{mixed_cone, mixed_mean, MixedStats};
 pub use orientation::{orientation_matrix, principal_axes};
 pub use sampler::FisherSampler;
 

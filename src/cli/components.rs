@@ -1,0 +1,305 @@
+//! `lodestone components`: principal-component fits per specimen from a steps table.
+
+use super::{jnum, Cell, Ctx, Report, Section};
+use anyhow::{bail, Context, Result};
+use clap::Args;
+use lodestone::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind, SpecimenFit};
+use lodestone::figures::VectorEndpointPlot;
+use lodestone::table::{read_picks, read_steps, SpecimenSteps, StepSet, Table, Treatment};
+use serde_json::json;
+use std::path::{Path, PathBuf};
+
+#[derive(Debug, Args)]
+pub struct ComponentsArgs {
+    /// Steps table (CSV with specimen, step, dec, inc, moment; optional treatment, site, height/depth, bedding).
+    pub steps: PathBuf,
+    /// Picks table (specimen, from, to; optional kind, anchor): the fit range of each specimen.
+    #[arg(long, conflicts_with_all = ["from", "auto"])]
+    pub picks: Option<PathBuf>,
+    /// First step of the range fitted for every specimen (with --to).
+    #[arg(long, requires = "to", allow_negative_numbers = true, required_unless_present_any = ["picks", "auto"])]
+    pub from: Option<f64>,
+    /// Last step of the range fitted for every specimen (with --from).
+    #[arg(long, requires = "from", allow_negative_numbers = true)]
+    pub to: Option<f64>,
+    /// What --from/--to fits: a line or a plane (great circle).
+    #[arg(long, value_enum, default_value_t = KindArg::Line, conflicts_with = "picks")]
+    pub kind: KindArg,
+    /// Constrain fits through the origin (steps are not centred). With --picks, the table's anchor column decides.
+    #[arg(long, conflicts_with = "picks")]
+    pub anchor: bool,
+    /// Choose each specimen's line segment automatically (see --min-steps, --max-mad, --max-dang).
+    #[arg(long, conflicts_with = "from")]
+    pub auto: bool,
+    /// Automatic rule: fewest consecutive steps in a segment.
+    #[arg(long, default_value_t = 3, requires = "auto")]
+    pub min_steps: usize,
+    /// Automatic rule: largest accepted MAD, degrees.
+    #[arg(long, default_value_t = 5.0, requires = "auto")]
+    pub max_mad: f64,
+    /// Automatic rule: largest accepted DANG, degrees.
+    #[arg(long, default_value_t = 10.0, requires = "auto")]
+    pub max_dang: f64,
+    /// Write one figure per specimen into this folder (created if missing).
+    #[arg(long)]
+    pub plot: Option<PathBuf>,
+    /// Figure format for --plot.
+    #[arg(long, value_enum, default_value_t = PlotFormat::Svg)]
+    pub plot_format: PlotFormat,
+}
+
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum KindArg {
+    Line,
+    Plane,
+}
+
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum PlotFormat {
+    Svg,
+    Png,
+}
+
+/// A file name made from a specimen name: letters, digits, `.`, `-`, `_` kept; anything else `_`.
+fn sanitise(name: &str) -> String {
+    let s: String = name
+        .chars()
+        .map(|c| {
+            if c.is_ascii_alphanumeric() || "-_.".contains(c) {
+                c
+            } else {
+                '_'
+            }
+        })
+        .collect();
+    let s = s.trim_start_matches('.').to_string();
+    if s.is_empty() {
+        "specimen".into()
+    } else {
+        s
+    }
+}
+
+fn unit_of(sp: &SpecimenSteps) -> &'static str {
+    let count = |t: Treatment| sp.steps.iter().filter(|s| s.treatment == Some(t)).count();
+    let (af, th) = (count(Treatment::Af), count(Treatment::Thermal));
+    if af == 0 && th == 0 {
+        ""
+    } else if af >= th {
+        Treatment::Af.unit()
+    } else {
+        Treatment::Thermal.unit()
+    }
+}
+
+pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
+    if a.auto && (a.min_steps < 2 || !(a.max_mad >= 0.0) || !(a.max_dang >= 0.0)) {
+        bail!("--min-steps must be at least 2 and --max-mad, --max-dang non-negative");
+    }
+    ctx.inputs.add(&a.steps);
+    if let Some(p) = &a.picks {
+        ctx.inputs.add(p);
+    }
+    let set: StepSet = read_steps(&Table::read(&a.steps)?)?;
+    let anchor = if a.anchor {
+        Anchor::Origin
+    } else {
+        Anchor::Free
+    };
+    let mut fits: Vec<SpecimenFit> = Vec::new();
+    let mut unfitted: Vec<(String, String)> = Vec::new();
+    let mut notes = Vec::new();
+    let mut rule_json = serde_json::Value::Null;
+    let method;
+    if let Some(pp) = &a.picks {
+        method = "picks";
+        let pt = Table::read(pp)?;
+        let picks = read_picks(&pt, &set)?;
+        for p in &picks {
+            let sp = set.get(&p.specimen).expect("checked by read_picks");
+            let f = fit_range(sp, p.from, p.to, p.kind, p.anchor)
+                .map_err(|e| pt.error(p.line, Some("from"), e.to_string()))?;
+            fits.push(f);
+        }
+        for sp in &set.specimens {
+            if !picks.iter().any(|p| p.specimen == sp.specimen) {
+                unfitted.push((sp.specimen.clone(), format!("no pick in {}", pp.display())));
+            }
+        }
+    } else if a.auto {
+        method = "auto";
+        let rule = AutoRule {
+            min_steps: a.min_steps,
+            max_mad: a.max_mad,
+            max_dang: a.max_dang,
+            anchor,
+        };
+        notes.push(format!(
+            "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
+             among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
+            rule.min_steps, anchor.as_str(), rule.max_mad, rule.max_dang));
+        rule_json = json!({"min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
+        for sp in &set.specimens {
+            match auto_line(sp, &rule) {
+                AutoOutcome::Fitted(f) => fits.push(f),
+                AutoOutcome::Unfitted(why) => unfitted.push((sp.specimen.clone(), why)),
+            }
+        }
+    } else {
+        method = "range";
+        let (from, to) = (a.from.expect("clap"), a.to.expect("clap"));
+        if from > to {
+            bail!("--from {from} is above --to {to}");
+        }
+        let kind = match a.kind {
+            KindArg::Line => FitKind::Line,
+            KindArg::Plane => FitKind::Plane,
+        };
+        for sp in &set.specimens {
+            match fit_range(sp, from, to, kind, anchor) {
+                Ok(f) => fits.push(f),
+                Err(e) => unfitted.push((
+                    sp.specimen.clone(),
+                    e.to_string()
+                        .trim_start_matches(&format!("specimen {}: ", sp.specimen))
+                        .to_string(),
+                )),
+            }
+        }
+    }
+    let axis = set.axis;
+    let mut columns = vec![
+        "specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang",
+    ];
+    if let Some(ax) = axis {
+        columns.push(ax.column());
+    }
+    if set.has_bedding {
+        columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
+    }
+    let mut sec = Section::new(
+        &format!(
+            "Principal components of {} ({} fits)",
+            a.steps.display(),
+            method
+        ),
+        &columns,
+    );
+    let mut fits_json = Vec::new();
+    for f in &fits {
+        let sp = set.get(&f.specimen).expect("fitted specimen exists");
+        let mut row = vec![
+            Cell::Text(f.specimen.clone()),
+            Cell::opt_text(sp.site.as_deref()),
+            Cell::Text(f.kind.as_str().into()),
+            Cell::Text(f.anchor.as_str().into()),
+            Cell::Int(f.n_steps as i64),
+            Cell::Num(f.from, 1),
+            Cell::Num(f.to, 1),
+            Cell::Num(f.direction.dec, 1),
+            Cell::Num(f.direction.inc, 1),
+            Cell::Num(f.mad, 1),
+            Cell::opt(f.dang, 1),
+        ];
+        if axis.is_some() {
+            row.push(Cell::opt(sp.position, 2));
+        }
+        if set.has_bedding {
+            row.push(Cell::opt(sp.bedding.map(|b| b.dip_dir), 1));
+            row.push(Cell::opt(sp.bedding.map(|b| b.dip), 1));
+            row.push(Cell::Text(
+                if sp.bedding.is_some_and(|b| b.overturned) {
+                    "yes"
+                } else {
+                    "no"
+                }
+                .into(),
+            ));
+        }
+        sec.rows.push(row);
+        let mut j = json!({
+            "specimen": f.specimen, "site": sp.site, "kind": f.kind, "anchor": f.anchor, "n_steps": f.n_steps,
+            "from": f.from, "to": f.to, "dec": f.direction.dec, "inc": f.direction.inc, "mad": f.mad, "dang": jnum(f.dang),
+        });
+        if let Some(ax) = axis {
+            j[ax.column()] = jnum(sp.position);
+        }
+        fits_json.push(j);
+    }
+    let mut sections = vec![sec];
+    if !unfitted.is_empty() {
+        let mut u = Section::new("Specimens not fitted", &["specimen", "reason"]);
+        for (s, why) in &unfitted {
+            u.rows
+                .push(vec![Cell::Text(s.clone()), Cell::Text(why.clone())]);
+            notes.push(format!("{s}: not fitted: {why}."));
+        }
+        sections.push(u);
+    }
+    if fits
+        .iter()
+        .any(|f| f.kind == FitKind::Line && f.anchor == Anchor::Free)
+    {
+        notes.push("Free lines point from the last step used toward the first (the component removed over the range); anchored lines point from the origin toward the steps.".into());
+    }
+    if fits.iter().any(|f| f.kind == FitKind::Plane) {
+        notes.push("For planes, dec and inc give the pole of the great circle; `lodestone mean` combines them with lines.".into());
+    }
+    if let Some(dir) = &a.plot {
+        write_plots(dir, &set, &fits, a.plot_format, ctx)?;
+    }
+    Ok(Report {
+        json: json!({
+            "file": a.steps.display().to_string(),
+            "method": method,
+            "rule": rule_json,
+            "fits": fits_json,
+            "unfitted": unfitted.iter().map(|(s, r)| json!({"specimen": s, "reason": r})).collect::<Vec<_>>(),
+            "notes": notes,
+        }),
+        sections,
+        csv_section: 0,
+        notes,
+    })
+}
+
+fn write_plots(
+    dir: &Path,
+    set: &StepSet,
+    fits: &[SpecimenFit],
+    format: PlotFormat,
+    ctx: &Ctx,
+) -> Result<()> {
+    if dir.exists() && !dir.is_dir() {
+        bail!("--plot {}: exists and is not a folder", dir.display());
+    }
+    std::fs::create_dir_all(dir)
+        .with_context(|| format!("cannot create the figure folder {}", dir.display()))?;
+    let ext = match format {
+        PlotFormat::Svg => "svg",
+        PlotFormat::Png => "png",
+    };
+    let mut used: Vec<String> = Vec::new();
+    for sp in &set.specimens {
+        let base = sanitise(&sp.specimen);
+        let mut name = base.clone();
+        let mut k = 2;
+        while used.contains(&name.to_lowercase()) {
+            name = format!("{base}-{k}");
+            k += 1;
+        }
+        used.push(name.to_lowercase());
+        let fig = VectorEndpointPlot {
+            specimen: sp.specimen.clone(),
+            unit: unit_of(sp).into(),
+            steps: sp.steps.iter().map(|s| (s.step, s.vector())).collect(),
+            fits: fits
+                .iter()
+                .filter(|f| f.specimen == sp.specimen)
+                .cloned()
+                .collect(),
+        };
+        super::write_figure(&fig, &dir.join(format!("{name}.{ext}")), &ctx.inputs)?;
+    }
+    Ok(())
+}

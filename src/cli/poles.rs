@@ -1,0 +1,226 @@
+//! `lodestone poles`: VGP per site, paleopole, VGP scatter.
+
+use super::{jnum, Cell, Ctx, Report, Section};
+use anyhow::{bail, Result};
+use clap::Args;
+use lodestone::figures::{MappedVgp, PolePlot};
+use lodestone::poles::{
+    bootstrap_scatter, northern, paleolatitude_range, paleopole, pole_oval, precision_from_a95, vgp, vgp_scatter,
+    within_site_sw, Cutoff, ScatterSite, WithinSite,
+};
+use lodestone::stats::confidence_cone;
+use lodestone::table::{read_sites, Table};
+use serde_json::json;
+use std::path::PathBuf;
+
+#[derive(Debug, Args)]
+pub struct PolesArgs {
+    /// Sites table (CSV with site, lat, lon, dec, inc; optional n, k, a95).
+    pub file: PathBuf,
+    /// Cutoff before the scatter: none, 45 (fixed angle about the mean pole; any angle is accepted) or vandamme.
+    #[arg(long, default_value = "none")]
+    pub cutoff: String,
+    /// Map VGPs of the southern hemisphere to their antipodes before averaging.
+    #[arg(long)]
+    pub northern: bool,
+    /// Require dp and dm for every site: a site without a95 (or n and k) is an error.
+    #[arg(long)]
+    pub ovals: bool,
+    /// Bootstrap resamples for the interval on the scatter.
+    #[arg(long, default_value_t = 1000)]
+    pub resamples: usize,
+    /// Write a map of the VGPs and the paleopole (.svg or .png).
+    #[arg(long)]
+    pub plot: Option<PathBuf>,
+}
+
+fn parse_cutoff(s: &str) -> Result<Cutoff> {
+    match s.trim().to_lowercase().as_str() {
+        "none" => Ok(Cutoff::None),
+        "vandamme" => Ok(Cutoff::Vandamme),
+        other => match other.parse::<f64>() {
+            Ok(a) if a > 0.0 && a <= 180.0 => Ok(Cutoff::Fixed(a)),
+            _ => bail!("--cutoff must be none, vandamme or an angle in (0, 180] such as 45; got '{s}'"),
+        },
+    }
+}
+
+pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
+    let cutoff = parse_cutoff(&a.cutoff)?;
+    ctx.inputs.add(&a.file);
+    let table = Table::read(&a.file)?;
+    let set = read_sites(&table)?;
+    let fname = a.file.display().to_string();
+    let mut notes = Vec::new();
+
+    let mut sites_sec = Section::new(
+        &format!("Virtual geomagnetic poles of {fname}"),
+        &["site", "lat", "lon", "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "paleolat_low", "paleolat_high"],
+    );
+    let mut sites_json = Vec::new();
+    let mut averaged = Vec::new();
+    let mut scatter_sites = Vec::new();
+    let mut flipped_flags = Vec::new();
+    let (mut n_south, mut missing_oval, mut missing_within) = (0usize, Vec::new(), 0usize);
+    for r in &set.records {
+        let v = vgp(r.location, r.direction);
+        // α95 as given, else from n and k through Fisher's cone.
+        let a95 = r.a95.or_else(|| match (r.n, r.k) {
+            (Some(n), Some(k)) if n >= 2 => confidence_cone(n, n as f64 - (n as f64 - 1.0) / k, 0.95),
+            _ => None,
+        });
+        if a95.is_none() {
+            if a.ovals {
+                bail!("{}:{}: column 'a95': is missing; dp and dm need the site's a95 (or its n and k)", fname, r.line);
+            }
+            missing_oval.push(r.site.clone());
+        }
+        let oval = a95.map(|x| pole_oval(v.colatitude, x)).transpose()?;
+        let range = a95.map(|x| paleolatitude_range(r.direction.inc, x)).transpose()?;
+        if v.pole.lat < 0.0 {
+            n_south += 1;
+        }
+        let (aligned, flipped) = northern(v.pole);
+        averaged.push(if a.northern { aligned } else { v.pole });
+        flipped_flags.push(a.northern && flipped);
+        // Within-site dispersion needs n and k (k from a95 when only a95 is given).
+        let k = match (r.k, r.n, r.a95) {
+            (Some(k), _, _) => Some(k),
+            (None, Some(n), Some(x)) if n >= 2 => Some(precision_from_a95(n, x)?),
+            _ => None,
+        };
+        let within = match (r.n, k) {
+            (Some(n), Some(k)) => Some(WithinSite { n, sw: within_site_sw(k, v.paleolat) }),
+            _ => {
+                missing_within += 1;
+                None
+            }
+        };
+        scatter_sites.push(ScatterSite { pole: aligned, within });
+        sites_sec.rows.push(vec![
+            Cell::Text(r.site.clone()),
+            Cell::Num(r.location.lat, 2),
+            Cell::Num(r.location.lon, 2),
+            Cell::Num(r.direction.dec, 1),
+            Cell::Num(r.direction.inc, 1),
+            Cell::Num(v.pole.lat, 1),
+            Cell::Num(v.pole.lon, 1),
+            Cell::opt(oval.map(|o| o.dp), 1),
+            Cell::opt(oval.map(|o| o.dm), 1),
+            Cell::Num(v.paleolat, 1),
+            Cell::opt(range.map(|x| x.low), 1),
+            Cell::opt(range.map(|x| x.high), 1),
+        ]);
+        sites_json.push(json!({
+            "site": r.site, "line": r.line, "lat": r.location.lat, "lon": r.location.lon,
+            "dec": r.direction.dec, "inc": r.direction.inc,
+            "plat": v.pole.lat, "plon": v.pole.lon,
+            "dp": jnum(oval.map(|o| o.dp)), "dm": jnum(oval.map(|o| o.dm)), "a95": jnum(a95),
+            "paleolat": v.paleolat, "paleolat_low": jnum(range.map(|x| x.low)), "paleolat_high": jnum(range.map(|x| x.high)),
+            "colatitude": v.colatitude,
+        }));
+    }
+
+    let pp = paleopole(&averaged)?;
+    let mut pole_sec = Section::new("Paleopole (Fisher mean of the VGPs)", &["n", "plat", "plon", "k", "a95"]);
+    pole_sec.rows.push(vec![Cell::Int(pp.n as i64), Cell::Num(pp.pole.lat, 1), Cell::Num(pp.pole.lon, 1), Cell::Num(pp.k.0, 1), Cell::opt(pp.a95, 1)]);
+
+    let sc = vgp_scatter(&scatter_sites, cutoff)?;
+    let kept: Vec<ScatterSite> = scatter_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
+    let boot = bootstrap_scatter(&kept, 0.95, &ctx.monte_carlo(a.resamples))?;
+    let cut_name = match cutoff {
+        Cutoff::None => "none".to_string(),
+        Cutoff::Fixed(x) => format!("{x}"),
+        Cutoff::Vandamme => "vandamme".to_string(),
+    };
+    let mut sc_sec = Section::new(
+        "VGP scatter about the mean pole (polarity-aligned VGPs)",
+        &["cutoff", "s", "s_low", "s_high", "s_total", "n_used", "n_removed", "threshold"],
+    );
+    sc_sec.rows.push(vec![
+        Cell::Text(cut_name.clone()),
+        Cell::opt(sc.s, 2),
+        Cell::Num(boot.low, 2),
+        Cell::Num(boot.high, 2),
+        Cell::Num(sc.s_total, 2),
+        Cell::Int(sc.n_used as i64),
+        Cell::Int(sc.n_removed as i64),
+        Cell::opt(sc.threshold, 1),
+    ]);
+    let removed: Vec<&str> = set.records.iter().zip(&sc.kept).filter(|(_, k)| !**k).map(|(r, _)| r.site.as_str()).collect();
+    for (j, keep) in sites_json.iter_mut().zip(&sc.kept) {
+        j["kept"] = json!(keep);
+    }
+
+    if n_south > 0 {
+        notes.push(if a.northern {
+            format!("{n_south} VGP(s) in the southern hemisphere were mapped to their antipodes before averaging (--northern).")
+        } else {
+            format!("{n_south} VGP(s) lie in the southern hemisphere (reversed polarity, reported as computed); add --northern to average all VGPs in one polarity.")
+        });
+    }
+    if !a.northern && n_south > 0 && n_south < set.records.len() {
+        notes.push("The paleopole averages VGPs of both hemispheres as given; with mixed polarity it is not meaningful without --northern.".into());
+    }
+    notes.push("VGPs and the paleopole rest on a model: a geocentric dipole field at each site, averaged over enough time for secular variation to cancel; the paleopole uses every site (the cutoff applies to the scatter only).".into());
+    if !missing_oval.is_empty() {
+        notes.push(format!("dp, dm and the paleolatitude range are empty for {} site(s) without a95 (or n and k): {}.", missing_oval.len(), missing_oval.join(", ")));
+    }
+    notes.push(format!(
+        "Scatter: VGPs in the southern hemisphere are mapped to the north for the scatter; cutoff {cut_name} removed {} of {} site(s){}.",
+        sc.n_removed,
+        set.records.len(),
+        if removed.is_empty() { String::new() } else { format!(" ({})", removed.join(", ")) }
+    ));
+    match (sc.within_term, sc.s) {
+        (None, _) => notes.push(format!(
+            "No within-site correction: {missing_within} site(s) lack n and k (or n and a95); s equals s_total."
+        )),
+        (Some(_), None) => notes.push("The within-site term exceeds the total scatter: S_B is undefined (the sites are too dispersed internally for this estimate).".into()),
+        _ => {}
+    }
+    if boot.n_negative > 0 {
+        notes.push(format!("{} of {} bootstrap resamples had a negative S_B² and count as 0.", boot.n_negative, boot.resamples));
+    }
+    notes.push(format!(
+        "The scatter interval is a seeded bootstrap over sites (seed {}, {} resamples, 95 % percentile); it depends on the cutoff and on how sites were chosen, and is a statement about this sample, not about the field itself.",
+        ctx.global.seed, a.resamples
+    ));
+
+    if let Some(path) = &a.plot {
+        let fig = PolePlot {
+            title: format!("VGPs — {}", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()),
+            centre: pp.pole,
+            vgps: averaged
+                .iter()
+                .zip(&sc.kept)
+                .zip(&flipped_flags)
+                .map(|((p, k), f)| MappedVgp { pole: *p, kept: *k, flipped: *f })
+                .collect(),
+            mean: Some((pp.pole, pp.a95)),
+            cutoff: if a.northern || n_south == 0 { sc.threshold.map(|t| (sc.mean_pole, t)) } else { None },
+        };
+        super::write_figure(&fig, path, &ctx.inputs)?;
+    }
+
+    Ok(Report {
+        json: json!({
+            "file": fname,
+            "northern": a.northern,
+            "sites": sites_json,
+            "pole": { "n": pp.n, "plat": pp.pole.lat, "plon": pp.pole.lon, "r": pp.r, "k": jnum(Some(pp.k.0)), "a95": jnum(pp.a95) },
+            "scatter": {
+                "cutoff": cut_name, "s": jnum(sc.s), "s_low": boot.low, "s_high": boot.high,
+                "s_total": sc.s_total, "within_term": jnum(sc.within_term),
+                "n_used": sc.n_used, "n_removed": sc.n_removed, "removed": removed,
+                "threshold": jnum(sc.threshold),
+                "mean_pole": { "plat": sc.mean_pole.lat, "plon": sc.mean_pole.lon },
+                "resamples": boot.resamples, "seed": ctx.global.seed, "polarity_aligned": true,
+            },
+            "notes": notes,
+        }),
+        sections: vec![sites_sec, pole_sec, sc_sec],
+        csv_section: 0,
+        notes,
+    })
+}

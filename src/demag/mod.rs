@@ -1,0 +1,13 @@
+//! Demagnetization analysis: principal-component fits of lines and planes over chosen ranges of
+//! steps, and an automatic, reproducible choice of the line segment.
+
+mod auto;
+mod pca;
+mod ranges;
+
+pub use auto::{auto_line, AutoOutcome, AutoRule};
+pub use pca::{fit_line, fit_plane, Anchor, FitKind, LineFit, PlaneFit};
+pub use ranges::{fit_range, steps_in_range, SpecimenFit};
+
+#[cfg(test)]
+mod tests;

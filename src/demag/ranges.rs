@@ -1,0 +1,108 @@
+//! Fitting a chosen range of steps of one specimen.
+
+use super::pca::{fit_line, fit_plane, Anchor, FitKind};
+use crate::error::{Error, Result};
+use crate::sphere::Direction;
+use crate::table::SpecimenSteps;
+
+/// Relative tolerance when matching a step value against a range end (step values are read from
+/// text, e.g. 12.5 mT, and compared with range ends typed by people).
+const STEP_MATCH: f64 = 1e-9;
+
+/// Indices of the steps whose value lies in `[from, to]` (inclusive, with a tiny tolerance).
+pub fn steps_in_range(sp: &SpecimenSteps, from: f64, to: f64) -> Vec<usize> {
+    let tol = STEP_MATCH * from.abs().max(to.abs()).max(1.0);
+    sp.steps
+        .iter()
+        .enumerate()
+        .filter(|(_, s)| s.step >= from - tol && s.step <= to + tol)
+        .map(|(i, _)| i)
+        .collect()
+}
+
+/// One fit of one specimen, ready for a directions table.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct SpecimenFit {
+    /// Specimen name.
+    pub specimen: String,
+    /// Line or plane.
+    pub kind: FitKind,
+    /// Free or anchored to the origin.
+    pub anchor: Anchor,
+    /// Number of steps used.
+    pub n_steps: usize,
+    /// First step used.
+    pub from: f64,
+    /// Last step used.
+    pub to: f64,
+    /// Index of the first step used in the specimen's step list.
+    pub first: usize,
+    /// Index of the last step used.
+    pub last: usize,
+    /// The line direction, or the pole of the plane.
+    pub direction: Direction,
+    /// Maximum angular deviation, degrees.
+    pub mad: f64,
+    /// DANG, degrees (lines only).
+    pub dang: Option<f64>,
+}
+
+/// Fit a line or plane to the steps of `sp` within `[from, to]`.
+///
+/// The steps used must be consecutive in the specimen's list (they are, since the list is sorted).
+/// Errors: too few steps in the range (2 for a line, 3 for a plane), or a degenerate geometry.
+pub fn fit_range(
+    sp: &SpecimenSteps,
+    from: f64,
+    to: f64,
+    kind: FitKind,
+    anchor: Anchor,
+) -> Result<SpecimenFit> {
+    let idx = steps_in_range(sp, from, to);
+    if idx.len() < kind.min_steps() {
+        return Err(Error::Invalid(format!(
+            "specimen {}: the range {from} to {to} holds {} step(s); a {} needs at least {}",
+            sp.specimen,
+            idx.len(),
+            kind.as_str(),
+            kind.min_steps()
+        )));
+    }
+    let (first, last) = (idx[0], idx[idx.len() - 1]);
+    fit_indices(sp, first, last, kind, anchor)
+}
+
+/// Fit the steps `first..=last` (indices into the specimen's list).
+pub(crate) fn fit_indices(
+    sp: &SpecimenSteps,
+    first: usize,
+    last: usize,
+    kind: FitKind,
+    anchor: Anchor,
+) -> Result<SpecimenFit> {
+    let pts: Vec<_> = sp.steps[first..=last].iter().map(|s| s.vector()).collect();
+    let wrap = |e: Error| Error::Invalid(format!("specimen {}: {e}", sp.specimen));
+    let (direction, mad, dang) = match kind {
+        FitKind::Line => {
+            let f = fit_line(&pts, anchor).map_err(wrap)?;
+            (f.direction, f.mad, Some(f.dang).filter(|d| d.is_finite()))
+        }
+        FitKind::Plane => {
+            let f = fit_plane(&pts, anchor).map_err(wrap)?;
+            (f.pole, f.mad, None)
+        }
+    };
+    Ok(SpecimenFit {
+        specimen: sp.specimen.clone(),
+        kind,
+        anchor,
+        n_steps: last - first + 1,
+        from: sp.steps[first].step,
+        to: sp.steps[last].step,
+        first,
+        last,
+        direction,
+        mad,
+        dang,
+    })
+}
