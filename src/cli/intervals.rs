@@ -65,7 +65,7 @@ pub fn record_notes(rec: &IntervalRecord, file: &Path) -> Vec<String> {
     }
     if rec.left_out > 0 {
         n.push(format!(
-            "{} intervals cut by the window edges were left out (their full length is unknown).",
+            "{} intervals cut by the window edges or ending at the old end of the scale were left out (their full length is unknown).",
             rec.left_out
         ));
     }
