@@ -153,6 +153,7 @@ fn report_holds_every_figure_and_table_and_loads_in_a_browser_if_one_is_installe
     }
     // The cautions travel into the report.
     assert!(html.contains("not proof of the correlation") && html.contains("not proof of when the rocks were magnetized"));
+    assert!(html.contains("not a forecast") && html.contains("id=\"table-hazard\""), "the hazard stage and its caution are in the report");
     // A refused second run into the same non-empty folder.
     let o = cmd().args(["demo", "--out", out.to_str().unwrap(), "--quiet"]).output().unwrap();
     assert_eq!(o.status.code(), Some(1));

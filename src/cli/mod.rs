@@ -11,6 +11,9 @@ mod demo;
 mod io;
 mod mean;
 mod poles;
+mod hazard;
+mod intervals;
+mod rate;
 mod output;
 mod progress;
 mod section;
@@ -72,6 +75,12 @@ enum Verb {
     Section(section::SectionArgs),
     /// Run `section` on the embedded invented demo section.
     Demo(demo::DemoArgs),
+    /// Renewal-model fits (exponential, gamma, Weibull, lognormal, inverse Gaussian) to polarity intervals.
+    Intervals(intervals::IntervalsArgs),
+    /// Hazard and P(reversal within a horizon | none so far) from the fitted models (not a forecast).
+    Hazard(hazard::HazardArgs),
+    /// Reversal rate through time, Laplace trend test and clustering test.
+    Rate(rate::RateArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -143,5 +152,8 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Test(a) => test::run(a, ctx),
         Verb::Section(a) => section::run_cli(a, ctx),
         Verb::Demo(a) => demo::run(a, ctx),
+        Verb::Intervals(a) => intervals::run(a, ctx),
+        Verb::Hazard(a) => hazard::run(a, ctx),
+        Verb::Rate(a) => rate::run(a, ctx),
     }
 }

@@ -1,6 +1,6 @@
 //! The whole chain on one project folder: component fits → site means → field tests → VGPs,
 //! paleopole and scatter → polarity column and magnetozones → correlation with a time scale → age
-//! model, written as CSV tables, SVG and PNG figures and one self-contained HTML report.
+//! model → reversal statistics of the time scale's span (renewal fits, hazard), written as CSV tables, SVG and PNG figures and one self-contained HTML report.
 //!
 //! [`run`] takes the folder's files as bytes (no paths, no printing) and returns every output in a
 //! [`SectionRun`]; the same inputs give byte-identical outputs (no clocks, no absolute paths, sorted
@@ -13,10 +13,12 @@
 
 mod pipeline;
 mod report_html;
+mod reversal_stats;
 mod settings;
 mod tables;
 
-pub use pipeline::{run, Stage};
+pub use pipeline::{run, Stage, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
+pub use reversal_stats::HAZARD_HORIZON;
 pub use report_html::report_html;
 pub use settings::{SectionSettings, KNOWN_KEYS};
 pub use tables::CsvTable;

@@ -45,7 +45,7 @@ pub struct Stage {
 }
 
 impl Stage {
-    fn new(name: &str) -> Self {
+    pub(super) fn new(name: &str) -> Self {
         Stage { name: name.into(), ran: true, method: String::new(), result: String::new(), tables: vec![], figures: vec![] }
     }
 }
@@ -563,6 +563,17 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
         stages[i].figures.push("column".into());
     }
     stages.push(stage);
+
+    // ---- Reversal statistics of the time scale's span
+    if let Some(tf) = &p.timescale {
+        on_stage("reversal statistics");
+        let ts = TimeScale::from_table(&parse(tf)?)?;
+        let r = super::reversal_stats::reversal_statistics(&tf.name, &ts);
+        warnings.extend(r.warnings);
+        cautions.extend(r.cautions);
+        tables.extend(r.tables);
+        stages.push(r.stage);
+    }
 
     // ---- Rejections
     let mut jt = CsvTable::new("rejected", "Specimens and sites rejected, with the reason", &["what", "name", "stage", "reason"]);

@@ -29,3 +29,22 @@ fn missing_site_in_sampling_is_an_error_naming_the_line() {
     let e = run(&p, &Silent, &mut |_| {}).unwrap_err().to_string();
     assert!(e.contains("steps.csv:2") && e.contains("'S9' is not in sampling.csv"), "{e}");
 }
+
+#[test]
+fn exponential_fit_of_the_stage_is_the_censored_maximum_likelihood_rate() {
+    // Time scale: open chron 0.3 Myr, complete intervals 0.2, 0.5, 0.1, 0.4, then the oldest chron cut
+    // by the end of the table (left out). For right-censored exponential data the maximum-likelihood
+    // rate is (number of complete intervals) / (total exposure including the censored length)
+    // (Lawless, Statistical Models and Methods for Lifetime Data, 2nd ed. 2003, §2.2; common practice).
+    let csv = "young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,1.0,N\n1.0,1.1,R\n1.1,1.5,N\n1.5,1.9,R\n";
+    let ts = crate::table::TimeScale::from_table(&crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap()).unwrap();
+    let r = reversal_stats::reversal_statistics("ts.csv", &ts);
+    assert!(r.stage.ran, "{:?}", r.warnings);
+    let fits = &r.tables[0];
+    let exp = fits.rows.iter().find(|row| row[0] == "exponential").unwrap();
+    let expected = 4.0 / (0.2 + 0.5 + 0.1 + 0.4 + 0.3);
+    assert_eq!(exp[1], format!("rate={:.4}", expected), "{exp:?}");
+    // The hazard cautions travel with the stage.
+    assert!(r.cautions.iter().any(|c| c.contains("not a forecast")));
+    assert!(r.tables.iter().any(|t| t.stem == "hazard"));
+}
