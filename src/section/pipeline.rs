@@ -120,7 +120,7 @@ fn read_sampling(f: &ProjectFile) -> Result<(StratAxis, Vec<SiteInfo>)> {
     Ok((axis, sites))
 }
 
-fn draw<F: Figure>(fig: &F, stem: &str, caption: String) -> Result<FigureOutput> {
+pub(super) fn draw<F: Figure>(fig: &F, stem: &str, caption: String) -> Result<FigureOutput> {
     let svg = String::from_utf8(render(fig, FigureFormat::Svg)?).map_err(|e| Error::Invalid(format!("figure {stem}: {e}")))?;
     let png = render(fig, FigureFormat::Png)?;
     Ok(FigureOutput { stem: stem.into(), caption, svg, png })
@@ -572,6 +572,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
         warnings.extend(r.warnings);
         cautions.extend(r.cautions);
         tables.extend(r.tables);
+        figures.extend(r.figures);
         stages.push(r.stage);
     }
 

@@ -17,6 +17,7 @@ pub(super) struct ReversalStats {
     pub tables: Vec<CsvTable>,
     pub warnings: Vec<String>,
     pub cautions: Vec<String>,
+    pub figures: Vec<super::FigureOutput>,
 }
 
 fn params(f: &crate::reversals::Fitted) -> String {
@@ -26,7 +27,7 @@ fn params(f: &crate::reversals::Fitted) -> String {
 /// Fit the renewal models to the time scale's intervals and evaluate the hazard.
 pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
     let mut stage = Stage::new("Reversal statistics of the time scale");
-    let mut out = ReversalStats { stage: Stage::new(""), tables: vec![], warnings: vec![], cautions: vec![] };
+    let mut out = ReversalStats { stage: Stage::new(""), tables: vec![], warnings: vec![], cautions: vec![], figures: vec![] };
     stage.method = format!(
         "Maximum-likelihood fits of five renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian) to the lengths of the polarity intervals of {name} over its whole span (adjacent chrons of one polarity joined; the open chron at the young end enters as a right-censored length; the interval cut by the old end is left out); Akaike weights compare the models. The hazard and P(reversal within {HAZARD_HORIZON} Myr | none so far) are evaluated at the open chron's present length. These statistics describe the time scale, not the sampled section."
     );
@@ -82,6 +83,14 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
                 stage.tables.push(ht.stem.clone());
                 out.tables.push(ht);
                 out.cautions.extend(CAUTIONS.iter().map(|s| s.to_string()));
+                let fig = crate::figures::HazardFigure::new(&fits, elapsed, name);
+                match super::pipeline::draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")) {
+                    Ok(f) => {
+                        stage.figures.push(f.stem.clone());
+                        out.figures.push(f);
+                    }
+                    Err(e) => out.warnings.push(format!("Hazard figure not drawn: {e}.")),
+                }
             }
             Err(e) => out.warnings.push(format!("Hazard skipped: {e}.")),
         }
