@@ -193,3 +193,31 @@ fn bad_project_folders_fail_with_exit_code_1_naming_the_problem() {
     assert!(e.contains("sampling.csv:2") && e.contains("'lat'"), "{e}");
     assert!(!d.path().join("o").exists(), "nothing is written on an error");
 }
+
+#[test]
+fn stages_that_cannot_run_are_skipped_with_warnings_not_failures() {
+    // Flat-lying beds (no bedding variation) and no time scale: the fold test, the correlation and the
+    // reversal statistics are skipped, the rest runs, the exit code is 0.
+    let d = tempfile::tempdir().unwrap();
+    let proj = d.path().join("flat");
+    let o = cmd()
+        .args(["simulate", "section", proj.to_str().unwrap(), "--seed", "3", "--base-age", "1.5", "--lat", "12", "--lon", "300"])
+        .args(["--spacing", "1.5", "--specimens", "2", "--quiet"])
+        .output()
+        .unwrap();
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    fs::remove_file(proj.join("timescale.csv")).unwrap();
+    fs::write(proj.join("settings.toml"), "resamples = 200\ncolour = \"blue\"\n").unwrap();
+    let out = d.path().join("o");
+    let j = section(&proj, &out, &[]);
+    let warnings: Vec<String> = serde_json::from_value(j["warnings"].clone()).unwrap();
+    let has = |s: &str| warnings.iter().any(|w| w.contains(s));
+    assert!(has("Fold test skipped"), "{warnings:?}");
+    assert!(has("no timescale.csv"), "{warnings:?}");
+    assert!(has("unknown key 'colour'"), "{warnings:?}");
+    let ran: Vec<bool> = j["stages"].as_array().unwrap().iter().map(|s| s["ran"].as_bool().unwrap()).collect();
+    assert!(ran[0] && ran[1] && !ran[ran.len() - 1], "{ran:?}");
+    assert!(out.join("tables/zones.csv").exists() && !out.join("tables/age-model.csv").exists());
+    let html = fs::read_to_string(out.join("report.html")).unwrap();
+    assert!(html.contains("Fold test skipped"));
+}
