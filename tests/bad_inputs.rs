@@ -338,3 +338,55 @@ fn timescale_catalogue() {
     assert_eq!(ts.chrons[1].line, 2);
     assert!(failures.is_empty(), "{}", failures.join("\n"));
 }
+
+/// Outputs: an input is never overwritten; an output folder that already holds files is used only
+/// with `--force`, which replaces figures of the same names and leaves every other file alone; a
+/// folder holding an input is refused even then.
+#[test]
+fn output_rules() {
+    let d = tempfile::tempdir().unwrap();
+    let p = d.path();
+    std::fs::write(p.join("st.csv"), STEPS).unwrap();
+    // A directions table that happens to carry a figure's extension.
+    std::fs::write(p.join("d.svg"), b"dec,inc\n10,20\n12,25\n").unwrap();
+    let run = |args: &[&str]| Command::cargo_bin("lodestone").unwrap().current_dir(p).args(args).output().unwrap();
+    let args = ["components", "st.csv", "--from", "0", "--to", "30", "--plot", "figs"];
+
+    // A figure path that is the input file: refused, input intact.
+    let o = run(&["mean", "d.svg", "--plot", "d.svg"]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("input"));
+    assert_eq!(std::fs::read(p.join("d.svg")).unwrap(), b"dec,inc\n10,20\n12,25\n");
+
+    // A new folder is created and filled.
+    assert!(run(&args).status.success());
+    assert!(p.join("figs/S1.svg").exists());
+    // Again, without --force: refused, the folder is untouched.
+    std::fs::write(p.join("figs/notes.txt"), "field notes").unwrap();
+    let first = std::fs::read(p.join("figs/S1.svg")).unwrap();
+    let o = run(&args);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("--force"));
+    // With --force: the figure is replaced (in PNG this time), other files stay.
+    let mut forced = args.to_vec();
+    forced.extend(["--force", "--plot-format", "png"]);
+    assert!(run(&forced).status.success());
+    assert_eq!(&std::fs::read(p.join("figs/S1.png")).unwrap()[1..4], b"PNG");
+    assert_eq!(std::fs::read(p.join("figs/S1.svg")).unwrap(), first);
+    assert_eq!(std::fs::read_to_string(p.join("figs/notes.txt")).unwrap(), "field notes");
+    // No temporary files are left in the folder.
+    let names = listing(&p.join("figs"));
+    assert_eq!(names, ["S1.png", "S1.svg", "notes.txt"].iter().map(|s| s.to_string()).collect());
+
+    // A folder holding the input: refused, with or without --force.
+    std::fs::create_dir(p.join("proj")).unwrap();
+    std::fs::write(p.join("proj/st.csv"), STEPS).unwrap();
+    for extra in [&[][..], &["--force"][..]] {
+        let mut a = vec!["components", "proj/st.csv", "--from", "0", "--to", "30", "--plot", "proj"];
+        a.extend_from_slice(extra);
+        let o = run(&a);
+        assert_eq!(o.status.code(), Some(1));
+        assert!(String::from_utf8_lossy(&o.stderr).contains("input"));
+        assert_eq!(listing(&p.join("proj")), ["st.csv".to_string()].into_iter().collect());
+    }
+}
