@@ -38,7 +38,20 @@
 //! | steps and picks tables (stepwise demagnetization) | [`table::read_steps`], [`table::read_picks`] |
 //! | combined mean of lines and great circles (McFadden & McElhinny 1988) | [`stats::mixed_mean`] |
 //! | vector-endpoint diagram of a specimen | [`figures::VectorEndpointPlot`] |
+//! | polarity per level from VGP latitude | [`strat::read_levels`], [`strat::classify`] |
+//! | magnetozones with boundary uncertainties | [`strat::build_zones`], [`strat::read_zones`] |
+//! | correlation with a time scale (dynamic programming), age model, rates | [`strat::correlate`], [`strat::Candidate`] |
+//! | reversal test (McFadden & McElhinny 1990; Watson V_w; bootstrap) | [`fieldtests::reversal_test`] |
+//! | common-mean test of two sets | [`fieldtests::compare_means`], [`fieldtests::mm90_critical_angle`] |
+//! | Watson's V_w with simulated critical value | [`fieldtests::watson_v`] |
+//! | bootstrap fold test (Tauxe & Watson 1994), precision ratio (McElhinny 1964) | [`fieldtests::fold_test`] |
+//! | randomness of directions, exact R₀ (Watson 1956) | [`fieldtests::randomness_test`], [`fieldtests::watson_r0`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
+//! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
+//! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
+//! | synthetic section: levels, specimens, two-component demagnetization | [`simulate::simulate_section`] |
+//! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
+//! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -48,12 +61,15 @@
 
 pub mod demag;
 pub mod error;
+pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
 pub mod poles;
+pub mod simulate;
 pub mod sphere;
 pub mod stats;
+pub mod strat;
 pub mod table;
 pub mod tolerance;
 

@@ -5,11 +5,15 @@
 mod dipole;
 mod expected;
 mod components;
+mod column;
+mod correlate;
 mod io;
 mod mean;
 mod poles;
 mod output;
 mod progress;
+mod simulate;
+mod test;
 
 use clap::{Args, Parser, Subcommand};
 #[allow(unused_imports)]
@@ -55,6 +59,14 @@ enum Verb {
     Expected(expected::ExpectedArgs),
     /// Principal-component lines and planes per specimen from stepwise demagnetization (MAD, DANG).
     Components(components::ComponentsArgs),
+    /// Polarity of each level from its VGP latitude, and the magnetozones with boundary intervals.
+    Column(column::ColumnArgs),
+    /// Rank correlations of a polarity column with a time scale; ties, age model, accumulation rates.
+    Correlate(correlate::CorrelateArgs),
+    /// Synthetic time scales and synthetic sampled sections (project folders) from a stated model.
+    Simulate(simulate::SimulateArgs),
+    /// Field tests: reversal, common-mean, fold, random.
+    Test(test::TestArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -120,5 +132,9 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Dipole(a) => dipole::run(a, ctx),
         Verb::Expected(a) => expected::run(a, ctx),
         Verb::Components(a) => components::run(a, ctx),
+        Verb::Column(a) => column::run(a, ctx),
+        Verb::Correlate(a) => correlate::run(a, ctx),
+        Verb::Simulate(a) => simulate::run(a, ctx),
+        Verb::Test(a) => test::run(a, ctx),
     }
 }

@@ -1,13 +1,17 @@
 //! Figures: an outer ring that only reads results. Each figure renders to SVG or PNG bytes with the
 //! embedded font, so figures come out the same on a machine with no fonts installed.
 
+mod column;
 mod equal_area;
 mod pole_plot;
+mod fold;
 mod render;
 mod vector_endpoint;
 pub mod theme;
 
+pub use column::{ColumnFigure, ScalePanel};
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
 pub use pole_plot::{pole_map_rim, pole_map_xy, MappedVgp, PolePlot};
+pub use fold::FoldPlot;
 pub use render::{de, register_fonts, render, Figure, FigureFormat};
 pub use vector_endpoint::{endpoint_projections, VectorEndpointPlot};

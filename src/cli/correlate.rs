@@ -1,0 +1,168 @@
+//! `lodestone correlate`: rank correlations of a polarity column with a time scale.
+
+use super::{jnum, Cell, Ctx, Report, Section};
+use anyhow::{bail, Context, Result};
+use clap::Args;
+use lodestone::figures::{ColumnFigure, ScalePanel};
+use lodestone::strat::{
+    comparison_sentence, correlate, read_levels, read_zones, zone_levels, Anchor, CorrelateOptions, LevelOptions,
+};
+use lodestone::table::{Table, TimeScale};
+use serde_json::json;
+use std::path::PathBuf;
+
+#[derive(Debug, Args)]
+pub struct CorrelateArgs {
+    /// The zones table printed by `column --format csv`, or a levels table (zoned with column's defaults).
+    pub zones: PathBuf,
+    /// Time scale table (young, old, polarity; optional name), e.g. records/timescales/chrons-0-6ma.csv.
+    pub timescale: PathBuf,
+    /// A dated bed, POSITION:AGE or POSITION:AGE:UNCERTAINTY (m, Ma, Myr); repeat for several.
+    #[arg(long = "anchor", value_name = "POS:AGE[:ERR]")]
+    pub anchors: Vec<String>,
+    /// Score added per chron missing from the column (hiatus or too short to be sampled).
+    #[arg(long, default_value_t = 2.0)]
+    pub miss_penalty: f64,
+    /// Score added once per run read as containing a hiatus.
+    #[arg(long, default_value_t = 6.0)]
+    pub hiatus_penalty: f64,
+    /// Score added per single-level zone left out of a correlation.
+    #[arg(long, default_value_t = 2.0)]
+    pub skip_penalty: f64,
+    /// Accepted spread of the natural log of the accumulation rate.
+    #[arg(long, default_value_t = 0.25)]
+    pub rate_spread: f64,
+    /// Number of ranked candidates to show.
+    #[arg(long, default_value_t = 5)]
+    pub candidates: usize,
+    /// VGP threshold when ZONES is a levels table.
+    #[arg(long, default_value_t = lodestone::strat::DEFAULT_THRESHOLD)]
+    pub threshold: f64,
+    /// Minimum levels of a confirmed zone when ZONES is a levels table.
+    #[arg(long, default_value_t = lodestone::strat::DEFAULT_MIN_LEVELS)]
+    pub min_levels: usize,
+    /// Figure of the column beside the time scale with the best candidate's ties (.svg or .png).
+    #[arg(long)]
+    pub plot: Option<PathBuf>,
+}
+
+fn parse_anchor(s: &str) -> Result<Anchor> {
+    let parts: Vec<&str> = s.split(':').collect();
+    let num = |x: &str, what: &str| -> Result<f64> {
+        let v: f64 = x.trim().parse().with_context(|| format!("--anchor {s}: {what} '{x}' is not a number"))?;
+        if !v.is_finite() {
+            bail!("--anchor {s}: {what} must be finite");
+        }
+        Ok(v)
+    };
+    let a = match parts.as_slice() {
+        [p, a] => Anchor { position: num(p, "position")?, age: num(a, "age")?, uncertainty: 0.0 },
+        [p, a, e] => Anchor { position: num(p, "position")?, age: num(a, "age")?, uncertainty: num(e, "uncertainty")? },
+        _ => bail!("--anchor {s}: expected POSITION:AGE or POSITION:AGE:UNCERTAINTY"),
+    };
+    if a.age < 0.0 || a.uncertainty < 0.0 {
+        bail!("--anchor {s}: age and uncertainty must not be negative");
+    }
+    Ok(a)
+}
+
+pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
+    let anchors = a.anchors.iter().map(|s| parse_anchor(s)).collect::<Result<Vec<_>>>()?;
+    if a.candidates == 0 {
+        bail!("--candidates must be at least 1");
+    }
+    ctx.inputs.add(&a.zones);
+    ctx.inputs.add(&a.timescale);
+    let zt = Table::read(&a.zones)?;
+    let ts = TimeScale::from_table(&Table::read(&a.timescale)?)?;
+    let mut notes = Vec::new();
+    let (col, levels) = if zt.col("n_levels").is_some() && zt.col("base_low").is_some() {
+        (read_zones(&zt)?, Vec::new())
+    } else {
+        let set = read_levels(&zt, LevelOptions::default())?;
+        notes.extend(set.notes.clone());
+        let (_, col) = zone_levels(&set, a.threshold, a.min_levels)?;
+        notes.push(format!("{} was read as a levels table and zoned with threshold {}° and min-levels {}.", a.zones.display(), a.threshold, a.min_levels));
+        (col, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect())
+    };
+    let opts = CorrelateOptions {
+        miss_penalty: a.miss_penalty,
+        hiatus_penalty: a.hiatus_penalty,
+        skip_penalty: a.skip_penalty,
+        rate_spread: a.rate_spread,
+        candidates: a.candidates,
+        anchors,
+    };
+    let res = correlate(&col, &ts, &opts)?;
+    let axis = col.axis.column();
+    let mut summary = Section::new(
+        &format!("Correlations of {} with {} (lower score is better)", a.zones.display(), a.timescale.display()),
+        &["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
+    );
+    let mut ties_sec = Section::new("Tie points of every candidate", &["rank", axis, "low", "high", "age", "chron_above", "chron_below"]);
+    let mut cands = Vec::new();
+    for c in &res.candidates {
+        let am = &c.age_model;
+        summary.rows.push(vec![
+            Cell::Int(c.rank as i64), Cell::Num(c.score, 2), Cell::Num(c.mean_rate, 2), Cell::Int(c.ties.len() as i64),
+            Cell::Int(c.missing_chrons as i64), Cell::Int(c.skipped_zones as i64),
+            Cell::Num(am[0].age, 3), Cell::Num(am[am.len() - 1].age, 3),
+        ]);
+        for t in &c.ties {
+            ties_sec.rows.push(vec![
+                Cell::Int(c.rank as i64), Cell::Num(t.position, 3), Cell::Num(t.low, 3), Cell::Num(t.high, 3), Cell::Num(t.age, 3),
+                Cell::Text(t.chron_above.clone()), Cell::Text(t.chron_below.clone()),
+            ]);
+        }
+        cands.push(json!({
+            "rank": c.rank, "score": c.score, "mean_rate": c.mean_rate, "rate_misfit": c.rate_misfit,
+            "missing_chrons": c.missing_chrons, "skipped_zones": c.skipped_zones,
+            "ties": c.ties.iter().map(|t| json!({axis: t.position, "low": t.low, "high": t.high, "age": t.age,
+                "chron_above": t.chron_above, "chron_below": t.chron_below})).collect::<Vec<_>>(),
+            "rates": c.runs.iter().map(|r| json!({"top": r.top, "base": r.base, "age_young": r.age_young, "age_old": r.age_old,
+                "rate": jnum(r.rate), "chrons": r.chrons, "missing": r.missing, "reading": r.reading,
+                "skipped_zones": r.skipped_zones, "section_end": r.end})).collect::<Vec<_>>(),
+            "age_model": c.age_model.iter().map(|p| json!({axis: p.position, "age": p.age})).collect::<Vec<_>>(),
+        }));
+    }
+    let best = &res.candidates[0];
+    let mut runs = Section::new("Age model of the best candidate: runs and accumulation rates (cm/kyr)", &["top", "base", "age_young", "age_old", "rate", "reading", "missing"]);
+    for r in &best.runs {
+        runs.rows.push(vec![
+            Cell::Num(r.top, 3), Cell::Num(r.base, 3), Cell::Num(r.age_young, 3), Cell::Num(r.age_old, 3), Cell::opt(r.rate, 2),
+            Cell::Text(format!("{:?}", r.reading).to_lowercase()), Cell::Text(r.missing.join(" ")),
+        ]);
+    }
+    let sentence = comparison_sentence(&res);
+    if res.candidates.len() < 5 {
+        notes.push(format!("Only {} distinct candidates fit this column and time scale.", res.candidates.len()));
+    }
+    notes.push(sentence.clone());
+    notes.push("End runs have no rate of their own: their ages are extrapolated at the candidate's mean rate. Rates between ties use boundary midpoints; each boundary may lie anywhere in its sampling gap.".into());
+    notes.push("Caution: the ranking is a statistical statement about a steady-rate model, not proof of the correlation. Independent age control (dated beds as --anchor, biostratigraphy), local practice and the published literature decide.".into());
+    if let Some(path) = &a.plot {
+        let (y0, y1) = best.age_model.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
+        let shown = ts.chrons.iter().filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05).cloned().collect();
+        let fig = ColumnFigure {
+            title: format!("{} against {}", a.zones.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
+                a.timescale.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()),
+            axis: col.axis,
+            zones: col.zones.clone(),
+            levels,
+            threshold: Some(a.threshold),
+            scale: Some(ScalePanel { chrons: shown, ties: best.ties.iter().map(|t| (t.position, t.age)).collect(), label: "candidate 1".into() }),
+        };
+        super::write_figure(&fig, path, &ctx.inputs)?;
+    }
+    Ok(Report {
+        json: json!({
+            "zones": a.zones.display().to_string(), "timescale": a.timescale.display().to_string(), "axis": axis,
+            "settings": {"miss_penalty": a.miss_penalty, "hiatus_penalty": a.hiatus_penalty, "skip_penalty": a.skip_penalty,
+                "rate_spread": a.rate_spread, "anchors": opts.anchors},
+            "n_scored": res.n_scored, "candidates": cands, "comparison": sentence, "notes": notes,
+        }),
+        sections: vec![summary, ties_sec, runs],
+        csv_section: 1,
+        notes,
+    })
+}

@@ -1,0 +1,29 @@
+//! Synthetic data from stated models: polarity time scales from renewal models, and sampled sections
+//! (levels, specimens, stepwise demagnetization) written as a project folder.
+//!
+//! Everything random runs on the shared Monte Carlo engine's seeded streams, so the same seed gives
+//! the same folder, byte for byte, on any number of threads.
+
+mod accumulation;
+mod planning;
+mod project;
+mod section;
+mod timescale;
+
+pub use accumulation::{parse_rates, AccumulationHistory, AccumulationSpan, RateSegment, M_PER_MYR_PER_CM_PER_KYR};
+pub use planning::{catch_probability, chron_thickness};
+pub use project::{
+    sampling_csv, settings_text, steps_csv, timescale_csv, Setting, SettingValue, Settings, PICKS_FILE, SAMPLING_FILE,
+    SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+};
+pub use section::{
+    simulate_section, Overprint, RecordedChron, SectionModel, SyntheticLevel, SyntheticSection, SyntheticSpecimen,
+    SyntheticStep, Treatment, TrueTie, Unblocking, LEVEL_STREAM, MAX_SPECIMENS, SPECIMEN_STREAM,
+};
+pub use timescale::{
+    simulate_timescale, FirstPolarity, IntervalSampler, RenewalModel, TimeScaleModel, AGE_QUANTUM, BURN_IN_INTERVALS,
+    MODEL_NAMES, TIMESCALE_STREAM,
+};
+
+#[cfg(test)]
+mod tests;
