@@ -79,7 +79,7 @@ pub fn prepare_out_dir(dir: &Path, force: bool, inputs: &Inputs) -> Result<()> {
             .is_some();
         if occupied && !force {
             bail!(
-                "the output folder {} already holds files; choose an empty or new folder, or give --force to replace files of the same names (other files are left alone)",
+                "the output folder {} is not empty; choose an empty or new folder, or give --force to replace files of the same names (other files are left alone)",
                 dir.display()
             );
         }

@@ -1,0 +1,418 @@
+//! `lodestone simulate section`: write a project folder for a synthetic section.
+
+use super::super::{write_atomic, Cell, Ctx, Report, Section};
+use super::{timescale_model_json, RenewalArgs};
+use anyhow::{bail, Context, Result};
+use clap::{Args, ValueEnum};
+use lodestone::simulate::{
+    catch_probability, chron_thickness, parse_rates, sampling_csv, settings_text, simulate_section, simulate_timescale,
+    steps_csv, timescale_csv, Overprint, SectionModel, SyntheticSection, Treatment, Unblocking, SAMPLING_FILE,
+    SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+};
+use lodestone::sphere::{Bedding, Direction, GeoPoint};
+use lodestone::table::{StratAxis, Table, TimeScale};
+use serde_json::json;
+use std::path::PathBuf;
+
+#[derive(Debug, Clone, Copy, ValueEnum)]
+pub enum TreatmentArg {
+    Thermal,
+    Af,
+}
+
+#[derive(Debug, Args)]
+pub struct SectionArgs {
+    /// Folder to write (created; must be empty unless --force).
+    pub out: PathBuf,
+    /// Time scale to sample (a timescale table). Without it a renewal time scale is simulated
+    /// from the model options below and written to the folder.
+    #[arg(long)]
+    pub timescale: Option<PathBuf>,
+    #[command(flatten)]
+    pub renewal: RenewalArgs,
+    /// Age of the base of the section, Ma.
+    #[arg(long)]
+    pub base_age: f64,
+    /// Age of the top of the section, Ma.
+    #[arg(long, default_value_t = 0.0)]
+    pub top_age: f64,
+    /// Accumulation rates in cm/kyr from the base upward: RATE@AGE,…,RATE (a rate holds until the
+    /// age after '@'; the last runs to the top; 0 is a hiatus). A single number is a constant rate.
+    #[arg(long, default_value = "2")]
+    pub rates: String,
+    /// Distance between sampled levels, m.
+    #[arg(long, default_value_t = 1.0)]
+    pub spacing: f64,
+    /// Specimens per level.
+    #[arg(long, default_value_t = 3)]
+    pub specimens: usize,
+    /// Fisher precision of the specimens' characteristic directions about their level's field.
+    #[arg(long, default_value_t = 40.0)]
+    pub kappa: f64,
+    /// Fisher precision of the levels' fields about the axial dipole (secular variation); without
+    /// it every level records the axial dipole exactly.
+    #[arg(long)]
+    pub level_kappa: Option<f64>,
+    /// Latitude of the locality, degrees.
+    #[arg(long, allow_hyphen_values = true)]
+    pub lat: f64,
+    /// Longitude of the locality, degrees east.
+    #[arg(long, allow_hyphen_values = true)]
+    pub lon: f64,
+    /// Bedding as DIPDIR/DIP, several separated by commas, given to levels in turn (e.g. two
+    /// attitudes for a fold test). Default: flat-lying.
+    #[arg(long)]
+    pub bedding: Option<String>,
+    /// Demagnetization kind.
+    #[arg(long, value_enum, default_value_t = TreatmentArg::Thermal)]
+    pub treatment: TreatmentArg,
+    /// Treatment steps (°C or mT), comma-separated, starting with 0 (the NRM). Default: a standard
+    /// schedule for the treatment.
+    #[arg(long)]
+    pub steps: Option<String>,
+    /// Unblocking range LOW:HIGH of the characteristic component (°C or mT).
+    #[arg(long)]
+    pub characteristic: Option<String>,
+    /// Overprint direction DEC/INC in geographic coordinates (acquired after folding). No overprint
+    /// without it.
+    #[arg(long, allow_hyphen_values = true)]
+    pub overprint: Option<String>,
+    /// Overprint moment as a fraction of the characteristic moment.
+    #[arg(long, default_value_t = 0.5)]
+    pub overprint_ratio: f64,
+    /// Unblocking range LOW:HIGH of the overprint (°C or mT).
+    #[arg(long)]
+    pub overprint_range: Option<String>,
+    /// Characteristic moment of a typical specimen, A·m².
+    #[arg(long, default_value_t = 1e-8)]
+    pub moment: f64,
+    /// Standard deviation of ln(moment) between specimens.
+    #[arg(long, default_value_t = 0.25)]
+    pub moment_spread: f64,
+    /// Measurement noise per vector component, as a fraction of the specimen's characteristic moment.
+    #[arg(long, default_value_t = 0.005)]
+    pub noise: f64,
+    /// Level names: this prefix and a three-digit number counted from the base.
+    #[arg(long, default_value = "L")]
+    pub site_prefix: String,
+    /// Write depths below the top (a core) instead of heights above the base.
+    #[arg(long)]
+    pub core: bool,
+    /// Write into a folder that is not empty (files of the same names are replaced).
+    #[arg(long)]
+    pub force: bool,
+}
+
+fn pair(text: &str, sep: char, what: &str) -> Result<(f64, f64)> {
+    let (a, b) = text
+        .split_once(sep)
+        .with_context(|| format!("{what} '{text}': expected two numbers separated by '{sep}'"))?;
+    let p = |s: &str| {
+        s.trim()
+            .parse::<f64>()
+            .with_context(|| format!("{what} '{text}': '{}' is not a number", s.trim()))
+    };
+    Ok((p(a)?, p(b)?))
+}
+
+fn unblocking(text: &Option<String>, default: Unblocking, what: &str) -> Result<Unblocking> {
+    Ok(match text {
+        None => default,
+        Some(t) => {
+            let (low, high) = pair(t, ':', what)?;
+            Unblocking { low, high }
+        }
+    })
+}
+
+fn build_model(a: &SectionArgs) -> Result<SectionModel> {
+    let treatment = match a.treatment {
+        TreatmentArg::Thermal => Treatment::Thermal,
+        TreatmentArg::Af => Treatment::Af,
+    };
+    let steps = match &a.steps {
+        None => treatment.default_steps(),
+        Some(s) => s
+            .split(',')
+            .map(|x| {
+                x.trim()
+                    .parse::<f64>()
+                    .with_context(|| format!("--steps: '{}' is not a number", x.trim()))
+            })
+            .collect::<Result<_>>()?,
+    };
+    let bedding = match &a.bedding {
+        None => vec![],
+        Some(s) => s
+            .split(',')
+            .map(|b| {
+                let (dd, dip) = pair(b.trim(), '/', "--bedding")?;
+                Ok(Bedding::from_dip_direction(dd, dip, false)?)
+            })
+            .collect::<Result<_>>()?,
+    };
+    let overprint = match &a.overprint {
+        None => None,
+        Some(o) => {
+            let (d, i) = pair(o, '/', "--overprint")?;
+            Some(Overprint {
+                direction: Direction::new(d, i)?,
+                ratio: a.overprint_ratio,
+                unblocking: unblocking(&a.overprint_range, treatment.default_overprint(), "--overprint-range")?,
+            })
+        }
+    };
+    if a.site_prefix.contains([',', '"', '\n']) {
+        bail!("--site-prefix may not contain commas, quotes or line breaks");
+    }
+    Ok(SectionModel {
+        site: GeoPoint::new(a.lat, a.lon)?,
+        base_age: a.base_age,
+        top_age: a.top_age,
+        rates: parse_rates(&a.rates)?,
+        spacing: a.spacing,
+        specimens: a.specimens,
+        kappa: a.kappa,
+        level_kappa: a.level_kappa,
+        bedding,
+        treatment,
+        steps,
+        characteristic: unblocking(
+            &a.characteristic,
+            treatment.default_characteristic(),
+            "--characteristic",
+        )?,
+        overprint,
+        moment: a.moment,
+        moment_sigma: a.moment_spread,
+        noise: a.noise,
+        site_prefix: a.site_prefix.clone(),
+        axis: if a.core { StratAxis::Depth } else { StratAxis::Height },
+    })
+}
+
+fn truth_json(
+    m: &SectionModel,
+    sec: &SyntheticSection,
+    ts: &TimeScale,
+    source: &serde_json::Value,
+    seed: u64,
+) -> serde_json::Value {
+    let levels: Vec<_> = sec
+        .levels
+        .iter()
+        .map(|l| {
+            json!({
+                "site": l.site, "height": l.height, "depth": l.depth, "age": l.age, "polarity": l.polarity,
+                "chron": l.chron, "chron_name": ts.chrons[l.chron].name,
+                "field_tilt": l.field_tilt, "field_geo": l.field_geo, "bedding": l.bedding,
+            })
+        })
+        .collect();
+    let specimens: Vec<_> = sec
+        .specimens
+        .iter()
+        .map(|s| {
+            json!({"specimen": s.name, "site": sec.levels[s.level].site, "characteristic_tilt": s.characteristic_tilt,
+            "characteristic_geo": s.characteristic_geo, "moment": s.moment})
+        })
+        .collect();
+    json!({
+        "what": "the true model behind a synthetic project folder (lodestone simulate section)",
+        "seed": seed,
+        "timescale": source,
+        "model": m,
+        "axis": m.axis,
+        "thickness": sec.history.thickness(),
+        "accumulation": sec.history.spans,
+        "ties": sec.ties,
+        "chrons": sec.chrons,
+        "levels": levels,
+        "specimens": specimens,
+    })
+}
+
+pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
+    let model = build_model(&a)?;
+    let seed = ctx.global.seed;
+    let (ts, source) = match &a.timescale {
+        Some(p) => {
+            ctx.inputs.add(p);
+            (
+                TimeScale::from_table(&Table::read(p)?)?,
+                json!({"file": p.display().to_string()}),
+            )
+        }
+        None => {
+            // Cover the section with one mean interval to spare below its base.
+            let span = a.base_age + a.renewal.mean_interval;
+            let m = a.renewal.model(0.0, span)?;
+            (
+                simulate_timescale(&m, seed)?,
+                json!({"renewal": timescale_model_json(&m)}),
+            )
+        }
+    };
+    let mc = ctx.monte_carlo(0);
+    let sec = simulate_section(&model, &ts, &mc)?;
+    crate::cli::prepare_out_dir(&a.out, a.force, &ctx.inputs)?;
+    let what = format!(
+        "Synthetic data written by lodestone simulate section (seed {seed}): a model, not measurements.\nLocality {:.4}, {:.4}; {} levels, {} specimens each.",
+        model.site.lat,
+        model.site.lon,
+        sec.levels.len(),
+        model.specimens
+    );
+    let files = [
+        (STEPS_FILE, steps_csv(&model, &sec, &what)),
+        (SAMPLING_FILE, sampling_csv(&model, &sec, &what)),
+        (
+            TIMESCALE_FILE,
+            timescale_csv(
+                &ts,
+                &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}"),
+            ),
+        ),
+        (
+            SETTINGS_FILE,
+            settings_text(
+                seed,
+                "Settings for lodestone section (flat key = value; see the README, 'Project folder').",
+            ),
+        ),
+        (
+            TRUTH_FILE,
+            serde_json::to_string_pretty(&truth_json(&model, &sec, &ts, &source, seed))? + "\n",
+        ),
+    ];
+    for (name, text) in &files {
+        write_atomic(&a.out.join(name), text.as_bytes(), &ctx.inputs)?;
+    }
+    let mut table = Section::new(
+        &format!(
+            "Chrons in the synthetic section ({} m, {} levels every {} m)",
+            round3(sec.history.thickness()),
+            sec.levels.len(),
+            model.spacing
+        ),
+        &[
+            "chron",
+            "polarity",
+            "young",
+            "old",
+            "base",
+            "top",
+            "thickness",
+            "n_levels",
+            "status",
+        ],
+    );
+    let mut missed = Vec::new();
+    let mut thin = Vec::new();
+    for c in &sec.chrons {
+        let label = c.name.clone().unwrap_or_else(|| format!("#{}", c.index + 1));
+        let status = if c.complete {
+            "complete"
+        } else if c.young <= model.top_age + 1e-12 && c.old >= model.base_age - 1e-12 {
+            "spans the section"
+        } else if c.young <= model.top_age + 1e-12 {
+            "cut at top"
+        } else {
+            "cut at base"
+        };
+        if c.complete && c.n_levels == 0 {
+            missed.push(label.clone());
+        } else if c.complete && c.n_levels == 1 {
+            thin.push(label.clone());
+        }
+        table.rows.push(vec![
+            Cell::Text(label),
+            Cell::Text(c.polarity.code().into()),
+            Cell::Num(c.young, 4),
+            Cell::Num(c.old, 4),
+            Cell::Num(c.base, 2),
+            Cell::Num(c.top, 2),
+            Cell::Num(c.top - c.base, 2),
+            Cell::Int(c.n_levels as i64),
+            Cell::Text(status.into()),
+        ]);
+    }
+    let mut notes = vec![format!(
+        "Wrote {} (steps, sampling, time scale, settings, truth).",
+        a.out.display()
+    )];
+    let complete = sec.chrons.iter().filter(|c| c.complete).count();
+    notes.push(format!(
+        "Sampling check: {} of {complete} complete chrons hold no level and {} hold only one (a single level cannot make a magnetozone).{}",
+        missed.len(),
+        thin.len(),
+        if missed.is_empty() { String::new() } else { format!(" Missed: {}.", missed.join(", ")) }
+    ));
+    let spans = &sec.history.spans;
+    let min_rate = spans
+        .iter()
+        .filter(|s| s.rate > 0.0)
+        .map(|s| s.rate)
+        .fold(f64::INFINITY, f64::min);
+    // At rate r cm/kyr a chron of length t Myr is 10·r·t m thick: it holds at least one level for
+    // sure only if that exceeds the spacing, and at least two only if it exceeds twice the spacing.
+    notes.push(format!(
+        "At the slowest rate ({min_rate} cm/kyr) chrons shorter than {:.4} Myr can fall between levels, and chrons shorter than {:.4} Myr hold fewer than two.",
+        model.spacing / (min_rate * 10.0),
+        2.0 * model.spacing / (min_rate * 10.0)
+    ));
+    let max_rate = spans.iter().map(|s| s.rate).fold(0.0, f64::max);
+    let mut plan = Section::new(
+        &format!("Sampling plan: chance that a chron holds at least one / two levels every {} m (random position against the grid)", model.spacing),
+        &["length", "rate", "thickness", "p_one", "p_two"],
+    );
+    let mut plan_json = Vec::new();
+    let mut rates = vec![min_rate];
+    if max_rate > min_rate {
+        rates.push(max_rate);
+    }
+    for &rate in &rates {
+        for length in [0.005, 0.01, 0.02, 0.05, 0.1, 0.2] {
+            let d = chron_thickness(length, rate);
+            let (p1, p2) = (
+                catch_probability(d, model.spacing, 1),
+                catch_probability(d, model.spacing, 2),
+            );
+            plan.rows.push(vec![
+                Cell::Num(length, 3),
+                Cell::Num(rate, 2),
+                Cell::Num(d, 3),
+                Cell::Num(p1, 3),
+                Cell::Num(p2, 3),
+            ]);
+            plan_json.push(json!({"length": length, "rate": rate, "thickness": d, "p_one": p1, "p_two": p2}));
+        }
+    }
+    if spans.iter().any(|s| s.rate == 0.0) {
+        notes.push("The rate history has a hiatus: chrons inside it leave no rock and no record.".into());
+    }
+    notes.push("The data are synthetic draws from the stated model, for planning and testing; they say nothing about any real section.".into());
+    Ok(Report {
+        json: json!({
+            "out": a.out.display().to_string(),
+            "seed": seed,
+            "files": files.iter().map(|f| f.0).collect::<Vec<_>>(),
+            "thickness": sec.history.thickness(),
+            "n_levels": sec.levels.len(),
+            "n_specimens": sec.specimens.len(),
+            "chrons": sec.chrons,
+            "ties": sec.ties,
+            "missed": missed,
+            "plan": plan_json,
+            "single_level": thin,
+            "notes": notes,
+        }),
+        sections: vec![table, plan],
+        csv_section: 0,
+        notes,
+    })
+}
+
+fn round3(x: f64) -> f64 {
+    (x * 1000.0).round() / 1000.0
+}
