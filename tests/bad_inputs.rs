@@ -16,8 +16,8 @@
 //! Decisions recorded here (see also README): a declination in [-360, 360] is accepted and wrapped to
 //! [0, 360); beyond that it is refused. Inclinations and latitudes outside [-90, 90] are refused.
 //!
-//! Time-scale tables have no verb on this branch yet; their cases run the library validator directly
-//! (`timescale_catalogue` below) and check the same FILE:LINE: column rule on the message.
+//! Time-scale tables are checked through `correlate`, and also through the library validator directly
+//! (`timescale_catalogue` below), with the same FILE:LINE: column rule on the message.
 
 use assert_cmd::Command;
 use std::collections::BTreeSet;
@@ -50,6 +50,8 @@ const STEPS: &[u8] = b"specimen,step,dec,inc,moment\nS1,0,10,40,5e-6\nS1,10,12,4
 const SITES: &[u8] = b"site,lat,lon,dec,inc\nA,40,250,10,55\nB,40,250,350,60\nC,40,250,5,50\n";
 const RANGE: &[&str] = &["components", "st.csv", "--from", "0", "--to", "30"];
 const PICKED: &[&str] = &["components", "st.csv", "--picks", "pk.csv"];
+const LEVELS: &[u8] = b"height,dec,inc,lat,lon\n1,0,60,40,10\n2,2,58,40,10\n3,1,61,40,10\n4,180,-60,40,10\n5,182,-59,40,10\n6,179,-62,40,10\n";
+const CORRELATE: &[&str] = &["correlate", "lv.csv", "ts.csv"];
 const EXPECTED: &[&str] = &["expected", "--pole-lat", "85", "--pole-lon", "0", "--sites", "s.csv"];
 
 fn r(file: &'static str, line: usize, column: &'static str) -> Expect {
@@ -180,6 +182,27 @@ fn catalogue() -> Vec<Case> {
             args: &["poles", "s.csv", "--northern"],
             expect: Accepted { json: &[("/pole/n", Jv::Num(2.0))] },
         },
+        // ---- levels tables (column) and time scales (correlate) ----
+        Case { name: "levels: non-numeric height", files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,40,10\nx,2,58,40,10\n")], args: &["column", "lv.csv"], expect: r("lv.csv", 3, "height") },
+        Case { name: "levels: no height or depth column", files: &[("lv.csv", b"dec,inc,lat,lon\n0,60,40,10\n")], args: &["column", "lv.csv"], expect: r("lv.csv", 1, "height") },
+        Case { name: "levels: latitude out of range", files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,140,10\n")], args: &["column", "lv.csv"], expect: r("lv.csv", 2, "lat") },
+        Case {
+            // Decision of the column verb: rows at one height are one level (their directions averaged).
+            name: "levels: duplicate heights form one level",
+            files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,40,10\n1,2,58,40,10\n")],
+            args: &["column", "lv.csv"],
+            expect: Accepted { json: &[("/levels/0/n", Jv::Num(2.0)), ("/levels/0/height", Jv::Num(1.0)), ("/levels/0/polarity", Jv::Str("N"))] },
+        },
+        Case { name: "timescale: overlapping chrons", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.7,1.0,R\n")], args: CORRELATE, expect: r("ts.csv", 3, "young") },
+        Case { name: "timescale: gap", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.9,1.0,R\n")], args: CORRELATE, expect: r("ts.csv", 3, "young") },
+        Case { name: "timescale: zero-length chron", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,0.8,R\n")], args: CORRELATE, expect: r("ts.csv", 3, "old") },
+        Case { name: "timescale: negative age", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n-0.2,0.8,N\n")], args: CORRELATE, expect: r("ts.csv", 2, "young") },
+        Case { name: "timescale: unknown polarity code", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,T\n")], args: CORRELATE, expect: r("ts.csv", 3, "polarity") },
+        Case { name: "timescale: header only", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n")], args: CORRELATE, expect: r_row("ts.csv", 1) },
+        // ---- field tests ----
+        Case { name: "test reversal: one polarity only", files: &[("d.csv", b"dec,inc\n0,60\n3,58\n")], args: &["test", "reversal", "d.csv"], expect: Failed { says: "at least 2" } },
+        Case { name: "test random: one direction", files: &[("d.csv", b"dec,inc\n0,60\n")], args: &["test", "random", "d.csv"], expect: Failed { says: "at least 2" } },
+        Case { name: "test reversal: inclination out of range", files: &[("d.csv", b"dec,inc\n0,60\n180,-95\n")], args: &["test", "reversal", "d.csv"], expect: r("d.csv", 3, "inc") },
     ]
 }
 
@@ -190,7 +213,7 @@ fn listing(dir: &Path) -> BTreeSet<String> {
 /// Output arguments added to refused runs of verbs that draw, so that "nothing was written" is tested.
 fn plot_args(verb: &str) -> &'static [&'static str] {
     match verb {
-        "mean" | "poles" => &["--plot", "out.svg"],
+        "mean" | "poles" | "column" | "correlate" => &["--plot", "out.svg"],
         "components" => &["--plot", "figs"],
         _ => &[],
     }
@@ -296,7 +319,7 @@ fn catalogue_of_bad_inputs() {
     assert!(failures.is_empty(), "{} of {} cases failed:\n{}", failures.len(), cases.len(), failures.join("\n"));
 }
 
-/// Time-scale tables: the validator itself (no verb reads them on this branch yet).
+/// Time-scale tables: the validator itself.
 #[test]
 fn timescale_catalogue() {
     use lodestone::table::{Table, TimeScale};
