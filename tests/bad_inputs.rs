@@ -202,6 +202,14 @@ fn catalogue() -> Vec<Case> {
         // ---- field tests ----
         Case { name: "test reversal: one polarity only", files: &[("d.csv", b"dec,inc\n0,60\n3,58\n")], args: &["test", "reversal", "d.csv"], expect: Failed { says: "at least 2" } },
         Case { name: "test random: one direction", files: &[("d.csv", b"dec,inc\n0,60\n")], args: &["test", "random", "d.csv"], expect: Failed { says: "at least 2" } },
+        // ---- reversal-record statistics (intervals, hazard, rate) ----
+        Case { name: "intervals: unknown polarity code", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,T\n")], args: &["intervals", "ts.csv"], expect: r("ts.csv", 3, "polarity") },
+        Case { name: "intervals: overlapping chrons", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.7,1.0,R\n")], args: &["intervals", "ts.csv"], expect: r("ts.csv", 3, "young") },
+        Case { name: "intervals: too few complete intervals", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")], args: &["intervals", "ts.csv"], expect: Failed { says: "at least 2 complete intervals" } },
+        Case { name: "intervals: empty window", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")], args: &["intervals", "ts.csv", "--from", "3", "--to", "1"], expect: Failed { says: "empty" } },
+        Case { name: "rate: zero window", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")], args: &["rate", "ts.csv", "--window", "0"], expect: Failed { says: "window" } },
+        Case { name: "hazard: negative elapsed time", files: &[("ts.csv", b"young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,0.9,N\n0.9,1.0,R\n1.0,1.4,N\n")], args: &["hazard", "ts.csv", "--elapsed=-1"], expect: Failed { says: "elapsed" } },
+        Case { name: "hazard: negative horizon", files: &[("ts.csv", b"young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,0.9,N\n0.9,1.0,R\n1.0,1.4,N\n")], args: &["hazard", "ts.csv", "--elapsed=0.5", "--horizon=-0.1"], expect: Failed { says: "horizon" } },
         Case { name: "test reversal: inclination out of range", files: &[("d.csv", b"dec,inc\n0,60\n180,-95\n")], args: &["test", "reversal", "d.csv"], expect: r("d.csv", 3, "inc") },
     ]
 }
