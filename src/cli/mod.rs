@@ -21,7 +21,8 @@ mod simulate;
 mod test;
 
 use clap::{Args, Parser, Subcommand};
-pub use io::{write_atomic, write_figure, Inputs};
+#[allow(unused_imports)]
+pub use io::{prepare_out_dir, write_atomic, write_figure, Inputs};
 pub use output::{jnum, write_report, Cell, Format, Report, Section};
 
 /// Options accepted anywhere on the command line.
