@@ -35,19 +35,10 @@ fn read_file(dir: &Path, name: &str, required: bool, ctx: &mut Ctx) -> Result<Op
     Ok(Some(ProjectFile::new(name, bytes)))
 }
 
-/// Create the output folder (and its `tables/`, `figures/`); refuse a non-empty one without `force`.
-/// (A minimal local version: the shared helper was not on main when this verb was written.)
-fn prepare_out(out: &Path, force: bool) -> Result<()> {
-    if out.exists() {
-        if !out.is_dir() {
-            bail!("--out {}: exists and is not a folder", out.display());
-        }
-        let non_empty = std::fs::read_dir(out).with_context(|| format!("cannot read {}", out.display()))?.next().is_some();
-        if non_empty && !force {
-            bail!("--out {}: the folder is not empty; choose another or add --force", out.display());
-        }
-    }
-    for sub in ["", "tables", "figures"] {
+/// Create the output folder (shared rules of [`super::prepare_out_dir`]) and its `tables/`, `figures/`.
+fn prepare_out(out: &Path, force: bool, ctx: &Ctx) -> Result<()> {
+    super::prepare_out_dir(out, force, &ctx.inputs)?;
+    for sub in ["tables", "figures"] {
         std::fs::create_dir_all(out.join(sub)).with_context(|| format!("cannot create {}", out.join(sub).display()))?;
     }
     Ok(())
@@ -62,7 +53,7 @@ pub fn run_project(project: Project, out: &Path, force: bool, ctx: &mut Ctx) -> 
         }
     };
     let res = run(&project, &ctx.progress, &mut on_stage)?;
-    prepare_out(out, force)?;
+    prepare_out(out, force, ctx)?;
     let files = res.files();
     for f in &files {
         super::write_atomic(&out.join(&f.name), &f.bytes, &ctx.inputs)?;
