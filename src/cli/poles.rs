@@ -35,13 +35,9 @@ pub struct PolesArgs {
 }
 
 fn parse_cutoff(s: &str) -> Result<Cutoff> {
-    match s.trim().to_lowercase().as_str() {
-        "none" => Ok(Cutoff::None),
-        "vandamme" => Ok(Cutoff::Vandamme),
-        other => match other.parse::<f64>() {
-            Ok(a) if a > 0.0 && a <= 180.0 => Ok(Cutoff::Fixed(a)),
-            _ => bail!("--cutoff must be none, vandamme or an angle in (0, 180] such as 45; got '{s}'"),
-        },
+    match Cutoff::parse(s) {
+        Some(c) => Ok(c),
+        None => bail!("--cutoff must be none, vandamme or an angle in (0, 180] such as 45; got '{s}'"),
     }
 }
 

@@ -21,6 +21,21 @@ pub enum Cutoff {
     Vandamme,
 }
 
+impl Cutoff {
+    /// Parse a cutoff name: `none`, `vandamme`, or an angle in (0, 180] degrees (e.g. `45`); any case,
+    /// surrounding blanks ignored. `None` when the text is none of these.
+    pub fn parse(s: &str) -> Option<Cutoff> {
+        match s.trim().to_lowercase().as_str() {
+            "none" => Some(Cutoff::None),
+            "vandamme" => Some(Cutoff::Vandamme),
+            other => match other.parse::<f64>() {
+                Ok(a) if a > 0.0 && a <= 180.0 => Some(Cutoff::Fixed(a)),
+                _ => None,
+            },
+        }
+    }
+}
+
 /// Within-site dispersion of one site, transferred to VGP space.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct WithinSite {

@@ -104,12 +104,5 @@ impl SectionSettings {
 }
 
 fn parse_cutoff(s: &str) -> Option<Cutoff> {
-    match s.trim().to_lowercase().as_str() {
-        "none" => Some(Cutoff::None),
-        "vandamme" => Some(Cutoff::Vandamme),
-        other => match other.parse::<f64>() {
-            Ok(a) if a > 0.0 && a <= 180.0 => Some(Cutoff::Fixed(a)),
-            _ => None,
-        },
-    }
+    Cutoff::parse(s)
 }
