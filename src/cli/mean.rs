@@ -55,8 +55,8 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
     let mut streamed = None;
     if a.plot.is_none() {
         let mut stream = TableStream::open(&a.file)?;
-        if let StreamedMeans::Means { group_column, groups, .. } = stream_group_means(&mut stream, &by, frame, 0.95)? {
-            let keep_lines = ctx.global.format == super::Format::Json;
+        let keep_lines = ctx.global.format == super::Format::Json;
+        if let StreamedMeans::Means { group_column, groups, .. } = stream_group_means(&mut stream, &by, frame, 0.95, keep_lines)? {
             let means: Vec<GroupMean> = groups
                 .into_iter()
                 .map(|g| if keep_lines { g.into() } else { GroupMean { lines: Vec::new(), ..StreamedGroup::into(g) } })

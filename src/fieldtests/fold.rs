@@ -191,16 +191,17 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
         }
     }
     let curve_of = |weights: &[u32]| -> Vec<f64> {
+        // The drawn directions and their counts, in index order (the sums below then run in the same
+        // order as a pass over every index that skips the zero counts).
+        let drawn: Vec<(usize, f64)> = weights.iter().enumerate().filter(|(_, &c)| c > 0).map(|(i, &c)| (i, c as f64)).collect();
         (0..n_steps)
             .map(|s| {
                 let mut t = [0.0; 6];
-                for (i, &c) in weights.iter().enumerate() {
-                    if c > 0 {
-                        let o = &outer[s * n + i];
-                        let cf = c as f64;
-                        for j in 0..6 {
-                            t[j] += cf * o[j];
-                        }
+                let row = &outer[s * n..(s + 1) * n];
+                for &(i, cf) in &drawn {
+                    let o = &row[i];
+                    for j in 0..6 {
+                        t[j] += cf * o[j];
                     }
                 }
                 largest_eigenvalue(t.map(|x| x / n as f64))

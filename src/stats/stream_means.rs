@@ -65,7 +65,8 @@ struct Acc {
 /// Memory holds one accumulator per group (vector sum, count, runs of adjacent lines), never the rows.
 /// The vectors of a group are summed in file order, as [`super::group_means`] sums them, so the results
 /// are bit-for-bit the same; so are the error messages, and where a file has several faults the one
-/// reported is the one the whole-table path reports. Rows with `kind = plane` end the stream with
+/// reported is the one the whole-table path reports. With `keep_lines` false the groups' `line_runs`
+/// stay empty (memory then holds one fixed-size accumulator per group, whatever the row order). Rows with `kind = plane` end the stream with
 /// [`StreamedMeans::NeedsWholeTable`] (after the rest of the file has been checked).
 ///
 /// # Units
@@ -81,6 +82,7 @@ pub fn stream_group_means<R: BufRead>(
     group_by: &GroupBy,
     frame: Frame,
     confidence: f64,
+    keep_lines: bool,
 ) -> Result<StreamedMeans> {
     let cols = match DirectionColumns::locate(stream, group_by) {
         Ok(c) => c,
@@ -135,12 +137,11 @@ pub fn stream_group_means<R: BufRead>(
             }
         };
         let a = &mut accs[j];
-        match a.runs.last_mut() {
-            Some(run) if run.last + 1 == r.line || run.last == r.line => run.last = r.line,
-            _ => a.runs.push(LineRun {
-                first: r.line,
-                last: r.line,
-            }),
+        if keep_lines {
+            match a.runs.last_mut() {
+                Some(run) if run.last + 1 == r.line => run.last = r.line,
+                _ => a.runs.push(LineRun { first: r.line, last: r.line }),
+            }
         }
         let v = r.direction.to_vector();
         match frame {
@@ -216,7 +217,7 @@ mod tests {
             .map_err(|e| e.to_string());
         let streamed = TableStream::new("t.csv", text.as_bytes())
             .map_err(Error::Table)
-            .and_then(|mut s| stream_group_means(&mut s, by, frame, 0.95))
+            .and_then(|mut s| stream_group_means(&mut s, by, frame, 0.95, true))
             .map_err(|e| e.to_string());
         (whole, streamed)
     }
@@ -289,7 +290,7 @@ mod tests {
         let w = Table::parse("t.csv", &bytes).unwrap_err().to_string();
         let s = TableStream::new("t.csv", &bytes[..])
             .map_err(Error::Table)
-            .and_then(|mut s| stream_group_means(&mut s, &GroupBy::Default, Frame::Geo, 0.95))
+            .and_then(|mut s| stream_group_means(&mut s, &GroupBy::Default, Frame::Geo, 0.95, true))
             .unwrap_err()
             .to_string();
         assert_eq!(w, s);

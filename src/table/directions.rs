@@ -88,7 +88,27 @@ pub enum GroupBy {
 /// Read the bedding columns of a row, if present (dip direction + dip, or strike + dip, optional
 /// `overturned`). Shared by every table that carries bedding.
 pub fn read_bedding<T: Columns + ?Sized, R: Cells + ?Sized>(t: &T, row: &R) -> Result<Option<Bedding>, TableError> {
-    let (dd, strike, dip, over) = (t.col("bed_dip_dir"), t.col("bed_strike"), t.col("bed_dip"), t.col("overturned"));
+    BeddingColumns::locate(t).read(t, row)
+}
+
+/// The bedding columns of a table, found once from the header (see [`read_bedding`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct BeddingColumns {
+    dd: Option<usize>,
+    strike: Option<usize>,
+    dip: Option<usize>,
+    over: Option<usize>,
+}
+
+impl BeddingColumns {
+    /// Find `bed_dip_dir`, `bed_strike`, `bed_dip` and `overturned`, where present.
+    pub fn locate<T: Columns + ?Sized>(t: &T) -> Self {
+        BeddingColumns { dd: t.col("bed_dip_dir"), strike: t.col("bed_strike"), dip: t.col("bed_dip"), over: t.col("overturned") }
+    }
+
+    /// The bedding of a row, if it has any.
+    pub fn read<T: Columns + ?Sized, R: Cells + ?Sized>(&self, t: &T, row: &R) -> Result<Option<Bedding>, TableError> {
+    let BeddingColumns { dd, strike, dip, over } = *self;
     let dd_v = t.opt_number_in(row, dd, -360.0, 360.0)?;
     let st_v = t.opt_number_in(row, strike, -360.0, 360.0)?;
     let dip_v = t.opt_number_in(row, dip, 0.0, 90.0)?;
@@ -106,6 +126,7 @@ pub fn read_bedding<T: Columns + ?Sized, R: Cells + ?Sized>(t: &T, row: &R) -> R
         }
     };
     b.map(Some).map_err(|e| t.error(row.line(), None, e.to_string()))
+    }
 }
 
 /// Which position column a table has: `height` or `depth` (both is an error).
@@ -159,6 +180,7 @@ pub struct DirectionColumns {
     pub axis: Option<(StratAxis, usize)>,
     x_az: Option<usize>,
     x_plunge: Option<usize>,
+    bedding: BeddingColumns,
     /// The grouping column used, if any (lower-cased).
     pub group_column: Option<String>,
     group: Option<usize>,
@@ -217,6 +239,7 @@ impl DirectionColumns {
             axis,
             x_az: t.col("x_az"),
             x_plunge: t.col("x_plunge"),
+            bedding: BeddingColumns::locate(t),
             group_column,
             group,
         })
@@ -251,7 +274,7 @@ impl DirectionColumns {
                 Some((_, i)) => t.opt_number(row, Some(i))?,
                 None => None,
             },
-            bedding: read_bedding(t, row)?,
+            bedding: self.bedding.read(t, row)?,
             kind,
             group: t.opt_str(row, self.group),
         })

@@ -126,6 +126,33 @@ impl<R: BufRead> Read for LineFilter<R> {
 pub struct StreamRow {
     line: usize,
     record: csv::ByteRecord,
+    /// The record's fields, concatenated, as text (checked once per row).
+    text: String,
+    /// Byte range in `text` of each field, trimmed of surrounding blanks.
+    cells: Vec<(usize, usize)>,
+}
+
+impl StreamRow {
+    /// Take the text of the record just read: one UTF-8 check per row, trimmed cell bounds.
+    fn index(&mut self) -> bool {
+        self.text.clear();
+        self.cells.clear();
+        // Lines were checked for UTF-8 before parsing; fields split at ASCII bytes stay valid.
+        let Ok(t) = std::str::from_utf8(self.record.as_slice()) else { return false };
+        self.text.push_str(t);
+        for i in 0..self.record.len() {
+            let r = self.record.range(i).unwrap_or(0..0);
+            let field = &self.text[r.clone()];
+            let lead = field.len() - field.trim_start().len();
+            let trimmed = field.trim();
+            self.cells.push((r.start + lead, r.start + lead + trimmed.len()));
+        }
+        true
+    }
+
+    fn len(&self) -> usize {
+        self.cells.len()
+    }
 }
 
 impl Cells for StreamRow {
@@ -133,10 +160,7 @@ impl Cells for StreamRow {
         self.line
     }
     fn cell(&self, idx: usize) -> &str {
-        // Lines were checked for UTF-8 before parsing, and fields split at ASCII bytes stay valid.
-        std::str::from_utf8(self.record.get(idx).unwrap_or_default())
-            .unwrap_or_default()
-            .trim()
+        self.cells.get(idx).map(|&(a, b)| &self.text[a..b]).unwrap_or_default()
     }
 }
 
@@ -181,7 +205,6 @@ impl<R: BufRead> TableStream<R> {
         let reader = csv::ReaderBuilder::new()
             .has_headers(false)
             .flexible(true)
-            .trim(csv::Trim::All)
             .buffer_capacity(1 << 16)
             .from_reader(LineFilter::new(input));
         let mut s = TableStream {
@@ -200,7 +223,7 @@ impl<R: BufRead> TableStream<R> {
             }
             Ok(true) => {
                 let line = s.row.line;
-                let cells: Vec<&str> = (0..s.row.record.len()).map(|i| s.row.cell(i)).collect();
+                let cells: Vec<&str> = (0..s.row.len()).map(|i| s.row.cell(i)).collect();
                 match check_header(&s.name, line, cells.into_iter()) {
                     Ok(h) => {
                         s.header_line = line;
@@ -237,7 +260,10 @@ impl<R: BufRead> TableStream<R> {
             }
             let end = self.reader.position().byte().saturating_sub(1);
             self.row.line = self.reader.get_mut().line_of(end);
-            if (0..self.row.record.len()).all(|i| self.row.cell(i).is_empty()) {
+            if !self.row.index() {
+                return Err(self.error(self.row.line, None, "the file is not valid UTF-8 text"));
+            }
+            if self.row.cells.iter().all(|&(a, b)| a == b) {
                 continue;
             }
             return Ok(true);
@@ -251,7 +277,7 @@ impl<R: BufRead> TableStream<R> {
         }
         self.rows += 1;
         let n = self.headers.len();
-        let cells = (0..self.row.record.len()).map(|i| self.row.cell(i));
+        let cells = (0..self.row.len()).map(|i| self.row.cell(i));
         check_cell_count(&self.name, self.row.line, n, cells).map(|_| true)
     }
 
