@@ -48,6 +48,13 @@
 //! | Watson's V_w with simulated critical value | [`fieldtests::watson_v`] |
 //! | bootstrap fold test (Tauxe & Watson 1994), precision ratio (McElhinny 1964) | [`fieldtests::fold_test`] |
 //! | randomness of directions, exact R₀ (Watson 1956) | [`fieldtests::randomness_test`], [`fieldtests::watson_r0`] |
+//! | polarity intervals, short-chron merging, censored open chron | [`reversals::intervals`] |
+//! | renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian): censored MLE, CDF, hazard, sampler | [`reversals::Model`], [`reversals::Fitted`] |
+//! | AIC, BIC, Akaike weights, likelihood-ratio test | [`reversals::fit_models`] |
+//! | KS and AD goodness of fit, parametric bootstrap (Lilliefors) | [`reversals::goodness_of_fit`] |
+//! | hazard, P(reversal within Δ \| none for T), model averaging | [`reversals::hazard_at`], [`reversals::averaged_interval`] |
+//! | reversal rate through time, Laplace trend test, clustering test | [`reversals::windowed_rate`], [`reversals::laplace_test`], [`reversals::clustering_test`] |
+//! | interval-length, hazard and rate figures | [`figures::IntervalFigure`], [`figures::HazardFigure`], [`figures::RateFigure`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
 //! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
 //! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
@@ -69,6 +76,7 @@ pub mod linalg;
 pub mod montecarlo;
 pub mod poles;
 pub mod simulate;
+pub mod reversals;
 pub mod sphere;
 pub mod stats;
 pub mod strat;

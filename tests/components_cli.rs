@@ -361,6 +361,7 @@ fn plots_one_figure_per_specimen_and_never_over_inputs() {
             dir.to_str().unwrap(),
             "--plot-format",
             "png",
+            "--force",
         ])
         .assert()
         .success();
@@ -381,6 +382,7 @@ fn plots_one_figure_per_specimen_and_never_over_inputs() {
             "--auto",
             "--plot",
             d.path().to_str().unwrap(),
+            "--force",
         ])
         .assert()
         .code(1)

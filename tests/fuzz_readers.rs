@@ -3,7 +3,7 @@
 //! The default case count is small so that `cargo test` stays quick; set `LODESTONE_FUZZ_CASES`
 //! (e.g. 1000000) for a long run.
 
-use lodestone::table::{read_directions, GroupBy, Table, TimeScale};
+use lodestone::table::{read_directions, read_picks, read_sites, read_steps, GroupBy, StepSet, Table, TimeScale};
 use proptest::prelude::*;
 
 fn cases() -> u32 {
@@ -20,6 +20,10 @@ fn csvish() -> impl Strategy<Value = Vec<u8>> {
         Just(b",".to_vec()), Just(b"\n".to_vec()), Just(b"\r\n".to_vec()), Just(b"\"".to_vec()), Just(b"#".to_vec()),
         Just(b"\xEF\xBB\xBF".to_vec()), Just(b"NaN".to_vec()), Just(b"inf".to_vec()), Just(b"-1e308".to_vec()),
         Just(b"1e400".to_vec()), Just(b"overturned".to_vec()), Just(b"yes".to_vec()),
+        Just(b"specimen".to_vec()), Just(b"step".to_vec()), Just(b"moment".to_vec()), Just(b"treatment".to_vec()),
+        Just(b"af".to_vec()), Just(b"thermal".to_vec()), Just(b"from".to_vec()), Just(b"to".to_vec()),
+        Just(b"anchor".to_vec()), Just(b"origin".to_vec()), Just(b"lat".to_vec()), Just(b"lon".to_vec()),
+        Just(b"n".to_vec()), Just(b"k".to_vec()), Just(b"a95".to_vec()), Just(b"S1".to_vec()), Just(b"0".to_vec()),
         (-400.0f64..400.0).prop_map(|x| format!("{x}").into_bytes()),
         proptest::collection::vec(any::<u8>(), 0..4),
     ];
@@ -38,10 +42,104 @@ proptest! {
     }
 
     #[test]
+    fn steps_picks_sites_never_panic(bytes in csvish()) {
+        if let Ok(t) = Table::parse("fuzz.csv", &bytes) {
+            let _ = read_sites(&t);
+            if let Ok(set) = read_steps(&t) {
+                // A fuzzed steps table must still yield fittable specimens or errors, never a panic.
+                use lodestone::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind};
+                let rule = AutoRule { min_steps: 2, max_mad: 15.0, max_dang: 15.0, anchor: Anchor::Free };
+                for sp in &set.specimens {
+                    for (kind, anchor) in [(FitKind::Line, Anchor::Free), (FitKind::Plane, Anchor::Origin)] {
+                        if let Ok(f) = fit_range(sp, f64::NEG_INFINITY, f64::INFINITY, kind, anchor) {
+                            prop_assert!(f.direction.dec.is_finite() && f.direction.inc.is_finite() && f.mad.is_finite(), "{f:?}");
+                            prop_assert!(f.dang.is_none_or(f64::is_finite), "{f:?}");
+                        }
+                    }
+                    if let AutoOutcome::Fitted(f) = auto_line(sp, &rule) {
+                        prop_assert!(f.mad.is_finite() && f.mad <= rule.max_mad, "{f:?}");
+                    }
+                }
+                let _ = read_picks(&t, &set);
+            }
+            // Picks against a fixed, valid steps table.
+            let _ = read_picks(&t, reference_steps());
+        }
+    }
+
+    #[test]
     fn arbitrary_bytes_never_panic(bytes in proptest::collection::vec(any::<u8>(), 0..300)) {
         if let Ok(t) = Table::parse("fuzz.csv", &bytes) {
             let _ = read_directions(&t, &GroupBy::Default);
             let _ = TimeScale::from_table(&t);
+            let _ = read_sites(&t);
+            let _ = read_steps(&t);
+            let _ = read_picks(&t, reference_steps());
+        }
+    }
+}
+
+/// A small valid steps table (specimen S1, steps 0 to 30) for fuzzing the picks reader.
+fn reference_steps() -> &'static StepSet {
+    static SET: std::sync::OnceLock<StepSet> = std::sync::OnceLock::new();
+    SET.get_or_init(|| {
+        let text = b"specimen,step,dec,inc,moment\nS1,0,10,40,5e-6\nS1,10,12,41,4e-6\nS1,20,11,39,3e-6\nS1,30,13,40,2e-6\n";
+        read_steps(&Table::parse("ref.csv", text).unwrap()).unwrap()
+    })
+}
+
+/// A number drawn mostly from awkward values: zero, signed zero, limits of the ranges, tiny and huge.
+fn edge_number(lo: f64, hi: f64) -> impl Strategy<Value = f64> {
+    prop_oneof![
+        3 => lo..=hi,
+        1 => Just(lo),
+        1 => Just(hi),
+        1 => Just(0.0),
+        1 => Just(-0.0),
+    ]
+}
+
+fn edge_moment() -> impl Strategy<Value = f64> {
+    prop_oneof![
+        2 => 1e-9f64..1e-3,
+        1 => Just(1e-300),
+        1 => Just(1e300),
+        1 => Just(f64::MIN_POSITIVE),
+        1 => Just(1.0),
+    ]
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: cases() / 4, failure_persistence: None, ..ProptestConfig::default() })]
+    /// Well-formed steps tables with awkward numbers: every fit the library accepts is finite.
+    #[test]
+    fn structured_steps_fit_finite(rows in proptest::collection::vec(
+        (0usize..2, 0u32..8, edge_number(-360.0, 360.0), edge_number(-90.0, 90.0), edge_moment()), 1..12)) {
+        use lodestone::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind};
+        let mut text = String::from("specimen,step,dec,inc,moment\n");
+        let mut rows = rows;
+        rows.sort_by_key(|r| (r.0, r.1));
+        rows.dedup_by_key(|r| (r.0, r.1));
+        for (s, step, d, i, m) in &rows {
+            text.push_str(&format!("S{s},{},{d},{i},{m:e}\n", step * 10));
+        }
+        let set = read_steps(&Table::parse("s.csv", text.as_bytes()).unwrap());
+        prop_assert!(set.is_ok(), "{:?}\n{text}", set.err());
+        let set = set.unwrap();
+        for sp in &set.specimens {
+            for kind in [FitKind::Line, FitKind::Plane] {
+                for anchor in [Anchor::Free, Anchor::Origin] {
+                    if let Ok(f) = fit_range(sp, 0.0, 1e9, kind, anchor) {
+                        prop_assert!(f.direction.dec.is_finite() && f.direction.inc.is_finite(), "{f:?}\n{text}");
+                        prop_assert!(f.mad.is_finite() && f.mad >= 0.0, "{f:?}\n{text}");
+                        prop_assert!(f.dang.is_none_or(|x| x.is_finite() && x >= 0.0), "{f:?}\n{text}");
+                    }
+                }
+            }
+            let rule = AutoRule { min_steps: 2, max_mad: 90.0, max_dang: 90.0, anchor: Anchor::Free };
+            if let AutoOutcome::Fitted(f) = auto_line(sp, &rule) {
+                prop_assert!(f.mad.is_finite(), "{f:?}\n{text}");
+            }
         }
     }
 }

@@ -46,6 +46,10 @@ pub struct ComponentsArgs {
     /// Figure format for --plot.
     #[arg(long, value_enum, default_value_t = PlotFormat::Svg)]
     pub plot_format: PlotFormat,
+    /// Let --plot use a folder that already holds files: figures of the same names are replaced, other
+    /// files are left alone.
+    #[arg(long, requires = "plot")]
+    pub force: bool,
 }
 
 #[derive(Debug, Clone, Copy, clap::ValueEnum)]
@@ -246,7 +250,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         notes.push("For planes, dec and inc give the pole of the great circle; `lodestone mean` combines them with lines.".into());
     }
     if let Some(dir) = &a.plot {
-        write_plots(dir, &set, &fits, a.plot_format, ctx)?;
+        write_plots(dir, &set, &fits, a.plot_format, a.force, ctx)?;
     }
     Ok(Report {
         json: json!({
@@ -268,13 +272,10 @@ fn write_plots(
     set: &StepSet,
     fits: &[SpecimenFit],
     format: PlotFormat,
+    force: bool,
     ctx: &Ctx,
 ) -> Result<()> {
-    if dir.exists() && !dir.is_dir() {
-        bail!("--plot {}: exists and is not a folder", dir.display());
-    }
-    std::fs::create_dir_all(dir)
-        .with_context(|| format!("cannot create the figure folder {}", dir.display()))?;
+    super::prepare_out_dir(dir, force, &ctx.inputs).with_context(|| format!("--plot {}", dir.display()))?;
     let ext = match format {
         PlotFormat::Svg => "svg",
         PlotFormat::Png => "png",

@@ -10,13 +10,17 @@ mod correlate;
 mod io;
 mod mean;
 mod poles;
+mod hazard;
+mod intervals;
+mod rate;
 mod output;
 mod progress;
 mod simulate;
 mod test;
 
 use clap::{Args, Parser, Subcommand};
-pub use io::{write_atomic, write_figure, Inputs};
+#[allow(unused_imports)]
+pub use io::{prepare_out_dir, write_atomic, write_figure, Inputs};
 pub use output::{jnum, write_report, Cell, Format, Report, Section};
 
 /// Options accepted anywhere on the command line.
@@ -66,6 +70,12 @@ enum Verb {
     Simulate(simulate::SimulateArgs),
     /// Field tests: reversal, common-mean, fold, random.
     Test(test::TestArgs),
+    /// Renewal-model fits (exponential, gamma, Weibull, lognormal, inverse Gaussian) to polarity intervals.
+    Intervals(intervals::IntervalsArgs),
+    /// Hazard and P(reversal within a horizon | none so far) from the fitted models (not a forecast).
+    Hazard(hazard::HazardArgs),
+    /// Reversal rate through time, Laplace trend test and clustering test.
+    Rate(rate::RateArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -135,5 +145,8 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Correlate(a) => correlate::run(a, ctx),
         Verb::Simulate(a) => simulate::run(a, ctx),
         Verb::Test(a) => test::run(a, ctx),
+        Verb::Intervals(a) => intervals::run(a, ctx),
+        Verb::Hazard(a) => hazard::run(a, ctx),
+        Verb::Rate(a) => rate::run(a, ctx),
     }
 }

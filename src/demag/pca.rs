@@ -64,7 +64,8 @@ pub struct LineFit {
     pub dang: f64,
     /// Centre of mass of the steps used (A·m², or whatever unit the vectors carry).
     pub centre: Vec3,
-    /// Eigenvalues of the scatter matrix, largest first.
+    /// Eigenvalues of the scatter matrix, largest first (units of the vectors squared; they overflow to
+    /// infinity for moments beyond about 1e154, which leaves the fit itself unaffected).
     pub eigenvalues: [f64; 3],
     /// The anchor used.
     pub anchor: Anchor,
@@ -80,7 +81,8 @@ pub struct PlaneFit {
     pub mad: f64,
     /// Centre of mass of the steps used.
     pub centre: Vec3,
-    /// Eigenvalues of the scatter matrix, largest first.
+    /// Eigenvalues of the scatter matrix, largest first (units of the vectors squared; they overflow to
+    /// infinity for moments beyond about 1e154, which leaves the fit itself unaffected).
     pub eigenvalues: [f64; 3],
     /// The anchor used.
     pub anchor: Anchor,
@@ -108,6 +110,27 @@ fn scatter(points: &[Vec3], anchor: Anchor) -> ([[f64; 3]; 3], Vec3) {
         }
     }
     (t, centre)
+}
+
+/// The points divided by a power of two that brings the largest component near 1, and that power.
+///
+/// Directions, MAD and DANG do not depend on the scale of the vectors, but sums of squares of
+/// moments near 1e±160 overflow or underflow; a power of two rescales exactly, so ordinary data give
+/// bit-identical results.
+fn rescaled(points: &[Vec3]) -> (Vec<Vec3>, f64) {
+    let m = points
+        .iter()
+        .flat_map(|p| [p.x.abs(), p.y.abs(), p.z.abs()])
+        .fold(0.0f64, f64::max);
+    if !(m > 0.0 && m.is_finite()) {
+        return (points.to_vec(), 1.0);
+    }
+    let scale = 2f64.powi(m.log2().floor() as i32);
+    if !(scale > 0.0 && scale.is_finite()) {
+        return (points.to_vec(), 1.0);
+    }
+    let div = |p: &Vec3| Vec3 { x: p.x / scale, y: p.y / scale, z: p.z / scale };
+    (points.iter().map(div).collect(), scale)
 }
 
 fn check_points(points: &[Vec3], kind: FitKind) -> Result<()> {
@@ -157,6 +180,8 @@ fn check_points(points: &[Vec3], kind: FitKind) -> Result<()> {
 /// Tauxe, L. & Staudigel, H. (2004), *G-cubed* 5, Q02H06 (DANG).
 pub fn fit_line(points: &[Vec3], anchor: Anchor) -> Result<LineFit> {
     check_points(points, FitKind::Line)?;
+    let (scaled, scale) = rescaled(points);
+    let points = scaled.as_slice();
     let (t, centre) = scatter(points, anchor);
     let e = sym_eigen(t);
     let l = e.values.map(|x| x.max(0.0));
@@ -204,8 +229,8 @@ pub fn fit_line(points: &[Vec3], anchor: Anchor) -> Result<LineFit> {
         direction,
         mad,
         dang,
-        centre,
-        eigenvalues: e.values,
+        centre: centre * scale,
+        eigenvalues: e.values.map(|x| x * scale * scale),
         anchor,
     })
 }
@@ -224,6 +249,8 @@ pub fn fit_line(points: &[Vec3], anchor: Anchor) -> Result<LineFit> {
 /// Kirschvink (1980), Table 1 (the plane MAD; form from memory, checked against NumPy SVD in the tests).
 pub fn fit_plane(points: &[Vec3], anchor: Anchor) -> Result<PlaneFit> {
     check_points(points, FitKind::Plane)?;
+    let (scaled, scale) = rescaled(points);
+    let points = scaled.as_slice();
     let (t, centre) = scatter(points, anchor);
     let e = sym_eigen(t);
     let l = e.values.map(|x| x.max(0.0));
@@ -243,8 +270,8 @@ pub fn fit_plane(points: &[Vec3], anchor: Anchor) -> Result<PlaneFit> {
     Ok(PlaneFit {
         pole,
         mad,
-        centre,
-        eigenvalues: e.values,
+        centre: centre * scale,
+        eigenvalues: e.values.map(|x| x * scale * scale),
         anchor,
     })
 }

@@ -12,7 +12,7 @@ use lodestone::simulate::{
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::{StratAxis, Table, TimeScale};
 use serde_json::json;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 #[derive(Debug, Clone, Copy, ValueEnum)]
 pub enum TreatmentArg {
@@ -191,24 +191,6 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
     })
 }
 
-fn prepare_folder(dir: &Path, force: bool) -> Result<()> {
-    if dir.exists() {
-        if !dir.is_dir() {
-            bail!("{} exists and is not a folder", dir.display());
-        }
-        let non_empty = std::fs::read_dir(dir)
-            .with_context(|| format!("cannot read {}", dir.display()))?
-            .next()
-            .is_some();
-        if non_empty && !force {
-            bail!("{} is not empty; add --force to write into it", dir.display());
-        }
-    } else {
-        std::fs::create_dir_all(dir).with_context(|| format!("cannot create {}", dir.display()))?;
-    }
-    Ok(())
-}
-
 fn truth_json(
     m: &SectionModel,
     sec: &SyntheticSection,
@@ -273,7 +255,7 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     };
     let mc = ctx.monte_carlo(0);
     let sec = simulate_section(&model, &ts, &mc)?;
-    prepare_folder(&a.out, a.force)?;
+    crate::cli::prepare_out_dir(&a.out, a.force, &ctx.inputs)?;
     let what = format!(
         "Synthetic data written by lodestone simulate section (seed {seed}): a model, not measurements.\nLocality {:.4}, {:.4}; {} levels, {} specimens each.",
         model.site.lat,

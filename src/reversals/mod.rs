@@ -1,0 +1,21 @@
+//! Statistics of the reversal record: polarity intervals from a time scale, renewal models fitted by
+//! maximum likelihood with a right-censored open chron, goodness of fit with parametric-bootstrap
+//! p-values, the hazard of a reversal given the time since the last, and the reversal rate through
+//! time with trend and clustering tests.
+//!
+//! Every result here is a statistical statement about a model of the record, not a forecast.
+
+pub mod gof;
+pub mod hazard;
+pub mod intervals;
+pub mod models;
+pub mod optimize;
+pub mod rate;
+pub mod renewal;
+
+pub use gof::{goodness_of_fit, GoodnessOfFit};
+pub use hazard::{averaged_interval, hazard_at, p_within, HazardEstimate, ModelHazard, CAUTIONS};
+pub use intervals::{intervals, Interval, IntervalOptions, IntervalRecord};
+pub use models::{Fitted, Model, Sample};
+pub use rate::{clustering_test, laplace_test, windowed_rate, ClusteringTest, LaplaceTest, RatePoint};
+pub use renewal::{fit_models, lr_test, LrTest, ModelFit, RenewalFits};

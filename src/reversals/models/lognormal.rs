@@ -1,0 +1,56 @@
+//! Lognormal intervals: ln x is normal with mean μ and standard deviation σ (of ln Myr).
+//!
+//! # Formula
+//! f(x) = exp(−(ln x − μ)²/(2σ²)) / (x σ √(2π)), S(x) = Φ(−(ln x − μ)/σ). Without censoring the MLE
+//! is μ = mean(ln x), σ² = mean((ln x − μ)²) (divisor n); with a censored length the likelihood is
+//! maximised by Nelder–Mead on (μ, ln σ).
+//!
+//! # References
+//! Lawless (2003), §5.3; Johnson, N. L., Kotz, S. & Balakrishnan, N. (1994), *Continuous Univariate
+//! Distributions* vol. 1, ch. 14.
+
+use super::{ln_norm_cdf, maximise2, Sample};
+use crate::error::{Error, Result};
+use crate::montecarlo::McRng;
+
+const LN_SQRT_2PI: f64 = 0.918_938_533_204_672_8;
+
+pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
+    let n = s.n() as f64;
+    let mu = s.sum_ln / n;
+    let var = (s.sum_ln2 / n - mu * mu).max(0.0);
+    if !(var > 1e-24) {
+        return Err(Error::Undefined("the lognormal fit needs intervals of different lengths".into()));
+    }
+    let start = [mu, var.sqrt()];
+    let Some(c) = s.censored else { return Ok(start) };
+    let ll = |m: f64, ls: f64| loglik_complete(&[m, ls.exp()], s) + ln_sf(&[m, ls.exp()], c);
+    let m = maximise2(ll, [start[0], start[1].ln()], "lognormal")?;
+    Ok([m[0], m[1].exp()])
+}
+
+pub(super) fn ln_pdf(p: &[f64; 2], x: f64) -> f64 {
+    let z = (x.ln() - p[0]) / p[1];
+    -0.5 * z * z - x.ln() - p[1].ln() - LN_SQRT_2PI
+}
+
+pub(super) fn ln_sf(p: &[f64; 2], x: f64) -> f64 {
+    ln_norm_cdf(-(x.ln() - p[0]) / p[1])
+}
+
+pub(super) fn cdf(p: &[f64; 2], x: f64) -> f64 {
+    ln_norm_cdf((x.ln() - p[0]) / p[1]).exp()
+}
+
+pub(super) fn loglik_complete(p: &[f64; 2], s: &Sample) -> f64 {
+    let [m, sg] = *p;
+    let n = s.n() as f64;
+    let ss = s.sum_ln2 - 2.0 * m * s.sum_ln + n * m * m;
+    -ss / (2.0 * sg * sg) - s.sum_ln - n * (sg.ln() + LN_SQRT_2PI)
+}
+
+pub(super) fn sample(p: &[f64; 2], rng: &mut McRng) -> f64 {
+    use rand_distr::Distribution;
+    let z: f64 = rand_distr::StandardNormal.sample(rng);
+    (p[0] + p[1] * z).exp()
+}

@@ -1,0 +1,312 @@
+//! Renewal models for the lengths of polarity intervals, each with a right-censored
+//! log-likelihood, its maximum-likelihood fit, CDF, survival, hazard and a sampler.
+//!
+//! One file per model. A [`Sample`] holds the complete intervals and, optionally, one right-censored
+//! length (the open chron at the young end of the record), which enters every likelihood through the
+//! survival function: ℓ = Σ ln f(xᵢ) + ln S(c).
+
+mod exponential;
+mod gamma;
+mod inverse_gaussian;
+mod lognormal;
+mod weibull;
+
+use crate::error::{Error, Result};
+use crate::montecarlo::McRng;
+
+/// A renewal model by name (contract names: `exponential`, `gamma`, `weibull`, `lognormal`,
+/// `inverse_gaussian`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Model {
+    /// Exponential intervals: a Poisson process of reversals (no memory). Parameter `rate` (per Myr).
+    Exponential,
+    /// Gamma intervals (McFadden 1984). Parameters `shape`, `scale` (Myr).
+    Gamma,
+    /// Weibull intervals. Parameters `shape`, `scale` (Myr).
+    Weibull,
+    /// Lognormal intervals. Parameters `mu`, `sigma` (of ln Myr).
+    Lognormal,
+    /// Inverse Gaussian intervals (Brownian passage time). Parameters `mean`, `shape` (Myr).
+    InverseGaussian,
+}
+
+impl Model {
+    /// All models, in report order.
+    pub const ALL: [Model; 5] = [
+        Model::Exponential,
+        Model::Gamma,
+        Model::Weibull,
+        Model::Lognormal,
+        Model::InverseGaussian,
+    ];
+
+    /// The contract name.
+    pub fn name(self) -> &'static str {
+        match self {
+            Model::Exponential => "exponential",
+            Model::Gamma => "gamma",
+            Model::Weibull => "weibull",
+            Model::Lognormal => "lognormal",
+            Model::InverseGaussian => "inverse_gaussian",
+        }
+    }
+
+    /// Parameter names (contract names), in the order of [`Fitted::params`].
+    pub fn param_names(self) -> &'static [&'static str] {
+        match self {
+            Model::Exponential => &["rate"],
+            Model::Gamma | Model::Weibull => &["shape", "scale"],
+            Model::Lognormal => &["mu", "sigma"],
+            Model::InverseGaussian => &["mean", "shape"],
+        }
+    }
+
+    /// Number of free parameters (for AIC and BIC).
+    pub fn n_params(self) -> usize {
+        self.param_names().len()
+    }
+
+    /// Maximum-likelihood fit to a sample (complete intervals plus the optional censored one).
+    pub fn fit(self, s: &Sample) -> Result<Fitted> {
+        let params = match self {
+            Model::Exponential => exponential::fit(s)?,
+            Model::Gamma => gamma::fit(s)?,
+            Model::Weibull => weibull::fit(s)?,
+            Model::Lognormal => lognormal::fit(s)?,
+            Model::InverseGaussian => inverse_gaussian::fit(s)?,
+        };
+        if !params[..self.n_params()].iter().all(|p| p.is_finite()) {
+            return Err(Error::Undefined(format!(
+                "the {} fit did not converge to finite parameters",
+                self.name()
+            )));
+        }
+        Ok(Fitted { model: self, params })
+    }
+}
+
+/// Interval lengths ready for fitting: complete intervals (sorted) and an optional right-censored
+/// length, with the sums the likelihoods need.
+///
+/// # Units
+/// Myr.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Sample {
+    /// Complete interval lengths, sorted ascending.
+    pub complete: Vec<f64>,
+    /// The right-censored length (the open chron), if it enters the likelihood.
+    pub censored: Option<f64>,
+    pub(crate) sum_x: f64,
+    pub(crate) sum_ln: f64,
+    pub(crate) sum_ln2: f64,
+    pub(crate) sum_inv: f64,
+}
+
+impl Sample {
+    /// Validate and summarise: every length finite and positive, at least two complete intervals.
+    pub fn new(mut complete: Vec<f64>, censored: Option<f64>) -> Result<Sample> {
+        if let Some(x) = complete.iter().chain(censored.iter()).find(|x| !(x.is_finite() && **x > 0.0)) {
+            return Err(Error::Invalid(format!("interval length {x} is not a positive number of Myr")));
+        }
+        if complete.len() < 2 {
+            return Err(Error::TooFew {
+                what: "a renewal-model fit",
+                needed: 2,
+                got: complete.len(),
+                unit: "complete intervals",
+            });
+        }
+        complete.sort_by(f64::total_cmp);
+        let sum_x = complete.iter().sum();
+        let sum_ln = complete.iter().map(|x| x.ln()).sum();
+        let sum_ln2 = complete.iter().map(|x| x.ln().powi(2)).sum();
+        let sum_inv = complete.iter().map(|x| 1.0 / x).sum();
+        Ok(Sample {
+            complete,
+            censored,
+            sum_x,
+            sum_ln,
+            sum_ln2,
+            sum_inv,
+        })
+    }
+
+    /// Number of complete intervals.
+    pub fn n(&self) -> usize {
+        self.complete.len()
+    }
+
+    /// Number of observations (complete plus censored), used as the sample size of BIC.
+    pub fn n_obs(&self) -> usize {
+        self.complete.len() + usize::from(self.censored.is_some())
+    }
+}
+
+/// A model with its fitted parameters.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Fitted {
+    /// Which model.
+    pub model: Model,
+    /// Parameters in the order of [`Model::param_names`] (the exponential uses only the first).
+    pub params: [f64; 2],
+}
+
+impl Fitted {
+    /// Parameters paired with their contract names.
+    pub fn named_params(&self) -> Vec<(&'static str, f64)> {
+        self.model.param_names().iter().copied().zip(self.params).collect()
+    }
+
+    /// ln f(x), the log density at interval length `x` (Myr).
+    pub fn ln_pdf(&self, x: f64) -> f64 {
+        if !(x > 0.0) {
+            return f64::NEG_INFINITY;
+        }
+        match self.model {
+            Model::Exponential => exponential::ln_pdf(&self.params, x),
+            Model::Gamma => gamma::ln_pdf(&self.params, x),
+            Model::Weibull => weibull::ln_pdf(&self.params, x),
+            Model::Lognormal => lognormal::ln_pdf(&self.params, x),
+            Model::InverseGaussian => inverse_gaussian::ln_pdf(&self.params, x),
+        }
+    }
+
+    /// ln S(x), the log survival function (probability that an interval lasts longer than `x`).
+    pub fn ln_sf(&self, x: f64) -> f64 {
+        if !(x > 0.0) {
+            return 0.0;
+        }
+        match self.model {
+            Model::Exponential => exponential::ln_sf(&self.params, x),
+            Model::Gamma => gamma::ln_sf(&self.params, x),
+            Model::Weibull => weibull::ln_sf(&self.params, x),
+            Model::Lognormal => lognormal::ln_sf(&self.params, x),
+            Model::InverseGaussian => inverse_gaussian::ln_sf(&self.params, x),
+        }
+    }
+
+    /// Density f(x).
+    pub fn pdf(&self, x: f64) -> f64 {
+        self.ln_pdf(x).exp()
+    }
+
+    /// Survival S(x) = P(interval > x).
+    pub fn sf(&self, x: f64) -> f64 {
+        self.ln_sf(x).exp()
+    }
+
+    /// Distribution function F(x) = 1 − S(x), computed directly where cancellation would lose digits.
+    pub fn cdf(&self, x: f64) -> f64 {
+        if !(x > 0.0) {
+            return 0.0;
+        }
+        match self.model {
+            Model::Gamma => gamma::cdf(&self.params, x),
+            Model::Lognormal => lognormal::cdf(&self.params, x),
+            Model::InverseGaussian => inverse_gaussian::cdf(&self.params, x),
+            _ => -self.ln_sf(x).exp_m1(),
+        }
+    }
+
+    /// Hazard h(x) = f(x) / S(x): the instantaneous rate of reversal after `x` Myr without one (per Myr).
+    pub fn hazard(&self, x: f64) -> f64 {
+        if self.model == Model::Exponential {
+            return self.params[0];
+        }
+        (self.ln_pdf(x) - self.ln_sf(x)).exp()
+    }
+
+    /// Log-likelihood of a sample, with the censored length entering through ln S.
+    pub fn loglik(&self, s: &Sample) -> f64 {
+        let complete = match self.model {
+            Model::Exponential => exponential::loglik_complete(&self.params, s),
+            Model::Gamma => gamma::loglik_complete(&self.params, s),
+            Model::Weibull => s.complete.iter().map(|&x| self.ln_pdf(x)).sum(),
+            Model::Lognormal => lognormal::loglik_complete(&self.params, s),
+            Model::InverseGaussian => inverse_gaussian::loglik_complete(&self.params, s),
+        };
+        complete + s.censored.map_or(0.0, |c| self.ln_sf(c))
+    }
+
+    /// One random interval length from the model.
+    pub fn sample(&self, rng: &mut McRng) -> f64 {
+        match self.model {
+            Model::Exponential => exponential::sample(&self.params, rng),
+            Model::Gamma => gamma::sample(&self.params, rng),
+            Model::Weibull => weibull::sample(&self.params, rng),
+            Model::Lognormal => lognormal::sample(&self.params, rng),
+            Model::InverseGaussian => inverse_gaussian::sample(&self.params, rng),
+        }
+    }
+
+    /// Mean interval length (Myr).
+    pub fn mean(&self) -> f64 {
+        let [a, b] = self.params;
+        match self.model {
+            Model::Exponential => 1.0 / a,
+            Model::Gamma => a * b,
+            Model::Weibull => b * statrs::function::gamma::gamma(1.0 + 1.0 / a),
+            Model::Lognormal => (a + 0.5 * b * b).exp(),
+            Model::InverseGaussian => a,
+        }
+    }
+}
+
+/// ln Φ(z), the log of the standard normal distribution function, accurate far into the lower tail.
+///
+/// # Formula
+/// Φ(z) = ½ erfc(−z/√2); below z = −30 the asymptotic series
+/// ln Φ(z) ≈ −z²/2 − ln(−z) − ½ ln 2π + ln(1 − 1/z² + 3/z⁴ − 15/z⁶).
+///
+/// # References
+/// Abramowitz, M. & Stegun, I. A. (1964), *Handbook of Mathematical Functions*, 26.2.12.
+pub fn ln_norm_cdf(z: f64) -> f64 {
+    if z > -30.0 {
+        (0.5 * statrs::function::erf::erfc(-z / std::f64::consts::SQRT_2)).ln()
+    } else {
+        let z2 = z * z;
+        -0.5 * z2 - (-z).ln() - 0.5 * (2.0 * std::f64::consts::PI).ln() + (1.0 - 1.0 / z2 + 3.0 / (z2 * z2) - 15.0 / (z2 * z2 * z2)).ln()
+    }
+}
+
+/// The trigamma function ψ′(x) for x > 0.
+///
+/// # Formula
+/// Recurrence ψ′(x) = ψ′(x + 1) + 1/x² up to x ≥ 10, then the asymptotic series
+/// 1/x + 1/(2x²) + 1/(6x³) − 1/(30x⁵) + 1/(42x⁷) − 1/(30x⁹) + 5/(66x¹¹) (Bernoulli numbers).
+///
+/// # References
+/// Abramowitz & Stegun (1964), 6.4.6 and 6.4.12.
+pub fn trigamma(mut x: f64) -> f64 {
+    let mut acc = 0.0;
+    while x < 10.0 {
+        acc += 1.0 / (x * x);
+        x += 1.0;
+    }
+    let r = 1.0 / x;
+    let r2 = r * r;
+    acc + r + 0.5 * r2 + r * r2 * (1.0 / 6.0 - r2 * (1.0 / 30.0 - r2 * (1.0 / 42.0 - r2 * (1.0 / 30.0 - r2 * 5.0 / 66.0))))
+}
+
+/// Maximise a two-parameter log-likelihood by Nelder–Mead from a starting point, in the caller's
+/// (unbounded, usually logarithmic) parametrisation; returns the maximising point in that space.
+pub(crate) fn maximise2<F: Fn(f64, f64) -> f64>(ll: F, start: [f64; 2], what: &'static str) -> Result<[f64; 2]> {
+    let mut best = start;
+    let mut step = 0.1;
+    // Restart once from the optimum with a small simplex, to guard against a collapsed simplex
+    // (common practice with Nelder–Mead). Tolerances: 1e-11 in log-likelihood, 1e-7 in the
+    // (log) parameters, far below the statistical uncertainty of any fit.
+    for _ in 0..2 {
+        let m = super::optimize::nelder_mead(|p| -ll(p[0], p[1]), &best, step, 1e-11, 1e-7, 4000);
+        if !m.value.is_finite() {
+            return Err(Error::Undefined(format!("the {what} likelihood is not finite near the data")));
+        }
+        best = [m.x[0], m.x[1]];
+        step = 1e-3;
+    }
+    Ok(best)
+}
+
+#[cfg(test)]
+mod tests;
