@@ -52,30 +52,35 @@ def fisher_mean(dec, inc):
     return s / r, r, k, a95
 
 
-def boot_means_gather(v, b, rng, chunk_elems=4_000_000):
-    """Resampled mean unit vectors, by fancy indexing in chunks (bounded temporaries)."""
+def chunked_means(v, b, rng, resample_sums, chunk_elems=4_000_000):
+    """Mean unit vectors of b resamples, in chunks that keep temporaries bounded."""
     n = len(v)
     step = max(1, chunk_elems // n)
     out = []
     for start in range(0, b, step):
-        m = min(step, b - start)
-        s = v[rng.integers(0, n, size=(m, n))].sum(axis=1)
+        s = resample_sums(v, rng.integers(0, n, size=(min(step, b - start), n)))
         out.append(s / np.linalg.norm(s, axis=1, keepdims=True))
     return np.concatenate(out)
 
 
-def boot_means_counts(v, b, rng, chunk_elems=4_000_000):
-    """Resampled mean unit vectors, by resampling counts and one matrix product (BLAS)."""
-    n = len(v)
-    step = max(1, chunk_elems // n)
-    out = []
-    for start in range(0, b, step):
-        m = min(step, b - start)
-        idx = rng.integers(0, n, size=(m, n)) + (np.arange(m) * n)[:, None]
-        w = np.bincount(idx.ravel(), minlength=m * n).reshape(m, n).astype(float)
-        s = w @ v
-        out.append(s / np.linalg.norm(s, axis=1, keepdims=True))
-    return np.concatenate(out)
+def sums_gather(v, idx):
+    """Resample sums by fancy indexing."""
+    return v[idx].sum(axis=1)
+
+
+def sums_counts(v, idx):
+    """Resample sums from the counts of each index and one matrix product (BLAS)."""
+    m, n = idx.shape
+    w = np.bincount((idx + (np.arange(m) * n)[:, None]).ravel(), minlength=m * n).reshape(m, n)
+    return w.astype(float) @ v
+
+
+def boot_means_gather(v, b, rng):
+    return chunked_means(v, b, rng, sums_gather)
+
+
+def boot_means_counts(v, b, rng):
+    return chunked_means(v, b, rng, sums_counts)
 
 
 def bootstrap(a, b, nboot, means_fn, seed=1):
