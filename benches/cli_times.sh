@@ -9,12 +9,10 @@ mkdir -p "$dir"
 cargo build --release --quiet
 bin="$PWD/target/release/lodestone"
 
-for n in 100 10000 100000 1000000; do
-  f="$dir/mean-$n.csv"
-  [ -s "$f" ] || python3 - "$n" "$f" <<'PY'
+cat > "$dir/gen.py" <<'PY'
 import sys
 import numpy as np
-n, path = int(sys.argv[1]), sys.argv[2]
+n, path, sites = int(sys.argv[1]), sys.argv[2], int(sys.argv[3])
 rng = np.random.default_rng(n)
 k = 40.0
 u, phi = rng.random(n), rng.random(n) * 2 * np.pi
@@ -26,15 +24,21 @@ inc = np.degrees(np.arcsin(np.clip(st * np.sin(phi), -1, 1)))
 with open(path, "w") as out:
     out.write("site,specimen,dec,inc,lat,lon\n")
     for i in range(n):
-        out.write(f"Q{i // 10},Q{i // 10}-{i % 10},{dec[i]:.1f},{inc[i]:.1f},47.25,281.5\n")
+        site = i // 10 if sites == 0 else (i // 10) % sites
+        out.write(f"Q{site},Q{site}-{i},{dec[i]:.1f},{inc[i]:.1f},47.25,281.5\n")
 PY
+# mean-N.csv: one site per 10 rows (the groups grow with the rows); sites-N.csv: the same kind of rows
+# in 100 sites, 10 adjacent rows per site, cycling (a fixed number of groups).
+for n in 100 10000 100000 1000000; do
+  [ -s "$dir/mean-$n.csv" ] || python3 "$dir/gen.py" "$n" "$dir/mean-$n.csv" 0
+  [ -s "$dir/sites-$n.csv" ] || python3 "$dir/gen.py" "$n" "$dir/sites-$n.csv" 100
 done
 
 median() { sort -n | awk '{a[NR]=$1} END {print a[int((NR+1)/2)]}'; }
 
-printf '%-10s %-9s %12s %14s %14s\n' rows format "wall s" "rows/s" "max RSS MiB"
-for n in 100 10000 100000 1000000; do
-  f="$dir/mean-$n.csv"
+printf '%-16s %-9s %12s %14s %14s\n' file format "wall s" "rows/s" "max RSS MiB"
+for f in "$dir"/sites-{10000,100000,1000000}.csv "$dir"/mean-{100,10000,100000,1000000}.csv; do
+  n=$(($(wc -l < "$f") - 1))
   for fmt in csv json; do
     runs=5; [ "$n" -le 100 ] && runs=21
     walls=(); rss=0
@@ -45,7 +49,7 @@ for n in 100 10000 100000 1000000; do
     done
     w=$(printf '%s\n' "${walls[@]}" | median)
     rate=$(awk -v n="$n" -v w="$w" 'BEGIN { if (w > 0) printf "%.0f", n / w; else print "-" }')
-    printf '%-10s %-9s %12s %14s %14.1f\n' "$n" "$fmt" "$w" "$rate" "$(awk -v m="$rss" 'BEGIN{print m/1024}')"
+    printf '%-16s %-9s %12s %14s %14.1f\n' "$(basename "$f")" "$fmt" "$w" "$rate" "$(awk -v m="$rss" 'BEGIN{print m/1024}')"
   done
 done
 
