@@ -20,10 +20,12 @@
 //! | Fisher (1953) mean, R, k, α95, θ63 | [`stats::fisher_mean`], [`stats::FisherAccumulator`] |
 //! | confidence cone at any level | [`stats::confidence_cone`] |
 //! | means per site or group, geographic or tilt-corrected | [`stats::group_means`] |
+//! | means per group streamed from a table in constant memory | [`stats::stream_group_means`] |
 //! | orientation matrix and principal axes | [`stats::orientation_matrix`], [`stats::principal_axes`] |
 //! | Fisher random directions | [`stats::FisherSampler`] |
 //! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`] |
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
+//! | a table read one row at a time, same checks and messages | [`table::TableStream`], [`table::Columns`], [`table::DirectionColumns`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
 //! | VGP confidence oval dp, dm; paleolatitude range | [`poles::pole_oval`], [`poles::paleolatitude_range`] |

@@ -119,3 +119,41 @@ fn plots_are_written_and_inputs_never_overwritten() {
     assert_eq!(fs::read_to_string(&g).unwrap(), "dec,inc\n1,2\n");
     cmd().args(["mean", f.to_str().unwrap(), "--plot", d.path().join("x.pdf").to_str().unwrap()]).assert().code(1);
 }
+
+/// The streamed path (no figure) and the whole-table path (a figure asks for the points) give the same
+/// groups, to the last digit, and the same message for a faulty file.
+#[test]
+fn streamed_and_whole_table_paths_agree() {
+    let d = tempfile::tempdir().unwrap();
+    let body = "# Harlow Bench, invented\nsite,dec,inc,bed_dip_dir,bed_dip\nA,10,20,90,30\nB,200,-35,270,15\nA,14,26,90,30\n\nA,8,31,90,30\nB,190,-40,270,15\n";
+    let f = write(&d, "h.csv", body);
+    for frame in ["geo", "tilt"] {
+        let run = |plot: bool| {
+            let mut c = cmd();
+            c.args(["mean", f.to_str().unwrap(), "--frame", frame, "--format", "json"]);
+            if plot {
+                c.args(["--plot", d.path().join("h.svg").to_str().unwrap()]);
+            }
+            let out = c.output().unwrap();
+            assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+            serde_json::from_slice::<serde_json::Value>(&out.stdout).unwrap()
+        };
+        let (streamed, whole) = (run(false), run(true));
+        assert_eq!(streamed["groups"], whole["groups"]);
+        assert_eq!(streamed["groups"][0]["lines"], serde_json::json!([3, 5, 7]));
+    }
+    let bad = write(&d, "bad.csv", "site,dec,inc\nA,10,20\nA,x,20\nB,1\n");
+    let msg = |plot: bool| {
+        let mut c = cmd();
+        c.args(["mean", bad.to_str().unwrap()]);
+        if plot {
+            c.args(["--plot", d.path().join("b.svg").to_str().unwrap()]);
+        }
+        let out = c.output().unwrap();
+        assert_eq!(out.status.code(), Some(1));
+        String::from_utf8_lossy(&out.stderr).to_string()
+    };
+    let (a, b) = (msg(false), msg(true));
+    assert_eq!(a, b);
+    assert!(a.contains("bad.csv:4"), "{a}");
+}

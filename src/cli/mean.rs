@@ -4,8 +4,8 @@ use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
-use lodestone::stats::{group_means, Frame};
-use lodestone::table::{read_directions, GroupBy, Table};
+use lodestone::stats::{group_means, stream_group_means, Frame, GroupMean, StreamedGroup, StreamedMeans};
+use lodestone::table::{read_directions, GroupBy, Table, TableStream};
 use serde_json::json;
 use std::path::PathBuf;
 
@@ -41,18 +41,39 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
         anyhow::bail!("--confidence must lie strictly between 0 and 1, got {}", a.confidence);
     }
     ctx.inputs.add(&a.file);
-    let table = Table::read(&a.file)?;
     let by = match (&a.by, a.whole) {
         (Some(c), _) => GroupBy::Column(c.clone()),
         (None, true) => GroupBy::None,
         (None, false) => GroupBy::Default,
     };
-    let set = read_directions(&table, &by)?;
     let frame = match a.frame {
         FrameArg::Geo => Frame::Geo,
         FrameArg::Tilt => Frame::Tilt,
     };
-    let means = group_means(&set, frame, 0.95)?;
+    // Without a figure the table streams through per-group accumulators (memory does not grow with the
+    // row count); the figure needs the points, and great circles need the whole group at once.
+    let mut streamed = None;
+    if a.plot.is_none() {
+        let mut stream = TableStream::open(&a.file)?;
+        let keep_lines = ctx.global.format == super::Format::Json;
+        if let StreamedMeans::Means { group_column, groups, .. } = stream_group_means(&mut stream, &by, frame, 0.95, keep_lines)? {
+            let means: Vec<GroupMean> = groups
+                .into_iter()
+                .map(|g| if keep_lines { g.into() } else { GroupMean { lines: Vec::new(), ..StreamedGroup::into(g) } })
+                .collect();
+            streamed = Some((means, group_column));
+        }
+    }
+    let (set, means, group_column) = match streamed {
+        Some((means, group_column)) => (None, means, group_column),
+        None => {
+            let table = Table::read(&a.file)?;
+            let set = read_directions(&table, &by)?;
+            let means = group_means(&set, frame, 0.95)?;
+            let group_column = set.group_column.clone();
+            (Some(set), means, group_column)
+        }
+    };
     let other = (a.confidence - 0.95).abs() > 1e-12;
     let mut sec = Section::new(
         &format!("Fisher means ({} coordinates) of {}", if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }, a.file.display()),
@@ -130,7 +151,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
                     points: g
                         .lines
                         .iter()
-                        .filter_map(|l| set.records.iter().find(|r| r.line == *l))
+                        .filter_map(|l| set.as_ref().and_then(|s| s.records.iter().find(|r| r.line == *l)))
                         .map(|r| match frame {
                             Frame::Geo => r.direction,
                             Frame::Tilt => lodestone::sphere::Direction::from_vector(r.bedding.expect("checked").untilt(r.direction.to_vector())).expect("unit"),
@@ -146,7 +167,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
         json: json!({
             "file": a.file.display().to_string(),
             "frame": frame,
-            "group_column": set.group_column,
+            "group_column": group_column,
             "confidence": a.confidence,
             "groups": groups,
             "notes": notes,

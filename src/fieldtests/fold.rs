@@ -182,29 +182,31 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
         return Err(Error::Invalid(format!("{n_steps} untilting steps is too many")));
     }
     let steps: Vec<f64> = (0..n_steps).map(|s| opt.from + s as f64 * opt.step).collect();
-    // Outer products of every direction at every step, laid out [step][direction][6].
-    let mut outer = vec![[0.0f64; 6]; n_steps * n];
-    for (s, pct) in steps.iter().enumerate() {
-        for (i, (u, b)) in v.iter().zip(beds).enumerate() {
+    // Outer products of every direction at every step, laid out [direction][step × 6]: one drawn
+    // direction adds a contiguous run of 6 × n_steps numbers, which the compiler vectorises. Each
+    // (step, component) sum still runs over the drawn directions in index order, so the sums are
+    // the same, bit for bit, as step-by-step accumulation.
+    let width = n_steps * 6;
+    let mut outer = vec![0.0f64; n * width];
+    for (i, (u, b)) in v.iter().zip(beds).enumerate() {
+        for (s, pct) in steps.iter().enumerate() {
             let w = b.partial(pct / 100.0).apply(*u);
-            outer[s * n + i] = [w.x * w.x, w.y * w.y, w.z * w.z, w.x * w.y, w.x * w.z, w.y * w.z];
+            outer[i * width + s * 6..i * width + s * 6 + 6]
+                .copy_from_slice(&[w.x * w.x, w.y * w.y, w.z * w.z, w.x * w.y, w.x * w.z, w.y * w.z]);
         }
     }
     let curve_of = |weights: &[u32]| -> Vec<f64> {
-        (0..n_steps)
-            .map(|s| {
-                let mut t = [0.0; 6];
-                for (i, &c) in weights.iter().enumerate() {
-                    if c > 0 {
-                        let o = &outer[s * n + i];
-                        let cf = c as f64;
-                        for j in 0..6 {
-                            t[j] += cf * o[j];
-                        }
-                    }
+        let mut t = vec![0.0f64; width];
+        for (i, &c) in weights.iter().enumerate() {
+            if c > 0 {
+                let cf = c as f64;
+                for (acc, o) in t.iter_mut().zip(&outer[i * width..(i + 1) * width]) {
+                    *acc += cf * o;
                 }
-                largest_eigenvalue(t.map(|x| x / n as f64))
-            })
+            }
+        }
+        t.chunks_exact(6)
+            .map(|m| largest_eigenvalue([m[0], m[1], m[2], m[3], m[4], m[5]].map(|x| x / n as f64)))
             .collect()
     };
     let argmax = |c: &[f64]| -> usize {

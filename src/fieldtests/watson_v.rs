@@ -33,9 +33,13 @@ pub struct WatsonV {
 /// 8, 245–256; as used for the common-mean test in Tauxe, L. (2010), *Essentials of Paleomagnetism*,
 /// ch. 12 (from memory).
 pub fn watson_v_statistic(a: &[Vec3], b: &[Vec3]) -> f64 {
-    let (xa, xb) = (resultant(a), resultant(b));
+    v_from_resultants(resultant(a), a.len(), resultant(b), b.len())
+}
+
+/// V_w from the resultant vectors and sizes of the two sets (what the statistic depends on).
+fn v_from_resultants(xa: Vec3, na: usize, xb: Vec3, nb: usize) -> f64 {
     let (ra, rb) = (xa.norm(), xb.norm());
-    let (ka, kb) = (capped_k(a.len(), ra), capped_k(b.len(), rb));
+    let (ka, kb) = (capped_k(na, ra), capped_k(nb, rb));
     let sw = ka * ra + kb * rb;
     let rw = (xa * ka + xb * kb).norm();
     (2.0 * (sw - rw)).max(0.0)
@@ -60,9 +64,11 @@ pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Res
     let sb = FisherSampler::new(north, kb)?;
     let (na, nb) = (a.len(), b.len());
     let mut sims = mc.run("V_w simulation", streams::WATSON_V, |rng, _| {
-        let xa: Vec<Vec3> = (0..na).map(|_| sa.sample(rng)).collect();
-        let xb: Vec<Vec3> = (0..nb).map(|_| sb.sample(rng)).collect();
-        watson_v_statistic(&xa, &xb)
+        // Only the resultants matter: sum the draws as they come (same order, same sums as summing a
+        // stored set), with no per-replicate allocation.
+        let xa = (0..na).fold(Vec3::ZERO, |s, _| s + sa.sample(rng));
+        let xb = (0..nb).fold(Vec3::ZERO, |s, _| s + sb.sample(rng));
+        v_from_resultants(xa, na, xb, nb)
     });
     sims.sort_by(f64::total_cmp);
     let v_crit = quantile_sorted(&sims, confidence);

@@ -6,12 +6,14 @@ mod groups;
 mod mixed;
 mod orientation;
 mod sampler;
+mod stream_means;
 
 pub use fisher::{confidence_cone, fisher_from_vectors, fisher_mean, FisherAccumulator, FisherStats, Precision};
 pub use groups::{group_means, Frame, GroupMean};
 pub use mixed::{mixed_cone, mixed_mean, MixedStats};
 pub use orientation::{orientation_matrix, principal_axes};
 pub use sampler::FisherSampler;
+pub use stream_means::{stream_group_means, LineRun, StreamedGroup, StreamedMeans};
 
 #[cfg(test)]
 mod tests;

@@ -5,13 +5,15 @@ mod picks;
 mod reader;
 mod sites;
 mod steps;
+mod stream;
 mod timescale;
 
 pub use directions::{
-    read_bedding, read_directions, strat_axis, DirectionKind, DirectionRecord, DirectionSet, GroupBy, StratAxis,
+    read_bedding, read_directions, strat_axis, DirectionColumns, DirectionKind, DirectionRecord, DirectionRow, DirectionSet, GroupBy, StratAxis,
 };
 pub use picks::{read_picks, Pick};
-pub use reader::{Row, Table};
+pub use reader::{Cells, Columns, Row, Table};
+pub use stream::{is_layout_fault, StreamRow, TableStream};
 pub use sites::{read_sites, SiteRecord, SiteSet};
 pub use steps::{read_steps, SpecimenSteps, StepRecord, StepSet, Treatment};
 pub use timescale::{Chron, Polarity, TimeScale, AGE_TOLERANCE};

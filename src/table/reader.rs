@@ -82,30 +82,12 @@ impl Table {
             }
             match &headers {
                 None => {
-                    let h: Vec<String> = rec.iter().map(|c| c.trim().to_lowercase()).collect();
-                    for (i, a) in h.iter().enumerate() {
-                        if a.is_empty() {
-                            return Err(err(line, format!("header cell {} is empty", i + 1)));
-                        }
-                        if h[..i].contains(a) {
-                            return Err(TableError {
-                                file: name.to_string(),
-                                line,
-                                column: Some(a.clone()),
-                                message: "the column appears twice in the header".into(),
-                            });
-                        }
-                    }
+                    let h = check_header(name, line, rec.iter())?;
                     headers = Some((line, h));
                 }
                 Some((_, h)) => {
                     let mut cells: Vec<String> = rec.iter().map(str::to_string).collect();
-                    if cells.len() < h.len() {
-                        return Err(err(line, format!("expected {} cells as in the header, found {}", h.len(), cells.len())));
-                    }
-                    if cells[h.len()..].iter().any(|c| !c.is_empty()) {
-                        return Err(err(line, format!("expected {} cells as in the header, found {}", h.len(), cells.len())));
-                    }
+                    check_cell_count(name, line, h.len(), cells.iter().map(String::as_str))?;
                     cells.truncate(h.len());
                     rows.push(Row { line, cells });
                 }
@@ -119,22 +101,17 @@ impl Table {
 
     /// Index of a column, if present.
     pub fn col(&self, name: &str) -> Option<usize> {
-        self.headers.iter().position(|h| h == name)
+        Columns::col(self, name)
     }
 
     /// Index of a required column, or an error naming the header line and the column.
     pub fn require(&self, name: &str) -> Result<usize, TableError> {
-        self.col(name).ok_or_else(|| TableError {
-            file: self.name.clone(),
-            line: self.header_line,
-            column: Some(name.to_string()),
-            message: format!("required column is missing (header has: {})", self.headers.join(", ")),
-        })
+        Columns::require(self, name)
     }
 
     /// An error at `line`, optionally naming a column.
     pub fn error(&self, line: usize, column: Option<&str>, message: impl Into<String>) -> TableError {
-        TableError { file: self.name.clone(), line, column: column.map(str::to_string), message: message.into() }
+        Columns::error(self, line, column, message)
     }
 
     /// Error unless the table has at least one data row.
@@ -158,50 +135,190 @@ impl Table {
 
     /// A required finite number.
     pub fn number(&self, row: &Row, idx: usize) -> Result<f64, TableError> {
-        let name = &self.headers[idx];
-        let s = self.text(row, idx);
-        if s.is_empty() {
-            return Err(self.error(row.line, Some(name), "is empty; expected a number"));
+        Columns::number(self, row, idx)
+    }
+
+    /// A required number within `[lo, hi]`.
+    pub fn number_in(&self, row: &Row, idx: usize, lo: f64, hi: f64) -> Result<f64, TableError> {
+        Columns::number_in(self, row, idx, lo, hi)
+    }
+
+    /// An optional number: `None` when the column is absent or the cell empty.
+    pub fn opt_number(&self, row: &Row, idx: Option<usize>) -> Result<Option<f64>, TableError> {
+        Columns::opt_number(self, row, idx)
+    }
+
+    /// An optional number within `[lo, hi]`.
+    pub fn opt_number_in(&self, row: &Row, idx: Option<usize>, lo: f64, hi: f64) -> Result<Option<f64>, TableError> {
+        Columns::opt_number_in(self, row, idx, lo, hi)
+    }
+
+    /// An optional yes/no cell (`true/false`, `yes/no`, `y/n`, `1/0`, any case); empty means `false`.
+    pub fn flag(&self, row: &Row, idx: Option<usize>) -> Result<bool, TableError> {
+        Columns::flag(self, row, idx)
+    }
+}
+
+/// Validate a header row: names lower-cased and trimmed, none empty, none twice.
+pub(crate) fn check_header<'a>(
+    file: &str,
+    line: usize,
+    cells: impl Iterator<Item = &'a str>,
+) -> Result<Vec<String>, TableError> {
+    let h: Vec<String> = cells.map(|c| c.trim().to_lowercase()).collect();
+    for (i, a) in h.iter().enumerate() {
+        if a.is_empty() {
+            return Err(TableError { file: file.to_string(), line, column: None, message: format!("header cell {} is empty", i + 1) });
         }
-        let v: f64 = s.parse().map_err(|_| self.error(row.line, Some(name), format!("'{s}' is not a number")))?;
+        if h[..i].contains(a) {
+            return Err(TableError {
+                file: file.to_string(),
+                line,
+                column: Some(a.clone()),
+                message: "the column appears twice in the header".into(),
+            });
+        }
+    }
+    Ok(h)
+}
+
+/// A data row must have as many cells as the header (trailing empty cells are tolerated).
+pub(crate) fn check_cell_count<'a>(
+    file: &str,
+    line: usize,
+    expected: usize,
+    cells: impl ExactSizeIterator<Item = &'a str>,
+) -> Result<(), TableError> {
+    let found = cells.len();
+    let mut extra = false;
+    for (i, c) in cells.enumerate() {
+        if i >= expected && !c.is_empty() {
+            extra = true;
+            break;
+        }
+    }
+    if found < expected || extra {
+        return Err(TableError {
+            file: file.to_string(),
+            line,
+            column: None,
+            message: format!("expected {expected} cells as in the header, found {found}"),
+        });
+    }
+    Ok(())
+}
+
+/// Read access to one data row, whether held by a [`Table`] or lent by a [`super::TableStream`].
+pub trait Cells {
+    /// 1-based line number in the file.
+    fn line(&self) -> usize;
+    /// The cell at `idx`, trimmed of surrounding blanks (`""` when empty).
+    fn cell(&self, idx: usize) -> &str;
+}
+
+impl Cells for Row {
+    fn line(&self) -> usize {
+        self.line
+    }
+    fn cell(&self, idx: usize) -> &str {
+        self.cells[idx].as_str()
+    }
+}
+
+/// The header side of a table (file name, header line and names) and the typed cell readers built on
+/// it. Implemented by [`Table`] (all rows in memory) and [`super::TableStream`] (one row at a time),
+/// so both give the same values and the same `FILE:LINE: column 'X'` messages.
+pub trait Columns {
+    /// File name for messages.
+    fn file_name(&self) -> &str;
+    /// Line of the header row.
+    fn header_line(&self) -> usize;
+    /// Header names, lower-cased and trimmed.
+    fn header_names(&self) -> &[String];
+
+    /// Index of a column, if present.
+    fn col(&self, name: &str) -> Option<usize> {
+        self.header_names().iter().position(|h| h == name)
+    }
+
+    /// Index of a required column, or an error naming the header line and the column.
+    fn require(&self, name: &str) -> Result<usize, TableError> {
+        self.col(name).ok_or_else(|| TableError {
+            file: self.file_name().to_string(),
+            line: self.header_line(),
+            column: Some(name.to_string()),
+            message: format!("required column is missing (header has: {})", self.header_names().join(", ")),
+        })
+    }
+
+    /// An error at `line`, optionally naming a column.
+    fn error(&self, line: usize, column: Option<&str>, message: impl Into<String>) -> TableError {
+        TableError { file: self.file_name().to_string(), line, column: column.map(str::to_string), message: message.into() }
+    }
+
+    /// An optional text cell: `None` when the column is absent or the cell empty.
+    fn opt_str<'r, R: Cells + ?Sized>(&self, row: &'r R, idx: Option<usize>) -> Option<&'r str> {
+        idx.map(|i| row.cell(i)).filter(|s| !s.is_empty())
+    }
+
+    /// A required finite number.
+    fn number<R: Cells + ?Sized>(&self, row: &R, idx: usize) -> Result<f64, TableError> {
+        let name = &self.header_names()[idx];
+        let s = row.cell(idx);
+        if s.is_empty() {
+            return Err(self.error(row.line(), Some(name), "is empty; expected a number"));
+        }
+        let v: f64 = s.parse().map_err(|_| self.error(row.line(), Some(name), format!("'{s}' is not a number")))?;
         if !v.is_finite() {
-            return Err(self.error(row.line, Some(name), format!("'{s}' is not a finite number")));
+            return Err(self.error(row.line(), Some(name), format!("'{s}' is not a finite number")));
         }
         Ok(v)
     }
 
     /// A required number within `[lo, hi]`.
-    pub fn number_in(&self, row: &Row, idx: usize, lo: f64, hi: f64) -> Result<f64, TableError> {
+    fn number_in<R: Cells + ?Sized>(&self, row: &R, idx: usize, lo: f64, hi: f64) -> Result<f64, TableError> {
         let v = self.number(row, idx)?;
         if v < lo || v > hi {
-            return Err(self.error(row.line, Some(&self.headers[idx]), format!("{v} is outside [{lo}, {hi}]")));
+            return Err(self.error(row.line(), Some(&self.header_names()[idx]), format!("{v} is outside [{lo}, {hi}]")));
         }
         Ok(v)
     }
 
     /// An optional number: `None` when the column is absent or the cell empty.
-    pub fn opt_number(&self, row: &Row, idx: Option<usize>) -> Result<Option<f64>, TableError> {
+    fn opt_number<R: Cells + ?Sized>(&self, row: &R, idx: Option<usize>) -> Result<Option<f64>, TableError> {
         match idx {
-            Some(i) if !row.cells[i].is_empty() => self.number(row, i).map(Some),
+            Some(i) if !row.cell(i).is_empty() => self.number(row, i).map(Some),
             _ => Ok(None),
         }
     }
 
     /// An optional number within `[lo, hi]`.
-    pub fn opt_number_in(&self, row: &Row, idx: Option<usize>, lo: f64, hi: f64) -> Result<Option<f64>, TableError> {
+    fn opt_number_in<R: Cells + ?Sized>(&self, row: &R, idx: Option<usize>, lo: f64, hi: f64) -> Result<Option<f64>, TableError> {
         match idx {
-            Some(i) if !row.cells[i].is_empty() => self.number_in(row, i, lo, hi).map(Some),
+            Some(i) if !row.cell(i).is_empty() => self.number_in(row, i, lo, hi).map(Some),
             _ => Ok(None),
         }
     }
 
     /// An optional yes/no cell (`true/false`, `yes/no`, `y/n`, `1/0`, any case); empty means `false`.
-    pub fn flag(&self, row: &Row, idx: Option<usize>) -> Result<bool, TableError> {
+    fn flag<R: Cells + ?Sized>(&self, row: &R, idx: Option<usize>) -> Result<bool, TableError> {
         let Some(i) = idx else { return Ok(false) };
-        match row.cells[i].to_lowercase().as_str() {
+        match row.cell(i).to_lowercase().as_str() {
             "" | "false" | "no" | "n" | "0" => Ok(false),
             "true" | "yes" | "y" | "1" => Ok(true),
-            s => Err(self.error(row.line, Some(&self.headers[i]), format!("'{s}' is not yes/no (true/false, y/n, 1/0)"))),
+            s => Err(self.error(row.line(), Some(&self.header_names()[i]), format!("'{s}' is not yes/no (true/false, y/n, 1/0)"))),
         }
+    }
+}
+
+impl Columns for Table {
+    fn file_name(&self) -> &str {
+        &self.name
+    }
+    fn header_line(&self) -> usize {
+        self.header_line
+    }
+    fn header_names(&self) -> &[String] {
+        &self.headers
     }
 }
