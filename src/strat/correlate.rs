@@ -41,6 +41,7 @@ use super::polarity::ZonePolarity;
 use super::zones::ZoneColumn;
 use crate::table::{Polarity, TimeScale};
 use crate::{Error, Result};
+use rayon::prelude::*;
 use std::collections::HashMap;
 
 /// A dated bed: the age at a position must fall within the chrons the candidate assigns there.
@@ -118,6 +119,60 @@ pub(crate) struct Problem<'a> {
     /// Prefix sums over chrons of (count, duration) for normal and reversed chrons.
     pre: [Vec<(usize, f64)>; 2],
     anchors_up: Vec<(f64, Anchor)>,
+    /// Precomputed run geometry (see [`RunTables`]).
+    tab: RunTables,
+}
+
+/// ln of a duration interval [d_min, d_max] as used by the rate term: (ln d_min or −∞, ln max(d_max, 1e-12)).
+#[derive(Debug, Clone, Copy, Default)]
+struct LnSpan {
+    lo: f64,
+    hi: f64,
+}
+impl LnSpan {
+    fn new(d_min: f64, d_max: f64) -> LnSpan {
+        LnSpan { lo: if d_min > 0.0 { d_min.ln() } else { f64::NEG_INFINITY }, hi: d_max.max(1e-12).ln() }
+    }
+}
+
+/// Chron side of a run: durations for both readings and the missing chrons.
+#[derive(Debug, Clone, Copy, Default)]
+struct ChronRun {
+    /// Durations with the missing chrons (unsampled reading).
+    u: LnSpan,
+    /// Durations without them (hiatus reading).
+    h: LnSpan,
+    missing: usize,
+    mdur: f64,
+}
+
+/// Column side of a run: polarity, ignored zones and ln of the thickness interval.
+#[derive(Debug, Clone, Copy)]
+struct GapRun {
+    cp: Polarity,
+    skipped: usize,
+    /// ln T_min (or −∞) and ln max(T_max, 1e-12).
+    t: LnSpan,
+}
+
+/// Everything about a run that does not depend on the rate, computed once per problem instead of once
+/// per (pair of nodes, rate): the search evaluates each run at every rate of the grid, so these values
+/// (logarithms, prefix-sum lookups, scans for ignored zones) were the bulk of the work. Chron tables are
+/// n × n for n chrons (48 bytes an entry: about 4 MB per table for 300 chrons).
+struct RunTables {
+    n: usize,
+    /// Interior run from chron boundary j1 to j2 (chrons j1 + 1..=j2), at [j2·n + j1].
+    inter: Vec<ChronRun>,
+    /// Top run over chrons s..=j, at [j·n + s].
+    top: Vec<ChronRun>,
+    /// Bottom run over chrons j + 1..=e, at [j·n + e].
+    bottom: Vec<ChronRun>,
+    /// Interior run between gaps g1 and g2, at [g1·n_gaps + g2]; None if no run can join them.
+    gap_inter: Vec<Option<GapRun>>,
+    /// Top run down to gap g.
+    gap_top: Vec<Option<GapRun>>,
+    /// Bottom run from gap g.
+    gap_bottom: Vec<Option<GapRun>>,
 }
 
 /// A candidate path: top chron, ties (gap index, chron boundary j between chron j and j + 1), bottom chron.
@@ -197,7 +252,8 @@ impl<'a> Problem<'a> {
             return Err(Error::Undefined("the column has no thickness (one level, or all levels at one position)".into()));
         }
         let anchors_up = opts.anchors.iter().map(|a| (col.up(a.position), *a)).collect();
-        Ok(Problem {
+        let empty = RunTables { n: 0, inter: vec![], top: vec![], bottom: vec![], gap_inter: vec![], gap_top: vec![], gap_bottom: vec![] };
+        let mut pb = Problem {
             col,
             ts,
             opts,
@@ -209,7 +265,75 @@ impl<'a> Problem<'a> {
             gaps,
             pre,
             anchors_up,
-        })
+            tab: empty,
+        };
+        pb.tab = pb.run_tables();
+        Ok(pb)
+    }
+
+    /// Build the rate-independent tables (same formulas as the rate terms below, evaluated once).
+    fn run_tables(&self) -> RunTables {
+        let ch = &self.ts.chrons;
+        let n = ch.len();
+        let mut inter = vec![ChronRun::default(); n * n];
+        let mut top = vec![ChronRun::default(); n * n];
+        let mut bottom = vec![ChronRun::default(); n * n];
+        for j2 in 0..n {
+            for j1 in 0..j2 {
+                let (missing, mdur) = self.missing(j1 + 1, j2, ch[j2].polarity);
+                let d_incl = ch[j2].old - ch[j1].old;
+                let (du, dh) = (d_incl, d_incl - mdur);
+                inter[j2 * n + j1] = ChronRun { u: LnSpan::new(du, du), h: LnSpan::new(dh, dh), missing, mdur };
+            }
+        }
+        for j in 0..n {
+            for s in 0..=j {
+                let (missing, mdur) = self.missing(s, j, ch[j].polarity);
+                let (dmin, dmax) = (ch[j].old - ch[s].old, ch[j].old - ch[s].young);
+                top[j * n + s] = ChronRun { u: LnSpan::new(dmin, dmax), h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur), missing, mdur };
+            }
+            for e in j + 1..n {
+                let (missing, mdur) = self.missing(j + 1, e, ch[e].polarity);
+                let (dmin, dmax) = (ch[e].young - ch[j].old, ch[e].old - ch[j].old);
+                bottom[j * n + e] = ChronRun { u: LnSpan::new(dmin, dmax), h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur), missing, mdur };
+            }
+        }
+        let ng = self.gaps.len();
+        let mut gap_inter = vec![None; ng * ng];
+        for (g1, a) in self.gaps.iter().enumerate() {
+            for (g2, b) in self.gaps.iter().enumerate() {
+                if b.a < a.c {
+                    continue;
+                }
+                let p = self.pol[a.c];
+                let (Some(cp), true) = (p.as_chron(), self.pol[b.a] == p) else { continue };
+                let Some(skipped) = self.skips(a.c, b.a, p) else { continue };
+                let t = LnSpan::new((a.lo - b.hi).max(0.0), a.hi - b.lo);
+                gap_inter[g1 * ng + g2] = Some(GapRun { cp, skipped, t });
+            }
+        }
+        let last = self.pol.len() - 1;
+        let gap_top = self
+            .gaps
+            .iter()
+            .map(|gp| {
+                let p = self.pol[gp.a];
+                let cp = p.as_chron()?;
+                let skipped = self.skips(0, gp.a, p)?;
+                Some(GapRun { cp, skipped, t: LnSpan::new((self.u_top - gp.hi).max(0.0), self.u_top - gp.lo) })
+            })
+            .collect();
+        let gap_bottom = self
+            .gaps
+            .iter()
+            .map(|gp| {
+                let p = self.pol[gp.c];
+                let cp = p.as_chron()?;
+                let skipped = self.skips(gp.c, last, p)?;
+                Some(GapRun { cp, skipped, t: LnSpan::new((gp.lo - self.u_bottom).max(0.0), gp.hi - self.u_bottom) })
+            })
+            .collect();
+        RunTables { n, inter, top, bottom, gap_inter, gap_top, gap_bottom }
     }
 
     fn chron_pol(&self, k: usize) -> Polarity {
@@ -247,91 +371,82 @@ impl<'a> Problem<'a> {
         })
     }
 
-    /// (δ/σ)²: δ = ln-distance between the durations [t_min/r, t_max/r] and [d_min, d_max] (0 if they meet).
-    fn interval_term(&self, t_min: f64, t_max: f64, d_min: f64, d_max: f64, ln_r: f64) -> f64 {
-        let lo = if t_min > 0.0 { t_min.ln() - ln_r } else { f64::NEG_INFINITY };
-        let hi = t_max.max(1e-12).ln() - ln_r;
-        let (dlo, dhi) = (if d_min > 0.0 { d_min.ln() } else { f64::NEG_INFINITY }, d_max.max(1e-12).ln());
-        let delta = if lo > dhi { lo - dhi } else if hi < dlo { dlo - hi } else { 0.0 };
+    /// (δ/σ)²: δ = ln-distance between the durations [t_min/r, t_max/r] and [d_min, d_max] (0 if they meet),
+    /// from the logarithms of the thickness interval `t` and of the duration interval `d`.
+    #[inline]
+    fn interval_term(&self, t: LnSpan, d: LnSpan, ln_r: f64) -> f64 {
+        let (lo, hi) = (t.lo - ln_r, t.hi - ln_r);
+        let delta = if lo > d.hi { lo - d.hi } else if hi < d.lo { d.lo - hi } else { 0.0 };
         (delta / self.opts.rate_spread).powi(2)
     }
 
     /// Interior run between gap g1 (tied at j1) and gap g2 (tied at j2) below it.
     pub fn interior(&self, g1: usize, j1: usize, g2: usize, j2: usize, ln_r: f64) -> Option<RunCost> {
-        let (a, b) = (&self.gaps[g1], &self.gaps[g2]);
-        if b.a < a.c || j2 <= j1 {
-            return None;
-        }
-        let p = self.pol[a.c];
-        let cp = p.as_chron()?;
-        if self.pol[b.a] != p || self.chron_pol(j1 + 1) != cp || self.chron_pol(j2) != cp {
-            return None;
-        }
-        let skipped = self.skips(a.c, b.a, p)?;
-        let (t_young, t_old) = (self.ts.chrons[j1].old, self.ts.chrons[j2].old);
-        if !self.anchors_ok(a.mid(), b.mid(), t_young, t_old) {
-            return None;
-        }
-        let (t_min, t_max) = ((a.lo - b.hi).max(0.0), a.hi - b.lo);
-        let (missing, mdur) = self.missing(j1 + 1, j2, cp);
-        let d_incl = t_old - t_young;
-        let term = |d: f64| self.interval_term(t_min, t_max, d, d, ln_r);
-        Some(self.choose(term(d_incl), term(d_incl - mdur), missing, mdur, skipped, ln_r))
+        let gr = self.tab.gap_inter[g1 * self.gaps.len() + g2]?;
+        self.interior_with(&gr, g1, j1, g2, j2, ln_r, ln_r.exp())
     }
 
+    /// [`Problem::interior`] with the gap pair already looked up and r = exp(ln r) given.
+    #[allow(clippy::too_many_arguments)]
+    #[inline]
+    fn interior_with(&self, gr: &GapRun, g1: usize, j1: usize, g2: usize, j2: usize, ln_r: f64, r: f64) -> Option<RunCost> {
+        if j2 <= j1 || self.chron_pol(j1 + 1) != gr.cp || self.chron_pol(j2) != gr.cp {
+            return None;
+        }
+        let ch = &self.ts.chrons;
+        if !self.anchors_up.is_empty() && !self.anchors_ok(self.gaps[g1].mid(), self.gaps[g2].mid(), ch[j1].old, ch[j2].old) {
+            return None;
+        }
+        let cr = &self.tab.inter[j2 * self.tab.n + j1];
+        Some(self.choose(self.interval_term(gr.t, cr.u, ln_r), self.interval_term(gr.t, cr.h, ln_r), cr.missing, cr.mdur, gr.skipped, r))
+    }
 
     /// Top run: section top down to gap g tied at j, starting in chron s.
     pub fn top(&self, s: usize, g: usize, j: usize, ln_r: f64) -> Option<RunCost> {
-        let gp = &self.gaps[g];
-        let p = self.pol[gp.a];
-        let cp = p.as_chron()?;
-        if s > j || self.chron_pol(s) != cp || self.chron_pol(j) != cp {
+        let gr = self.tab.gap_top[g]?;
+        self.top_with(&gr, s, g, j, ln_r, ln_r.exp())
+    }
+
+    #[inline]
+    fn top_with(&self, gr: &GapRun, s: usize, g: usize, j: usize, ln_r: f64, r: f64) -> Option<RunCost> {
+        if s > j || self.chron_pol(s) != gr.cp || self.chron_pol(j) != gr.cp {
             return None;
         }
-        let skipped = self.skips(0, gp.a, p)?;
         let ch = &self.ts.chrons;
-        if !self.anchors_ok(f64::INFINITY, gp.mid(), ch[s].young, ch[j].old) {
+        if !self.anchors_up.is_empty() && !self.anchors_ok(f64::INFINITY, self.gaps[g].mid(), ch[s].young, ch[j].old) {
             return None;
         }
-        let (missing, mdur) = self.missing(s, j, cp);
-        let t = ((self.u_top - gp.hi).max(0.0), self.u_top - gp.lo);
-        let (dmin, dmax) = (ch[j].old - ch[s].old, ch[j].old - ch[s].young);
-        self.end_cost(t, dmin, dmax, missing, mdur, skipped, ln_r)
+        let cr = &self.tab.top[j * self.tab.n + s];
+        Some(self.choose(self.interval_term(gr.t, cr.u, ln_r), self.interval_term(gr.t, cr.h, ln_r), cr.missing, cr.mdur, gr.skipped, r))
     }
 
     /// Bottom run: gap g tied at j down to the section bottom, ending in chron e.
     pub fn bottom(&self, g: usize, j: usize, e: usize, ln_r: f64) -> Option<RunCost> {
-        let gp = &self.gaps[g];
-        let p = self.pol[gp.c];
-        let cp = p.as_chron()?;
-        if e <= j || self.chron_pol(j + 1) != cp || self.chron_pol(e) != cp {
+        let gr = self.tab.gap_bottom[g]?;
+        self.bottom_with(&gr, g, j, e, ln_r, ln_r.exp())
+    }
+
+    #[inline]
+    fn bottom_with(&self, gr: &GapRun, g: usize, j: usize, e: usize, ln_r: f64, r: f64) -> Option<RunCost> {
+        if e <= j || self.chron_pol(j + 1) != gr.cp || self.chron_pol(e) != gr.cp {
             return None;
         }
-        let skipped = self.skips(gp.c, self.pol.len() - 1, p)?;
         let ch = &self.ts.chrons;
-        if !self.anchors_ok(gp.mid(), f64::NEG_INFINITY, ch[j].old, ch[e].old) {
+        if !self.anchors_up.is_empty() && !self.anchors_ok(self.gaps[g].mid(), f64::NEG_INFINITY, ch[j].old, ch[e].old) {
             return None;
         }
-        let (missing, mdur) = self.missing(j + 1, e, cp);
-        let t = ((gp.lo - self.u_bottom).max(0.0), gp.hi - self.u_bottom);
-        let (dmin, dmax) = (ch[e].young - ch[j].old, ch[e].old - ch[j].old);
-        self.end_cost(t, dmin, dmax, missing, mdur, skipped, ln_r)
+        let cr = &self.tab.bottom[j * self.tab.n + e];
+        Some(self.choose(self.interval_term(gr.t, cr.u, ln_r), self.interval_term(gr.t, cr.h, ln_r), cr.missing, cr.mdur, gr.skipped, r))
     }
 
-    #[allow(clippy::too_many_arguments)]
-    fn end_cost(&self, t: (f64, f64), dmin: f64, dmax: f64, missing: usize, mdur: f64, skipped: usize, ln_r: f64) -> Option<RunCost> {
-        let u = self.interval_term(t.0, t.1, dmin, dmax, ln_r);
-        let h = self.interval_term(t.0, t.1, (dmin - mdur).max(0.0), dmax - mdur, ln_r);
-        Some(self.choose(u, h, missing, mdur, skipped, ln_r))
-    }
-
-    /// Pick the better reading of a run's missing chrons (rate term with them / without them).
-    fn choose(&self, unsampled: f64, hiatus: f64, missing: usize, mdur: f64, skipped: usize, ln_r: f64) -> RunCost {
+    /// Pick the better reading of a run's missing chrons (rate term with them / without them); r = exp(ln r).
+    #[inline]
+    fn choose(&self, unsampled: f64, hiatus: f64, missing: usize, mdur: f64, skipped: usize, r: f64) -> RunCost {
         if missing == 0 {
             return RunCost { rate_term: unsampled, missing, skipped, reading: Reading::Complete, miss_cost: 0.0 };
         }
         let base = self.opts.miss_penalty * missing as f64;
-        let cu = base + 2.0 * ln_r.exp() * mdur / self.spacing;
+        let cu = base + 2.0 * r * mdur / self.spacing;
         let ch = base + self.opts.hiatus_penalty;
         if hiatus + ch < unsampled + cu {
             RunCost { rate_term: hiatus, missing, skipped, reading: Reading::Hiatus, miss_cost: ch }
@@ -359,7 +474,21 @@ impl<'a> Problem<'a> {
 
     /// Score of a path at ln r.
     pub fn path_score(&self, p: &Path, ln_r: f64) -> Option<f64> {
-        Some(self.path_runs(p, ln_r)?.iter().map(|c| self.penalty(c)).sum())
+        // Same runs, same order of summation as summing `path_runs`, without the allocation.
+        let r = ln_r.exp();
+        let (g0, j0) = p.ties[0];
+        let mut sum = -0.0f64;
+        let gt = self.tab.gap_top[g0]?;
+        sum += self.penalty(&self.top_with(&gt, p.top, g0, j0, ln_r, r)?);
+        let ng = self.gaps.len();
+        for w in p.ties.windows(2) {
+            let gr = self.tab.gap_inter[w[0].0 * ng + w[1].0]?;
+            sum += self.penalty(&self.interior_with(&gr, w[0].0, w[0].1, w[1].0, w[1].1, ln_r, r)?);
+        }
+        let &(gl, jl) = p.ties.last().expect("at least one tie");
+        let gb = self.tab.gap_bottom[gl]?;
+        sum += self.penalty(&self.bottom_with(&gb, gl, jl, p.bottom, ln_r, r)?);
+        Some(sum)
     }
 
     /// The ln r search range: every rate a single run could imply, widened by one σ-step.
@@ -412,11 +541,35 @@ enum Back {
     Node(usize, usize),
 }
 
+/// Insert (c, b) into a list kept sorted by cost and cut to k entries; an entry equal in cost to one
+/// already there goes after it, so the list holds the first k of a stable sort of everything offered.
+/// Returns false when the list is full and c does not improve it.
+#[inline]
+fn push_k<T>(list: &mut Vec<(f64, T)>, k: usize, c: f64, b: T) -> bool {
+    if list.len() < k || c < list[list.len() - 1].0 {
+        let at = list.partition_point(|e| e.0 <= c);
+        list.insert(at, (c, b));
+        list.truncate(k);
+        true
+    } else {
+        false
+    }
+}
+
 /// k-best Viterbi pass at a fixed ln r; returns up to k paths.
+///
+/// Exact: the lists offered to a node are walked in ascending cost, so the walk stops at the first
+/// offer that cannot enter a full list (every later offer costs as much or more); predecessors are
+/// taken only from gaps that a run can join (every other pair has no interior run at any rate).
 fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
     let n = pb.ts.chrons.len();
+    let ng = pb.gaps.len();
+    let r = ln_r.exp();
     let mut nodes: Vec<(usize, usize)> = Vec::new();
+    // Nodes of gap g are nodes[first[g]..first[g + 1]], in increasing j.
+    let mut first = Vec::with_capacity(ng + 1);
     for (g, gp) in pb.gaps.iter().enumerate() {
+        first.push(nodes.len());
         let (pa, pc) = (pb.pol[gp.a].as_chron(), pb.pol[gp.c].as_chron());
         for j in 0..n - 1 {
             if Some(pb.chron_pol(j)) == pa && Some(pb.chron_pol(j + 1)) == pc {
@@ -424,49 +577,60 @@ fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
             }
         }
     }
+    first.push(nodes.len());
     let mut best: Vec<Vec<(f64, Back)>> = Vec::with_capacity(nodes.len());
-    let push = |list: &mut Vec<(f64, Back)>, c: f64, b: Back| {
-        if list.len() < k || c < list[list.len() - 1].0 {
-            let at = list.partition_point(|e| e.0 <= c);
-            list.insert(at, (c, b));
-            list.truncate(k);
-        }
-    };
-    for (i, &(g, j)) in nodes.iter().enumerate() {
-        let mut list = Vec::new();
-        for s in 0..=j {
-            if let Some(c) = pb.top(s, g, j, ln_r) {
-                push(&mut list, pb.penalty(&c), Back::Start(s));
+    for &(g, j) in nodes.iter() {
+        let mut list = Vec::with_capacity(k + 1);
+        if let Some(gt) = pb.tab.gap_top[g] {
+            for s in 0..=j {
+                if let Some(c) = pb.top_with(&gt, s, g, j, ln_r, r) {
+                    push_k(&mut list, k, pb.penalty(&c), Back::Start(s));
+                }
             }
         }
-        for (i1, &(g1, j1)) in nodes[..i].iter().enumerate() {
-            if pb.gaps[g1].c > pb.gaps[g].a || j1 >= j || best[i1].is_empty() {
-                continue;
-            }
-            if let Some(c) = pb.interior(g1, j1, g, j, ln_r) {
-                let pc = pb.penalty(&c);
-                for (rank, e) in best[i1].iter().enumerate() {
-                    push(&mut list, e.0 + pc, Back::Node(i1, rank));
+        // Earlier nodes come from earlier gaps only (a gap cannot precede itself), in node order.
+        for g1 in 0..g {
+            let Some(gr) = pb.tab.gap_inter[g1 * ng + g] else { continue };
+            for i1 in first[g1]..first[g1 + 1] {
+                let j1 = nodes[i1].1;
+                if j1 >= j {
+                    break;
+                }
+                if best[i1].is_empty() {
+                    continue;
+                }
+                if let Some(c) = pb.interior_with(&gr, g1, j1, g, j, ln_r, r) {
+                    let pc = pb.penalty(&c);
+                    for (rank, e) in best[i1].iter().enumerate() {
+                        if !push_k(&mut list, k, e.0 + pc, Back::Node(i1, rank)) {
+                            break;
+                        }
+                    }
                 }
             }
         }
         best.push(list);
     }
-    let mut ends: Vec<(f64, usize, usize, usize)> = Vec::new();
+    // The k best complete paths, first k of a stable sort by cost (as push_k keeps them).
+    let mut ends: Vec<(f64, (usize, usize, usize))> = Vec::with_capacity(k + 1);
     for (i, &(g, j)) in nodes.iter().enumerate() {
+        let Some(gb) = pb.tab.gap_bottom[g] else { continue };
+        if best[i].is_empty() {
+            continue;
+        }
         for e in j + 1..n {
-            if let Some(c) = pb.bottom(g, j, e, ln_r) {
+            if let Some(c) = pb.bottom_with(&gb, g, j, e, ln_r, r) {
                 let pc = pb.penalty(&c);
                 for (rank, x) in best[i].iter().enumerate() {
-                    ends.push((x.0 + pc, i, rank, e));
+                    if !push_k(&mut ends, k, x.0 + pc, (i, rank, e)) {
+                        break;
+                    }
                 }
             }
         }
     }
-    ends.sort_by(|a, b| a.0.total_cmp(&b.0));
-    ends.truncate(k);
     ends.into_iter()
-        .map(|(_, mut i, mut rank, bottom)| {
+        .map(|(_, (mut i, mut rank, bottom))| {
             let mut ties = Vec::new();
             loop {
                 ties.push(nodes[i]);
@@ -509,9 +673,14 @@ pub fn correlate(col: &ZoneColumn, ts: &TimeScale, opts: &CorrelateOptions) -> R
     let k = opts.candidates.max(5) + 3;
     let mut seen: HashMap<Path, ()> = HashMap::new();
     let mut order: Vec<Path> = Vec::new();
-    for i in 0..=n_grid {
-        let x = lo + (hi - lo) * i as f64 / n_grid as f64;
-        for p in kbest(&pb, x, k) {
+    // The passes at each rate are independent: run them in parallel, then merge in grid order so the
+    // union (and so the ranking, ties included) is the same as a serial run.
+    let per_rate: Vec<Vec<Path>> = (0..=n_grid)
+        .into_par_iter()
+        .map(|i| kbest(&pb, lo + (hi - lo) * i as f64 / n_grid as f64, k))
+        .collect();
+    for paths in per_rate {
+        for p in paths {
             if seen.insert(p.clone(), ()).is_none() {
                 order.push(p);
             }
@@ -522,7 +691,8 @@ pub fn correlate(col: &ZoneColumn, ts: &TimeScale, opts: &CorrelateOptions) -> R
             "no correlation fits: the column has more polarity changes than the time scale offers, or the anchors exclude every match".into(),
         ));
     }
-    let mut scored: Vec<(f64, f64, Path)> = order.into_iter().filter_map(|p| pb.optimise(&p).map(|(s, x)| (s, x, p))).collect();
+    // Rescoring is per path; rayon's collect keeps the input order, and the sort below is stable.
+    let mut scored: Vec<(f64, f64, Path)> = order.into_par_iter().filter_map(|p| pb.optimise(&p).map(|(s, x)| (s, x, p))).collect();
     scored.sort_by(|a, b| a.0.total_cmp(&b.0));
     let n_scored = scored.len();
     let candidates = scored
