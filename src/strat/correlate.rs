@@ -30,6 +30,19 @@
 //! nodes (column boundary, chron boundary) in O(N² k) for N nodes. The pass is repeated over a log grid of
 //! r (step σ/2); the union of the candidates is then rescored with r optimised for each, and ranked.
 //!
+//! The search is exact: none of the following changes a result, tie order included.
+//! - Everything about a run that does not depend on r (logarithms of its thickness and duration
+//!   intervals, its missing chrons, its ignored zones, which gap pairs a run can join) is computed once
+//!   per problem (`RunTables`; n × n entries for n chrons).
+//! - Branch and bound inside each pass: a run costs at least `P_miss` · missing + `P_skip` · ignored,
+//!   and the number of missing chrons only grows as a run reaches further back, so a walk over earlier
+//!   nodes stops as soon as that floor (plus the least cost that could precede it) exceeds the worst
+//!   entry of a full k-best list. Offers are ranked by (cost, order of a plain forward walk), so equal
+//!   costs are broken as in that walk.
+//! - The passes at different r are independent; they run in parallel (rayon) and are merged in grid
+//!   order, and the rescoring keeps the order of the union.
+//! No setting trades accuracy for speed.
+//!
 //! # References
 //! Dynamic programming over ordered matches: Viterbi (1967), *IEEE Trans. Inf. Theory* 13, 260–269;
 //! Needleman & Wunsch (1970), *J. Mol. Biol.* 48, 443–453. Judging a correlation to the time scale by the
@@ -121,6 +134,8 @@ pub(crate) struct Problem<'a> {
     anchors_up: Vec<(f64, Anchor)>,
     /// Precomputed run geometry (see [`RunTables`]).
     tab: RunTables,
+    /// Polarity of each chron (a compact copy for the inner loops).
+    cpol: Vec<Polarity>,
 }
 
 /// ln of a duration interval [d_min, d_max] as used by the rate term: (ln d_min or −∞, ln max(d_max, 1e-12)).
@@ -266,6 +281,7 @@ impl<'a> Problem<'a> {
             pre,
             anchors_up,
             tab: empty,
+            cpol: ts.chrons.iter().map(|c| c.polarity).collect(),
         };
         pb.tab = pb.run_tables();
         Ok(pb)
@@ -336,8 +352,9 @@ impl<'a> Problem<'a> {
         RunTables { n, inter, top, bottom, gap_inter, gap_top, gap_bottom }
     }
 
+    #[inline]
     fn chron_pol(&self, k: usize) -> Polarity {
-        self.ts.chrons[k].polarity
+        self.cpol[k]
     }
 
     /// Chrons in s..=e not of polarity `p`: (count, total duration).
@@ -397,8 +414,7 @@ impl<'a> Problem<'a> {
         if !self.anchors_up.is_empty() && !self.anchors_ok(self.gaps[g1].mid(), self.gaps[g2].mid(), ch[j1].old, ch[j2].old) {
             return None;
         }
-        let cr = &self.tab.inter[j2 * self.tab.n + j1];
-        Some(self.choose(self.interval_term(gr.t, cr.u, ln_r), self.interval_term(gr.t, cr.h, ln_r), cr.missing, cr.mdur, gr.skipped, r))
+        Some(self.run_cost(gr, &self.tab.inter[j2 * self.tab.n + j1], ln_r, r))
     }
 
     /// Top run: section top down to gap g tied at j, starting in chron s.
@@ -416,8 +432,7 @@ impl<'a> Problem<'a> {
         if !self.anchors_up.is_empty() && !self.anchors_ok(f64::INFINITY, self.gaps[g].mid(), ch[s].young, ch[j].old) {
             return None;
         }
-        let cr = &self.tab.top[j * self.tab.n + s];
-        Some(self.choose(self.interval_term(gr.t, cr.u, ln_r), self.interval_term(gr.t, cr.h, ln_r), cr.missing, cr.mdur, gr.skipped, r))
+        Some(self.run_cost(gr, &self.tab.top[j * self.tab.n + s], ln_r, r))
     }
 
     /// Bottom run: gap g tied at j down to the section bottom, ending in chron e.
@@ -435,8 +450,16 @@ impl<'a> Problem<'a> {
         if !self.anchors_up.is_empty() && !self.anchors_ok(self.gaps[g].mid(), f64::NEG_INFINITY, ch[j].old, ch[e].old) {
             return None;
         }
-        let cr = &self.tab.bottom[j * self.tab.n + e];
-        Some(self.choose(self.interval_term(gr.t, cr.u, ln_r), self.interval_term(gr.t, cr.h, ln_r), cr.missing, cr.mdur, gr.skipped, r))
+        Some(self.run_cost(gr, &self.tab.bottom[j * self.tab.n + e], ln_r, r))
+    }
+
+    /// Cost of a run from its column side and chron side (the hiatus term is only needed, and only
+    /// computed, when chrons are missing: [`Problem::choose`] ignores it otherwise).
+    #[inline]
+    fn run_cost(&self, gr: &GapRun, cr: &ChronRun, ln_r: f64, r: f64) -> RunCost {
+        let u = self.interval_term(gr.t, cr.u, ln_r);
+        let h = if cr.missing == 0 { u } else { self.interval_term(gr.t, cr.h, ln_r) };
+        self.choose(u, h, cr.missing, cr.mdur, gr.skipped, r)
     }
 
     /// Pick the better reading of a run's missing chrons (rate term with them / without them); r = exp(ln r).
@@ -545,15 +568,73 @@ enum Back {
 /// already there goes after it, so the list holds the first k of a stable sort of everything offered.
 /// Returns false when the list is full and c does not improve it.
 #[inline]
-fn push_k<T>(list: &mut Vec<(f64, T)>, k: usize, c: f64, b: T) -> bool {
-    if list.len() < k || c < list[list.len() - 1].0 {
-        let at = list.partition_point(|e| e.0 <= c);
-        list.insert(at, (c, b));
-        list.truncate(k);
-        true
+fn push_k<T: Copy>(list: &mut Vec<(f64, T)>, k: usize, c: f64, b: T) -> bool {
+    let len = list.len();
+    if len < k {
+        list.push((c, b));
+    } else if c < list[len - 1].0 {
+        list[len - 1] = (c, b); // the dropped last entry costs more than c
     } else {
-        false
+        return false;
     }
+    // Move the new entry up past every entry costing more (never past an equal one).
+    let mut i = list.len() - 1;
+    while i > 0 && list[i - 1].0 > c {
+        list.swap(i - 1, i);
+        i -= 1;
+    }
+    true
+}
+
+/// As [`push_k`] for offers made in decreasing order of a tie-breaking sequence: an entry equal in
+/// cost to one already there goes before it (so the list is the same as for the offers made in
+/// increasing sequence with [`push_k`]).
+#[inline]
+fn push_k_before_equal<T: Copy>(list: &mut Vec<(f64, T)>, k: usize, c: f64, b: T) -> bool {
+    let len = list.len();
+    if len < k {
+        list.push((c, b));
+    } else if c <= list[len - 1].0 {
+        list[len - 1] = (c, b);
+    } else {
+        return false;
+    }
+    let mut i = list.len() - 1;
+    while i > 0 && list[i - 1].0 >= c {
+        list.swap(i - 1, i);
+        i -= 1;
+    }
+    true
+}
+
+/// Order of offers in a forward walk: top runs by s, then earlier nodes by index and rank.
+#[inline]
+fn seq(b: &Back) -> (usize, usize, usize) {
+    match *b {
+        Back::Start(s) => (0, s, 0),
+        Back::Node(i, rank) => (1, i, rank),
+    }
+}
+
+/// As [`push_k`] for offers made in any order: entries are ranked by (cost, [`seq`]), which is the
+/// order [`push_k`] gives to offers made in forward order.
+#[inline]
+fn push_seq(list: &mut Vec<(f64, Back)>, k: usize, c: f64, b: Back) -> bool {
+    let before = |x: &(f64, Back)| c < x.0 || (c == x.0 && seq(&b) < seq(&x.1));
+    let len = list.len();
+    if len < k {
+        list.push((c, b));
+    } else if before(&list[len - 1]) {
+        list[len - 1] = (c, b);
+    } else {
+        return false;
+    }
+    let mut i = list.len() - 1;
+    while i > 0 && before(&list[i - 1]) {
+        list.swap(i - 1, i);
+        i -= 1;
+    }
+    true
 }
 
 /// k-best Viterbi pass at a fixed ln r; returns up to k paths.
@@ -579,22 +660,47 @@ fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
     }
     first.push(nodes.len());
     let mut best: Vec<Vec<(f64, Back)>> = Vec::with_capacity(nodes.len());
+    // pmin[i]: least cost in the lists of the nodes of i's gap up to i (∞ if none).
+    let mut pmin: Vec<f64> = Vec::with_capacity(nodes.len());
     for &(g, j) in nodes.iter() {
-        let mut list = Vec::with_capacity(k + 1);
+        let mut list: Vec<(f64, Back)> = Vec::with_capacity(k + 1);
         if let Some(gt) = pb.tab.gap_top[g] {
-            for s in 0..=j {
+            // Top runs, walked from s = j up the scale (so cheaper offers tend to come first). Ties in
+            // cost are ordered by increasing s, as in a walk from s = 0, so the list is the same. A run
+            // costs at least miss_penalty · missing + skip_penalty · skipped, and missing grows as s
+            // falls: once that floor exceeds a full list's worst entry, no smaller s can enter.
+            let sk = pb.opts.skip_penalty * gt.skipped as f64;
+            for s in (0..=j).rev() {
+                if list.len() == k {
+                    let floor = pb.opts.miss_penalty * pb.tab.top[j * n + s].missing as f64 + sk;
+                    if floor > list[k - 1].0 {
+                        break;
+                    }
+                }
                 if let Some(c) = pb.top_with(&gt, s, g, j, ln_r, r) {
-                    push_k(&mut list, k, pb.penalty(&c), Back::Start(s));
+                    push_k_before_equal(&mut list, k, pb.penalty(&c), Back::Start(s));
                 }
             }
         }
-        // Earlier nodes come from earlier gaps only (a gap cannot precede itself), in node order.
-        for g1 in 0..g {
+        // Earlier nodes come from earlier gaps only (a gap cannot precede itself). They are walked
+        // backwards (nearest chron boundary first, where runs are cheap), and offers are ranked by
+        // (cost, position in the forward order), so the list is the one a forward walk gives. A run
+        // from j1 costs at least miss_penalty · missing + skip_penalty · skipped, missing grows as j1
+        // falls, and pmin bounds the best list of every node at or before j1: once best + floor
+        // exceeds a full list's worst entry, no earlier node of that gap can enter.
+        for g1 in (0..g).rev() {
             let Some(gr) = pb.tab.gap_inter[g1 * ng + g] else { continue };
-            for i1 in first[g1]..first[g1 + 1] {
+            let sk = pb.opts.skip_penalty * gr.skipped as f64;
+            for i1 in (first[g1]..first[g1 + 1]).rev() {
                 let j1 = nodes[i1].1;
                 if j1 >= j {
-                    break;
+                    continue;
+                }
+                if list.len() == k {
+                    let floor = pb.opts.miss_penalty * pb.tab.inter[j * n + j1].missing as f64 + sk;
+                    if pmin[i1] + floor > list[k - 1].0 {
+                        break;
+                    }
                 }
                 if best[i1].is_empty() {
                     continue;
@@ -602,13 +708,16 @@ fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
                 if let Some(c) = pb.interior_with(&gr, g1, j1, g, j, ln_r, r) {
                     let pc = pb.penalty(&c);
                     for (rank, e) in best[i1].iter().enumerate() {
-                        if !push_k(&mut list, k, e.0 + pc, Back::Node(i1, rank)) {
+                        if !push_seq(&mut list, k, e.0 + pc, Back::Node(i1, rank)) {
                             break;
                         }
                     }
                 }
             }
         }
+        let here = list.first().map_or(f64::INFINITY, |e| e.0);
+        let before = if pmin.len() > first[g] { pmin[pmin.len() - 1] } else { f64::INFINITY };
+        pmin.push(if here < before { here } else { before });
         best.push(list);
     }
     // The k best complete paths, first k of a stable sort by cost (as push_k keeps them).
@@ -618,7 +727,16 @@ fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
         if best[i].is_empty() {
             continue;
         }
+        // missing grows with e, so once best + the floor of the bottom run's cost reaches the worst of
+        // a full list, no larger e can enter (entry needs a strictly lower cost).
+        let sk = pb.opts.skip_penalty * gb.skipped as f64;
         for e in j + 1..n {
+            if ends.len() == k {
+                let floor = pb.opts.miss_penalty * pb.tab.bottom[j * n + e].missing as f64 + sk;
+                if best[i][0].0 + floor >= ends[k - 1].0 {
+                    break;
+                }
+            }
             if let Some(c) = pb.bottom_with(&gb, g, j, e, ln_r, r) {
                 let pc = pb.penalty(&c);
                 for (rank, x) in best[i].iter().enumerate() {
