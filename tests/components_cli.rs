@@ -8,6 +8,13 @@ fn cmd() -> Command {
     Command::cargo_bin("lodestone").unwrap()
 }
 
+/// Run lodestone, require success (printing stderr otherwise) and parse its JSON output.
+fn run_json(args: &[&str]) -> serde_json::Value {
+    let out = cmd().args(args).output().unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    serde_json::from_slice(&out.stdout).unwrap()
+}
+
 fn write(dir: &tempfile::TempDir, name: &str, body: &str) -> std::path::PathBuf {
     let p = dir.path().join(name);
     fs::write(&p, body).unwrap();
@@ -45,25 +52,7 @@ fn steps_csv() -> String {
 fn range_fit_recovers_the_known_component_and_feeds_mean() {
     let d = tempfile::tempdir().unwrap();
     let f = write(&d, "steps.csv", &steps_csv());
-    let out = cmd()
-        .args([
-            "components",
-            f.to_str().unwrap(),
-            "--from",
-            "20",
-            "--to",
-            "80",
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = run_json(&["components", f.to_str().unwrap(), "--from", "20", "--to", "80", "--format", "json"]);
     let fit = &v["fits"][0];
     assert_eq!(fit["specimen"], "A1");
     assert_eq!(fit["kind"], "line");
@@ -92,16 +81,7 @@ fn range_fit_recovers_the_known_component_and_feeds_mean() {
         "{text}"
     );
     let fits = write(&d, "fits.csv", &text);
-    let out = cmd()
-        .args(["mean", fits.to_str().unwrap(), "--format", "json"])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let m: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let m = run_json(&["mean", fits.to_str().unwrap(), "--format", "json"]);
     assert_eq!(m["groups"][0]["group"], "SA");
     assert_eq!(m["groups"][0]["n"], 2);
     assert!((m["groups"][0]["dec"].as_f64().unwrap() - 200.0).abs() < 1e-6);
@@ -111,18 +91,7 @@ fn range_fit_recovers_the_known_component_and_feeds_mean() {
 fn auto_picks_and_planes() {
     let d = tempfile::tempdir().unwrap();
     let f = write(&d, "steps.csv", &steps_csv());
-    let out = cmd()
-        .args([
-            "components",
-            f.to_str().unwrap(),
-            "--auto",
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    assert!(out.status.success());
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = run_json(&["components", f.to_str().unwrap(), "--auto", "--format", "json"]);
     // The overprint is gone at 20 mT: the longest straight run toward the origin is 20–80.
     assert_eq!(v["fits"][0]["from"], 20.0);
     assert_eq!(v["fits"][0]["to"], 80.0);
@@ -134,23 +103,7 @@ fn auto_picks_and_planes() {
         "picks.csv",
         "specimen,from,to,kind,anchor\nA1,0,80,plane,free\n",
     );
-    let out = cmd()
-        .args([
-            "components",
-            f.to_str().unwrap(),
-            "--picks",
-            picks.to_str().unwrap(),
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = run_json(&["components", f.to_str().unwrap(), "--picks", picks.to_str().unwrap(), "--format", "json"]);
     assert_eq!(v["fits"][0]["kind"], "plane");
     assert!(v["fits"][0]["dang"].is_null());
     assert_eq!(v["unfitted"][0]["specimen"], "A2");
@@ -159,18 +112,7 @@ fn auto_picks_and_planes() {
         "picks2.csv",
         "specimen,from,to,anchor\nA2,30,80,origin\n",
     );
-    let out = cmd()
-        .args([
-            "components",
-            f.to_str().unwrap(),
-            "--picks",
-            picks.to_str().unwrap(),
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = run_json(&["components", f.to_str().unwrap(), "--picks", picks.to_str().unwrap(), "--format", "json"]);
     assert_eq!(v["fits"][0]["anchor"], "origin");
     assert!((v["fits"][0]["dec"].as_f64().unwrap() - 200.0).abs() < 1e-6);
 }
@@ -208,21 +150,7 @@ fn mean_mixes_lines_and_planes_and_stays_fisher_without_planes() {
     }
     // With three great circles: the SciPy-checked combined mean (see stats::mixed tests).
     let mixed = format!("{lines}S,100,10,plane\nS,290,-20,plane\nS,200,30,plane\n");
-    let out = cmd()
-        .args([
-            "mean",
-            write(&d, "m.csv", &mixed).to_str().unwrap(),
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = run_json(&["mean", write(&d, "m.csv", &mixed).to_str().unwrap(), "--format", "json"]);
     let g = &v["groups"][0];
     assert_eq!(g["n"], 7);
     assert_eq!(g["planes"], 3);
@@ -238,16 +166,7 @@ U,10,40,line
 U,12,44,line
 ",
     );
-    let out = cmd()
-        .args(["mean", one.to_str().unwrap(), "--format", "json"])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = run_json(&["mean", one.to_str().unwrap(), "--format", "json"]);
     assert!(v["groups"][0]["dec"].is_null() && v["groups"][0]["k"].is_null());
     assert!(v["notes"][0].as_str().unwrap().contains("no combined mean"));
     assert_eq!(v["groups"][1]["n"], 2);
