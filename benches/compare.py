@@ -107,11 +107,13 @@ def main():
         scale = f"{t1 / t2:9.2f}" if t1 else f"{'':>9}"
         one = f"{t1:11.4f}" if t1 else f"{'':>11}"
         print(f"{name:32} {t_np:10.4f} {t2:12.4f} {one} {t_np / t2:7.1f} {scale}")
-    for k in ("fisher_draws_per_s", "bare_uniform_pairs_per_s"):
+    for k in ("fisher_draws_per_s", "fisher_fast_draws_per_s", "bare_uniform_pairs_per_s"):
         if k in ours:
             print(f"{k:32} {ours[k]:14.3e}")
     if "fisher_draws_per_s" in ours and "bare_uniform_pairs_per_s" in ours:
         print(f"Fisher draws at {100 * ours['fisher_draws_per_s'] / ours['bare_uniform_pairs_per_s']:.0f}% of the bare generator's rate (two uniforms per draw)")
+    if "fisher_fast_draws_per_s" in ours and "bare_uniform_pairs_per_s" in ours:
+        print(f"fast Fisher draws at {100 * ours['fisher_fast_draws_per_s'] / ours['bare_uniform_pairs_per_s']:.0f}% of it")
 
 
 if __name__ == "__main__":

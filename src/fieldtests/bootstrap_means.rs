@@ -3,9 +3,8 @@
 
 use super::streams;
 use crate::error::{Error, Result};
-use crate::montecarlo::{quantile_sorted, McRng, MonteCarlo};
+use crate::montecarlo::{quantile_sorted, McRng, MonteCarlo, UniformIndex};
 use crate::sphere::Vec3;
-use rand::RngExt;
 
 /// Bootstrap bounds of the x (north), y (east) and z (down) components of a mean unit vector.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
@@ -34,12 +33,29 @@ pub struct BootstrapOverlap {
 }
 
 /// Mean unit vector of a resample drawn with replacement, or `None` if the resample cancels out.
-fn resampled_mean(v: &[Vec3], rng: &mut McRng) -> Option<Vec3> {
+///
+/// Indices come 256 at a time from [`UniformIndex`]; the drawn vectors are summed into four partial
+/// sums (four independent addition chains instead of one), added at the end.
+fn resampled_mean(v: &[Vec3], pick: &UniformIndex, rng: &mut McRng) -> Option<Vec3> {
     let n = v.len();
-    let mut s = Vec3::ZERO;
-    for _ in 0..n {
-        s += v[rng.random_range(0..n)];
+    let mut idx = [0u32; 256];
+    let mut part = [Vec3::ZERO; 4];
+    let mut left = n;
+    while left > 0 {
+        let m = left.min(idx.len());
+        pick.fill(rng, &mut idx[..m]);
+        let mut quads = idx[..m].chunks_exact(4);
+        for q in &mut quads {
+            for (p, &i) in part.iter_mut().zip(q) {
+                *p += v[i as usize];
+            }
+        }
+        for (p, &i) in part.iter_mut().zip(quads.remainder()) {
+            *p += v[i as usize];
+        }
+        left -= m;
     }
+    let s = (part[0] + part[1]) + (part[2] + part[3]);
     let r = s.norm();
     if r > 1e-12 * n as f64 { Some(s * (1.0 / r)) } else { None }
 }
@@ -70,7 +86,9 @@ fn bounds(means: &[Vec3], confidence: f64) -> ComponentBounds {
 /// *J. Geophys. Res.* 96, 11723–11740; Efron & Tibshirani (1993), *An Introduction to the Bootstrap*.
 pub fn bootstrap_overlap(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<BootstrapOverlap> {
     super::check_two_sets("a bootstrap of two means", a, b, mc.resamples, confidence)?;
-    let pairs = mc.run("bootstrap of the means", streams::BOOTSTRAP, |rng, _| (resampled_mean(a, rng), resampled_mean(b, rng)));
+    let too_many = || Error::Invalid(format!("a bootstrap of {} and {} directions: more than 2³² − 1 in one set", a.len(), b.len()));
+    let (pick_a, pick_b) = (UniformIndex::new(a.len()).ok_or_else(too_many)?, UniformIndex::new(b.len()).ok_or_else(too_many)?);
+    let pairs = mc.run("bootstrap of the means", streams::BOOTSTRAP, |rng, _| (resampled_mean(a, &pick_a, rng), resampled_mean(b, &pick_b, rng)));
     let ma: Vec<Vec3> = pairs.iter().filter_map(|p| p.0).collect();
     let mb: Vec<Vec3> = pairs.iter().filter_map(|p| p.1).collect();
     if ma.len() < 20 || mb.len() < 20 {

@@ -2,9 +2,9 @@
 
 use super::streams;
 use crate::error::{check_range, Error, Result};
-use crate::montecarlo::{quantile_sorted, MonteCarlo};
+use super::untilt_curves::UntiltCurves;
+use crate::montecarlo::{quantile_sorted, MonteCarlo, UniformIndex};
 use crate::sphere::{Bedding, Vec3};
-use rand::RngExt;
 use statrs::distribution::{ContinuousCDF, FisherSnedecor};
 
 /// Settings of the incremental untilting.
@@ -116,29 +116,6 @@ pub struct FoldTest {
     pub bedding_spread: f64,
 }
 
-/// Largest eigenvalue of a symmetric 3 × 3 matrix given as (a11, a22, a33, a12, a13, a23).
-///
-/// # Formula
-/// Trigonometric solution of the characteristic cubic: q = tr/3, p = √(Σ(aᵢᵢ − q)²/6 + off²/3),
-/// B = (A − qI)/p, φ = acos(det B / 2)/3, λ₁ = q + 2p cos φ.
-///
-/// # References
-/// Smith, O. K. (1961), Eigenvalues of a symmetric 3 × 3 matrix, *Commun. ACM* 4(4), 168.
-pub fn largest_eigenvalue(m: [f64; 6]) -> f64 {
-    let [a, b, c, d, e, f] = m;
-    let off = d * d + e * e + f * f;
-    let q = (a + b + c) / 3.0;
-    let (aa, bb, cc) = (a - q, b - q, c - q);
-    let p2 = (aa * aa + bb * bb + cc * cc + 2.0 * off) / 6.0;
-    if p2 <= 1e-300 {
-        return q;
-    }
-    let p = p2.sqrt();
-    let det = aa * (bb * cc - f * f) - d * (d * cc - f * e) + e * (d * f - bb * e);
-    let half = (det / (p2 * p) / 2.0).clamp(-1.0, 1.0);
-    q + 2.0 * p * (half.acos() / 3.0).cos()
-}
-
 /// Fold test by bootstrap incremental untilting, with the classic precision ratio beside it.
 ///
 /// For each of `mc.resamples` resamples (directions drawn with replacement, each keeping its own
@@ -182,33 +159,8 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
         return Err(Error::Invalid(format!("{n_steps} untilting steps is too many")));
     }
     let steps: Vec<f64> = (0..n_steps).map(|s| opt.from + s as f64 * opt.step).collect();
-    // Outer products of every direction at every step, laid out [direction][step × 6]: one drawn
-    // direction adds a contiguous run of 6 × n_steps numbers, which the compiler vectorises. Each
-    // (step, component) sum still runs over the drawn directions in index order, so the sums are
-    // the same, bit for bit, as step-by-step accumulation.
-    let width = n_steps * 6;
-    let mut outer = vec![0.0f64; n * width];
-    for (i, (u, b)) in v.iter().zip(beds).enumerate() {
-        for (s, pct) in steps.iter().enumerate() {
-            let w = b.partial(pct / 100.0).apply(*u);
-            outer[i * width + s * 6..i * width + s * 6 + 6]
-                .copy_from_slice(&[w.x * w.x, w.y * w.y, w.z * w.z, w.x * w.y, w.x * w.z, w.y * w.z]);
-        }
-    }
-    let curve_of = |weights: &[u32]| -> Vec<f64> {
-        let mut t = vec![0.0f64; width];
-        for (i, &c) in weights.iter().enumerate() {
-            if c > 0 {
-                let cf = c as f64;
-                for (acc, o) in t.iter_mut().zip(&outer[i * width..(i + 1) * width]) {
-                    *acc += cf * o;
-                }
-            }
-        }
-        t.chunks_exact(6)
-            .map(|m| largest_eigenvalue([m[0], m[1], m[2], m[3], m[4], m[5]].map(|x| x / n as f64)))
-            .collect()
-    };
+    let curves = UntiltCurves::new(v, beds, &steps);
+    let curve_of = |weights: &[u32]| curves.tau1(weights);
     let argmax = |c: &[f64]| -> usize {
         let mut best = 0;
         for (i, x) in c.iter().enumerate() {
@@ -221,11 +173,12 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     let data_curve = curve_of(&vec![1u32; n]);
     let best_untilt = steps[argmax(&data_curve)];
     let keep = opt.keep_curves;
+    let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("a fold test of {n} directions: more than 2³² − 1")))?;
     let results = mc.run("fold test bootstrap", streams::FOLD, |rng, i| {
+        let mut idx = vec![0u32; n];
+        pick.fill(rng, &mut idx);
         let mut w = vec![0u32; n];
-        for _ in 0..n {
-            w[rng.random_range(0..n)] += 1;
-        }
+        idx.iter().for_each(|&j| w[j as usize] += 1);
         let c = curve_of(&w);
         let k = argmax(&c);
         (steps[k], if i < keep { Some(c) } else { None })
@@ -301,19 +254,8 @@ pub fn precision_ratio(v: &[Vec3], beds: &[Bedding]) -> Result<PrecisionRatio> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::linalg::sym_eigen;
     use crate::sphere::Direction;
     use crate::stats::FisherSampler;
-
-    #[test]
-    fn closed_form_eigenvalue_matches_jacobi() {
-        let ms = [[0.5, 0.3, 0.2, 0.1, -0.05, 0.02], [1.0, 1.0, 1.0, 0.0, 0.0, 0.0], [0.9, 0.05, 0.05, 0.2, 0.1, 0.01], [0.0, 0.0, 1.0, 0.0, 0.0, 0.0]];
-        for m in ms {
-            let full = [[m[0], m[3], m[4]], [m[3], m[1], m[5]], [m[4], m[5], m[2]]];
-            let j = sym_eigen(full).values[0];
-            assert!((largest_eigenvalue(m) - j).abs() < 1e-12, "{m:?}");
-        }
-    }
 
     #[test]
     fn classic_f_quantile() {

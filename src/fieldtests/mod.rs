@@ -10,13 +10,15 @@
 mod bootstrap_means;
 mod common_mean;
 mod fold;
+mod untilt_curves;
 mod randomness;
 mod reversal;
 mod watson_v;
 
 pub use bootstrap_means::{bootstrap_overlap, BootstrapOverlap, ComponentBounds};
 pub use common_mean::{compare_means, mm90_critical_angle, Mm90, Mm90Class, MeanComparison};
-pub use fold::{bedding_spread, fold_test, precision_ratio, largest_eigenvalue, FoldOptions, FoldTest, FoldVerdict, PrecisionRatio};
+pub use fold::{bedding_spread, fold_test, precision_ratio, FoldOptions, FoldTest, FoldVerdict, PrecisionRatio};
+pub use untilt_curves::{largest_eigenvalue, largest_eigenvalues};
 pub use randomness::{isotropic_resultant_cdf, randomness_test, watson_r0, R0Route, RandomnessTest};
 pub use reversal::{reversal_test, split_modes, PolaritySplit, ReversalTest};
 pub use watson_v::{watson_v, watson_v_statistic, WatsonV};

@@ -53,7 +53,7 @@ fn v_from_resultants(xa: Vec3, na: usize, xb: Vec3, nb: usize) -> f64 {
 /// χ²₂ point (5.99 at 95 %), the large-sample distribution of V_w.
 ///
 /// # References
-/// Watson (1983); simulation of Fisher sets: Fisher, Lewis & Embleton (1987), §3.6.2.
+/// Watson (1983); simulation of Fisher sets: [`FisherSampler::local_resultant`].
 pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<WatsonV> {
     super::check_two_sets("Watson's V_w", a, b, mc.resamples, confidence)?;
     let v_w = watson_v_statistic(a, b);
@@ -63,12 +63,10 @@ pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Res
     let sa = FisherSampler::new(north, ka)?;
     let sb = FisherSampler::new(north, kb)?;
     let (na, nb) = (a.len(), b.len());
+    // Only the resultants matter, and V_w is unchanged by a rotation applied to both sets, so each
+    // simulated set is summed in the samplers' own frame (mean along +x) with no draw stored.
     let mut sims = mc.run("V_w simulation", streams::WATSON_V, |rng, _| {
-        // Only the resultants matter: sum the draws as they come (same order, same sums as summing a
-        // stored set), with no per-replicate allocation.
-        let xa = (0..na).fold(Vec3::ZERO, |s, _| s + sa.sample(rng));
-        let xb = (0..nb).fold(Vec3::ZERO, |s, _| s + sb.sample(rng));
-        v_from_resultants(xa, na, xb, nb)
+        v_from_resultants(sa.local_resultant(rng, na), na, sb.local_resultant(rng, nb), nb)
     });
     sims.sort_by(f64::total_cmp);
     let v_crit = quantile_sorted(&sims, confidence);
