@@ -164,6 +164,23 @@ pub fn quantile_sorted(sorted: &[f64], q: f64) -> f64 {
     sorted[lo] + (h - lo as f64) * (sorted[hi] - sorted[lo])
 }
 
+/// Empirical quantile (type 7, as [`quantile_sorted`]) of unsorted data, found by selection in
+/// linear time; the slice is reordered. NaN sorts last (`f64::total_cmp`).
+pub fn quantile_select(data: &mut [f64], q: f64) -> f64 {
+    if data.is_empty() {
+        return f64::NAN;
+    }
+    let h = (data.len() - 1) as f64 * q.clamp(0.0, 1.0);
+    let lo = h.floor() as usize;
+    let (_, &mut x_lo, above) = data.select_nth_unstable_by(lo, f64::total_cmp);
+    if h == lo as f64 {
+        return x_lo;
+    }
+    // The next order statistic is the least element above position `lo`.
+    let x_hi = above.iter().copied().min_by(f64::total_cmp).unwrap_or(x_lo);
+    x_lo + (h - lo as f64) * (x_hi - x_lo)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -206,6 +223,20 @@ mod tests {
         assert!(UniformIndex::new(u32::MAX as usize + 1).is_none());
         // The rejection threshold (2³² − n) mod n: 2³² mod 6 = 4.
         assert_eq!(UniformIndex::new(6).unwrap().threshold, 4);
+    }
+
+    #[test]
+    fn selection_equals_sorting() {
+        let mut rng = replicate_rng(5, 0, 0);
+        for len in [1usize, 2, 3, 10, 101, 1000] {
+            let data: Vec<f64> = (0..len).map(|_| rng.random::<f64>()).collect();
+            let mut sorted = data.clone();
+            sorted.sort_by(f64::total_cmp);
+            for q in [0.0, 0.025, 0.5, 0.95, 0.975, 1.0] {
+                assert_eq!(quantile_select(&mut data.clone(), q), quantile_sorted(&sorted, q), "len {len}, q {q}");
+            }
+        }
+        assert!(quantile_select(&mut [], 0.5).is_nan());
     }
 
     #[test]

@@ -3,7 +3,7 @@
 
 use super::streams;
 use crate::error::{Error, Result};
-use crate::montecarlo::{quantile_sorted, McRng, MonteCarlo, UniformIndex};
+use crate::montecarlo::{quantile_select, McRng, MonteCarlo, UniformIndex};
 use crate::sphere::Vec3;
 
 /// Bootstrap bounds of the x (north), y (east) and z (down) components of a mean unit vector.
@@ -64,11 +64,12 @@ fn bounds(means: &[Vec3], confidence: f64) -> ComponentBounds {
     let lo_q = (1.0 - confidence) / 2.0;
     let mut low = [0.0; 3];
     let mut high = [0.0; 3];
+    let mut col = Vec::with_capacity(means.len());
     for c in 0..3 {
-        let mut col: Vec<f64> = means.iter().map(|m| m.to_array()[c]).collect();
-        col.sort_by(f64::total_cmp);
-        low[c] = quantile_sorted(&col, lo_q);
-        high[c] = quantile_sorted(&col, 1.0 - lo_q);
+        col.clear();
+        col.extend(means.iter().map(|m| m.to_array()[c]));
+        low[c] = quantile_select(&mut col, lo_q);
+        high[c] = quantile_select(&mut col, 1.0 - lo_q);
     }
     ComponentBounds { low, high }
 }
@@ -94,7 +95,7 @@ pub fn bootstrap_overlap(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f6
     if ma.len() < 20 || mb.len() < 20 {
         return Err(Error::Undefined("too few bootstrap resamples have a mean direction: the directions nearly cancel out".into()));
     }
-    let (set1, set2) = (bounds(&ma, confidence), bounds(&mb, confidence));
+    let (set1, set2) = rayon::join(|| bounds(&ma, confidence), || bounds(&mb, confidence));
     let overlap = [0, 1, 2].map(|c| set1.low[c] <= set2.high[c] && set2.low[c] <= set1.high[c]);
     Ok(BootstrapOverlap { set1, set2, overlap, confidence, resamples: ma.len().min(mb.len()), passed: overlap.iter().all(|&o| o) })
 }

@@ -2,7 +2,7 @@
 
 use super::{capped_k, resultant, streams};
 use crate::error::Result;
-use crate::montecarlo::{quantile_sorted, MonteCarlo};
+use crate::montecarlo::{quantile_select, MonteCarlo};
 use crate::sphere::{Direction, Vec3};
 use crate::stats::FisherSampler;
 
@@ -68,8 +68,7 @@ pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Res
     let mut sims = mc.run("V_w simulation", streams::WATSON_V, |rng, _| {
         v_from_resultants(sa.local_resultant(rng, na), na, sb.local_resultant(rng, nb), nb)
     });
-    sims.sort_by(f64::total_cmp);
-    let v_crit = quantile_sorted(&sims, confidence);
+    let v_crit = quantile_select(&mut sims, confidence);
     Ok(WatsonV { v_w, v_crit, confidence, simulations: sims.len(), passed: v_w <= v_crit })
 }
 
