@@ -285,11 +285,22 @@ struct MeanJson<'a> {
 /// The `groups` array, serialised group by group.
 struct JsonGroups<'a>(&'a MeanOutput);
 
+/// A JSON array filled by `each` from every group in turn.
+fn seq_per_group<S: Serializer>(
+    m: &MeanOutput,
+    ser: S,
+    mut each: impl FnMut(&GroupView, &mut S::SerializeSeq) -> std::result::Result<(), S::Error>,
+) -> std::result::Result<S::Ok, S::Error> {
+    let mut seq = ser.serialize_seq(None)?;
+    for g in m.views() {
+        each(&g.map_err(S::Error::custom)?, &mut seq)?;
+    }
+    seq.end()
+}
+
 impl Serialize for JsonGroups<'_> {
     fn serialize<S: Serializer>(&self, ser: S) -> std::result::Result<S::Ok, S::Error> {
-        let mut seq = ser.serialize_seq(None)?;
-        for g in self.0.views() {
-            let g = g.map_err(S::Error::custom)?;
+        seq_per_group(self.0, ser, |g, seq| {
             let s = &g.stats;
             seq.serialize_element(&JsonGroup {
                 group: g.group,
@@ -302,10 +313,9 @@ impl Serialize for JsonGroups<'_> {
                 theta63: jnum(s.theta63),
                 lines: JsonLines(&g.lines),
                 planes: g.planes,
-                alpha: self.0.other.then(|| jnum(self.0.alpha(&g))),
-            })?;
-        }
-        seq.end()
+                alpha: self.0.other.then(|| jnum(self.0.alpha(g))),
+            })
+        })
     }
 }
 
@@ -343,20 +353,15 @@ struct JsonNotes<'a>(&'a MeanOutput);
 
 impl Serialize for JsonNotes<'_> {
     fn serialize<S: Serializer>(&self, ser: S) -> std::result::Result<S::Ok, S::Error> {
-        let mut seq = ser.serialize_seq(None)?;
-        for g in self.0.views() {
-            let g = g.map_err(S::Error::custom)?;
+        seq_per_group(self.0, ser, |g, seq| {
             let mut err = None;
-            let _ = group_notes(&g, &mut |n| {
+            let _ = group_notes(g, &mut |n| {
                 if err.is_none() {
                     err = seq.serialize_element(n).err();
                 }
                 Ok(())
             });
-            if let Some(e) = err {
-                return Err(e);
-            }
-        }
-        seq.end()
+            err.map_or(Ok(()), Err)
+        })
     }
 }

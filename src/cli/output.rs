@@ -38,11 +38,6 @@ impl Cell {
     pub fn opt_text(v: Option<&str>) -> Cell {
         v.map_or(Cell::Empty, |s| Cell::Text(s.to_string()))
     }
-    fn text(&self) -> String {
-        let mut s = String::new();
-        self.push_text(&mut s);
-        s
-    }
     /// Append the text form to `buf` (no allocation for numbers).
     fn push_text(&self, buf: &mut String) {
         use std::fmt::Write as _;
@@ -58,16 +53,23 @@ impl Cell {
             Cell::Empty => buf.push('-'),
         }
     }
-    fn csv(&self) -> String {
+    /// Append the CSV form to `buf`: numbers at full precision, empty for no value.
+    fn push_csv(&self, buf: &mut String) {
+        use std::fmt::Write as _;
         match self {
             Cell::Num(x, _) if x.is_finite() => {
                 // Ten decimals: more than any measurement carries, without floating-point noise.
-                let t = format!("{x:.10}");
-                let t = t.trim_end_matches('0').trim_end_matches('.');
-                if t == "-0" { "0".into() } else { t.to_string() }
+                let start = buf.len();
+                let _ = write!(buf, "{x:.10}");
+                let kept = buf[start..].trim_end_matches('0').trim_end_matches('.').len();
+                buf.truncate(start + kept);
+                if &buf[start..] == "-0" {
+                    buf.truncate(start);
+                    buf.push('0');
+                }
             }
-            Cell::Empty => String::new(),
-            other => other.text(),
+            Cell::Empty => {}
+            other => other.push_text(buf),
         }
     }
 }
@@ -195,7 +197,8 @@ fn section_rows(s: &Section, f: &mut dyn FnMut(&[Cell]) -> std::io::Result<()>) 
 fn write_csv(columns: &[String], rows: EachRow, out: &mut dyn Write) -> std::io::Result<()> {
     let mut w = csv::Writer::from_writer(&mut *out);
     w.write_record(columns)?;
-    rows(&mut |row| Ok(w.write_record(row.iter().map(Cell::csv))?))?;
+    let mut cells = Cells::default();
+    rows(&mut |row| Ok(w.write_record(cells.fill(row, Cell::push_csv))?))?;
     w.flush()
 }
 
@@ -257,15 +260,26 @@ fn write_text_table(s: &Section, rows: EachRow, out: &mut dyn Write) -> std::io:
         writeln!(out, "  {}", line.trim_end())
     };
     put(&mut s.columns.iter().map(String::as_str), out)?;
-    let mut cells: Vec<String> = Vec::new();
-    rows(&mut |r| {
-        cells.resize_with(r.len(), String::new);
-        for (c, t) in r.iter().zip(cells.iter_mut()) {
-            t.clear();
-            c.push_text(t);
+    let mut cells = Cells::default();
+    rows(&mut |r| put(&mut cells.fill(r, Cell::push_text).iter().map(String::as_str), out))
+}
+
+/// Text buffers reused from row to row.
+#[derive(Default)]
+struct Cells(Vec<String>);
+
+impl Cells {
+    /// The cells of `row` formatted by `form`, one buffer each.
+    fn fill(&mut self, row: &[Cell], form: fn(&Cell, &mut String)) -> &[String] {
+        if self.0.len() < row.len() {
+            self.0.resize_with(row.len(), String::new);
         }
-        put(&mut cells[..r.len()].iter().map(String::as_str), out)
-    })
+        for (c, t) in row.iter().zip(self.0.iter_mut()) {
+            t.clear();
+            form(c, t);
+        }
+        &self.0[..row.len()]
+    }
 }
 
 /// A JSON number, or null for None / non-finite (use for optional statistics).
@@ -302,5 +316,50 @@ mod tests {
         assert_eq!(String::from_utf8(o).unwrap(), "{\n  \"a\": 1\n}\n");
         assert_eq!(jnum(Some(f64::INFINITY)), Value::String("inf".into()));
         assert_eq!(jnum(Some(f64::NAN)), Value::Null);
+    }
+
+    /// A report produced row by row, holding the same content as `sample()`.
+    struct Produced(Report);
+
+    impl StreamedReport for Produced {
+        fn head(&self) -> &Section {
+            &self.0.sections[0]
+        }
+        fn each_row(&self, f: &mut dyn FnMut(&[Cell]) -> std::io::Result<()>) -> std::io::Result<()> {
+            self.0.sections[0].rows.iter().try_for_each(|r| f(r))
+        }
+        fn each_note(&self, f: &mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()> {
+            self.0.notes.iter().try_for_each(|n| f(n))
+        }
+        fn write_json(&self, out: &mut dyn Write) -> std::io::Result<()> {
+            write_json(&self.0.json, out)
+        }
+    }
+
+    #[test]
+    fn streamed_reports_are_written_as_held_ones() {
+        let mut r = sample();
+        r.sections[0].rows.push(vec![Cell::Text("c".into()), Cell::Num(f64::INFINITY, 1)]);
+        r.sections[0].rows.push(vec![Cell::Text("dd".into()), Cell::Num(-0.0, 3)]);
+        r.sections[0].rows.push(vec![Cell::Text("e".into()), Cell::Int(7)]);
+        for notes in [vec![], vec!["one".to_string(), "two".to_string()]] {
+            r.notes = notes;
+            let streamed = Output::Streamed(Box::new(Produced(r.clone())));
+            for format in [Format::Table, Format::Csv, Format::Json] {
+                let (mut o1, mut e1, mut o2, mut e2) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
+                write_report(&r, format, &mut o1, &mut e1).unwrap();
+                write_output(&streamed, format, &mut o2, &mut e2).unwrap();
+                assert_eq!((o1, e1), (o2, e2), "{format:?}");
+            }
+        }
+        // Width from every row (including the later `inf`), `-0` written as 0 in CSV, no blank line
+        // without notes.
+        let (mut o, mut e) = (Vec::new(), Vec::new());
+        write_output(&Output::Streamed(Box::new(Produced(r.clone()))), Format::Table, &mut o, &mut e).unwrap();
+        assert_eq!(String::from_utf8(o).unwrap(), "t\n  name       x\n  a       1.23\n  bb         -\n  c        inf\n  dd    -0.000\n  e          7\n\none\ntwo\n");
+        let (mut o, mut e) = (Vec::new(), Vec::new());
+        write_output(&Output::Streamed(Box::new(Produced(r))), Format::Csv, &mut o, &mut e).unwrap();
+        assert_eq!(String::from_utf8(o).unwrap(), "name,x\na,1.23456\nbb,\nc,inf\ndd,0\ne,7\n");
+        assert_eq!(String::from_utf8(e).unwrap(), "note: one\nnote: two\n");
     }
 }
