@@ -186,8 +186,11 @@ pub fn write_report(r: &Report, format: Format, out: &mut dyn Write, err: &mut d
 
 /// Pretty JSON (two-space indent) and a final newline: the one JSON layout of every verb.
 pub fn write_json<T: serde::Serialize + ?Sized>(v: &T, out: &mut dyn Write) -> std::io::Result<()> {
-    serde_json::to_writer_pretty(&mut *out, v)?;
-    writeln!(out)
+    // serde_json writes many small pieces: buffer them here, where the writes are not dynamic calls.
+    let mut w = std::io::BufWriter::with_capacity(1 << 16, out);
+    serde_json::to_writer_pretty(&mut w, v)?;
+    writeln!(w)?;
+    w.flush()
 }
 
 fn section_rows(s: &Section, f: &mut dyn FnMut(&[Cell]) -> std::io::Result<()>) -> std::io::Result<()> {
