@@ -21,6 +21,7 @@
 //! | confidence cone at any level | [`stats::confidence_cone`] |
 //! | means per site or group, geographic or tilt-corrected | [`stats::group_means`] |
 //! | means per group streamed from a table in constant memory | [`stats::stream_group_means`] |
+//! | compact per-group sums of a streamed table (tens of bytes per group) | [`stats::stream_group_sums`], [`stats::GroupSums`] |
 //! | orientation matrix and principal axes | [`stats::orientation_matrix`], [`stats::principal_axes`] |
 //! | Fisher random directions | [`stats::FisherSampler`] |
 //! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`] |

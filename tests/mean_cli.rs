@@ -157,3 +157,95 @@ fn streamed_and_whole_table_paths_agree() {
     assert_eq!(a, b);
     assert!(a.contains("bad.csv:4"), "{a}");
 }
+
+/// Rows of many groups (invented Corran Flats survey): 200 groups whose rows are interleaved (no two
+/// adjacent), 150 groups of 3 adjacent rows, rows revisiting early groups at the end, a row without a
+/// site and two hand-checked groups. Returns the body and the file line of each row of group `S7`.
+fn many_groups() -> (String, Vec<usize>) {
+    let mut body = String::from("# Corran Flats, invented\nsite,dec,inc\n");
+    let mut line = 2;
+    let mut s7 = Vec::new();
+    let mut row = |body: &mut String, site: &str, dec: f64, inc: f64| {
+        line += 1;
+        if site == "S7" {
+            s7.push(line);
+        }
+        body.push_str(&format!("{site},{dec},{inc}\n"));
+    };
+    for i in 0..600 {
+        let dec = ((37 * i) % 360) as f64 + 0.5;
+        let inc = ((53 * i) % 170) as f64 - 85.0;
+        row(&mut body, &format!("S{}", i % 200), dec, inc);
+    }
+    for i in 0..450 {
+        row(&mut body, &format!("T{}", i / 3), ((11 * i) % 360) as f64, ((7 * i) % 60) as f64 + 10.0);
+    }
+    for i in 0..10 {
+        row(&mut body, &format!("S{}", 7 * i), 180.0, -45.0);
+    }
+    row(&mut body, "", 5.0, 5.0);
+    // Two directions 10 degrees either side of north on the horizon: mean (0, 0), R = 2 cos 10°.
+    row(&mut body, "P", 350.0, 0.0);
+    row(&mut body, "P", 10.0, 0.0);
+    row(&mut body, "Q", 123.0, 45.0);
+    (body, s7)
+}
+
+/// With many groups the streamed path (compact sums, output written group by group) and the
+/// whole-table path (taken when a figure is asked for) write the same bytes in every format; the JSON
+/// lists each group's lines and the hand-checked groups have their known statistics.
+#[test]
+fn many_groups_streamed_and_whole_table_outputs_are_identical() {
+    let d = tempfile::tempdir().unwrap();
+    let (body, s7) = many_groups();
+    let f = write(&d, "corran.csv", &body);
+    let run = |format: &str, confidence: &str, plot: bool| {
+        let mut c = cmd();
+        c.args(["mean", f.to_str().unwrap(), "--format", format, "--confidence", confidence]);
+        if plot {
+            c.args(["--plot", d.path().join("corran.svg").to_str().unwrap()]);
+        }
+        let out = c.output().unwrap();
+        assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+        (out.stdout, out.stderr)
+    };
+    for format in ["table", "csv", "json"] {
+        for confidence in ["0.95", "0.9"] {
+            let streamed = run(format, confidence, false);
+            let whole = run(format, confidence, true);
+            assert!(streamed == whole, "{format} at {confidence}: the two paths differ");
+        }
+    }
+    let (json, _) = run("json", "0.95", false);
+    let v: serde_json::Value = serde_json::from_slice(&json).unwrap();
+    let groups = v["groups"].as_array().unwrap();
+    // 200 S groups, 150 T groups, the row without a site, P and Q.
+    assert_eq!(groups.len(), 353);
+    assert_eq!(groups[0]["group"], "S0");
+    assert_eq!(groups[200]["group"], "T0");
+    assert!(groups[350]["group"].is_null());
+    let s7_json = &groups[7];
+    assert_eq!(s7_json["group"], "S7");
+    assert_eq!(s7_json["n"], 4);
+    assert_eq!(s7_json["lines"], serde_json::json!(s7));
+    assert_eq!(s7, vec![10, 210, 410, 1054]); // lines 3.. hold the rows; S7 comes back on the second revisit row
+    assert_eq!(groups[201]["lines"], serde_json::json!([606, 607, 608]));
+    let p = &groups[351];
+    assert_eq!(p["group"], "P");
+    let r = 2.0 * 10f64.to_radians().cos();
+    assert!((p["r"].as_f64().unwrap() - r).abs() < 1e-12);
+    // k = (N − 1)/(N − R) (Fisher 1953) with N = 2.
+    assert!((p["k"].as_f64().unwrap() - 1.0 / (2.0 - r)).abs() < 1e-9);
+    assert!(p["inc"].as_f64().unwrap().abs() < 1e-9);
+    let dec = p["dec"].as_f64().unwrap();
+    assert!(dec.min(360.0 - dec) < 1e-9, "{dec}");
+    assert!(groups[352]["k"].is_null() && groups[352]["a95"].is_null());
+    // The text table has one row per group, and the CSV too (plus the header).
+    let (table, _) = run("table", "0.95", false);
+    let table = String::from_utf8(table).unwrap();
+    assert!(table.lines().any(|l| l.starts_with("  P  ") && l.contains("  0.0  ")), "{table}");
+    let (csv, notes) = run("csv", "0.95", false);
+    assert_eq!(String::from_utf8(csv).unwrap().lines().count(), 354);
+    let notes = String::from_utf8(notes).unwrap();
+    assert!(notes.contains("note: Q: one direction only") && notes.contains("note: (all): one direction only"), "{notes}");
+}

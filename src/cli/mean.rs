@@ -1,12 +1,19 @@
 //! `lodestone mean`: Fisher mean per group.
+//!
+//! Without a figure the table streams through compact per-group sums and the output is written group by
+//! group as it is computed ([`StreamedReport`]): memory holds a few dozen bytes per group and nothing per
+//! row (with `--format json`, also the runs of adjacent file lines of each group).
 
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Output, Section, StreamedReport};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
-use lodestone::stats::{group_means, stream_group_means, Frame, GroupMean, StreamedGroup, StreamedMeans};
+use lodestone::stats::{group_means, stream_group_sums, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums};
 use lodestone::table::{read_directions, GroupBy, Table, TableStream};
-use serde_json::json;
+use serde::ser::{Error as _, SerializeSeq, Serializer};
+use serde::Serialize;
+use serde_json::Value;
+use std::io::Write;
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -36,7 +43,10 @@ pub enum FrameArg {
     Tilt,
 }
 
-pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
+/// Confidence level of the reported α95 (and of the `alpha` the library gives).
+const A95: f64 = 0.95;
+
+pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     if !(a.confidence > 0.0 && a.confidence < 1.0) {
         anyhow::bail!("--confidence must lie strictly between 0 and 1, got {}", a.confidence);
     }
@@ -50,130 +60,308 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Report> {
         FrameArg::Geo => Frame::Geo,
         FrameArg::Tilt => Frame::Tilt,
     };
-    // Without a figure the table streams through per-group accumulators (memory does not grow with the
-    // row count); the figure needs the points, and great circles need the whole group at once.
+    // Without a figure the table streams through per-group sums (memory does not grow with the row
+    // count); the figure needs the points, and great circles need the whole group at once.
     let mut streamed = None;
     if a.plot.is_none() {
         let mut stream = TableStream::open(&a.file)?;
         let keep_lines = ctx.global.format == super::Format::Json;
-        if let StreamedMeans::Means { group_column, groups, .. } = stream_group_means(&mut stream, &by, frame, 0.95, keep_lines)? {
-            let means: Vec<GroupMean> = groups
-                .into_iter()
-                .map(|g| if keep_lines { g.into() } else { GroupMean { lines: Vec::new(), ..StreamedGroup::into(g) } })
-                .collect();
-            streamed = Some((means, group_column));
+        if let StreamedSums::Sums { group_column, groups, .. } = stream_group_sums(&mut stream, &by, frame, keep_lines)? {
+            streamed = Some((Groups::Sums(groups), group_column));
         }
     }
-    let (set, means, group_column) = match streamed {
-        Some((means, group_column)) => (None, means, group_column),
+    let (groups, group_column) = match streamed {
+        Some(g) => g,
         None => {
             let table = Table::read(&a.file)?;
             let set = read_directions(&table, &by)?;
-            let means = group_means(&set, frame, 0.95)?;
-            let group_column = set.group_column.clone();
-            (Some(set), means, group_column)
+            let means = group_means(&set, frame, A95)?;
+            if let Some(path) = &a.plot {
+                let fig = EqualAreaPlot {
+                    title: format!("{} — {} coordinates", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
+                        if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }),
+                    cone_label: "α95".into(),
+                    groups: means
+                        .iter()
+                        .map(|g| NetGroup {
+                            label: g.group.clone().unwrap_or_else(|| "all".into()),
+                            points: g
+                                .lines
+                                .iter()
+                                .filter_map(|l| set.records.iter().find(|r| r.line == *l))
+                                .map(|r| match frame {
+                                    Frame::Geo => r.direction,
+                                    Frame::Tilt => lodestone::sphere::Direction::from_vector(r.bedding.expect("checked").untilt(r.direction.to_vector())).expect("unit"),
+                                })
+                                .collect(),
+                            mean: g.stats.mean.map(|m| (m, g.stats.alpha)),
+                        })
+                        .collect(),
+                };
+                super::write_figure(&fig, path, &ctx.inputs)?;
+            }
+            (Groups::Whole(means), set.group_column.clone())
         }
     };
     let other = (a.confidence - 0.95).abs() > 1e-12;
-    let mut sec = Section::new(
+    let mut head = Section::new(
         &format!("Fisher means ({} coordinates) of {}", if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }, a.file.display()),
         &["group", "n", "dec", "inc", "r", "k", "a95", "theta63"],
     );
-    let mut groups = Vec::new();
-    let mut notes = Vec::new();
-    for g in &means {
+    if other {
+        head.columns.push(format!("alpha{}", (a.confidence * 100.0).round()));
+    }
+    Ok(Output::Streamed(Box::new(MeanOutput {
+        head,
+        file: a.file.display().to_string(),
+        frame,
+        group_column,
+        confidence: a.confidence,
+        other,
+        groups,
+    })))
+}
+
+/// The groups of a run: compact streamed sums, or the whole-table means (figure, great circles).
+enum Groups {
+    Sums(GroupSums),
+    Whole(Vec<GroupMean>),
+}
+
+/// A group's file lines: listed, or as the runs of adjacent lines of a streamed group.
+enum Lines<'a> {
+    Listed(&'a [usize]),
+    Runs(GroupSum<'a>),
+}
+
+/// One group as the outputs see it.
+struct GroupView<'a> {
+    group: Option<&'a str>,
+    stats: FisherStats,
+    planes: usize,
+    undefined: Option<&'a str>,
+    lines: Lines<'a>,
+}
+
+impl GroupView<'_> {
+    fn name(&self) -> &str {
+        self.group.unwrap_or("(all)")
+    }
+}
+
+/// Everything `mean` writes; each group is computed when it is written.
+struct MeanOutput {
+    head: Section,
+    file: String,
+    frame: Frame,
+    group_column: Option<String>,
+    confidence: f64,
+    /// A confidence level other than 0.95 was asked for: `alpha` is reported beside `a95`.
+    other: bool,
+    groups: Groups,
+}
+
+impl MeanOutput {
+    fn views(&self) -> Box<dyn Iterator<Item = lodestone::error::Result<GroupView<'_>>> + '_> {
+        match &self.groups {
+            Groups::Sums(s) => Box::new(s.iter().map(|g| {
+                Ok(GroupView { group: g.group, stats: g.stats(A95)?, planes: 0, undefined: None, lines: Lines::Runs(g) })
+            })),
+            Groups::Whole(m) => Box::new(m.iter().map(|g| {
+                Ok(GroupView {
+                    group: g.group.as_deref(),
+                    stats: g.stats.clone(),
+                    planes: g.planes,
+                    undefined: g.undefined.as_deref(),
+                    lines: Lines::Listed(&g.lines),
+                })
+            })),
+        }
+    }
+
+    /// The cone at the requested confidence level (only when it is not 0.95).
+    fn alpha(&self, g: &GroupView) -> Option<f64> {
         let s = &g.stats;
-        let name = g.group.clone().unwrap_or_else(|| "(all)".into());
-        let alpha = if other && g.planes > 0 {
+        if self.other && g.planes > 0 {
             // Combined mean of lines and great circles: N' = M + N/2 (McFadden & McElhinny 1988).
             let n_eff = (s.n - g.planes) as f64 + g.planes as f64 / 2.0;
-            s.k.and_then(|k| lodestone::stats::mixed_cone(n_eff, s.r, k.0, a.confidence))
-        } else if other {
-            s.mean.and_then(|_| lodestone::stats::confidence_cone(s.n, s.r, a.confidence))
+            s.k.and_then(|k| lodestone::stats::mixed_cone(n_eff, s.r, k.0, self.confidence))
+        } else if self.other {
+            s.mean.and_then(|_| lodestone::stats::confidence_cone(s.n, s.r, self.confidence))
         } else {
             s.alpha
-        };
-        sec.rows.push(vec![
-            Cell::Text(name.clone()),
-            Cell::Int(s.n as i64),
-            Cell::opt(s.mean.map(|m| m.dec), 1),
-            Cell::opt(s.mean.map(|m| m.inc), 1),
-            Cell::Num(s.r, 4),
-            Cell::opt(s.k.map(|k| k.0), 1),
-            Cell::opt(s.alpha, 1),
-            Cell::opt(s.theta63, 1),
-        ]);
-        let mut j = json!({
-            "group": g.group, "n": s.n,
-            "dec": jnum(s.mean.map(|m| m.dec)), "inc": jnum(s.mean.map(|m| m.inc)),
-            "r": s.r, "k": jnum(s.k.map(|k| k.0)), "a95": jnum(s.alpha), "theta63": jnum(s.theta63),
-            "lines": g.lines,
-            "planes": g.planes,
-        });
-        if other {
-            j["alpha"] = jnum(alpha);
-        }
-        groups.push(j);
-        if let Some(why) = &g.undefined {
-            notes.push(format!("{name}: no combined mean of lines and great circles: {why}."));
-        } else if g.planes > 0 {
-            notes.push(format!(
-                "{name}: {} line(s) and {} great circle(s) combined (McFadden & McElhinny 1988); n counts both, k and a95 use N' = M + N/2.",
-                s.n - g.planes, g.planes));
-        }
-        if g.undefined.is_some() {
-            // Already explained by the note above.
-        } else if s.n == 1 {
-            notes.push(format!("{name}: one direction only; k, a95 and theta63 need at least two directions."));
-        } else if s.mean.is_none() {
-            notes.push(format!("{name}: the resultant vanishes (R ≈ 0): the directions cancel out and have no mean."));
-        } else if s.k.is_some_and(|k| k.is_infinite()) {
-            notes.push(format!("{name}: all directions are identical; k is infinite and the cone has zero width."));
-        } else if s.alpha.is_none() {
-            notes.push(format!("{name}: too scattered for a confidence cone at this level."));
         }
     }
-    if other {
-        sec.columns.push(format!("alpha{}", (a.confidence * 100.0).round()));
-        for (row, g) in sec.rows.iter_mut().zip(&groups) {
-            row.push(Cell::opt(g["alpha"].as_f64(), 1));
+}
+
+/// The notes of one group: how its mean was formed, and why a statistic is missing.
+fn group_notes(g: &GroupView, f: &mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()> {
+    let s = &g.stats;
+    let name = g.name();
+    if let Some(why) = g.undefined {
+        f(&format!("{name}: no combined mean of lines and great circles: {why}."))?;
+    } else if g.planes > 0 {
+        f(&format!(
+            "{name}: {} line(s) and {} great circle(s) combined (McFadden & McElhinny 1988); n counts both, k and a95 use N' = M + N/2.",
+            s.n - g.planes, g.planes))?;
+    }
+    if g.undefined.is_some() {
+        // Already explained by the note above.
+    } else if s.n == 1 {
+        f(&format!("{name}: one direction only; k, a95 and theta63 need at least two directions."))?;
+    } else if s.mean.is_none() {
+        f(&format!("{name}: the resultant vanishes (R ≈ 0): the directions cancel out and have no mean."))?;
+    } else if s.k.is_some_and(|k| k.is_infinite()) {
+        f(&format!("{name}: all directions are identical; k is infinite and the cone has zero width."))?;
+    } else if s.alpha.is_none() {
+        f(&format!("{name}: too scattered for a confidence cone at this level."))?;
+    }
+    Ok(())
+}
+
+impl StreamedReport for MeanOutput {
+    fn head(&self) -> &Section {
+        &self.head
+    }
+
+    fn each_row(&self, f: &mut dyn FnMut(&[Cell]) -> std::io::Result<()>) -> std::io::Result<()> {
+        let mut row = Vec::with_capacity(self.head.columns.len());
+        for g in self.views() {
+            let g = g.map_err(std::io::Error::other)?;
+            let s = &g.stats;
+            row.clear();
+            row.extend([
+                Cell::Text(g.name().to_string()),
+                Cell::Int(s.n as i64),
+                Cell::opt(s.mean.map(|m| m.dec), 1),
+                Cell::opt(s.mean.map(|m| m.inc), 1),
+                Cell::Num(s.r, 4),
+                Cell::opt(s.k.map(|k| k.0), 1),
+                Cell::opt(s.alpha, 1),
+                Cell::opt(s.theta63, 1),
+            ]);
+            if self.other {
+                // As in JSON: a value that is not finite is left empty.
+                row.push(Cell::opt(self.alpha(&g).filter(|x| x.is_finite()), 1));
+            }
+            f(&row)?;
+        }
+        Ok(())
+    }
+
+    fn each_note(&self, f: &mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()> {
+        for g in self.views() {
+            group_notes(&g.map_err(std::io::Error::other)?, f)?;
+        }
+        Ok(())
+    }
+
+    fn write_json(&self, out: &mut dyn Write) -> std::io::Result<()> {
+        super::write_json(
+            &MeanJson {
+                file: &self.file,
+                frame: self.frame,
+                group_column: self.group_column.as_deref(),
+                confidence: self.confidence,
+                groups: JsonGroups(self),
+                notes: JsonNotes(self),
+            },
+            out,
+        )
+    }
+}
+
+/// The JSON document of `mean`.
+#[derive(Serialize)]
+struct MeanJson<'a> {
+    file: &'a str,
+    frame: Frame,
+    group_column: Option<&'a str>,
+    confidence: f64,
+    groups: JsonGroups<'a>,
+    notes: JsonNotes<'a>,
+}
+
+/// The `groups` array, serialised group by group.
+struct JsonGroups<'a>(&'a MeanOutput);
+
+/// A JSON array filled by `each` from every group in turn.
+fn seq_per_group<S: Serializer>(
+    m: &MeanOutput,
+    ser: S,
+    mut each: impl FnMut(&GroupView, &mut S::SerializeSeq) -> std::result::Result<(), S::Error>,
+) -> std::result::Result<S::Ok, S::Error> {
+    let mut seq = ser.serialize_seq(None)?;
+    for g in m.views() {
+        each(&g.map_err(S::Error::custom)?, &mut seq)?;
+    }
+    seq.end()
+}
+
+impl Serialize for JsonGroups<'_> {
+    fn serialize<S: Serializer>(&self, ser: S) -> std::result::Result<S::Ok, S::Error> {
+        seq_per_group(self.0, ser, |g, seq| {
+            let s = &g.stats;
+            seq.serialize_element(&JsonGroup {
+                group: g.group,
+                n: s.n,
+                dec: jnum(s.mean.map(|m| m.dec)),
+                inc: jnum(s.mean.map(|m| m.inc)),
+                r: s.r,
+                k: jnum(s.k.map(|k| k.0)),
+                a95: jnum(s.alpha),
+                theta63: jnum(s.theta63),
+                lines: JsonLines(&g.lines),
+                planes: g.planes,
+                alpha: self.0.other.then(|| jnum(self.0.alpha(g))),
+            })
+        })
+    }
+}
+
+/// One group in JSON.
+#[derive(Serialize)]
+struct JsonGroup<'a> {
+    group: Option<&'a str>,
+    n: usize,
+    dec: Value,
+    inc: Value,
+    r: f64,
+    k: Value,
+    a95: Value,
+    theta63: Value,
+    lines: JsonLines<'a>,
+    planes: usize,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    alpha: Option<Value>,
+}
+
+/// A group's file lines, written from the runs without listing them first.
+struct JsonLines<'a>(&'a Lines<'a>);
+
+impl Serialize for JsonLines<'_> {
+    fn serialize<S: Serializer>(&self, ser: S) -> std::result::Result<S::Ok, S::Error> {
+        match self.0 {
+            Lines::Listed(l) => ser.collect_seq(l.iter()),
+            Lines::Runs(g) => ser.collect_seq(g.lines()),
         }
     }
-    if let Some(path) = &a.plot {
-        let fig = EqualAreaPlot {
-            title: format!("{} — {} coordinates", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
-                if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }),
-            cone_label: "α95".into(),
-            groups: means
-                .iter()
-                .map(|g| NetGroup {
-                    label: g.group.clone().unwrap_or_else(|| "all".into()),
-                    points: g
-                        .lines
-                        .iter()
-                        .filter_map(|l| set.as_ref().and_then(|s| s.records.iter().find(|r| r.line == *l)))
-                        .map(|r| match frame {
-                            Frame::Geo => r.direction,
-                            Frame::Tilt => lodestone::sphere::Direction::from_vector(r.bedding.expect("checked").untilt(r.direction.to_vector())).expect("unit"),
-                        })
-                        .collect(),
-                    mean: g.stats.mean.map(|m| (m, g.stats.alpha)),
-                })
-                .collect(),
-        };
-        super::write_figure(&fig, path, &ctx.inputs)?;
+}
+
+/// The `notes` array.
+struct JsonNotes<'a>(&'a MeanOutput);
+
+impl Serialize for JsonNotes<'_> {
+    fn serialize<S: Serializer>(&self, ser: S) -> std::result::Result<S::Ok, S::Error> {
+        seq_per_group(self.0, ser, |g, seq| {
+            let mut err = None;
+            let _ = group_notes(g, &mut |n| {
+                if err.is_none() {
+                    err = seq.serialize_element(n).err();
+                }
+                Ok(())
+            });
+            err.map_or(Ok(()), Err)
+        })
     }
-    Ok(Report {
-        json: json!({
-            "file": a.file.display().to_string(),
-            "frame": frame,
-            "group_column": group_column,
-            "confidence": a.confidence,
-            "groups": groups,
-            "notes": notes,
-        }),
-        sections: vec![sec],
-        csv_section: 0,
-        notes,
-    })
 }

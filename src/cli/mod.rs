@@ -23,7 +23,10 @@ mod test;
 use clap::{Args, Parser, Subcommand};
 #[allow(unused_imports)]
 pub use io::{prepare_out_dir, write_atomic, write_figure, Inputs};
+#[allow(unused_imports)]
 pub use output::{jnum, write_report, Cell, Format, Report, Section};
+#[allow(unused_imports)]
+pub use output::{write_json, write_output, Output, StreamedReport};
 
 /// Options accepted anywhere on the command line.
 #[derive(Debug, Clone, Args)]
@@ -124,7 +127,8 @@ pub fn run() -> i32 {
         Ok(report) => {
             let stdout = std::io::stdout();
             let stderr = std::io::stderr();
-            match write_report(&report, ctx.global.format, &mut stdout.lock(), &mut stderr.lock()) {
+            let mut out = std::io::BufWriter::new(stdout.lock());
+            match write_output(&report, ctx.global.format, &mut out, &mut stderr.lock()).and_then(|()| std::io::Write::flush(&mut out)) {
                 Ok(()) => 0,
                 Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => 0,
                 Err(e) => {
@@ -140,9 +144,10 @@ pub fn run() -> i32 {
     }
 }
 
-fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
-    match verb {
-        Verb::Mean(a) => mean::run(a, ctx),
+fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
+    let report = match verb {
+        // Written while it is produced (memory does not grow with the rows).
+        Verb::Mean(a) => return mean::run(a, ctx),
         Verb::Poles(a) => poles::run(a, ctx),
         Verb::Dipole(a) => dipole::run(a, ctx),
         Verb::Expected(a) => expected::run(a, ctx),
@@ -156,5 +161,6 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Report> {
         Verb::Intervals(a) => intervals::run(a, ctx),
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
-    }
+    };
+    report.map(Output::Report)
 }

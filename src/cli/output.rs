@@ -38,25 +38,38 @@ impl Cell {
     pub fn opt_text(v: Option<&str>) -> Cell {
         v.map_or(Cell::Empty, |s| Cell::Text(s.to_string()))
     }
-    fn text(&self) -> String {
+    /// Append the text form to `buf` (no allocation for numbers).
+    fn push_text(&self, buf: &mut String) {
+        use std::fmt::Write as _;
         match self {
-            Cell::Text(s) => s.clone(),
-            Cell::Num(x, _) if x.is_infinite() => if *x > 0.0 { "inf".into() } else { "-inf".into() },
-            Cell::Num(x, d) => format!("{x:.d$}", d = *d),
-            Cell::Int(i) => i.to_string(),
-            Cell::Empty => "-".into(),
+            Cell::Text(s) => buf.push_str(s),
+            Cell::Num(x, _) if x.is_infinite() => buf.push_str(if *x > 0.0 { "inf" } else { "-inf" }),
+            Cell::Num(x, d) => {
+                let _ = write!(buf, "{x:.d$}", d = *d);
+            }
+            Cell::Int(i) => {
+                let _ = write!(buf, "{i}");
+            }
+            Cell::Empty => buf.push('-'),
         }
     }
-    fn csv(&self) -> String {
+    /// Append the CSV form to `buf`: numbers at full precision, empty for no value.
+    fn push_csv(&self, buf: &mut String) {
+        use std::fmt::Write as _;
         match self {
             Cell::Num(x, _) if x.is_finite() => {
                 // Ten decimals: more than any measurement carries, without floating-point noise.
-                let t = format!("{x:.10}");
-                let t = t.trim_end_matches('0').trim_end_matches('.');
-                if t == "-0" { "0".into() } else { t.to_string() }
+                let start = buf.len();
+                let _ = write!(buf, "{x:.10}");
+                let kept = buf[start..].trim_end_matches('0').trim_end_matches('.').len();
+                buf.truncate(start + kept);
+                if &buf[start..] == "-0" {
+                    buf.truncate(start);
+                    buf.push('0');
+                }
             }
-            Cell::Empty => String::new(),
-            other => other.text(),
+            Cell::Empty => {}
+            other => other.push_text(buf),
         }
     }
 }
@@ -92,80 +105,184 @@ pub struct Report {
     pub notes: Vec<String>,
 }
 
+/// A report whose rows, JSON and notes are produced while they are written, for verbs whose row
+/// count can be very large: nothing per row is held. The writers are those of [`Report`].
+pub trait StreamedReport {
+    /// Title and columns of the table (printed for `table`, and for `csv` without the title); its
+    /// `rows` are ignored.
+    fn head(&self) -> &Section;
+    /// Give every row of the table, in order, to `f`. Called twice for a text table (to measure the
+    /// columns, then to write), so it must give the same rows each time.
+    fn each_row(&self, f: &mut dyn FnMut(&[Cell]) -> std::io::Result<()>) -> std::io::Result<()>;
+    /// Give every note, in order, to `f`.
+    fn each_note(&self, f: &mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()>;
+    /// Write the JSON document (with [`write_json`], for the same layout as a [`Report`]'s).
+    fn write_json(&self, out: &mut dyn Write) -> std::io::Result<()>;
+}
+
+/// What a verb produced: a report held whole, or one written as it is produced.
+pub enum Output {
+    /// A report held in memory.
+    Report(Report),
+    /// A report produced while it is written.
+    Streamed(Box<dyn StreamedReport + Send>),
+}
+
+impl From<Report> for Output {
+    fn from(r: Report) -> Self {
+        Output::Report(r)
+    }
+}
+
+/// Write an output in the chosen format.
+pub fn write_output(o: &Output, format: Format, out: &mut dyn Write, err: &mut dyn Write) -> std::io::Result<()> {
+    match o {
+        Output::Report(r) => write_report(r, format, out, err),
+        Output::Streamed(s) => {
+            let notes = |f: &mut dyn FnMut(&str) -> std::io::Result<()>| s.each_note(f);
+            match format {
+                Format::Json => s.write_json(out),
+                Format::Csv => {
+                    write_csv(&s.head().columns, &|f| s.each_row(f), out)?;
+                    write_csv_notes(&notes, out, err)
+                }
+                Format::Table => {
+                    write_text_table(s.head(), &|f| s.each_row(f), out)?;
+                    write_table_notes(&notes, out)
+                }
+            }
+        }
+    }
+}
+
+/// Rows given one at a time to a callback.
+type EachRow<'a> = &'a dyn Fn(&mut dyn FnMut(&[Cell]) -> std::io::Result<()>) -> std::io::Result<()>;
+/// Notes given one at a time to a callback.
+type EachNote<'a> = &'a dyn Fn(&mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()>;
+
 /// Write a report in the chosen format.
 pub fn write_report(r: &Report, format: Format, out: &mut dyn Write, err: &mut dyn Write) -> std::io::Result<()> {
+    let notes = |f: &mut dyn FnMut(&str) -> std::io::Result<()>| r.notes.iter().try_for_each(|n| f(n));
     match format {
-        Format::Json => {
-            serde_json::to_writer_pretty(&mut *out, &r.json)?;
-            writeln!(out)?;
-        }
+        Format::Json => write_json(&r.json, out)?,
         Format::Csv => {
             if let Some(s) = r.sections.get(r.csv_section) {
-                let mut w = csv::Writer::from_writer(&mut *out);
-                w.write_record(&s.columns)?;
-                for row in &s.rows {
-                    w.write_record(row.iter().map(Cell::csv))?;
-                }
-                w.flush()?;
+                write_csv(&s.columns, &|f| section_rows(s, f), out)?;
             }
-            for n in &r.notes {
-                writeln!(err, "note: {n}")?;
-            }
+            write_csv_notes(&notes, out, err)?;
         }
         Format::Table => {
             for (i, s) in r.sections.iter().enumerate() {
                 if i > 0 {
                     writeln!(out)?;
                 }
-                write_text_table(s, out)?;
+                write_text_table(s, &|f| section_rows(s, f), out)?;
             }
-            if !r.notes.is_empty() {
-                writeln!(out)?;
-                for n in &r.notes {
-                    writeln!(out, "{n}")?;
-                }
-            }
+            write_table_notes(&notes, out)?;
         }
     }
     Ok(())
 }
 
-fn write_text_table(s: &Section, out: &mut dyn Write) -> std::io::Result<()> {
+/// Pretty JSON (two-space indent) and a final newline: the one JSON layout of every verb.
+pub fn write_json<T: serde::Serialize + ?Sized>(v: &T, out: &mut dyn Write) -> std::io::Result<()> {
+    // serde_json writes many small pieces: buffer them here, where the writes are not dynamic calls.
+    let mut w = std::io::BufWriter::with_capacity(1 << 16, out);
+    serde_json::to_writer_pretty(&mut w, v)?;
+    writeln!(w)?;
+    w.flush()
+}
+
+fn section_rows(s: &Section, f: &mut dyn FnMut(&[Cell]) -> std::io::Result<()>) -> std::io::Result<()> {
+    s.rows.iter().try_for_each(|r| f(r))
+}
+
+fn write_csv(columns: &[String], rows: EachRow, out: &mut dyn Write) -> std::io::Result<()> {
+    let mut w = csv::Writer::from_writer(&mut *out);
+    w.write_record(columns)?;
+    let mut cells = Cells::default();
+    rows(&mut |row| Ok(w.write_record(cells.fill(row, Cell::push_csv))?))?;
+    w.flush()
+}
+
+/// Notes of a CSV output go to stderr (stdout is flushed first, so a terminal shows them after the table).
+fn write_csv_notes(notes: EachNote, out: &mut dyn Write, err: &mut dyn Write) -> std::io::Result<()> {
+    out.flush()?;
+    notes(&mut |n| writeln!(err, "note: {n}"))
+}
+
+/// Notes of a text output follow the tables after a blank line.
+fn write_table_notes(notes: EachNote, out: &mut dyn Write) -> std::io::Result<()> {
+    let mut first = true;
+    notes(&mut |n| {
+        if std::mem::take(&mut first) {
+            writeln!(out)?;
+        }
+        writeln!(out, "{n}")
+    })
+}
+
+/// An aligned text table: numeric columns right-aligned, others left-aligned. The rows are produced
+/// twice (to measure, then to write), so nothing per row is held.
+fn write_text_table(s: &Section, rows: EachRow, out: &mut dyn Write) -> std::io::Result<()> {
     if !s.title.is_empty() {
         writeln!(out, "{}", s.title)?;
     }
-    let cells: Vec<Vec<String>> = s.rows.iter().map(|r| r.iter().map(Cell::text).collect()).collect();
     let mut width: Vec<usize> = s.columns.iter().map(|c| c.chars().count()).collect();
-    for r in &cells {
+    let mut numeric = vec![true; s.columns.len()];
+    let mut buf = String::new();
+    rows(&mut |r| {
         for (i, c) in r.iter().enumerate() {
             if i < width.len() {
-                width[i] = width[i].max(c.chars().count());
+                buf.clear();
+                c.push_text(&mut buf);
+                width[i] = width[i].max(buf.chars().count());
             }
         }
-    }
-    let numeric: Vec<bool> = (0..s.columns.len())
-        .map(|i| s.rows.iter().all(|r| matches!(r.get(i), Some(Cell::Num(..) | Cell::Int(_) | Cell::Empty))))
-        .collect();
-    let line = |vals: Vec<String>, out: &mut dyn Write| -> std::io::Result<()> {
-        let parts: Vec<String> = vals
-            .iter()
-            .enumerate()
-            .map(|(i, v)| {
-                let pad = width[i].saturating_sub(v.chars().count());
-                if numeric[i] {
-                    format!("{}{}", " ".repeat(pad), v)
-                } else {
-                    format!("{}{}", v, " ".repeat(pad))
-                }
-            })
-            .collect();
-        writeln!(out, "  {}", parts.join("  ").trim_end())
+        for (i, num) in numeric.iter_mut().enumerate() {
+            *num &= matches!(r.get(i), Some(Cell::Num(..) | Cell::Int(_) | Cell::Empty));
+        }
+        Ok(())
+    })?;
+    let mut line = String::new();
+    let mut put = |vals: &mut dyn Iterator<Item = &str>, out: &mut dyn Write| -> std::io::Result<()> {
+        line.clear();
+        for (i, v) in vals.enumerate() {
+            if i > 0 {
+                line.push_str("  ");
+            }
+            let pad = width.get(i).copied().unwrap_or(0).saturating_sub(v.chars().count());
+            if numeric.get(i).copied().unwrap_or(false) {
+                line.extend(std::iter::repeat(' ').take(pad));
+                line.push_str(v);
+            } else {
+                line.push_str(v);
+                line.extend(std::iter::repeat(' ').take(pad));
+            }
+        }
+        writeln!(out, "  {}", line.trim_end())
     };
-    line(s.columns.clone(), out)?;
-    for r in cells {
-        line(r, out)?;
+    put(&mut s.columns.iter().map(String::as_str), out)?;
+    let mut cells = Cells::default();
+    rows(&mut |r| put(&mut cells.fill(r, Cell::push_text).iter().map(String::as_str), out))
+}
+
+/// Text buffers reused from row to row.
+#[derive(Default)]
+struct Cells(Vec<String>);
+
+impl Cells {
+    /// The cells of `row` formatted by `form`, one buffer each.
+    fn fill(&mut self, row: &[Cell], form: fn(&Cell, &mut String)) -> &[String] {
+        if self.0.len() < row.len() {
+            self.0.resize_with(row.len(), String::new);
+        }
+        for (c, t) in row.iter().zip(self.0.iter_mut()) {
+            t.clear();
+            form(c, t);
+        }
+        &self.0[..row.len()]
     }
-    Ok(())
 }
 
 /// A JSON number, or null for None / non-finite (use for optional statistics).
@@ -202,5 +319,50 @@ mod tests {
         assert_eq!(String::from_utf8(o).unwrap(), "{\n  \"a\": 1\n}\n");
         assert_eq!(jnum(Some(f64::INFINITY)), Value::String("inf".into()));
         assert_eq!(jnum(Some(f64::NAN)), Value::Null);
+    }
+
+    /// A report produced row by row, holding the same content as `sample()`.
+    struct Produced(Report);
+
+    impl StreamedReport for Produced {
+        fn head(&self) -> &Section {
+            &self.0.sections[0]
+        }
+        fn each_row(&self, f: &mut dyn FnMut(&[Cell]) -> std::io::Result<()>) -> std::io::Result<()> {
+            self.0.sections[0].rows.iter().try_for_each(|r| f(r))
+        }
+        fn each_note(&self, f: &mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()> {
+            self.0.notes.iter().try_for_each(|n| f(n))
+        }
+        fn write_json(&self, out: &mut dyn Write) -> std::io::Result<()> {
+            write_json(&self.0.json, out)
+        }
+    }
+
+    #[test]
+    fn streamed_reports_are_written_as_held_ones() {
+        let mut r = sample();
+        r.sections[0].rows.push(vec![Cell::Text("c".into()), Cell::Num(f64::INFINITY, 1)]);
+        r.sections[0].rows.push(vec![Cell::Text("dd".into()), Cell::Num(-0.0, 3)]);
+        r.sections[0].rows.push(vec![Cell::Text("e".into()), Cell::Int(7)]);
+        for notes in [vec![], vec!["one".to_string(), "two".to_string()]] {
+            r.notes = notes;
+            let streamed = Output::Streamed(Box::new(Produced(r.clone())));
+            for format in [Format::Table, Format::Csv, Format::Json] {
+                let (mut o1, mut e1, mut o2, mut e2) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
+                write_report(&r, format, &mut o1, &mut e1).unwrap();
+                write_output(&streamed, format, &mut o2, &mut e2).unwrap();
+                assert_eq!((o1, e1), (o2, e2), "{format:?}");
+            }
+        }
+        // Width from every row (including the later `inf`), `-0` written as 0 in CSV, no blank line
+        // without notes.
+        let (mut o, mut e) = (Vec::new(), Vec::new());
+        write_output(&Output::Streamed(Box::new(Produced(r.clone()))), Format::Table, &mut o, &mut e).unwrap();
+        assert_eq!(String::from_utf8(o).unwrap(), "t\n  name       x\n  a       1.23\n  bb         -\n  c        inf\n  dd    -0.000\n  e          7\n\none\ntwo\n");
+        let (mut o, mut e) = (Vec::new(), Vec::new());
+        write_output(&Output::Streamed(Box::new(Produced(r))), Format::Csv, &mut o, &mut e).unwrap();
+        assert_eq!(String::from_utf8(o).unwrap(), "name,x\na,1.23456\nbb,\nc,inf\ndd,0\ne,7\n");
+        assert_eq!(String::from_utf8(e).unwrap(), "note: one\nnote: two\n");
     }
 }

@@ -6,6 +6,7 @@ mod groups;
 mod mixed;
 mod orientation;
 mod sampler;
+mod group_sums;
 mod stream_means;
 
 pub use fisher::{confidence_cone, fisher_from_vectors, fisher_mean, FisherAccumulator, FisherStats, Precision};
@@ -13,7 +14,8 @@ pub use groups::{group_means, Frame, GroupMean};
 pub use mixed::{mixed_cone, mixed_mean, MixedStats};
 pub use orientation::{orientation_matrix, principal_axes};
 pub use sampler::FisherSampler;
-pub use stream_means::{stream_group_means, LineRun, StreamedGroup, StreamedMeans};
+pub use group_sums::{GroupSum, GroupSums};
+pub use stream_means::{stream_group_means, stream_group_sums, LineRun, StreamedGroup, StreamedMeans, StreamedSums};
 
 #[cfg(test)]
 mod tests;

@@ -1,11 +1,11 @@
 //! Fisher means per group straight from a streamed directions table, in memory that does not grow
 //! with the number of rows.
 
-use super::fisher::{FisherAccumulator, FisherStats};
+use super::fisher::FisherStats;
+use super::group_sums::GroupSums;
 use super::groups::{Frame, GroupMean};
 use crate::error::{Error, Result, TableError};
 use crate::table::{Columns, DirectionColumns, DirectionKind, GroupBy, TableStream};
-use std::collections::HashMap;
 use std::io::BufRead;
 
 /// A run of consecutive file lines `first..=last` (a group's rows, compactly).
@@ -52,12 +52,20 @@ pub enum StreamedMeans {
     NeedsWholeTable,
 }
 
-struct Acc {
-    group: Option<String>,
-    runs: Vec<LineRun>,
-    fisher: FisherAccumulator,
-    /// First line of this group without bedding (tilt frame only).
-    missing_bedding: Option<usize>,
+/// What [`stream_group_sums`] found.
+#[derive(Debug, Clone)]
+pub enum StreamedSums {
+    /// Vector sums per group of a table of lines, groups in order of first appearance.
+    Sums {
+        /// The grouping column used, if any.
+        group_column: Option<String>,
+        /// Data rows read.
+        rows: usize,
+        /// The groups.
+        groups: GroupSums,
+    },
+    /// The table holds great circles (`kind = plane`); see [`StreamedMeans::NeedsWholeTable`].
+    NeedsWholeTable,
 }
 
 /// Fisher mean per group, reading a directions table one row at a time.
@@ -68,6 +76,9 @@ struct Acc {
 /// reported is the one the whole-table path reports. With `keep_lines` false the groups' `line_runs`
 /// stay empty (memory then holds one fixed-size accumulator per group, whatever the row order). Rows with `kind = plane` end the stream with
 /// [`StreamedMeans::NeedsWholeTable`] (after the rest of the file has been checked).
+///
+/// This collects every group's statistics; [`stream_group_sums`] keeps only the sums (less memory
+/// with very many groups) and gives the same statistics group by group.
 ///
 /// # Units
 /// Directions in degrees; `confidence` a probability in (0, 1).
@@ -84,6 +95,42 @@ pub fn stream_group_means<R: BufRead>(
     confidence: f64,
     keep_lines: bool,
 ) -> Result<StreamedMeans> {
+    let (group_column, rows, sums) = match stream_group_sums(stream, group_by, frame, keep_lines)? {
+        StreamedSums::Sums { group_column, rows, groups } => (group_column, rows, groups),
+        StreamedSums::NeedsWholeTable => return Ok(StreamedMeans::NeedsWholeTable),
+    };
+    let mut groups = Vec::with_capacity(sums.len());
+    for g in sums.iter() {
+        groups.push(StreamedGroup {
+            group: g.group.map(str::to_string),
+            line_runs: g.line_runs().collect(),
+            stats: g.stats(confidence)?,
+        });
+    }
+    Ok(StreamedMeans::Means { group_column, rows, groups })
+}
+
+/// Vector sum per group, reading a directions table one row at a time: the state of
+/// [`stream_group_means`] before the statistics, held compactly ([`GroupSums`]: a fixed-size slot
+/// and the name per group, plus the runs of adjacent lines with `keep_lines`).
+///
+/// Every group has at least one vector, so [`super::GroupSum::stats`] fails only for a confidence
+/// outside (0, 1). Faults and their messages are those of [`stream_group_means`].
+///
+/// # Units
+/// Directions in degrees; the sums are of unit vectors (x north, y east, z down).
+///
+/// # Formula
+/// Per group S = Σ uᵢ in file order; in the tilt frame uᵢ is the bedding-corrected vector.
+///
+/// # References
+/// Fisher, R. A. (1953), Dispersion on a sphere, *Proc. R. Soc. Lond. A* 217, 295–305.
+pub fn stream_group_sums<R: BufRead>(
+    stream: &mut TableStream<R>,
+    group_by: &GroupBy,
+    frame: Frame,
+    keep_lines: bool,
+) -> Result<StreamedSums> {
     let cols = match DirectionColumns::locate(stream, group_by) {
         Ok(c) => c,
         Err(e) => {
@@ -98,9 +145,9 @@ pub fn stream_group_means<R: BufRead>(
             ));
         }
     };
-    let mut accs: Vec<Acc> = Vec::new();
-    let mut index: HashMap<Option<String>, usize> = HashMap::new();
-    let mut last: Option<usize> = None;
+    let mut sums = GroupSums::new(keep_lines);
+    // The first group (in order of appearance) with a row lacking bedding, and that row's line.
+    let mut missing_bedding: Option<(usize, usize)> = None;
     let mut planes = false;
     loop {
         match stream.next_row() {
@@ -119,47 +166,27 @@ pub fn stream_group_means<R: BufRead>(
         if planes {
             continue; // only checking the rest of the file
         }
-        let j = match last.filter(|&j| accs[j].group.as_deref() == r.group) {
-            Some(j) => j,
-            None => {
-                let key = r.group.map(str::to_string);
-                let j = *index.entry(key.clone()).or_insert_with(|| {
-                    accs.push(Acc {
-                        group: key,
-                        runs: Vec::new(),
-                        fisher: FisherAccumulator::default(),
-                        missing_bedding: None,
-                    });
-                    accs.len() - 1
-                });
-                last = Some(j);
-                j
-            }
-        };
-        let a = &mut accs[j];
-        if keep_lines {
-            match a.runs.last_mut() {
-                Some(run) if run.last + 1 == r.line => run.last = r.line,
-                _ => a.runs.push(LineRun { first: r.line, last: r.line }),
-            }
-        }
+        let j = sums.group_index(r.group)?;
         let v = r.direction.to_vector();
         match frame {
-            Frame::Geo => a.fisher.push(v),
+            Frame::Geo => sums.push(j, r.line, v)?,
             Frame::Tilt => match r.bedding {
-                Some(b) => a.fisher.push(b.untilt(v)),
+                Some(b) => sums.push(j, r.line, b.untilt(v))?,
                 None => {
-                    a.missing_bedding.get_or_insert(r.line);
+                    sums.note_line(j, r.line)?;
+                    if missing_bedding.map_or(true, |(k, _)| j < k) {
+                        missing_bedding = Some((j, r.line));
+                    }
                 }
             },
         }
     }
     stream.require_rows()?;
     if planes {
-        return Ok(StreamedMeans::NeedsWholeTable);
+        return Ok(StreamedSums::NeedsWholeTable);
     }
     // As the whole-table path: the first group (in order of appearance) with a row lacking bedding.
-    if let Some(line) = accs.iter().find_map(|a| a.missing_bedding) {
+    if let Some((_, line)) = missing_bedding {
         return Err(Error::Table(TableError {
             file: stream.file_name().to_string(),
             line,
@@ -167,18 +194,10 @@ pub fn stream_group_means<R: BufRead>(
             message: "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip".into(),
         }));
     }
-    let mut groups = Vec::with_capacity(accs.len());
-    for a in accs {
-        groups.push(StreamedGroup {
-            group: a.group,
-            line_runs: a.runs,
-            stats: a.fisher.finish(confidence)?,
-        });
-    }
-    Ok(StreamedMeans::Means {
+    Ok(StreamedSums::Sums {
         group_column: cols.group_column,
         rows: stream.rows_read(),
-        groups,
+        groups: sums,
     })
 }
 
