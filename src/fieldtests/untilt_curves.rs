@@ -325,6 +325,30 @@ mod tests {
     }
 
     #[test]
+    fn vector_and_portable_sums_are_identical() {
+        // The run-time dispatched kernel (256-bit vectors on this machine if it has them) against the
+        // portable body: bit for bit, on awkward magnitudes.
+        let n = 7;
+        let mut rng = crate::montecarlo::replicate_rng(9, 0, 0);
+        use rand::RngExt;
+        let packed: Vec<f64> = (0..3 * n * BLOCK).map(|_| (rng.random::<f64>() - 0.5) * 10f64.powi(rng.random_range(-8..8))).collect();
+        let rows = [(0usize, 1.0), (2, 3.0), (3, 1.0), (6, 2.0)];
+        let (mut fast, mut plain) = (vec![0.0; 3 * BLOCK], vec![0.0; 3 * BLOCK]);
+        weighted_rows(&packed, n, &rows, &mut fast);
+        weighted_rows_body(&packed, n, &rows, &mut plain);
+        assert!(fast.iter().zip(&plain).all(|(a, b)| a.to_bits() == b.to_bits()));
+        let (mut t4, h4) = ([1.9, 1.5, 1.2, 2.0], [1.7, 0.3, -1.5, 2.0]);
+        let mut t1 = t4;
+        newton5_x4(&mut t4, &h4);
+        for _ in 0..5 {
+            for j in 0..4 {
+                t1[j] -= Cubic::step(t1[j], h4[j]);
+            }
+        }
+        assert_eq!(t4.map(f64::to_bits), t1.map(f64::to_bits));
+    }
+
+    #[test]
     fn batch_equals_single_and_weighted_sums_equal_plain_sums() {
         // Eleven matrices (two groups of four and a remainder of three), including the degenerate ones.
         let ms: Vec<[f64; 6]> = (0..11)
