@@ -42,22 +42,14 @@ import time
 import numpy as np
 from scipy import optimize, special, stats
 
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from baseline_numpy import timed  # noqa: E402  (median of a few runs after a warm-up)
+
 LN_2PI = np.log(2.0 * np.pi)
 MODELS = ("exponential", "gamma", "weibull", "lognormal", "inverse_gaussian")
 N_PARAMS = {"exponential": 1, "gamma": 2, "weibull": 2, "lognormal": 2, "inverse_gaussian": 2}
 PARAM_NAMES = {"exponential": ("rate",), "gamma": ("shape", "scale"), "weibull": ("shape", "scale"),
                "lognormal": ("mu", "sigma"), "inverse_gaussian": ("mean", "shape")}
-
-
-def timed(runs, f):
-    f()
-    t = []
-    for _ in range(runs):
-        s = time.perf_counter()
-        f()
-        t.append(time.perf_counter() - s)
-    t.sort()
-    return t[len(t) // 2]
 
 
 def load(path):

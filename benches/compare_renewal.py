@@ -17,13 +17,16 @@ Exit status 1 when a check fails.
 """
 import math
 import os
-import subprocess
 import sys
 
 import numpy as np
+import scipy
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 ROOT = os.path.dirname(HERE)
+sys.path.insert(0, HERE)
+import baseline_renewal as br  # noqa: E402
+from compare import print_ratios, run_both  # noqa: E402
 MODELS = ("exponential", "gamma", "weibull", "lognormal", "inverse_gaussian")
 
 # Tolerances of the agreement checks. lodestone maximises the censored likelihoods by Nelder-Mead
@@ -33,6 +36,7 @@ MODELS = ("exponential", "gamma", "weibull", "lognormal", "inverse_gaussian")
 REL_PARAM = 1e-5
 ABS_LOGLIK = 1e-8
 REL_STAT = 1e-6  # D and A^2 of the data under the fitted model
+PARAMS = ("rate", "shape", "scale", "mu", "sigma", "mean")
 
 
 def write_input(path):
@@ -70,59 +74,48 @@ def main():
     if not os.path.exists(path):
         print(f"writing {path}", file=sys.stderr)
         write_input(path)
-    env = {k: v for k, v in os.environ.items() if k not in ("OPENBLAS_CORETYPE", "OPENBLAS_L2_SIZE")}
-    py = subprocess.run([sys.executable, os.path.join(HERE, "baseline_renewal.py"), d], env=env,
-                        capture_output=True, text=True, check=True)
-    rs = subprocess.run(["cargo", "bench", "--bench", "compare_renewal"], cwd=ROOT,
-                        env={**os.environ, "LODESTONE_COMPARE_DIR": d}, capture_output=True, text=True, check=True)
-    (t_np, c_np), (t_rs, c_rs) = parse(py.stdout), parse(rs.stdout)
-    import scipy
+    py, rs = run_both(d, "baseline_renewal.py", "compare_renewal")
+    (t_np, c_np), (t_rs, c_rs) = parse(py), parse(rs)
     print(f"NumPy {np.__version__}, SciPy {scipy.__version__}; input {path}")
-    for line in py.stdout.splitlines():
+    for line in py.splitlines():
         if line.startswith("note_"):
             print("  baseline", line)
-
-    print(f"\n{'item':34} {'NumPy s':>9} {'lodestone s':>12} {'1 thread s':>11} {'ratio':>7} {'1->2 thr':>9}")
-    for name, tn in t_np.items():
-        t2 = t_rs.get(f"{name}_t2", t_rs.get(name))
-        t1 = t_rs.get(f"{name}_t1")
-        if t2 is None:
-            continue
-        one = f"{t1:11.4f}" if t1 else f"{'':>11}"
-        scale = f"{t1 / t2:9.2f}" if t1 else f"{'':>9}"
-        print(f"{name:34} {tn:9.4f} {t2:12.4f} {one} {tn / t2:7.1f} {scale}")
+    print()
+    print_ratios(t_np, t_rs)
 
     failures = []
+
+    def pair(kind, m):
+        a, b = c_np.get(f"check_{kind}_{m}"), c_rs.get(f"check_{kind}_{m}")
+        if a is None or b is None:
+            failures.append(f"{m}: check_{kind} missing from one side")
+            return None
+        return a, b
     print(f"\nfitted parameters (tolerance: relative {REL_PARAM:g}; log-likelihood {ABS_LOGLIK:g} absolute)")
     print(f"{'model':18} {'param':6} {'NumPy/SciPy':>18} {'lodestone':>18} {'rel. diff':>10}")
     for m in MODELS:
-        a, b = c_np.get(f"check_fit_{m}"), c_rs.get(f"check_fit_{m}")
-        if a is None or b is None:
-            failures.append(f"{m}: missing from one side")
+        if (ab := pair("fit", m)) is None:
             continue
+        a, b = ab
         for k in a:
-            if k not in b:
+            if k not in b or k == "loglik_scipy":
                 continue
-            r = rel(a[k], b[k])
-            tol = ABS_LOGLIK if k == "loglik" else REL_PARAM
-            diff = abs(a[k] - b[k]) if k == "loglik" else r
-            bad = not (diff <= tol) if k in ("loglik",) or k in ("rate", "shape", "scale", "mu", "sigma", "mean") else False
-            flag = "  <-- differs" if bad else ""
+            if k == "loglik":
+                diff, tol = abs(a[k] - b[k]), ABS_LOGLIK
+            else:
+                diff, tol = rel(a[k], b[k]), REL_PARAM
+            checked = k == "loglik" or k in PARAMS
+            bad = checked and not diff <= tol
             if bad:
                 failures.append(f"{m} {k}: {a[k]!r} against {b[k]!r}")
-            print(f"{m:18} {k:6} {a[k]:18.10g} {b[k]:18.10g} {diff:10.1e}{flag}")
-        # The likelihood of lodestone's parameters, evaluated by scipy.stats (logpdf, logsf), against
-        # lodestone's own value: an independent check of its likelihood code.
-        if "loglik_scipy_at_lodestone" in c_rs.get(f"check_fit_{m}", {}):
-            pass
+            note = "  <-- differs" if bad else ("" if checked else "  (derived)")
+            print(f"{m:18} {k:6} {a[k]:18.10g} {b[k]:18.10g} {diff:10.1e}{note}")
     lr_a, lr_b = c_np.get("check_lr", {}), c_rs.get("check_lr", {})
     if lr_a and lr_b:
         print(f"{'LR gamma/exp':18} {'stat':6} {lr_a['statistic']:18.10g} {lr_b['statistic']:18.10g} {abs(lr_a['statistic'] - lr_b['statistic']):10.1e}")
         print(f"{'':18} {'p':6} {lr_a['p_value']:18.10g} {lr_b['p_value']:18.10g}")
 
-    print(f"\nlodestone's fits evaluated by scipy.stats (logpdf + logsf) against lodestone's own log-likelihood")
-    sys.path.insert(0, HERE)
-    import baseline_renewal as br
+    print("\nlodestone's fits evaluated by scipy.stats (logpdf + logsf) against lodestone's own log-likelihood")
     x, c = br.load(path)
     for m in MODELS:
         b = c_rs.get(f"check_fit_{m}")
@@ -140,10 +133,9 @@ def main():
           f"random streams, 10 000 replicates each, agreement within 4 combined standard errors)")
     print(f"{'model':18} {'D np':>9} {'D lode':>9} {'A2 np':>9} {'A2 lode':>9} {'ks_p np':>8} {'ks_p lode':>9} {'ad_p np':>8} {'ad_p lode':>9}")
     for m in MODELS:
-        a, b = c_np.get(f"check_gof_{m}"), c_rs.get(f"check_gof_{m}")
-        if a is None or b is None:
-            failures.append(f"{m}: goodness of fit missing from one side")
+        if (ab := pair("gof", m)) is None:
             continue
+        a, b = ab
         for k in ("ks_d", "ad"):
             if rel(a[k], b[k]) > REL_STAT:
                 failures.append(f"{m} {k}: {a[k]!r} against {b[k]!r}")
