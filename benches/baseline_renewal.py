@@ -37,7 +37,6 @@ Formulas (the same as lodestone's, src/reversals/):
 """
 import os
 import sys
-import time
 
 import numpy as np
 from scipy import optimize, special, stats
@@ -364,19 +363,18 @@ def fits_optimize(x, c):
     b = Batch(x)
     n, sx, sl = len(x), x.sum(), np.log(x).sum()
     sl2, si = (np.log(x) ** 2).sum(), (1.0 / x).sum()
-    cs = c if c is not None else None
     out = {"exponential": (n / (sx + (c or 0.0)),)}
 
     def lnsf(model, p):
-        if cs is None:
+        if c is None:
             return 0.0
         if model == "gamma":
-            return np.log(special.gammaincc(p[0], cs / p[1]))
+            return np.log(special.gammaincc(p[0], c / p[1]))
         if model == "weibull":
-            return -(cs / p[1]) ** p[0]
+            return -(c / p[1]) ** p[0]
         if model == "lognormal":
-            return special.log_ndtr(-(np.log(cs) - p[0]) / p[1])
-        return float(ig_ln_sf(p[0], p[1], cs))
+            return special.log_ndtr(-(np.log(c) - p[0]) / p[1])
+        return float(ig_ln_sf(p[0], p[1], c))
 
     lx = np.log(x)
     complete = {
