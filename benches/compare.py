@@ -81,32 +81,45 @@ def parse(text):
     return out
 
 
-def main():
-    d = os.path.abspath(sys.argv[1] if len(sys.argv) > 1 else os.path.join(ROOT, "target", "compare"))
-    if not os.path.exists(os.path.join(d, "fisher1e6.csv")):
-        print(f"writing inputs to {d}", file=sys.stderr)
-        write_inputs(d)
+def run_both(d, script, bench):
+    """Run the NumPy script of benches/ (without OPENBLAS_CORETYPE and OPENBLAS_L2_SIZE) and the Rust
+    bench on the inputs in d; return both outputs."""
     env = {k: v for k, v in os.environ.items() if k not in ("OPENBLAS_CORETYPE", "OPENBLAS_L2_SIZE")}
-    py = subprocess.run([sys.executable, os.path.join(HERE, "baseline_numpy.py"), d], env=env,
+    py = subprocess.run([sys.executable, os.path.join(HERE, script), d], env=env,
                         capture_output=True, text=True, check=True)
-    rs = subprocess.run(["cargo", "bench", "--bench", "compare"], cwd=ROOT,
+    rs = subprocess.run(["cargo", "bench", "--bench", bench], cwd=ROOT,
                         env={**os.environ, "LODESTONE_COMPARE_DIR": d}, capture_output=True, text=True, check=True)
-    base, ours = parse(py.stdout), parse(rs.stdout)
-    print(f"NumPy {np.__version__}; inputs in {d}")
-    for line in py.stdout.splitlines():
-        if line.startswith(("note_", "check_")):
-            print("  baseline", line)
-    print(f"{'item':32} {'NumPy s':>10} {'lodestone s':>12} {'1 thread s':>11} {'ratio':>7} {'1->2 thr':>9}")
-    for name, t_np in base.items():
-        if name.startswith(("note_", "check_")):
-            continue
+    return py.stdout, rs.stdout
+
+
+def print_ratios(base, ours):
+    """Times of both sides (`name` against lodestone's `name_t2`/`name_t1` or `name`) and the ratios."""
+    names = [n for n in base if not n.startswith(("note_", "check_"))]
+    w = max([32] + [len(n) for n in names])
+    print(f"{'item':{w}} {'NumPy s':>10} {'lodestone s':>12} {'1 thread s':>11} {'ratio':>7} {'1->2 thr':>9}")
+    for name in names:
+        t_np = base[name]
         t2 = ours.get(f"{name}_t2", ours.get(name))
         t1 = ours.get(f"{name}_t1")
         if t2 is None:
             continue
         scale = f"{t1 / t2:9.2f}" if t1 else f"{'':>9}"
         one = f"{t1:11.4f}" if t1 else f"{'':>11}"
-        print(f"{name:32} {t_np:10.4f} {t2:12.4f} {one} {t_np / t2:7.1f} {scale}")
+        print(f"{name:{w}} {t_np:10.4f} {t2:12.4f} {one} {t_np / t2:7.1f} {scale}")
+
+
+def main():
+    d = os.path.abspath(sys.argv[1] if len(sys.argv) > 1 else os.path.join(ROOT, "target", "compare"))
+    if not os.path.exists(os.path.join(d, "fisher1e6.csv")):
+        print(f"writing inputs to {d}", file=sys.stderr)
+        write_inputs(d)
+    py, rs = run_both(d, "baseline_numpy.py", "compare")
+    base, ours = parse(py), parse(rs)
+    print(f"NumPy {np.__version__}; inputs in {d}")
+    for line in py.stdout.splitlines():
+        if line.startswith(("note_", "check_")):
+            print("  baseline", line)
+    print_ratios(base, ours)
     for k in ("fisher_draws_per_s", "fisher_fast_draws_per_s", "bare_uniform_pairs_per_s"):
         if k in ours:
             print(f"{k:32} {ours[k]:14.3e}")

@@ -4,14 +4,15 @@
 //!
 //! Run alone: `LODESTONE_COMPARE_DIR=DIR cargo bench --bench compare`.
 
+mod common;
+
+use common::time;
 use lodestone::fieldtests::{bootstrap_overlap, fold_test, watson_v, FoldOptions};
 use lodestone::montecarlo::{replicate_rng, MonteCarlo};
 use lodestone::sphere::{Bedding, Direction, Vec3};
 use lodestone::stats::{fisher_mean, FisherSampler};
 use rand::RngExt;
-use std::hint::black_box;
 use std::path::Path;
-use std::time::Instant;
 
 fn read_rows(path: &Path) -> Vec<Vec<f64>> {
     let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
@@ -20,20 +21,6 @@ fn read_rows(path: &Path) -> Vec<Vec<f64>> {
 
 fn vectors(path: &Path) -> Vec<Vec3> {
     read_rows(path).iter().map(|r| Vec3::new(r[0], r[1], r[2])).collect()
-}
-
-/// Median wall time of `runs` calls after one warm-up call.
-fn time<T>(runs: usize, mut f: impl FnMut() -> T) -> f64 {
-    black_box(f());
-    let mut t: Vec<f64> = (0..runs)
-        .map(|_| {
-            let s = Instant::now();
-            black_box(f());
-            s.elapsed().as_secs_f64()
-        })
-        .collect();
-    t.sort_by(f64::total_cmp);
-    t[runs / 2]
 }
 
 fn main() {
