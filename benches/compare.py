@@ -116,7 +116,7 @@ def main():
     py, rs = run_both(d, "baseline_numpy.py", "compare")
     base, ours = parse(py), parse(rs)
     print(f"NumPy {np.__version__}; inputs in {d}")
-    for line in py.stdout.splitlines():
+    for line in py.splitlines():
         if line.startswith(("note_", "check_")):
             print("  baseline", line)
     print_ratios(base, ours)

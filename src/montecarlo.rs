@@ -83,6 +83,18 @@ impl<'a> MonteCarlo<'a> {
         T: Send,
         F: Fn(&mut McRng, usize) -> T + Sync + Send,
     {
+        self.run_with(label, stream, || (), |_, rng, i| f(rng, i))
+    }
+
+    /// [`MonteCarlo::run`] with a scratch value made by `init` for each batch of replicates and
+    /// handed to every replicate of the batch (buffers reused instead of allocated per replicate).
+    /// The results must not depend on what an earlier replicate left in the scratch.
+    pub fn run_with<S, T, I, F>(&self, label: &str, stream: u64, init: I, f: F) -> Vec<T>
+    where
+        T: Send,
+        I: Fn() -> S + Sync + Send,
+        F: Fn(&mut S, &mut McRng, usize) -> T + Sync + Send,
+    {
         let n = self.resamples;
         self.progress.start(label, n as u64);
         let chunk = 64usize;
@@ -91,10 +103,11 @@ impl<'a> MonteCarlo<'a> {
             .flat_map_iter(|c| {
                 let lo = c * chunk;
                 let hi = (lo + chunk).min(n);
+                let mut scratch = init();
                 let part: Vec<T> = (lo..hi)
                     .map(|i| {
                         let mut rng = replicate_rng(self.seed, stream, i as u64);
-                        f(&mut rng, i)
+                        f(&mut scratch, &mut rng, i)
                     })
                     .collect();
                 self.progress.advance((hi - lo) as u64);

@@ -2,7 +2,7 @@
 
 use super::streams;
 use crate::error::{check_range, Error, Result};
-use super::untilt_curves::UntiltCurves;
+use super::untilt_curves::{CurveScratch, UntiltCurves};
 use crate::montecarlo::{quantile_sorted, MonteCarlo, UniformIndex};
 use crate::sphere::{Bedding, Vec3};
 use statrs::distribution::{ContinuousCDF, FisherSnedecor};
@@ -174,14 +174,14 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     let best_untilt = steps[argmax(&data_curve)];
     let keep = opt.keep_curves;
     let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("a fold test of {n} directions: more than 2³² − 1")))?;
-    let results = mc.run("fold test bootstrap", streams::FOLD, |rng, i| {
-        let mut idx = vec![0u32; n];
-        pick.fill(rng, &mut idx);
-        let mut w = vec![0u32; n];
+    let scratch = || (vec![0u32; n], vec![0u32; n], CurveScratch::default());
+    let results = mc.run_with("fold test bootstrap", streams::FOLD, scratch, |(idx, w, buf), rng, i| {
+        pick.fill(rng, idx);
+        w.fill(0);
         idx.iter().for_each(|&j| w[j as usize] += 1);
-        let c = curve_of(&w);
-        let k = argmax(&c);
-        (steps[k], if i < keep { Some(c) } else { None })
+        let c = curves.tau1_into(w, buf);
+        let k = argmax(c);
+        (steps[k], if i < keep { Some(c.to_vec()) } else { None })
     });
     let mut maxima: Vec<f64> = results.iter().map(|r| r.0).collect();
     let curves: Vec<Vec<f64>> = results.into_iter().filter_map(|r| r.1).collect();

@@ -8,6 +8,17 @@
 use crate::sphere::{Bedding, Vec3};
 use rayon::prelude::*;
 
+/// Newton steps taken unconditionally (see [`largest_eigenvalue`]).
+const FIXED_STEPS: usize = 3;
+
+/// Constant factors, multiplied rather than divided by (divisions are the slow part of the cubic).
+const THIRD: f64 = 1.0 / 3.0;
+const SIXTH: f64 = 1.0 / 6.0;
+const NINTH: f64 = 1.0 / 9.0;
+
+/// Numbers stored per direction and step.
+const COLS: usize = 5;
+
 /// Columns summed together in registers (eight 256-bit vectors of four numbers).
 const BLOCK: usize = 32;
 
@@ -19,11 +30,11 @@ const BLOCK: usize = 32;
 /// root lies in [1, 2] (trigonometrically t = 2 cos(acos(h/2)/3)). It is found by Newton's method,
 /// started on the tangent t₀ = 2 − (2 − h)/9 of that concave function of h (an upper bound of the
 /// root): the cubic is convex and increasing on [1, 2], so the iterates fall monotonically onto the
-/// root. Five steps are taken unconditionally (enough for h ≥ −1.9, i.e. whenever λ₁ is well separated
-/// from λ₂, as in a clustered set), then convergence is checked; otherwise (near a double largest
-/// root, a girdle) the steps go on from t = 2 with a guard, and the trigonometric form takes over
-/// below t = 1.001, where both forms lose about half the digits to rounding and the trigonometric one
-/// is exact at the double root itself.
+/// root. Three steps are taken unconditionally (they reach the root to rounding for h ≥ 1.5, i.e. when
+/// λ₂ and λ₃ are close to each other and well below λ₁, as in a clustered set), then convergence is
+/// checked; otherwise the steps go on, guarded, from where they stopped, and the trigonometric form
+/// takes over below t = 1.001 (near a double largest root, a girdle), where both forms lose about half
+/// the digits to rounding and the trigonometric one is exact at the double root itself.
 ///
 /// # References
 /// Smith, O. K. (1961), Eigenvalues of a symmetric 3 × 3 matrix, *Commun. ACM* 4(4), 168 (the shift,
@@ -35,7 +46,7 @@ pub fn largest_eigenvalue(m: [f64; 6]) -> f64 {
     if c.degenerate {
         return c.q;
     }
-    let (t, step) = c.newton5();
+    let (t, step) = c.newton_fixed();
     c.finish(t, step)
 }
 
@@ -69,19 +80,15 @@ fn largest_eigenvalues_body(m: &[f64], scale: f64, out: &mut [f64]) {
         // The same operations as `Cubic::of`, `Cubic::start` and `Cubic::step`, lane by lane.
         let lanes = |g: &dyn Fn(usize) -> f64| -> [f64; 4] { std::array::from_fn(g) };
         let off = lanes(&|j| d[j] * d[j] + e[j] * e[j] + f[j] * f[j]);
-        let q = lanes(&|j| (a[j] + b[j] + c[j]) / 3.0);
+        let q = lanes(&|j| (a[j] + b[j] + c[j]) * THIRD);
         let (aa, bb, cc) = (lanes(&|j| a[j] - q[j]), lanes(&|j| b[j] - q[j]), lanes(&|j| c[j] - q[j]));
-        let p2 = lanes(&|j| (aa[j] * aa[j] + bb[j] * bb[j] + cc[j] * cc[j] + 2.0 * off[j]) / 6.0);
+        let p2 = lanes(&|j| (aa[j] * aa[j] + bb[j] * bb[j] + cc[j] * cc[j] + 2.0 * off[j]) * SIXTH);
         let p = lanes(&|j| p2[j].sqrt());
         let det = lanes(&|j| aa[j] * (bb[j] * cc[j] - f[j] * f[j]) - d[j] * (d[j] * cc[j] - f[j] * e[j]) + e[j] * (d[j] * f[j] - bb[j] * e[j]));
         let h = lanes(&|j| (det[j] / (p2[j] * p[j])).clamp(-2.0, 2.0));
         let deg: [bool; 4] = std::array::from_fn(|j| !(p2[j] > 1e-300));
-        let mut t = lanes(&|j| 2.0 - (2.0 - h[j]) / 9.0);
-        newton5_x4(&mut t, &h);
-        let mut step = [0.0; 4];
-        for j in 0..4 {
-            step[j] = Cubic::step(t[j], h[j]);
-        }
+        let mut t = lanes(&|j| 2.0 - (2.0 - h[j]) * NINTH);
+        let step = newton_x4(&mut t, &h);
         for j in 0..4 {
             let cub = Cubic { q: q[j], p: p[j], h: h[j], degenerate: deg[j] };
             o4[j] = scale * if deg[j] { q[j] } else { cub.finish(t[j], step[j]) };
@@ -94,39 +101,47 @@ fn largest_eigenvalues_body(m: &[f64], scale: f64, out: &mut [f64]) {
     }
 }
 
-/// Five Newton steps of [`Cubic::step`] on four lanes.
+/// [`FIXED_STEPS`] Newton steps of [`Cubic::step`] on four lanes; returns the next step of each.
 #[inline(always)]
-fn newton5_x4(t: &mut [f64; 4], h: &[f64; 4]) {
+fn newton_x4(t: &mut [f64; 4], h: &[f64; 4]) -> [f64; 4] {
     #[cfg(target_arch = "x86_64")]
     if std::arch::is_x86_feature_detected!("avx2") {
         // SAFETY: the processor supports AVX2 (checked just above).
-        unsafe { newton5_x4_avx2(t, h) };
-        return;
+        return unsafe { newton_x4_avx2(t, h) };
     }
-    for _ in 0..5 {
+    for _ in 0..FIXED_STEPS {
         for j in 0..4 {
             t[j] -= Cubic::step(t[j], h[j]);
         }
     }
+    std::array::from_fn(|j| Cubic::step(t[j], h[j]))
 }
 
-/// [`newton5_x4`] in 256-bit vectors: the same operations in the same order as [`Cubic::step`]
+/// [`newton_x4`] in 256-bit vectors: the same operations in the same order as [`Cubic::step`]
 /// (multiplies, subtractions and one correctly rounded division per step; no fused multiply-add),
 /// hence the same numbers.
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2")]
-unsafe fn newton5_x4_avx2(t: &mut [f64; 4], h: &[f64; 4]) {
+unsafe fn newton_x4_avx2(t: &mut [f64; 4], h: &[f64; 4]) -> [f64; 4] {
     use std::arch::x86_64::*;
-    // SAFETY: both arrays hold four f64; unaligned loads and stores.
+    // SAFETY: the arrays hold four f64; unaligned loads and stores.
     let (mut tv, hv) = unsafe { (_mm256_loadu_pd(t.as_ptr()), _mm256_loadu_pd(h.as_ptr())) };
     let (one, three) = (_mm256_set1_pd(1.0), _mm256_set1_pd(3.0));
-    for _ in 0..5 {
+    let step = |tv: __m256d| {
         let tt = _mm256_mul_pd(tv, tv);
         let num = _mm256_sub_pd(_mm256_mul_pd(tv, _mm256_sub_pd(tt, three)), hv);
         let den = _mm256_mul_pd(three, _mm256_sub_pd(tt, one));
-        tv = _mm256_sub_pd(tv, _mm256_div_pd(num, den));
+        _mm256_div_pd(num, den)
+    };
+    for _ in 0..FIXED_STEPS {
+        tv = _mm256_sub_pd(tv, step(tv));
     }
-    unsafe { _mm256_storeu_pd(t.as_mut_ptr(), tv) };
+    let mut next = [0.0; 4];
+    unsafe {
+        _mm256_storeu_pd(t.as_mut_ptr(), tv);
+        _mm256_storeu_pd(next.as_mut_ptr(), step(tv));
+    }
+    next
 }
 
 /// The depressed cubic of a symmetric 3 × 3 matrix (see [`largest_eigenvalue`]).
@@ -144,9 +159,9 @@ impl Cubic {
     fn of(m: [f64; 6]) -> Self {
         let [a, b, c, d, e, f] = m;
         let off = d * d + e * e + f * f;
-        let q = (a + b + c) / 3.0;
+        let q = (a + b + c) * THIRD;
         let (aa, bb, cc) = (a - q, b - q, c - q);
-        let p2 = (aa * aa + bb * bb + cc * cc + 2.0 * off) / 6.0;
+        let p2 = (aa * aa + bb * bb + cc * cc + 2.0 * off) * SIXTH;
         let p = p2.sqrt();
         let det = aa * (bb * cc - f * f) - d * (d * cc - f * e) + e * (d * f - bb * e);
         let h = (det / (p2 * p)).clamp(-2.0, 2.0);
@@ -155,7 +170,7 @@ impl Cubic {
 
     #[inline(always)]
     fn start(&self) -> f64 {
-        2.0 - (2.0 - self.h) / 9.0
+        2.0 - (2.0 - self.h) * NINTH
     }
 
     /// One Newton step for t³ − 3t − h at t.
@@ -166,9 +181,9 @@ impl Cubic {
     }
 
     #[inline(always)]
-    fn newton5(&self) -> (f64, f64) {
+    fn newton_fixed(&self) -> (f64, f64) {
         let mut t = self.start();
-        for _ in 0..5 {
+        for _ in 0..FIXED_STEPS {
             t -= Self::step(t, self.h);
         }
         (t, Self::step(t, self.h))
@@ -180,13 +195,16 @@ impl Cubic {
         if step.abs() <= 4.0 * f64::EPSILON * t && t > 1.001 {
             return self.q + self.p * t;
         }
-        self.slow()
+        self.slow(t)
     }
 
-    /// Guarded Newton from t = 2, then the trigonometric form near a double root.
+    /// Guarded Newton steps on from `t` (above the root), then the trigonometric form near a double
+    /// root.
     #[cold]
-    fn slow(&self) -> f64 {
-        let mut t = 2.0f64;
+    fn slow(&self, mut t: f64) -> f64 {
+        if !(t > 1.001 && t <= 2.0) {
+            t = 2.0;
+        }
         for _ in 0..100 {
             let step = Self::step(t, self.h);
             if !(step > 4.0 * f64::EPSILON * t) {
@@ -210,8 +228,9 @@ pub(crate) struct UntiltCurves {
     n: usize,
     n_steps: usize,
     /// Numbers laid out [column block][direction][BLOCK]: for one block of 32 columns, the numbers of
-    /// all directions are contiguous. Columns run step by step, six per step (xx, yy, zz, xy, xz, yz);
-    /// the last block is padded with zeros.
+    /// all directions are contiguous. Columns run step by step, five per step (xx, yy, xy, xz, yz; zz
+    /// is not stored: for unit vectors Σ c zz = Σ c − Σ c xx − Σ c yy); the last block is padded with
+    /// zeros.
     packed: Vec<f64>,
 }
 
@@ -219,16 +238,16 @@ impl UntiltCurves {
     /// Directions `v` (geographic) with their beddings, untilted by every percentage in `steps`.
     pub(crate) fn new(v: &[Vec3], beds: &[Bedding], steps: &[f64]) -> Self {
         let n = v.len();
-        let blocks = (steps.len() * 6).div_ceil(BLOCK);
+        let blocks = (steps.len() * COLS).div_ceil(BLOCK);
         // The rows (one per direction) are computed in parallel, then packed.
         let rows: Vec<Vec<f64>> = v
             .par_iter()
             .zip(beds)
             .map(|(u, b)| {
-                let mut row = Vec::with_capacity(steps.len() * 6);
+                let mut row = Vec::with_capacity(steps.len() * COLS);
                 for pct in steps {
                     let w = b.partial(pct / 100.0).apply(*u);
-                    row.extend_from_slice(&[w.x * w.x, w.y * w.y, w.z * w.z, w.x * w.y, w.x * w.z, w.y * w.z]);
+                    row.extend_from_slice(&[w.x * w.x, w.y * w.y, w.x * w.y, w.x * w.z, w.y * w.z]);
                 }
                 row
             })
@@ -244,16 +263,37 @@ impl UntiltCurves {
 
     /// τ₁ at every step for a resample in which direction i was drawn `weights[i]` times.
     ///
-    /// Each entry of the orientation matrix is Σ cᵢ oᵢ over the drawn directions in index order, so the
+    /// Each stored entry of the orientation matrix is Σ cᵢ oᵢ over the drawn directions in index order (zz
+    /// follows from the trace), so the
     /// result does not depend on how the sums are vectorised.
     pub(crate) fn tau1(&self, weights: &[u32]) -> Vec<f64> {
-        let rows: Vec<(usize, f64)> = weights.iter().enumerate().filter(|w| *w.1 > 0).map(|(i, &c)| (i, c as f64)).collect();
-        let mut sums = vec![0.0f64; self.packed.len() / self.n.max(1)];
-        weighted_rows(&self.packed, self.n, &rows, &mut sums);
-        let mut out = vec![0.0f64; self.n_steps];
-        largest_eigenvalues(&sums[..self.n_steps * 6], 1.0 / self.n as f64, &mut out);
+        let mut scratch = CurveScratch::default();
+        self.tau1_into(weights, &mut scratch).to_vec()
+    }
+
+    /// [`UntiltCurves::tau1`] with reused buffers: the curve is left in (and returned from) `scratch`.
+    pub(crate) fn tau1_into<'s>(&self, weights: &[u32], scratch: &'s mut CurveScratch) -> &'s [f64] {
+        let CurveScratch { rows, sums, mats, out } = scratch;
+        rows.clear();
+        rows.extend(weights.iter().enumerate().filter(|w| *w.1 > 0).map(|(i, &c)| (i, c as f64)));
+        sums.resize(self.packed.len() / self.n.max(1), 0.0);
+        weighted_rows(&self.packed, self.n, rows, sums);
+        let total: f64 = rows.iter().map(|r| r.1).sum();
+        mats.clear();
+        mats.extend(sums[..self.n_steps * COLS].chunks_exact(COLS).flat_map(|m| [m[0], m[1], total - m[0] - m[1], m[2], m[3], m[4]]));
+        out.resize(self.n_steps, 0.0);
+        largest_eigenvalues(mats, 1.0 / self.n as f64, out);
         out
     }
+}
+
+/// Buffers of [`UntiltCurves::tau1_into`], kept between resamples.
+#[derive(Debug, Default)]
+pub(crate) struct CurveScratch {
+    rows: Vec<(usize, f64)>,
+    sums: Vec<f64>,
+    mats: Vec<f64>,
+    out: Vec<f64>,
 }
 
 /// `out[block][k] = Σ c · packed[block][i][k]` over `rows` = (i, c): the 32 partial sums of a block stay
@@ -339,13 +379,15 @@ mod tests {
         assert!(fast.iter().zip(&plain).all(|(a, b)| a.to_bits() == b.to_bits()));
         let (mut t4, h4) = ([1.9, 1.5, 1.2, 2.0], [1.7, 0.3, -1.5, 2.0]);
         let mut t1 = t4;
-        newton5_x4(&mut t4, &h4);
-        for _ in 0..5 {
+        let next4 = newton_x4(&mut t4, &h4);
+        for _ in 0..FIXED_STEPS {
             for j in 0..4 {
                 t1[j] -= Cubic::step(t1[j], h4[j]);
             }
         }
         assert_eq!(t4.map(f64::to_bits), t1.map(f64::to_bits));
+        let next1: [f64; 4] = std::array::from_fn(|j| Cubic::step(t1[j], h4[j]));
+        assert_eq!(next4.map(f64::to_bits), next1.map(f64::to_bits));
     }
 
     #[test]

@@ -22,6 +22,7 @@ const REJECTION_KAPPA: f64 = 1.5;
 #[derive(Debug, Clone, Copy)]
 pub struct FisherSampler {
     kappa: f64,
+    inv_kappa: f64,
     em1: f64,
     rot: Rotation,
 }
@@ -34,7 +35,7 @@ impl FisherSampler {
             return Err(Error::OutOfRange { name: "kappa", value: kappa, range: "(0, ∞)" });
         }
         // Work in a frame where the mean is the +x axis, then rotate onto the mean.
-        Ok(Self { kappa, em1: (-2.0 * kappa).exp_m1(), rot: Rotation::from_north_to(mean.to_vector()) })
+        Ok(Self { kappa, inv_kappa: 1.0 / kappa, em1: (-2.0 * kappa).exp_m1(), rot: Rotation::from_north_to(mean.to_vector()) })
     }
 
     /// Draw one unit vector.
@@ -63,7 +64,7 @@ impl FisherSampler {
         } else {
             -(rng.random::<f64>() * self.em1).ln_1p()
         };
-        let x = (e / self.kappa).min(2.0); // 1 − cos θ, in [0, 2]
+        let x = (e * self.inv_kappa).min(2.0); // 1 − cos θ, in [0, 2]
         let sin2 = x * (2.0 - x);
         const SCALE: f64 = 1.0 / 2_147_483_648.0; // 2⁻³¹
         loop {
