@@ -56,17 +56,25 @@ pub fn ad_statistic(sorted: &[f64], f: &Fitted) -> f64 {
 }
 
 /// Statistics (D, A²) of a sample under a fitted model, from one CDF evaluation per interval
-/// (ln S = ln(1 − F) except in the far upper tail, where ln S is computed directly).
-fn statistics(s: &Sample, f: &Fitted) -> (f64, f64) {
+/// (ln S = ln(1 − F) except in the far upper tail, where ln S is computed directly). `cdf` is a
+/// buffer for the CDF values.
+fn statistics(s: &Sample, f: &Fitted, cdf: &mut Vec<f64>) -> (f64, f64) {
     let x = &s.complete;
     let n = x.len();
-    let cdf: Vec<f64> = x.iter().map(|&v| f.cdf(v)).collect();
+    f.cdf_into(x, cdf);
     let nf = n as f64;
     let d = cdf.iter().enumerate().fold(0.0f64, |d, (i, &c)| d.max((i as f64 + 1.0) / nf - c).max(c - i as f64 / nf));
-    let ln_f: Vec<f64> = cdf.iter().map(|c| c.max(1e-300).ln()).collect();
-    let ln_s: Vec<f64> = cdf.iter().zip(x).map(|(&c, &v)| if c < 1.0 - 1e-8 { (-c).ln_1p() } else { f.ln_sf(v) }.max(-690.0)).collect();
-    let sum: f64 = (0..n).map(|i| (2 * i + 1) as f64 * (ln_f[i] + ln_s[n - 1 - i])).sum();
+    let ln_f = |i: usize| cdf[i].max(1e-300).ln();
+    let ln_s = |i: usize| if cdf[i] < 1.0 - 1e-8 { (-cdf[i]).ln_1p() } else { f.ln_sf(x[i]) }.max(-690.0);
+    let sum: f64 = (0..n).map(|i| (2 * i + 1) as f64 * (ln_f(i) + ln_s(n - 1 - i))).sum();
     (d, -nf - sum / nf)
+}
+
+/// Buffers of one bootstrap replicate, reused across a batch of replicates.
+#[derive(Default)]
+struct Scratch {
+    xs: Vec<f64>,
+    cdf: Vec<f64>,
 }
 
 /// The bootstrap null distribution of (D, A²): replicate samples drawn from `f`, refitted.
@@ -75,11 +83,14 @@ fn statistics(s: &Sample, f: &Fitted) -> (f64, f64) {
 pub fn null_statistics(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64) -> Vec<(f64, f64)> {
     let n = s.n();
     let label = format!("goodness of fit ({})", f.model.name());
-    mc.run(&label, stream, |rng, _| {
-        let xs: Vec<f64> = (0..n).map(|_| f.sample(rng)).collect();
+    mc.run_with(&label, stream, Scratch::default, |buf, rng, _| {
+        let mut xs = std::mem::take(&mut buf.xs);
+        xs.clear();
+        xs.extend((0..n).map(|_| f.sample(rng)));
         let rs = Sample::new(xs, s.censored).ok()?;
-        let rf = f.model.fit(&rs).ok()?;
-        let st = statistics(&rs, &rf);
+        let st = f.model.fit(&rs).ok().map(|rf| statistics(&rs, &rf, &mut buf.cdf));
+        buf.xs = rs.complete;
+        let st = st?;
         (st.0.is_finite() && st.1.is_finite()).then_some(st)
     })
     .into_iter()
@@ -98,7 +109,7 @@ pub fn null_statistics(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64)
 /// Bootstrap based goodness-of-fit tests. *Metrika* 40, 243–256. Davison, A. C. & Hinkley, D. V.
 /// (1997), *Bootstrap Methods and their Application*, CUP.
 pub fn goodness_of_fit(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64) -> Result<GoodnessOfFit> {
-    let (d, a) = statistics(s, f);
+    let (d, a) = statistics(s, f, &mut Vec::new());
     let null = null_statistics(f, s, mc, stream);
     if null.is_empty() {
         return Err(Error::Undefined(format!(
@@ -143,7 +154,7 @@ mod tests {
         // The shared-evaluation path used by the bootstrap gives the same two numbers.
         let g = Fitted { model: Model::Gamma, params: [2.0, 0.2] };
         let s = Sample::new(vec![0.05, 0.2, 0.33, 0.41, 0.9, 1.7, 2.9], None).unwrap();
-        let (d, a) = statistics(&s, &g);
+        let (d, a) = statistics(&s, &g, &mut Vec::new());
         assert!((d - ks_statistic(&s.complete, |v| g.cdf(v))).abs() < 1e-15);
         assert!((a - ad_statistic(&s.complete, &g)).abs() < 1e-9);
     }

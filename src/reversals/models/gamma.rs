@@ -13,7 +13,7 @@
 use super::{maximise2, trigamma, Sample};
 use crate::error::{Error, Result};
 use crate::montecarlo::McRng;
-use statrs::function::gamma::{checked_gamma_lr, checked_gamma_ur, digamma, ln_gamma};
+use statrs::function::gamma::{checked_gamma_ur, digamma, ln_gamma};
 
 pub(super) fn fit_complete(s: &Sample) -> Result<[f64; 2]> {
     let n = s.n() as f64;
@@ -61,7 +61,7 @@ pub(super) fn ln_sf(p: &[f64; 2], x: f64) -> f64 {
 }
 
 pub(super) fn cdf(p: &[f64; 2], x: f64) -> f64 {
-    checked_gamma_lr(p[0], x / p[1]).unwrap_or(f64::NAN)
+    super::incomplete_gamma::gamma_p(p[0], x / p[1], ln_gamma(p[0]))
 }
 
 pub(super) fn loglik_complete(p: &[f64; 2], s: &Sample) -> f64 {

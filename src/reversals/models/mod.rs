@@ -7,6 +7,7 @@
 
 mod exponential;
 mod gamma;
+mod incomplete_gamma;
 mod inverse_gaussian;
 mod lognormal;
 mod weibull;
@@ -117,11 +118,15 @@ impl Sample {
                 unit: "complete intervals",
             });
         }
-        complete.sort_by(f64::total_cmp);
-        let sum_x = complete.iter().sum();
-        let sum_ln = complete.iter().map(|x| x.ln()).sum();
-        let sum_ln2 = complete.iter().map(|x| x.ln().powi(2)).sum();
-        let sum_inv = complete.iter().map(|x| 1.0 / x).sum();
+        complete.sort_unstable_by(f64::total_cmp);
+        let (mut sum_x, mut sum_ln, mut sum_ln2, mut sum_inv) = (0.0, 0.0, 0.0, 0.0);
+        for &x in &complete {
+            let l = x.ln();
+            sum_x += x;
+            sum_ln += l;
+            sum_ln2 += l * l;
+            sum_inv += 1.0 / x;
+        }
         Ok(Sample {
             complete,
             censored,
@@ -206,6 +211,19 @@ impl Fitted {
             Model::Lognormal => lognormal::cdf(&self.params, x),
             Model::InverseGaussian => inverse_gaussian::cdf(&self.params, x),
             _ => -self.ln_sf(x).exp_m1(),
+        }
+    }
+
+    /// [`Fitted::cdf`] at every point of `xs`, into `out` (cleared first). The gamma model evaluates
+    /// ln Γ(shape) once for all the points.
+    pub fn cdf_into(&self, xs: &[f64], out: &mut Vec<f64>) {
+        out.clear();
+        match self.model {
+            Model::Gamma => {
+                let lg = statrs::function::gamma::ln_gamma(self.params[0]);
+                out.extend(xs.iter().map(|&x| incomplete_gamma::gamma_p(self.params[0], x / self.params[1], lg)));
+            }
+            _ => out.extend(xs.iter().map(|&x| self.cdf(x))),
         }
     }
 
