@@ -34,11 +34,11 @@ pub struct BootstrapOverlap {
 
 /// Mean unit vector of a resample drawn with replacement, or `None` if the resample cancels out.
 ///
-/// Indices come 256 at a time from [`UniformIndex`]; the drawn vectors are summed into four partial
+/// Indices come 64 at a time from [`UniformIndex`]; the drawn vectors are summed into four partial
 /// sums (four independent addition chains instead of one), added at the end.
 fn resampled_mean(v: &[Vec3], pick: &UniformIndex, rng: &mut McRng) -> Option<Vec3> {
     let n = v.len();
-    let mut idx = [0u32; 256];
+    let mut idx = [0u32; 64];
     let mut part = [Vec3::ZERO; 4];
     let mut left = n;
     while left > 0 {
