@@ -246,7 +246,7 @@ impl UntiltCurves {
             .map(|(u, b)| {
                 let mut row = Vec::with_capacity(steps.len() * COLS);
                 for pct in steps {
-                    let w = b.partial(pct / 100.0).apply(*u);
+                    let w = b.partial_apply(pct / 100.0, *u);
                     row.extend_from_slice(&[w.x * w.x, w.y * w.y, w.x * w.y, w.x * w.z, w.y * w.z]);
                 }
                 row

@@ -112,6 +112,9 @@ mod props {
             let v = Direction::new(dec, inc).unwrap().to_vector();
             prop_assert!((bed.retilt(bed.untilt(v)) - v).norm() < 1e-12);
             prop_assert!((bed.partial(1.0).apply(v) - bed.untilt(v)).norm() < 1e-12);
+            for f in [-0.1, 0.37, 1.5] {
+                prop_assert!((bed.partial_apply(f, v) - bed.partial(f).apply(v)).norm() < 1e-14);
+            }
         }
     }
 }
