@@ -55,7 +55,7 @@ fn main() {
         });
     }
     // Draw speed: Fisher draws by the inverse CDF (`sample`: two uniforms, a logarithm, a sine and a cosine
-    // each, then a rotation) and by the trigonometry-free method (`local_resultant`, summed in the
+    // each, then a rotation) and by the four-lane trigonometry-free method (`resultant`, summed in the
     // sampler's frame, as V_w uses it), against a bare loop of the generator's uniforms.
     let n = 10_000_000;
     let s = FisherSampler::new(Direction { dec: 0.0, inc: 60.0 }, 20.0).unwrap();
@@ -65,7 +65,7 @@ fn main() {
     });
     let t_fast = time(3, || {
         let mut rng = replicate_rng(1, 0, 0);
-        s.local_resultant(&mut rng, n)
+        s.resultant(&mut rng, n)
     });
     let t_bare = time(3, || {
         let mut rng = replicate_rng(1, 0, 0);

@@ -53,7 +53,7 @@ fn v_from_resultants(xa: Vec3, na: usize, xb: Vec3, nb: usize) -> f64 {
 /// χ²₂ point (5.99 at 95 %), the large-sample distribution of V_w.
 ///
 /// # References
-/// Watson (1983); simulation of Fisher sets: [`FisherSampler::local_resultant`].
+/// Watson (1983); simulation of Fisher sets: [`FisherSampler::resultant`].
 pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<WatsonV> {
     super::check_two_sets("Watson's V_w", a, b, mc.resamples, confidence)?;
     let v_w = watson_v_statistic(a, b);
@@ -66,7 +66,7 @@ pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Res
     // Only the resultants matter, and V_w is unchanged by a rotation applied to both sets, so each
     // simulated set is summed in the samplers' own frame (mean along +x) with no draw stored.
     let mut sims = mc.run("V_w simulation", streams::WATSON_V, |rng, _| {
-        v_from_resultants(sa.local_resultant(rng, na), na, sb.local_resultant(rng, nb), nb)
+        v_from_resultants(sa.resultant(rng, na), na, sb.resultant(rng, nb), nb)
     });
     let v_crit = quantile_select(&mut sims, confidence);
     Ok(WatsonV { v_w, v_crit, confidence, simulations: sims.len(), passed: v_w <= v_crit })

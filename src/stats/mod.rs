@@ -6,6 +6,7 @@ mod groups;
 mod mixed;
 mod orientation;
 mod sampler;
+mod fisher_lanes;
 mod group_sums;
 mod stream_means;
 

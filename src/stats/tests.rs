@@ -97,47 +97,6 @@ fn sampler_recovers_kappa() {
     }
 }
 
-/// Kolmogorov–Smirnov distance between a sample and a continuous CDF.
-fn ks_distance(mut xs: Vec<f64>, cdf: impl Fn(f64) -> f64) -> f64 {
-    xs.sort_by(f64::total_cmp);
-    let n = xs.len() as f64;
-    xs.iter().enumerate().map(|(i, &x)| {
-        let f = cdf(x);
-        (f - i as f64 / n).max((i + 1) as f64 / n - f)
-    }).fold(0.0, f64::max)
-}
-
-#[test]
-fn fast_local_draws_follow_the_fisher_distribution() {
-    // The exact CDF of cos θ under Fisher (1953): F(c) = (e^(κ(c−1)) − e^(−2κ)) / (1 − e^(−2κ)), and the
-    // azimuth about the mean uniform (Fisher, Lewis & Embleton 1987, §4.2). KS test at the 0.1 % level:
-    // D·√N < 1.949474603504375 (SciPy 1.17.1 stats.kstwobign.ppf(0.999)). κ = 0.5 takes the inverse-CDF
-    // branch, κ = 5 and 50 the ziggurat-with-rejection branch.
-    // Mean of cos θ: coth κ − 1/κ (Fisher et al. 1987, §4.2; NumPy 2.4.6: 0.1639534137386529,
-    // 0.8000908039820194, 0.98), checked to 4 standard errors.
-    use rand::SeedableRng;
-    let n = 40_000;
-    for (kappa, mean_cos) in [(0.5, 0.1639534137386529), (5.0, 0.8000908039820194), (50.0, 0.98)] {
-        let s = FisherSampler::new(Direction::new(123.0, -40.0).unwrap(), kappa).unwrap();
-        let mut rng = rand::rngs::Xoshiro256PlusPlus::seed_from_u64(11);
-        let v: Vec<Vec3> = (0..n).map(|_| s.sample_local_fast(&mut rng)).collect();
-        assert!(v.iter().all(|u| (u.norm() - 1.0).abs() < 1e-12));
-        let em = (-2.0 * kappa).exp();
-        let d_cos = ks_distance(v.iter().map(|u| u.x).collect(), |c| (((kappa * (c - 1.0)).exp() - em) / (1.0 - em)).clamp(0.0, 1.0));
-        let d_phi = ks_distance(v.iter().map(|u| u.z.atan2(u.y)).collect(), |p| (p + std::f64::consts::PI) / std::f64::consts::TAU);
-        let crit = 1.949474603504375 / (n as f64).sqrt();
-        assert!(d_cos < crit && d_phi < crit, "kappa {kappa}: D(cos) = {d_cos}, D(phi) = {d_phi}, critical {crit}");
-        let m = v.iter().map(|u| u.x).sum::<f64>() / n as f64;
-        let sd = (v.iter().map(|u| (u.x - m).powi(2)).sum::<f64>() / (n - 1) as f64).sqrt();
-        assert!((m - mean_cos).abs() < 4.0 * sd / (n as f64).sqrt(), "kappa {kappa}: mean cos {m}");
-        // The resultant of the same draws, summed by the sampler, is their sum.
-        let mut rng = rand::rngs::Xoshiro256PlusPlus::seed_from_u64(11);
-        let r = s.local_resultant(&mut rng, n);
-        let direct = v.iter().fold(Vec3::ZERO, |a, u| a + *u);
-        assert!((r - direct).norm() < 1e-9, "{r:?} {direct:?}");
-    }
-}
-
 #[test]
 fn principal_axis_of_a_girdle_free_cluster() {
     let v: Vec<Vec3> = dirs(&[(0.0, 10.0), (180.0, -10.0), (2.0, 12.0)]).iter().map(|d| d.to_vector()).collect();
