@@ -4,7 +4,7 @@ use super::{capped_k, resultant, streams};
 use crate::error::Result;
 use crate::montecarlo::{quantile_select, MonteCarlo};
 use crate::sphere::{Direction, Vec3};
-use crate::stats::FisherSampler;
+use crate::stats::{FisherLanes, FisherSampler};
 
 /// Watson's V_w and its critical value.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -53,7 +53,8 @@ fn v_from_resultants(xa: Vec3, na: usize, xb: Vec3, nb: usize) -> f64 {
 /// χ²₂ point (5.99 at 95 %), the large-sample distribution of V_w.
 ///
 /// # References
-/// Watson (1983); simulation of Fisher sets: [`FisherSampler::resultant`].
+/// Watson (1983); simulation of Fisher sets: [`FisherSampler::resultant`] (one seeding of its eight
+/// generators serves both sets of a replicate).
 pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<WatsonV> {
     super::check_two_sets("Watson's V_w", a, b, mc.resamples, confidence)?;
     let v_w = watson_v_statistic(a, b);
@@ -66,7 +67,10 @@ pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Res
     // Only the resultants matter, and V_w is unchanged by a rotation applied to both sets, so each
     // simulated set is summed in the samplers' own frame (mean along +x) with no draw stored.
     let mut sims = mc.run("V_w simulation", streams::WATSON_V, |rng, _| {
-        v_from_resultants(sa.resultant(rng, na), na, sb.resultant(rng, nb), nb)
+        let mut lanes = FisherLanes::new(&sa, rng);
+        let xa = lanes.resultant(na);
+        lanes.set_sampler(&sb);
+        v_from_resultants(xa, na, lanes.resultant(nb), nb)
     });
     let v_crit = quantile_select(&mut sims, confidence);
     Ok(WatsonV { v_w, v_crit, confidence, simulations: sims.len(), passed: v_w <= v_crit })

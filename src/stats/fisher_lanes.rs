@@ -11,6 +11,10 @@ use crate::sphere::Vec3;
 use rand::Rng;
 
 const ONE_BITS: u64 = 0x3FF0_0000_0000_0000;
+/// 2.0: a mantissa under this exponent gives a number in [2, 4).
+const TWO_BITS: u64 = 0x4000_0000_0000_0000;
+/// The top 32 bits of a 52-bit mantissa.
+const HIGH32_AT_20: u64 = 0x000F_FFFF_FFF0_0000;
 const MANTISSA: u64 = 0x000F_FFFF_FFFF_FFFF;
 /// 2⁵² + exponent field, read as a double, minus 2⁵² gives the exponent field as a double.
 const EXP_MAGIC_BITS: u64 = 0x4330_0000_0000_0000;
@@ -115,6 +119,12 @@ impl FisherLanes {
         Self { s, c, inv_kappa }
     }
 
+    /// Draw from `sampler`'s distribution from now on (same generators): two sets with different κ
+    /// can share one seeding.
+    pub(crate) fn set_sampler(&mut self, sampler: &FisherSampler) {
+        (self.c, self.inv_kappa) = sampler.lane_constants();
+    }
+
     /// Next output of each lane's xoshiro256++ (Blackman & Vigna 2021).
     #[inline(always)]
     fn next(&mut self) -> [u64; LANES] {
@@ -138,7 +148,8 @@ impl FisherLanes {
     ///
     /// # Formula
     /// U from the top 52 bits of one output: x = 1 − cos θ = min(2, −ln(1 − U (1 − e^(−2κ)))/κ) (the
-    /// inverse CDF of the Fisher distribution of cos θ); (a, b) uniform in [−1, 1)² from 52 and 32 bits of
+    /// inverse CDF of the Fisher distribution of cos θ); (a, b) uniform in [−1, 1)² from the high and the
+    /// low 32 bits of
     /// a second output, accepted when 0 < s = a² + b² < 1; the draw is (1 − x, a f, b f) with
     /// f = √(x (2 − x)/s), so (a, b)/√s is the azimuth's cosine and sine.
     #[inline(always)]
@@ -150,8 +161,8 @@ impl FisherLanes {
             let u = f64::from_bits((r1[l] >> 12) | ONE_BITS) - 1.0;
             let x = (-ln_basic(1.0 - u * self.c) * self.inv_kappa).min(2.0);
             let sin2 = x * (2.0 - x);
-            let a = f64::from_bits((r2[l] >> 12) | ONE_BITS) * 2.0 - 3.0;
-            let b = f64::from_bits(((r2[l] & 0xFFFF_FFFF) << 20) | ONE_BITS) * 2.0 - 3.0;
+            let a = f64::from_bits(((r2[l] >> 12) & HIGH32_AT_20) | TWO_BITS) - 3.0;
+            let b = f64::from_bits(((r2[l] << 20) & HIGH32_AT_20) | TWO_BITS) - 3.0;
             let s = a * a + b * b;
             let f = (sin2 / s).sqrt();
             out.cx[l] = 1.0 - x;
@@ -220,7 +231,8 @@ impl FisherLanes {
         };
         let one_bits = _mm256_set1_epi64x(ONE_BITS as i64);
         let mantissa = _mm256_set1_epi64x(MANTISSA as i64);
-        let low32 = _mm256_set1_epi64x(0xFFFF_FFFF);
+        let high32 = _mm256_set1_epi64x(HIGH32_AT_20 as i64);
+        let two_bits = _mm256_set1_epi64x(TWO_BITS as i64);
         let exp_magic = _mm256_set1_epi64x(EXP_MAGIC_BITS as i64);
         let pd = _mm256_set1_pd;
         let (one, two, three, half) = (pd(1.0), pd(2.0), pd(3.0), pd(0.5));
@@ -252,11 +264,8 @@ impl FisherLanes {
             // x = min(−ln w · (1/κ), 2): −ln w by flipping the sign bit, as `-` does.
             let x = _mm256_min_pd(_mm256_mul_pd(_mm256_xor_pd(lnw, pd(-0.0)), inv_kappa), two);
             let sin2 = _mm256_mul_pd(x, _mm256_sub_pd(two, x));
-            let a = _mm256_sub_pd(_mm256_mul_pd(_mm256_castsi256_pd(_mm256_or_si256(_mm256_srli_epi64::<12>(r2), one_bits)), two), three);
-            let b = _mm256_sub_pd(
-                _mm256_mul_pd(_mm256_castsi256_pd(_mm256_or_si256(_mm256_slli_epi64::<20>(_mm256_and_si256(r2, low32)), one_bits)), two),
-                three,
-            );
+            let a = _mm256_sub_pd(_mm256_castsi256_pd(_mm256_or_si256(_mm256_and_si256(_mm256_srli_epi64::<12>(r2), high32), two_bits)), three);
+            let b = _mm256_sub_pd(_mm256_castsi256_pd(_mm256_or_si256(_mm256_and_si256(_mm256_slli_epi64::<20>(r2), high32), two_bits)), three);
             let s2 = _mm256_add_pd(_mm256_mul_pd(a, a), _mm256_mul_pd(b, b));
             let fct = _mm256_sqrt_pd(_mm256_div_pd(sin2, s2));
             let ok = _mm256_and_pd(_mm256_cmp_pd::<_CMP_LT_OQ>(s2, one), _mm256_cmp_pd::<_CMP_GT_OQ>(s2, zero));
@@ -321,7 +330,8 @@ impl FisherLanes {
         let mut st: [__m512i; 4] = std::array::from_fn(|w| unsafe { _mm512_loadu_si512(self.s[w].as_ptr() as *const __m512i) });
         let one_bits = _mm512_set1_epi64(ONE_BITS as i64);
         let mantissa = _mm512_set1_epi64(MANTISSA as i64);
-        let low32 = _mm512_set1_epi64(0xFFFF_FFFF);
+        let high32 = _mm512_set1_epi64(HIGH32_AT_20 as i64);
+        let two_bits = _mm512_set1_epi64(TWO_BITS as i64);
         let exp_magic = _mm512_set1_epi64(EXP_MAGIC_BITS as i64);
         let pd = _mm512_set1_pd;
         let (one, two, three, half) = (pd(1.0), pd(2.0), pd(3.0), pd(0.5));
@@ -365,11 +375,8 @@ impl FisherLanes {
             let neg = _mm512_castsi512_pd(_mm512_xor_si512(_mm512_castpd_si512(lnw), _mm512_set1_epi64(i64::MIN)));
             let x = _mm512_min_pd(_mm512_mul_pd(neg, inv_kappa), two);
             let sin2 = _mm512_mul_pd(x, _mm512_sub_pd(two, x));
-            let a = _mm512_sub_pd(_mm512_mul_pd(_mm512_castsi512_pd(_mm512_or_si512(_mm512_srli_epi64::<12>(r2), one_bits)), two), three);
-            let b = _mm512_sub_pd(
-                _mm512_mul_pd(_mm512_castsi512_pd(_mm512_or_si512(_mm512_slli_epi64::<20>(_mm512_and_si512(r2, low32)), one_bits)), two),
-                three,
-            );
+            let a = _mm512_sub_pd(_mm512_castsi512_pd(_mm512_or_si512(_mm512_and_si512(_mm512_srli_epi64::<12>(r2), high32), two_bits)), three);
+            let b = _mm512_sub_pd(_mm512_castsi512_pd(_mm512_or_si512(_mm512_and_si512(_mm512_slli_epi64::<20>(r2), high32), two_bits)), three);
             let s2 = _mm512_add_pd(_mm512_mul_pd(a, a), _mm512_mul_pd(b, b));
             let fct = _mm512_sqrt_pd(_mm512_div_pd(sin2, s2));
             let ok = _mm512_cmp_pd_mask::<_CMP_LT_OQ>(s2, one) & _mm512_cmp_pd_mask::<_CMP_GT_OQ>(s2, zero);

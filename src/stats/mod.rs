@@ -15,6 +15,7 @@ pub use groups::{group_means, Frame, GroupMean};
 pub use mixed::{mixed_cone, mixed_mean, MixedStats};
 pub use orientation::{orientation_matrix, principal_axes};
 pub use sampler::FisherSampler;
+pub(crate) use fisher_lanes::FisherLanes;
 pub use group_sums::{GroupSum, GroupSums};
 pub use stream_means::{stream_group_means, stream_group_sums, LineRun, StreamedGroup, StreamedMeans, StreamedSums};
 
