@@ -174,18 +174,18 @@ def main(d):
     fis = load(os.path.join(d, "fisher1e6.csv"))
     dec, inc = fis[:, 0].copy(), fis[:, 1].copy()
     print(f"fisher_mean_1e6 {timed(5, lambda: fisher_mean(dec, inc)):.6f}")
-    for name, (a, b), nboot, runs in [("bootstrap_n200_10000", rev200, 10_000, 5),
+    for name, (a, b), nboot, runs in [("bootstrap_n200_10000", rev200, 10_000, 21),
                                       ("bootstrap_n1000_50000", rev1000, 50_000, 3)]:
         tg = timed(runs, lambda: bootstrap(a, b, nboot, boot_means_gather))
         tc = timed(runs, lambda: bootstrap(a, b, nboot, boot_means_counts))
         print(f"{name} {min(tg, tc):.6f}")
         print(f"note_{name} gather={tg:.4f} counts={tc:.4f}")
     v, dd, dp = fold[:, :3].copy(), fold[:, 3].copy(), fold[:, 4].copy()
-    print(f"fold_n100_1000x161 {timed(5, lambda: fold_test(v, dd, dp, 1000)):.6f}")
+    print(f"fold_n100_1000x161 {timed(21, lambda: fold_test(v, dd, dp, 1000)):.6f}")
     best, ci = fold_test(v, dd, dp, 1000)
     print(f"check_fold best_untilt={best:.0f} ci=({ci[0]:.0f}, {ci[1]:.0f})")
     a, b = rev200
-    print(f"watson_v_n200_10000 {timed(5, lambda: watson_v(a, b, 10_000)):.6f}")
+    print(f"watson_v_n200_10000 {timed(21, lambda: watson_v(a, b, 10_000)):.6f}")
     vw, vc = watson_v(a, b, 10_000)
     print(f"check_watson_v v_w={vw:.3f} v_crit={vc:.3f}")
     m, r, k, a95 = fisher_mean(dec, inc)

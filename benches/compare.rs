@@ -45,13 +45,13 @@ fn main() {
         let pool = rayon::ThreadPoolBuilder::new().num_threads(t).build().unwrap();
         pool.install(|| {
             let mc = MonteCarlo::new(1, 10_000);
-            println!("bootstrap_n200_10000_t{t} {:.6}", time(5, || bootstrap_overlap(&rev200.0, &rev200.1, &mc, 0.95).unwrap()));
+            println!("bootstrap_n200_10000_t{t} {:.6}", time(21, || bootstrap_overlap(&rev200.0, &rev200.1, &mc, 0.95).unwrap()));
             let mc = MonteCarlo::new(1, 50_000);
             println!("bootstrap_n1000_50000_t{t} {:.6}", time(3, || bootstrap_overlap(&rev1000.0, &rev1000.1, &mc, 0.95).unwrap()));
             let mc = MonteCarlo::new(1, 1000);
-            println!("fold_n100_1000x161_t{t} {:.6}", time(5, || fold_test(&fold_v, &beds, &mc, &FoldOptions::default()).unwrap()));
+            println!("fold_n100_1000x161_t{t} {:.6}", time(21, || fold_test(&fold_v, &beds, &mc, &FoldOptions::default()).unwrap()));
             let mc = MonteCarlo::new(1, 10_000);
-            println!("watson_v_n200_10000_t{t} {:.6}", time(5, || watson_v(&rev200.0, &rev200.1, &mc, 0.95).unwrap()));
+            println!("watson_v_n200_10000_t{t} {:.6}", time(21, || watson_v(&rev200.0, &rev200.1, &mc, 0.95).unwrap()));
         });
     }
     // Draw speed: Fisher draws by the inverse CDF (`sample`: two uniforms, a logarithm, a sine and a cosine

@@ -86,8 +86,9 @@ impl<'a> MonteCarlo<'a> {
         self.run_with(label, stream, || (), |_, rng, i| f(rng, i))
     }
 
-    /// [`MonteCarlo::run`] with a scratch value made by `init` for each batch of replicates and
-    /// handed to every replicate of the batch (buffers reused instead of allocated per replicate).
+    /// [`MonteCarlo::run`] with a scratch value made by `init` for each parallel task (a run of at least
+    /// 64 replicates) and handed to every replicate of the task (buffers reused instead of allocated
+    /// per replicate).
     /// The results must not depend on what an earlier replicate left in the scratch.
     pub fn run_with<S, T, I, F>(&self, label: &str, stream: u64, init: I, f: F) -> Vec<T>
     where
@@ -97,21 +98,21 @@ impl<'a> MonteCarlo<'a> {
     {
         let n = self.resamples;
         self.progress.start(label, n as u64);
-        let chunk = 64usize;
-        let out: Vec<T> = (0..n.div_ceil(chunk))
+        // An indexed parallel map (results written in place, in replicate order), at least 64
+        // replicates per task; a scratch value per task; progress reported every 64 replicates.
+        const STEP: usize = 64;
+        let out: Vec<T> = (0..n)
             .into_par_iter()
-            .flat_map_iter(|c| {
-                let lo = c * chunk;
-                let hi = (lo + chunk).min(n);
-                let mut scratch = init();
-                let part: Vec<T> = (lo..hi)
-                    .map(|i| {
-                        let mut rng = replicate_rng(self.seed, stream, i as u64);
-                        f(&mut scratch, &mut rng, i)
-                    })
-                    .collect();
-                self.progress.advance((hi - lo) as u64);
-                part
+            .with_min_len(STEP)
+            .map_init(&init, |scratch, i| {
+                let mut rng = replicate_rng(self.seed, stream, i as u64);
+                let r = f(scratch, &mut rng, i);
+                if (i + 1) % STEP == 0 {
+                    self.progress.advance(STEP as u64);
+                } else if i + 1 == n {
+                    self.progress.advance((n % STEP) as u64);
+                }
+                r
             })
             .collect();
         self.progress.finish();
