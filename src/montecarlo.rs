@@ -87,7 +87,7 @@ impl<'a> MonteCarlo<'a> {
     }
 
     /// [`MonteCarlo::run`] with a scratch value made by `init` for each parallel task (a run of at least
-    /// 64 replicates) and handed to every replicate of the task (buffers reused instead of allocated
+    /// 16 replicates) and handed to every replicate of the task (buffers reused instead of allocated
     /// per replicate).
     /// The results must not depend on what an earlier replicate left in the scratch.
     pub fn run_with<S, T, I, F>(&self, label: &str, stream: u64, init: I, f: F) -> Vec<T>
@@ -98,12 +98,12 @@ impl<'a> MonteCarlo<'a> {
     {
         let n = self.resamples;
         self.progress.start(label, n as u64);
-        // An indexed parallel map (results written in place, in replicate order), at least 64
+        // An indexed parallel map (results written in place, in replicate order), at least 16
         // replicates per task; a scratch value per task; progress reported every 64 replicates.
         const STEP: usize = 64;
         let out: Vec<T> = (0..n)
             .into_par_iter()
-            .with_min_len(STEP)
+            .with_min_len(16)
             .map_init(&init, |scratch, i| {
                 let mut rng = replicate_rng(self.seed, stream, i as u64);
                 let r = f(scratch, &mut rng, i);

@@ -175,21 +175,27 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     let keep = opt.keep_curves;
     let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("a fold test of {n} directions: more than 2³² − 1")))?;
     let scratch = || (vec![0u32; n], vec![0u32; n], CurveScratch::default());
-    let results = mc.run_with("fold test bootstrap", streams::FOLD, scratch, |(idx, w, buf), rng, i| {
-        pick.fill(rng, idx);
-        w.fill(0);
-        idx.iter().for_each(|&j| w[j as usize] += 1);
-        let c = curves.tau1_into(w, buf);
-        let k = argmax(c);
-        (steps[k], if i < keep { Some(c.to_vec()) } else { None })
-    });
+    // The bootstrap, with the two cheap serial summaries computed alongside on the other thread.
+    let (results, (classic, spread)) = rayon::join(
+        || {
+            mc.run_with("fold test bootstrap", streams::FOLD, scratch, |(idx, w, buf), rng, i| {
+                pick.fill(rng, idx);
+                w.fill(0);
+                idx.iter().for_each(|&j| w[j as usize] += 1);
+                let c = curves.tau1_into(w, buf);
+                let k = argmax(c);
+                (steps[k], if i < keep { Some(c.to_vec()) } else { None })
+            })
+        },
+        || (precision_ratio(v, beds), bedding_spread(beds)),
+    );
+    let classic = classic?;
     let mut maxima: Vec<f64> = results.iter().map(|r| r.0).collect();
     let curves: Vec<Vec<f64>> = results.into_iter().filter_map(|r| r.1).collect();
     maxima.sort_by(f64::total_cmp);
     let lo_q = (1.0 - opt.confidence) / 2.0;
     let (ci_low, ci_high) = (quantile_sorted(&maxima, lo_q), quantile_sorted(&maxima, 1.0 - lo_q));
     let at_edge = maxima.iter().filter(|&&m| m <= steps[0] || m >= steps[n_steps - 1]).count() as f64 / maxima.len() as f64;
-    let classic = precision_ratio(v, beds)?;
     Ok(FoldTest {
         n,
         steps,
@@ -203,7 +209,7 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
         curves,
         classic,
         at_edge,
-        bedding_spread: bedding_spread(beds),
+        bedding_spread: spread,
     })
 }
 
