@@ -23,8 +23,10 @@
 //! | means per group streamed from a table in constant memory | [`stats::stream_group_means`] |
 //! | compact per-group sums of a streamed table (tens of bytes per group) | [`stats::stream_group_sums`], [`stats::GroupSums`] |
 //! | orientation matrix and principal axes | [`stats::orientation_matrix`], [`stats::principal_axes`] |
-//! | Fisher random directions | [`stats::FisherSampler`] |
-//! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`] |
+//! | Fisher random directions; resultants of simulated Fisher sets, eight generators side by side | [`stats::FisherSampler`], [`stats::FisherSampler::resultant`] |
+//! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`], [`montecarlo::MonteCarlo::run_with`] |
+//! | uniform resampling indices, quantiles by selection | [`montecarlo::UniformIndex`], [`montecarlo::quantile_select`] |
+//! | largest eigenvalue of a symmetric 3 × 3 matrix (Newton on the cubic) | [`fieldtests::largest_eigenvalue`], [`fieldtests::largest_eigenvalues`] |
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | a table read one row at a time, same checks and messages | [`table::TableStream`], [`table::Columns`], [`table::DirectionColumns`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
