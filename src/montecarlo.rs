@@ -167,15 +167,22 @@ impl UniformIndex {
     }
 }
 
+/// Position of the type-7 quantile `q` in `len` (≥ 1) sorted values: the lower index and the fraction
+/// of the way to the next one.
+fn type7_position(len: usize, q: f64) -> (usize, f64) {
+    let h = (len - 1) as f64 * q.clamp(0.0, 1.0);
+    let lo = h.floor();
+    (lo as usize, h - lo)
+}
+
 /// Empirical quantile (type 7 of Hyndman & Fan 1996, the default of R and NumPy) of sorted data.
 pub fn quantile_sorted(sorted: &[f64], q: f64) -> f64 {
     if sorted.is_empty() {
         return f64::NAN;
     }
-    let h = (sorted.len() - 1) as f64 * q.clamp(0.0, 1.0);
-    let lo = h.floor() as usize;
-    let hi = h.ceil() as usize;
-    sorted[lo] + (h - lo as f64) * (sorted[hi] - sorted[lo])
+    let (lo, frac) = type7_position(sorted.len(), q);
+    let hi = if frac > 0.0 { lo + 1 } else { lo };
+    sorted[lo] + frac * (sorted[hi] - sorted[lo])
 }
 
 /// Empirical quantile (type 7, as [`quantile_sorted`]) of unsorted data, found by selection in
@@ -184,15 +191,14 @@ pub fn quantile_select(data: &mut [f64], q: f64) -> f64 {
     if data.is_empty() {
         return f64::NAN;
     }
-    let h = (data.len() - 1) as f64 * q.clamp(0.0, 1.0);
-    let lo = h.floor() as usize;
+    let (lo, frac) = type7_position(data.len(), q);
     let (_, &mut x_lo, above) = data.select_nth_unstable_by(lo, f64::total_cmp);
-    if h == lo as f64 {
+    if frac == 0.0 {
         return x_lo;
     }
     // The next order statistic is the least element above position `lo`.
     let x_hi = above.iter().copied().min_by(f64::total_cmp).unwrap_or(x_lo);
-    x_lo + (h - lo as f64) * (x_hi - x_lo)
+    x_lo + frac * (x_hi - x_lo)
 }
 
 #[cfg(test)]

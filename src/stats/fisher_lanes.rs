@@ -477,11 +477,11 @@ mod tests {
         }
     }
 
-    /// Kolmogorov–Smirnov distance between a sample and a continuous CDF.
+    /// Kolmogorov–Smirnov distance between a sample and a continuous CDF (the project's
+    /// `reversals::gof::ks_statistic`, after sorting).
     fn ks(mut xs: Vec<f64>, cdf: impl Fn(f64) -> f64) -> f64 {
         xs.sort_by(f64::total_cmp);
-        let n = xs.len() as f64;
-        xs.iter().enumerate().map(|(i, &x)| (cdf(x) - i as f64 / n).max((i + 1) as f64 / n - cdf(x))).fold(0.0, f64::max)
+        crate::reversals::gof::ks_statistic(&xs, cdf)
     }
 
     #[test]
