@@ -120,6 +120,47 @@ impl<'a> MonteCarlo<'a> {
     }
 }
 
+impl MonteCarlo<'_> {
+    /// [`MonteCarlo::run_with`] for work that is cheaper done several replicates at a time: `f(scratch,
+    /// rngs, first)` gets the streams of replicates `first …` (`batch` of them, fewer at the end) and
+    /// returns their results in order. Each replicate still draws from its own stream, so the results
+    /// are those of a one-at-a-time run and identical for any thread count.
+    ///
+    /// # Panics
+    /// If `f` returns a different number of results than it got streams (a bug in the caller).
+    pub fn run_batched<S, T, I, F>(&self, label: &str, stream: u64, batch: usize, init: I, f: F) -> Vec<T>
+    where
+        T: Send,
+        I: Fn() -> S + Sync + Send,
+        F: Fn(&mut S, &mut [McRng], usize) -> Vec<T> + Sync + Send,
+    {
+        let (n, batch) = (self.resamples, batch.max(1));
+        self.progress.start(label, n as u64);
+        const STEP: usize = 64;
+        let parts: Vec<Vec<T>> = (0..n.div_ceil(batch))
+            .into_par_iter()
+            .with_min_len(16usize.div_ceil(batch))
+            .map_init(&init, |scratch, g| {
+                let (lo, hi) = (g * batch, ((g + 1) * batch).min(n));
+                let mut rngs: Vec<McRng> = (lo..hi).map(|i| replicate_rng(self.seed, stream, i as u64)).collect();
+                let r = f(scratch, &mut rngs, lo);
+                assert_eq!(r.len(), hi - lo, "a batch of {} replicates returned {} results", hi - lo, r.len());
+                // Progress in steps of 64 replicates, as in `run_with`.
+                let crossed = hi / STEP - lo / STEP;
+                if crossed > 0 {
+                    self.progress.advance((crossed * STEP) as u64);
+                }
+                if hi == n && n % STEP > 0 {
+                    self.progress.advance((n % STEP) as u64);
+                }
+                r
+            })
+            .collect();
+        self.progress.finish();
+        parts.into_iter().flatten().collect()
+    }
+}
+
 /// Uniform indices in `0..n` for resampling with replacement, two per 64-bit draw of the generator.
 ///
 /// # Formula
@@ -205,6 +246,23 @@ pub fn quantile_select(data: &mut [f64], q: f64) -> f64 {
 mod tests {
     use super::*;
     use rand::RngExt;
+
+    #[test]
+    fn batched_runs_equal_one_at_a_time() {
+        // Any batch size (dividing the run or not), any thread count: the results of `run`.
+        let mc = MonteCarlo::new(7, 203);
+        let draw = |r: &mut McRng, i: usize| (i, r.random::<u64>());
+        let plain = mc.run("t", 4, draw);
+        for threads in [1, 2] {
+            let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
+            for batch in [1, 4, 7, 203, 500] {
+                let got = pool.install(|| {
+                    mc.run_batched("t", 4, batch, || (), |_, rngs, first| rngs.iter_mut().enumerate().map(|(k, r)| draw(r, first + k)).collect())
+                });
+                assert_eq!(got, plain, "batch {batch}, {threads} threads");
+            }
+        }
+    }
 
     #[test]
     fn same_answer_for_any_thread_count() {

@@ -2,7 +2,7 @@
 
 use super::streams;
 use crate::error::{check_range, Error, Result};
-use super::untilt_curves::{CurveScratch, UntiltCurves};
+use super::untilt_curves::{CurveScratch, UntiltCurves, TILE};
 use crate::montecarlo::{quantile_sorted, MonteCarlo, UniformIndex};
 use crate::sphere::{Bedding, Vec3};
 use statrs::distribution::{ContinuousCDF, FisherSnedecor};
@@ -174,17 +174,23 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     let best_untilt = steps[argmax(&data_curve)];
     let keep = opt.keep_curves;
     let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("a fold test of {n} directions: more than 2³² − 1")))?;
-    let scratch = || (vec![0u32; n], vec![0u32; n], CurveScratch::default());
-    // The bootstrap, with the two cheap serial summaries computed alongside on the other thread.
+    let scratch = || (vec![0u32; n], vec![0u32; TILE * n], CurveScratch::default());
+    // The bootstrap (resamples in tiles that share one pass over the untilted numbers), with the two
+    // cheap serial summaries computed alongside on the other thread.
     let (results, (classic, spread)) = rayon::join(
         || {
-            mc.run_with("fold test bootstrap", streams::FOLD, scratch, |(idx, w, buf), rng, i| {
-                pick.fill(rng, idx);
+            mc.run_batched("fold test bootstrap", streams::FOLD, TILE, scratch, |(idx, w, buf), rngs, first| {
+                let w = &mut w[..rngs.len() * n];
                 w.fill(0);
-                idx.iter().for_each(|&j| w[j as usize] += 1);
-                let c = curves.tau1_into(w, buf);
-                let k = argmax(c);
-                (steps[k], if i < keep { Some(c.to_vec()) } else { None })
+                for (rng, wr) in rngs.iter_mut().zip(w.chunks_exact_mut(n)) {
+                    pick.fill(rng, idx);
+                    idx.iter().for_each(|&j| wr[j as usize] += 1);
+                }
+                let tile = curves.tau1_tile(w, buf);
+                tile.chunks_exact(n_steps)
+                    .enumerate()
+                    .map(|(r, c)| (steps[argmax(c)], if first + r < keep { Some(c.to_vec()) } else { None }))
+                    .collect()
             })
         },
         || (precision_ratio(v, beds), bedding_spread(beds)),

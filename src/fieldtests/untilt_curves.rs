@@ -5,7 +5,7 @@
 //! Rᵢ(f) uᵢ (Rᵢ(f) uᵢ)ᵀ do not depend on the resample, so they are computed once; a resample is then a
 //! weighted sum of rows of numbers ([`UntiltCurves::tau1`]) and one largest eigenvalue per step.
 
-use crate::sphere::{Bedding, Vec3};
+use crate::sphere::{rotate_unit, Bedding, Untilting, Vec3};
 use rayon::prelude::*;
 
 /// Newton steps taken unconditionally (see [`largest_eigenvalue`]).
@@ -51,36 +51,49 @@ pub fn largest_eigenvalue(m: [f64; 6]) -> f64 {
 }
 
 /// Largest eigenvalues of consecutive matrices `(a11, a22, a33, a12, a13, a23)` in `m` (length a
-/// multiple of 6), each multiplied by `scale`, into `out`. Four matrices at a time run the same steps
-/// side by side (the processor overlaps their divisions); the result is the same, bit for bit, as
-/// [`largest_eigenvalue`] of each times `scale`.
+/// multiple of 6), each multiplied by `scale`, into `out`. Four matrices at a time (eight with
+/// 512-bit vectors) run the same steps side by side, which keeps the chain of divisions of the Newton
+/// steps from setting the pace; the result is the same, bit for bit, as [`largest_eigenvalue`] of
+/// each times `scale`.
 pub fn largest_eigenvalues(m: &[f64], scale: f64, out: &mut [f64]) {
+    #[cfg(target_arch = "x86_64")]
+    if std::arch::is_x86_feature_detected!("avx512f") {
+        // SAFETY: the processor supports AVX-512F (checked just above).
+        return unsafe { largest_eigenvalues_avx512(m, scale, out) };
+    }
     #[cfg(target_arch = "x86_64")]
     if std::arch::is_x86_feature_detected!("avx2") {
         // SAFETY: the processor supports AVX2 (checked just above).
         return unsafe { largest_eigenvalues_avx2(m, scale, out) };
     }
-    largest_eigenvalues_body(m, scale, out)
+    largest_eigenvalues_body::<4>(m, scale, out)
 }
 
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2")]
 fn largest_eigenvalues_avx2(m: &[f64], scale: f64, out: &mut [f64]) {
     // No fused multiply-add: the same numbers as the portable path and as `largest_eigenvalue`.
-    largest_eigenvalues_body(m, scale, out)
+    largest_eigenvalues_body::<4>(m, scale, out)
+}
+
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx512f")]
+fn largest_eigenvalues_avx512(m: &[f64], scale: f64, out: &mut [f64]) {
+    // Eight lanes; still no fused multiply-add.
+    largest_eigenvalues_body::<8>(m, scale, out)
 }
 
 #[inline(always)]
-fn largest_eigenvalues_body(m: &[f64], scale: f64, out: &mut [f64]) {
-    let mut quads = m.chunks_exact(24).zip(out.chunks_exact_mut(4));
-    for (m4, o4) in &mut quads {
-        // Straight-line arithmetic on four lanes (the compiler turns it into vector instructions).
-        let col = |k: usize| -> [f64; 4] { [m4[k], m4[6 + k], m4[12 + k], m4[18 + k]] };
+fn largest_eigenvalues_body<const L: usize>(m: &[f64], scale: f64, out: &mut [f64]) {
+    let mut groups = m.chunks_exact(6 * L).zip(out.chunks_exact_mut(L));
+    for (mg, og) in &mut groups {
+        // Straight-line arithmetic on L lanes (the compiler turns it into vector instructions).
+        let col = |k: usize| -> [f64; L] { std::array::from_fn(|j| mg[6 * j + k]) };
         let (a, b, c, d, e, f) = (col(0), col(1), col(2), col(3), col(4), col(5));
         // The same operations as `Cubic::of` and `Cubic::start`, written out lane by lane: calling
         // `Cubic::of` per lane gives the same numbers but a slower fold test (12.4 against 8.9 ms on one
         // thread, measured), because the compiler then keeps the lanes apart.
-        let lanes = |g: &dyn Fn(usize) -> f64| -> [f64; 4] { std::array::from_fn(g) };
+        let lanes = |g: &dyn Fn(usize) -> f64| -> [f64; L] { std::array::from_fn(g) };
         let off = lanes(&|j| d[j] * d[j] + e[j] * e[j] + f[j] * f[j]);
         let q = lanes(&|j| (a[j] + b[j] + c[j]) * THIRD);
         let (aa, bb, cc) = (lanes(&|j| a[j] - q[j]), lanes(&|j| b[j] - q[j]), lanes(&|j| c[j] - q[j]));
@@ -88,63 +101,83 @@ fn largest_eigenvalues_body(m: &[f64], scale: f64, out: &mut [f64]) {
         let p = lanes(&|j| p2[j].sqrt());
         let det = lanes(&|j| aa[j] * (bb[j] * cc[j] - f[j] * f[j]) - d[j] * (d[j] * cc[j] - f[j] * e[j]) + e[j] * (d[j] * f[j] - bb[j] * e[j]));
         let h = lanes(&|j| (det[j] / (p2[j] * p[j])).clamp(-2.0, 2.0));
-        let deg: [bool; 4] = std::array::from_fn(|j| !(p2[j] > 1e-300));
+        let deg: [bool; L] = std::array::from_fn(|j| !(p2[j] > 1e-300));
         let mut t = lanes(&|j| 2.0 - (2.0 - h[j]) * NINTH);
-        let step = newton_x4(&mut t, &h);
-        for j in 0..4 {
+        let step = newton_lanes(&mut t, &h);
+        for j in 0..L {
             let cub = Cubic { q: q[j], p: p[j], h: h[j], degenerate: deg[j] };
-            o4[j] = scale * if deg[j] { q[j] } else { cub.finish(t[j], step[j]) };
+            og[j] = scale * if deg[j] { q[j] } else { cub.finish(t[j], step[j]) };
         }
     }
-    let done = out.len() / 4 * 4;
+    let done = out.len() / L * L;
     for (k, o) in out[done..].iter_mut().enumerate() {
         let j = done + k;
         *o = scale * largest_eigenvalue(std::array::from_fn(|i| m[6 * j + i]));
     }
 }
 
-/// [`FIXED_STEPS`] Newton steps of [`Cubic::step`] on four lanes; returns the next step of each.
+/// [`FIXED_STEPS`] Newton steps of [`Cubic::step`] on `L` lanes; returns the next step of each. Eight
+/// lanes go through [`newton_x8_avx512`], four through [`newton_x4_avx2`] where the processor has
+/// the instructions.
 #[inline(always)]
-fn newton_x4(t: &mut [f64; 4], h: &[f64; 4]) -> [f64; 4] {
+fn newton_lanes<const L: usize>(t: &mut [f64; L], h: &[f64; L]) -> [f64; L] {
     #[cfg(target_arch = "x86_64")]
-    if std::arch::is_x86_feature_detected!("avx2") {
-        // SAFETY: the processor supports AVX2 (checked just above).
-        return unsafe { newton_x4_avx2(t, h) };
+    if L == 8 && std::arch::is_x86_feature_detected!("avx512f") {
+        let mut next = [0.0; L];
+        // SAFETY: the processor supports AVX-512F (checked just above); the three arrays hold eight f64.
+        unsafe { newton_x8_avx512(t.as_mut_ptr(), h.as_ptr(), next.as_mut_ptr()) };
+        return next;
+    }
+    #[cfg(target_arch = "x86_64")]
+    if L == 4 && std::arch::is_x86_feature_detected!("avx2") {
+        let mut next = [0.0; L];
+        // SAFETY: the processor supports AVX2 (checked just above); the three arrays hold four f64.
+        unsafe { newton_x4_avx2(t.as_mut_ptr(), h.as_ptr(), next.as_mut_ptr()) };
+        return next;
     }
     for _ in 0..FIXED_STEPS {
-        for j in 0..4 {
+        for j in 0..L {
             t[j] -= Cubic::step(t[j], h[j]);
         }
     }
     std::array::from_fn(|j| Cubic::step(t[j], h[j]))
 }
 
-/// [`newton_x4`] in 256-bit vectors: the same operations in the same order as [`Cubic::step`]
-/// (multiplies, subtractions and one correctly rounded division per step; no fused multiply-add),
-/// hence the same numbers.
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx2")]
-unsafe fn newton_x4_avx2(t: &mut [f64; 4], h: &[f64; 4]) -> [f64; 4] {
-    use std::arch::x86_64::*;
-    // SAFETY: the arrays hold four f64; unaligned loads and stores.
-    let (mut tv, hv) = unsafe { (_mm256_loadu_pd(t.as_ptr()), _mm256_loadu_pd(h.as_ptr())) };
-    let (one, three) = (_mm256_set1_pd(1.0), _mm256_set1_pd(3.0));
-    let step = |tv: __m256d| {
-        let tt = _mm256_mul_pd(tv, tv);
-        let num = _mm256_sub_pd(_mm256_mul_pd(tv, _mm256_sub_pd(tt, three)), hv);
-        let den = _mm256_mul_pd(three, _mm256_sub_pd(tt, one));
-        _mm256_div_pd(num, den)
+/// Defines `unsafe fn $name(t: *mut f64, h: *const f64, next: *mut f64)`: [`FIXED_STEPS`] Newton
+/// steps on the lanes of one vector (`t` and `h` read, `t` and `next` written, one vector of numbers
+/// each, unaligned), with the same operations in the same order as [`Cubic::step`] (multiplies,
+/// subtractions and one correctly rounded division per step; no fused multiply-add), hence the same
+/// numbers. One body for the 256- and the 512-bit instructions.
+macro_rules! newton_simd {
+    ($name:ident, $feature:literal, $vec:ty, $load:path, $store:path, $set1:path, $mul:path, $sub:path, $div:path) => {
+        #[cfg(target_arch = "x86_64")]
+        #[target_feature(enable = $feature)]
+        unsafe fn $name(t: *mut f64, h: *const f64, next: *mut f64) {
+            // SAFETY: the caller passes pointers to one vector of f64 each; unaligned loads and stores.
+            let (mut tv, hv) = unsafe { ($load(t), $load(h)) };
+            let (one, three) = ($set1(1.0), $set1(3.0));
+            let step = |tv: $vec| {
+                let tt = $mul(tv, tv);
+                let num = $sub($mul(tv, $sub(tt, three)), hv);
+                let den = $mul(three, $sub(tt, one));
+                $div(num, den)
+            };
+            for _ in 0..FIXED_STEPS {
+                tv = $sub(tv, step(tv));
+            }
+            unsafe {
+                $store(t, tv);
+                $store(next, step(tv));
+            }
+        }
     };
-    for _ in 0..FIXED_STEPS {
-        tv = _mm256_sub_pd(tv, step(tv));
-    }
-    let mut next = [0.0; 4];
-    unsafe {
-        _mm256_storeu_pd(t.as_mut_ptr(), tv);
-        _mm256_storeu_pd(next.as_mut_ptr(), step(tv));
-    }
-    next
 }
+
+#[cfg(target_arch = "x86_64")]
+use std::arch::x86_64 as simd;
+
+newton_simd!(newton_x4_avx2, "avx2", simd::__m256d, simd::_mm256_loadu_pd, simd::_mm256_storeu_pd, simd::_mm256_set1_pd, simd::_mm256_mul_pd, simd::_mm256_sub_pd, simd::_mm256_div_pd);
+newton_simd!(newton_x8_avx512, "avx512f", simd::__m512d, simd::_mm512_loadu_pd, simd::_mm512_storeu_pd, simd::_mm512_set1_pd, simd::_mm512_mul_pd, simd::_mm512_sub_pd, simd::_mm512_div_pd);
 
 /// The depressed cubic of a symmetric 3 × 3 matrix (see [`largest_eigenvalue`]).
 #[derive(Debug, Clone, Copy)]
@@ -239,109 +272,160 @@ pub(crate) struct UntiltCurves {
 impl UntiltCurves {
     /// Directions `v` (geographic) with their beddings, untilted by every percentage in `steps`.
     pub(crate) fn new(v: &[Vec3], beds: &[Bedding], steps: &[f64]) -> Self {
-        let n = v.len();
-        let blocks = (steps.len() * COLS).div_ceil(BLOCK);
-        // The rows (one per direction) are computed in parallel, then packed.
-        let rows: Vec<Vec<f64>> = v
-            .par_iter()
-            .zip(beds)
-            .map(|(u, b)| {
-                let mut row = Vec::with_capacity(steps.len() * COLS);
-                for pct in steps {
-                    let w = b.partial_apply(pct / 100.0, *u);
-                    row.extend_from_slice(&[w.x * w.x, w.y * w.y, w.x * w.y, w.x * w.z, w.y * w.z]);
-                }
-                row
+        let (n, n_steps) = (v.len(), steps.len());
+        let width = n_steps * COLS;
+        let turns: Vec<Untilting> = beds.iter().map(Bedding::untilting).collect();
+        // One sine and cosine per distinct angle of correction and step (beds of one attitude share
+        // them): `kinds` holds one untilting per distinct angle, `kind[i]` the one of direction i.
+        let mut slots = std::collections::HashMap::new();
+        let mut kinds: Vec<Untilting> = Vec::new();
+        let kind: Vec<usize> = turns
+            .iter()
+            .map(|t| {
+                *slots.entry(t.full_angle.to_bits()).or_insert_with(|| {
+                    kinds.push(*t);
+                    kinds.len() - 1
+                })
             })
             .collect();
-        let mut packed = vec![0.0f64; blocks * n * BLOCK];
-        for (i, row) in rows.iter().enumerate() {
-            for (col, &x) in row.iter().enumerate() {
-                packed[(col / BLOCK) * n * BLOCK + i * BLOCK + col % BLOCK] = x;
+        let sin_cos: Vec<(f64, f64)> = (0..kinds.len() * n_steps)
+            .into_par_iter()
+            .with_min_len(64)
+            .map(|j| kinds[j / n_steps].angle_deg(steps[j % n_steps] / 100.0).to_radians().sin_cos())
+            .collect();
+        // Each block of columns is filled by its own task from the steps it covers (a step split
+        // between two blocks is computed in both, with the same result).
+        let mut packed = vec![0.0f64; width.div_ceil(BLOCK) * n * BLOCK];
+        packed.par_chunks_mut((n * BLOCK).max(1)).enumerate().for_each(|(b, blk)| {
+            let cols = b * BLOCK..((b + 1) * BLOCK).min(width);
+            for s in cols.start / COLS..cols.end.div_ceil(COLS) {
+                for (i, ((u, t), &k)) in v.iter().zip(&turns).zip(&kind).enumerate() {
+                    let (sin, cos) = sin_cos[k * n_steps + s];
+                    let w = rotate_unit(*u, t.axis, sin, cos);
+                    for (e, x) in [w.x * w.x, w.y * w.y, w.x * w.y, w.x * w.z, w.y * w.z].into_iter().enumerate() {
+                        let col = s * COLS + e;
+                        if cols.contains(&col) {
+                            blk[i * BLOCK + col - cols.start] = x;
+                        }
+                    }
+                }
             }
-        }
-        Self { n, n_steps: steps.len(), packed }
+        });
+        Self { n, n_steps, packed }
     }
 
     /// τ₁ at every step for a resample in which direction i was drawn `weights[i]` times.
     ///
-    /// Each stored entry of the orientation matrix is Σ cᵢ oᵢ over the drawn directions in index order (zz
-    /// follows from the trace), so the
-    /// result does not depend on how the sums are vectorised.
+    /// Each stored entry of the orientation matrix is Σ cᵢ oᵢ over the directions in index order (zz
+    /// follows from the trace), so the result does not depend on how the sums are vectorised or on
+    /// which resamples share a pass (see [`UntiltCurves::tau1_tile`]).
     pub(crate) fn tau1(&self, weights: &[u32]) -> Vec<f64> {
         let mut scratch = CurveScratch::default();
-        self.tau1_into(weights, &mut scratch).to_vec()
+        self.tau1_tile(weights, &mut scratch).to_vec()
     }
 
-    /// [`UntiltCurves::tau1`] with reused buffers: the curve is left in (and returned from) `scratch`.
-    pub(crate) fn tau1_into<'s>(&self, weights: &[u32], scratch: &'s mut CurveScratch) -> &'s [f64] {
-        let CurveScratch { rows, sums, mats, out } = scratch;
-        rows.clear();
-        rows.extend(weights.iter().enumerate().filter(|w| *w.1 > 0).map(|(i, &c)| (i, c as f64)));
-        sums.resize(self.packed.len() / self.n.max(1), 0.0);
-        weighted_rows(&self.packed, self.n, rows, sums);
-        let total: f64 = rows.iter().map(|r| r.1).sum();
+    /// τ₁ curves of up to [`TILE`] resamples at once: `weights` holds their counts one resample after
+    /// the other (n each); the curves are left in (and returned from) `scratch`, `n_steps` numbers
+    /// each, in the same order. Every curve is bit for bit what [`UntiltCurves::tau1`] gives alone.
+    pub(crate) fn tau1_tile<'s>(&self, weights: &[u32], scratch: &'s mut CurveScratch) -> &'s [f64] {
+        let n = self.n.max(1);
+        let m = weights.len() / n;
+        assert!(m <= TILE && m * n == weights.len(), "{} counts for tiles of {TILE} resamples of {n}", weights.len());
+        let CurveScratch { wts, sums, mats, out } = scratch;
+        wts.clear();
+        wts.extend(weights.iter().map(|&c| c as f64));
+        // Unused resamples of the tile weigh nothing (their sums are computed and ignored).
+        wts.resize(TILE * n, 0.0);
+        let stride = self.packed.len() / n;
+        sums.resize(TILE * stride, 0.0);
+        weighted_tiles(&self.packed, n, wts, sums);
         mats.clear();
-        mats.extend(sums[..self.n_steps * COLS].chunks_exact(COLS).flat_map(|m| [m[0], m[1], total - m[0] - m[1], m[2], m[3], m[4]]));
-        out.resize(self.n_steps, 0.0);
+        for (w, s) in wts.chunks_exact(n).zip(sums.chunks_exact(stride)).take(m) {
+            let total: f64 = w.iter().sum();
+            mats.extend(s[..self.n_steps * COLS].chunks_exact(COLS).flat_map(|m| [m[0], m[1], total - m[0] - m[1], m[2], m[3], m[4]]));
+        }
+        out.resize(m * self.n_steps, 0.0);
         largest_eigenvalues(mats, 1.0 / self.n as f64, out);
         out
     }
 }
 
-/// Buffers of [`UntiltCurves::tau1_into`], kept between resamples.
+/// Buffers of [`UntiltCurves::tau1_tile`], kept between tiles.
 #[derive(Debug, Default)]
 pub(crate) struct CurveScratch {
-    rows: Vec<(usize, f64)>,
+    wts: Vec<f64>,
     sums: Vec<f64>,
     mats: Vec<f64>,
     out: Vec<f64>,
 }
 
-/// `out[block][k] = Σ c · packed[block][i][k]` over `rows` = (i, c): the 32 partial sums of a block stay
-/// in registers while the rows stream past.
+/// Resamples summed together in one pass over the packed numbers: each number loaded serves
+/// [`TILE`] resamples, which makes the sums bound by arithmetic rather than by loads from the cache.
+/// Measured on the benchmark fold test (100 directions, 1 000 resamples, 161 steps, one thread): one
+/// resample at a time, skipping the directions not drawn, 8.5 ms; tiles of four, 7.3 ms; lists of the
+/// drawn directions of four, eight or sixteen resamples sharing one pass over a block, no faster
+/// than the tiles (their loads miss the first-level cache).
+pub(crate) const TILE: usize = 4;
+
+/// `out[r][block][k] = Σᵢ w[r][i] · packed[block][i][k]` for the [`TILE`] resamples r (weights `w`
+/// one resample after the other, n each; sums `out` one resample after the other), i in index
+/// order. `W` columns of a block at a time stay in registers for all the resamples while the
+/// directions stream past. Zero weights are included: their products are ±0, and adding ±0 to a
+/// sum that started at +0 changes no bit of it, so the sums equal those over the drawn directions
+/// only.
 #[inline(always)]
-fn weighted_rows_body(packed: &[f64], n: usize, rows: &[(usize, f64)], out: &mut [f64]) {
-    for (blk, dst) in packed.chunks_exact(n * BLOCK).zip(out.chunks_exact_mut(BLOCK)) {
-        let mut acc = [0.0f64; BLOCK];
-        for &(i, c) in rows {
-            let o = &blk[i * BLOCK..(i + 1) * BLOCK];
-            for k in 0..BLOCK {
-                acc[k] += c * o[k];
+fn weighted_tiles_body<const W: usize>(packed: &[f64], n: usize, w: &[f64], out: &mut [f64]) {
+    let stride = out.len() / TILE;
+    let wr: [&[f64]; TILE] = std::array::from_fn(|r| &w[r * n..(r + 1) * n]);
+    for (b, blk) in packed.chunks_exact(n * BLOCK).enumerate() {
+        for sub in (0..BLOCK).step_by(W) {
+            let mut acc = [[0.0f64; W]; TILE];
+            for (i, row) in blk.chunks_exact(BLOCK).enumerate() {
+                let o: &[f64; W] = row[sub..sub + W].try_into().expect("W divides BLOCK");
+                for r in 0..TILE {
+                    let c = wr[r][i];
+                    for k in 0..W {
+                        acc[r][k] += c * o[k];
+                    }
+                }
+            }
+            for (r, a) in acc.iter().enumerate() {
+                out[r * stride + b * BLOCK + sub..][..W].copy_from_slice(a);
             }
         }
-        dst.copy_from_slice(&acc);
     }
 }
 
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2")]
-fn weighted_rows_avx2(packed: &[f64], n: usize, rows: &[(usize, f64)], out: &mut [f64]) {
-    // Separate multiplies and adds (no fused multiply-add): the same numbers as the portable path.
-    weighted_rows_body(packed, n, rows, out)
+fn weighted_tiles_avx2(packed: &[f64], n: usize, w: &[f64], out: &mut [f64]) {
+    // Eight columns (two 256-bit vectors) for four resamples: eight of the sixteen registers hold
+    // sums. Separate multiplies and adds (no fused multiply-add): the same numbers as the portable path.
+    weighted_tiles_body::<8>(packed, n, w, out)
 }
 
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx512f")]
-fn weighted_rows_avx512(packed: &[f64], n: usize, rows: &[(usize, f64)], out: &mut [f64]) {
-    // 512-bit vectors, still separate multiplies and adds: the same numbers as the portable path.
-    weighted_rows_body(packed, n, rows, out)
+fn weighted_tiles_avx512(packed: &[f64], n: usize, w: &[f64], out: &mut [f64]) {
+    // A whole block (four 512-bit vectors) for four resamples: sixteen of the thirty-two registers
+    // hold sums. Still separate multiplies and adds: the same numbers as the portable path.
+    weighted_tiles_body::<BLOCK>(packed, n, w, out)
 }
 
-/// [`weighted_rows_body`] with 512- or 256-bit vectors where the processor has them (checked at run
+/// [`weighted_tiles_body`] with 512- or 256-bit vectors where the processor has them (checked at run
 /// time).
-fn weighted_rows(packed: &[f64], n: usize, rows: &[(usize, f64)], out: &mut [f64]) {
+fn weighted_tiles(packed: &[f64], n: usize, w: &[f64], out: &mut [f64]) {
     #[cfg(target_arch = "x86_64")]
     if std::arch::is_x86_feature_detected!("avx512f") {
         // SAFETY: the processor supports AVX-512F (checked just above).
-        return unsafe { weighted_rows_avx512(packed, n, rows, out) };
+        return unsafe { weighted_tiles_avx512(packed, n, w, out) };
     }
     #[cfg(target_arch = "x86_64")]
     if std::arch::is_x86_feature_detected!("avx2") {
         // SAFETY: the processor supports AVX2 (checked just above).
-        return unsafe { weighted_rows_avx2(packed, n, rows, out) };
+        return unsafe { weighted_tiles_avx2(packed, n, w, out) };
     }
-    weighted_rows_body(packed, n, rows, out)
+    weighted_tiles_body::<8>(packed, n, w, out)
 }
 
 #[cfg(test)]
@@ -387,28 +471,47 @@ mod tests {
         let mut rng = crate::montecarlo::replicate_rng(9, 0, 0);
         use rand::RngExt;
         let packed: Vec<f64> = (0..3 * n * BLOCK).map(|_| (rng.random::<f64>() - 0.5) * 10f64.powi(rng.random_range(-8..8))).collect();
-        let rows = [(0usize, 1.0), (2, 3.0), (3, 1.0), (6, 2.0)];
-        let (mut fast, mut plain) = (vec![0.0; 3 * BLOCK], vec![0.0; 3 * BLOCK]);
-        weighted_rows(&packed, n, &rows, &mut fast);
-        weighted_rows_body(&packed, n, &rows, &mut plain);
-        assert!(fast.iter().zip(&plain).all(|(a, b)| a.to_bits() == b.to_bits()));
+        // Four resamples of seven directions; zero weights included (the last resample draws nothing
+        // but the direction 6).
+        let w: Vec<f64> = [[1.0, 0.0, 3.0, 1.0, 0.0, 0.0, 2.0], [0.0, 2.0, 0.0, 0.0, 4.0, 1.0, 0.0], [1.0; 7], [0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 7.0]].concat();
+        let (mut fast, mut plain) = (vec![0.0; TILE * 3 * BLOCK], vec![0.0; TILE * 3 * BLOCK]);
+        weighted_tiles(&packed, n, &w, &mut fast);
+        weighted_tiles_body::<8>(&packed, n, &w, &mut plain);
+        let same = |a: &[f64], b: &[f64]| a.iter().zip(b).all(|(x, y)| x.to_bits() == y.to_bits());
+        assert!(same(&fast, &plain));
+        // The sums over the drawn directions only, one resample at a time, in index order.
+        for r in 0..TILE {
+            for col in 0..3 * BLOCK {
+                let mut acc = 0.0;
+                for i in (0..n).filter(|&i| w[r * n + i] > 0.0) {
+                    acc += w[r * n + i] * packed[(col / BLOCK) * n * BLOCK + i * BLOCK + col % BLOCK];
+                }
+                assert_eq!(acc.to_bits(), plain[r * 3 * BLOCK + col].to_bits(), "resample {r} column {col}");
+            }
+        }
         #[cfg(target_arch = "x86_64")]
         if std::arch::is_x86_feature_detected!("avx2") {
             // SAFETY: AVX2 present (checked just above); the dispatch may have taken the 512-bit path.
-            unsafe { weighted_rows_avx2(&packed, n, &rows, &mut fast) };
-            assert!(fast.iter().zip(&plain).all(|(a, b)| a.to_bits() == b.to_bits()));
+            unsafe { weighted_tiles_avx2(&packed, n, &w, &mut fast) };
+            assert!(same(&fast, &plain));
         }
-        let (mut t4, h4) = ([1.9, 1.5, 1.2, 2.0], [1.7, 0.3, -1.5, 2.0]);
-        let mut t1 = t4;
-        let next4 = newton_x4(&mut t4, &h4);
+        // The Newton steps on four and on eight lanes (256- and 512-bit vectors where the processor
+        // has them) against the scalar steps.
+        newton_lanes_match_scalar([1.9, 1.5, 1.2, 2.0], [1.7, 0.3, -1.5, 2.0]);
+        let h8 = [1.7, 0.3, -1.5, 2.0, -2.0, 1.999, 0.0, -0.7];
+        newton_lanes_match_scalar(h8.map(|h| 2.0 - (2.0 - h) * NINTH), h8);
+    }
+
+    fn newton_lanes_match_scalar<const L: usize>(mut t: [f64; L], h: [f64; L]) {
+        let mut s = t;
+        let next = newton_lanes(&mut t, &h);
         for _ in 0..FIXED_STEPS {
-            for j in 0..4 {
-                t1[j] -= Cubic::step(t1[j], h4[j]);
+            for j in 0..L {
+                s[j] -= Cubic::step(s[j], h[j]);
             }
         }
-        assert_eq!(t4.map(f64::to_bits), t1.map(f64::to_bits));
-        let next1: [f64; 4] = std::array::from_fn(|j| Cubic::step(t1[j], h4[j]));
-        assert_eq!(next4.map(f64::to_bits), next1.map(f64::to_bits));
+        assert_eq!(t.map(f64::to_bits), s.map(f64::to_bits));
+        assert_eq!(next.map(f64::to_bits), std::array::from_fn(|j| Cubic::step(s[j], h[j]).to_bits()));
     }
 
     #[test]
@@ -437,6 +540,14 @@ mod tests {
         let curves = UntiltCurves::new(&v, &beds, &steps);
         let w = [2u32, 0, 1];
         let tau = curves.tau1(&w);
+        // A tile of three resamples gives each the curve it gets alone, bit for bit.
+        let tile_w = [[2u32, 0, 1], [0, 0, 3], [1, 1, 1]];
+        let mut scratch = CurveScratch::default();
+        let tile = curves.tau1_tile(&tile_w.concat(), &mut scratch).to_vec();
+        for (r, one) in tile_w.iter().enumerate() {
+            let alone = curves.tau1(one);
+            assert!(alone.iter().zip(&tile[r * steps.len()..]).all(|(a, b)| a.to_bits() == b.to_bits()), "resample {r}");
+        }
         for (s, pct) in steps.iter().enumerate() {
             let mut m = [0.0; 6];
             for (i, (u, b)) in v.iter().zip(&beds).enumerate() {

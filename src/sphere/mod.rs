@@ -9,9 +9,9 @@ mod vector;
 
 pub use direction::{angle_between, wrap360, Direction};
 pub use geo::GeoPoint;
-pub use rotation::{rotate_about, Rotation};
+pub use rotation::{rotate_about, rotate_unit, Rotation};
 pub use specimen_frame::SpecimenOrientation;
-pub use tilt::Bedding;
+pub use tilt::{Bedding, Untilting};
 pub use vector::Vec3;
 
 #[cfg(test)]

@@ -15,7 +15,17 @@ use super::vector::Vec3;
 pub fn rotate_about(v: Vec3, axis: Vec3, angle_deg: f64) -> Vec3 {
     let Some(k) = axis.normalized() else { return v };
     let (s, c) = angle_deg.to_radians().sin_cos();
-    v * c + k.cross(v) * s + k * (k.dot(v) * (1.0 - c))
+    rotate_unit(v, k, s, c)
+}
+
+/// [`rotate_about`] about a unit axis `k` by the angle whose sine and cosine are `sin` and `cos` (for
+/// many vectors turned by the same few angles: the sine and cosine are computed once).
+///
+/// # Formula
+/// Rodrigues, as in [`rotate_about`].
+#[inline]
+pub fn rotate_unit(v: Vec3, k: Vec3, sin: f64, cos: f64) -> Vec3 {
+    v * cos + k.cross(v) * sin + k * (k.dot(v) * (1.0 - cos))
 }
 
 /// A rotation matrix, row-major, applied as `m · v`.

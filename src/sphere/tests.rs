@@ -112,8 +112,13 @@ mod props {
             let v = Direction::new(dec, inc).unwrap().to_vector();
             prop_assert!((bed.retilt(bed.untilt(v)) - v).norm() < 1e-12);
             prop_assert!((bed.partial(1.0).apply(v) - bed.untilt(v)).norm() < 1e-12);
+            let turn = bed.untilting();
             for f in [-0.1, 0.37, 1.5] {
                 prop_assert!((bed.partial_apply(f, v) - bed.partial(f).apply(v)).norm() < 1e-14);
+                // The split form (sine and cosine computed once per angle) gives the same bits.
+                let (s, c) = turn.angle_deg(f).to_radians().sin_cos();
+                let w = rotate_unit(v, turn.axis, s, c);
+                prop_assert_eq!(w.to_array().map(f64::to_bits), bed.partial_apply(f, v).to_array().map(f64::to_bits));
             }
         }
     }

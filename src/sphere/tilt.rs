@@ -81,4 +81,29 @@ impl Bedding {
     pub fn partial_apply(&self, f: f64, v: Vec3) -> Vec3 {
         super::rotate_about(v, self.strike_axis(), self.restoring_angle() * f)
     }
+
+    /// The axis and the full angle of the untilting, for turning many vectors by fractions of it:
+    /// `rotate_unit(v, u.axis, s, c)` with `(s, c) = u.angle_deg(f).to_radians().sin_cos()` is
+    /// [`Bedding::partial_apply`]`(f, v)`, bit for bit.
+    pub fn untilting(&self) -> Untilting {
+        let axis = self.strike_axis().normalized().expect("the strike axis is a horizontal unit vector");
+        Untilting { axis, full_angle: self.restoring_angle() }
+    }
+}
+
+/// The rotation that untilts a bed: about `axis` (unit, along strike) by `full_angle` degrees when
+/// complete (see [`Bedding::untilting`]).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Untilting {
+    /// Unit vector along strike.
+    pub axis: Vec3,
+    /// Rotation of the complete correction, degrees.
+    pub full_angle: f64,
+}
+
+impl Untilting {
+    /// Rotation angle of the fraction `f` of the correction, degrees.
+    pub fn angle_deg(&self, f: f64) -> f64 {
+        self.full_angle * f
+    }
 }
