@@ -13,8 +13,8 @@
 //! | concept | item |
 //! |---|---|
 //! | direction ↔ unit vector, angle, antipode | [`sphere::Direction`], [`sphere::angle_between`] |
-//! | rotation about an axis | [`sphere::rotate_about`], [`sphere::Rotation`] |
-//! | tilt (bedding) correction, overturned beds | [`sphere::Bedding::untilt`] |
+//! | rotation about an axis (also by a given sine and cosine) | [`sphere::rotate_about`], [`sphere::rotate_unit`], [`sphere::Rotation`] |
+//! | tilt (bedding) correction, overturned beds; partial untilting | [`sphere::Bedding::untilt`], [`sphere::Bedding::partial_apply`], [`sphere::Bedding::untilting`] |
 //! | specimen frame → geographic | [`sphere::SpecimenOrientation`] |
 //! | symmetric 3 × 3 eigen-decomposition | [`linalg::sym_eigen`] |
 //! | Fisher (1953) mean, R, k, α95, θ63 | [`stats::fisher_mean`], [`stats::FisherAccumulator`] |
@@ -24,8 +24,8 @@
 //! | compact per-group sums of a streamed table (tens of bytes per group) | [`stats::stream_group_sums`], [`stats::GroupSums`] |
 //! | orientation matrix and principal axes | [`stats::orientation_matrix`], [`stats::principal_axes`] |
 //! | Fisher random directions; resultants of simulated Fisher sets, eight generators side by side | [`stats::FisherSampler`], [`stats::FisherSampler::resultant`] |
-//! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`], [`montecarlo::MonteCarlo::run_with`] |
-//! | uniform resampling indices, quantiles by selection | [`montecarlo::UniformIndex`], [`montecarlo::quantile_select`] |
+//! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`], [`montecarlo::MonteCarlo::run_with`], [`montecarlo::MonteCarlo::run_batched`] |
+//! | uniform resampling indices, quantiles by selection | [`montecarlo::UniformIndex`], [`montecarlo::quantile_select`], [`montecarlo::quantiles_select`] |
 //! | largest eigenvalue of a symmetric 3 × 3 matrix (Newton on the cubic) | [`fieldtests::largest_eigenvalue`], [`fieldtests::largest_eigenvalues`] |
 //! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
 //! | a table read one row at a time, same checks and messages | [`table::TableStream`], [`table::Columns`], [`table::DirectionColumns`] |
@@ -51,7 +51,7 @@
 //! | Watson's V_w with simulated critical value | [`fieldtests::watson_v`] |
 //! | bootstrap fold test (Tauxe & Watson 1994), precision ratio (McElhinny 1964) | [`fieldtests::fold_test`] |
 //! | randomness of directions, exact R₀ (Watson 1956) | [`fieldtests::randomness_test`], [`fieldtests::watson_r0`] |
-//! | polarity intervals, short-chron merging, censored open chron | [`reversals::intervals`] |
+//! | polarity intervals, short-chron merging, censored open chron | [`reversals::intervals()`] |
 //! | renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian): censored MLE, CDF, hazard, sampler | [`reversals::Model`], [`reversals::Fitted`] |
 //! | AIC, BIC, Akaike weights, likelihood-ratio test | [`reversals::fit_models`] |
 //! | KS and AD goodness of fit, parametric bootstrap (Lilliefors) | [`reversals::goodness_of_fit`] |

@@ -227,19 +227,49 @@ pub fn quantile_sorted(sorted: &[f64], q: f64) -> f64 {
 }
 
 /// Empirical quantile (type 7, as [`quantile_sorted`]) of unsorted data, found by selection in
-/// linear time; the slice is reordered. NaN sorts last (`f64::total_cmp`).
-pub fn quantile_select(data: &mut [f64], q: f64) -> f64 {
+/// linear time (see [`quantiles_select`]). NaN sorts last (`f64::total_cmp`).
+pub fn quantile_select(data: &[f64], q: f64) -> f64 {
+    quantiles_select(data, &[q])[0]
+}
+
+/// Empirical quantiles (type 7, as [`quantile_sorted`]) of unsorted data at the levels `qs`, in the
+/// order given, found by selection in linear time without sorting. NaN sorts last (`f64::total_cmp`);
+/// with no data every quantile is NaN.
+///
+/// The values are selected as integers that order like `f64::total_cmp` (the usual map: negative
+/// numbers have all bits flipped, others the sign bit set), which compares faster than floating
+/// point; each level after the first is selected among the values above the previous one.
+pub fn quantiles_select(data: &[f64], qs: &[f64]) -> Vec<f64> {
     if data.is_empty() {
-        return f64::NAN;
+        return vec![f64::NAN; qs.len()];
     }
-    let (lo, frac) = type7_position(data.len(), q);
-    let (_, &mut x_lo, above) = data.select_nth_unstable_by(lo, f64::total_cmp);
-    if frac == 0.0 {
-        return x_lo;
+    let to_key = |x: f64| {
+        let b = x.to_bits();
+        if b >> 63 == 1 { !b } else { b | 1 << 63 }
+    };
+    let from_key = |k: u64| f64::from_bits(if k >> 63 == 1 { k & !(1 << 63) } else { !k });
+    let mut keys: Vec<u64> = data.iter().map(|&x| to_key(x)).collect();
+    let mut order: Vec<usize> = (0..qs.len()).collect();
+    order.sort_by(|&i, &j| qs[i].clamp(0.0, 1.0).total_cmp(&qs[j].clamp(0.0, 1.0)));
+    let mut out = vec![f64::NAN; qs.len()];
+    // keys[..settled] hold the smallest `settled` values in order statistics' places.
+    let mut settled = 0;
+    for j in order {
+        let (lo, frac) = type7_position(keys.len(), qs[j]);
+        if lo >= settled {
+            keys[settled..].select_nth_unstable(lo - settled);
+            settled = lo + 1;
+        }
+        let x_lo = from_key(keys[lo]);
+        out[j] = if frac == 0.0 {
+            x_lo
+        } else {
+            // The next order statistic is the least value above position `lo`.
+            let x_hi = keys[lo + 1..].iter().copied().min().map_or(x_lo, from_key);
+            x_lo + frac * (x_hi - x_lo)
+        };
     }
-    // The next order statistic is the least element above position `lo`.
-    let x_hi = above.iter().copied().min_by(f64::total_cmp).unwrap_or(x_lo);
-    x_lo + frac * (x_hi - x_lo)
+    out
 }
 
 #[cfg(test)]
@@ -310,11 +340,24 @@ mod tests {
             let data: Vec<f64> = (0..len).map(|_| rng.random::<f64>()).collect();
             let mut sorted = data.clone();
             sorted.sort_by(f64::total_cmp);
-            for q in [0.0, 0.025, 0.5, 0.95, 0.975, 1.0] {
-                assert_eq!(quantile_select(&mut data.clone(), q), quantile_sorted(&sorted, q), "len {len}, q {q}");
+            let qs = [0.0, 0.025, 0.5, 0.95, 0.975, 1.0];
+            for q in qs {
+                assert_eq!(quantile_select(&data, q), quantile_sorted(&sorted, q), "len {len}, q {q}");
             }
+            // Several levels at once, given in any order.
+            let rev: Vec<f64> = qs.iter().rev().copied().collect();
+            let want: Vec<f64> = rev.iter().map(|&q| quantile_sorted(&sorted, q)).collect();
+            assert_eq!(quantiles_select(&data, &rev), want, "len {len}");
         }
-        assert!(quantile_select(&mut [], 0.5).is_nan());
+        // Negative values, zeros of both signs, infinities and NaN order as `total_cmp` does.
+        let odd = [3.0, -0.0, f64::NAN, -2.5, 0.0, f64::NEG_INFINITY, 1e-300, -1e-300, f64::INFINITY];
+        let mut sorted = odd.to_vec();
+        sorted.sort_by(f64::total_cmp);
+        for k in 0..odd.len() {
+            let q = k as f64 / (odd.len() - 1) as f64;
+            assert_eq!(quantile_select(&odd, q).to_bits(), sorted[k].to_bits(), "position {k}");
+        }
+        assert!(quantile_select(&[], 0.5).is_nan());
     }
 
     #[test]

@@ -3,7 +3,7 @@
 
 use super::streams;
 use crate::error::{Error, Result};
-use crate::montecarlo::{quantile_select, McRng, MonteCarlo, UniformIndex};
+use crate::montecarlo::{quantiles_select, McRng, MonteCarlo, UniformIndex};
 use crate::sphere::Vec3;
 
 /// Bootstrap bounds of the x (north), y (east) and z (down) components of a mean unit vector.
@@ -67,8 +67,9 @@ fn bounds(means: &[Vec3], confidence: f64) -> ComponentBounds {
     let pairs: Vec<(f64, f64)> = (0..3)
         .into_par_iter()
         .map(|c| {
-            let mut col: Vec<f64> = means.iter().map(|m| m.to_array()[c]).collect();
-            (quantile_select(&mut col, lo_q), quantile_select(&mut col, 1.0 - lo_q))
+            let col: Vec<f64> = means.iter().map(|m| m.to_array()[c]).collect();
+            let q = quantiles_select(&col, &[lo_q, 1.0 - lo_q]);
+            (q[0], q[1])
         })
         .collect();
     ComponentBounds { low: [pairs[0].0, pairs[1].0, pairs[2].0], high: [pairs[0].1, pairs[1].1, pairs[2].1] }

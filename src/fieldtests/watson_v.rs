@@ -66,13 +66,13 @@ pub fn watson_v(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Res
     let (na, nb) = (a.len(), b.len());
     // Only the resultants matter, and V_w is unchanged by a rotation applied to both sets, so each
     // simulated set is summed in the samplers' own frame (mean along +x) with no draw stored.
-    let mut sims = mc.run("V_w simulation", streams::WATSON_V, |rng, _| {
+    let sims = mc.run("V_w simulation", streams::WATSON_V, |rng, _| {
         let mut lanes = FisherLanes::new(&sa, rng);
         let xa = lanes.resultant(na);
         lanes.set_sampler(&sb);
         v_from_resultants(xa, na, lanes.resultant(nb), nb)
     });
-    let v_crit = quantile_select(&mut sims, confidence);
+    let v_crit = quantile_select(&sims, confidence);
     Ok(WatsonV { v_w, v_crit, confidence, simulations: sims.len(), passed: v_w <= v_crit })
 }
 
