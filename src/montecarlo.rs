@@ -236,19 +236,33 @@ pub fn quantile_select(data: &[f64], q: f64) -> f64 {
 /// order given, found by selection in linear time without sorting. NaN sorts last (`f64::total_cmp`);
 /// with no data every quantile is NaN.
 ///
-/// The values are selected as integers that order like `f64::total_cmp` (the usual map: negative
-/// numbers have all bits flipped, others the sign bit set), which compares faster than floating
-/// point; each level after the first is selected among the values above the previous one.
+/// The values are selected as integers that order like `f64::total_cmp` ([`order_key`]), which
+/// compare faster than floating point; each level after the first is selected among the values above
+/// the previous one.
 pub fn quantiles_select(data: &[f64], qs: &[f64]) -> Vec<f64> {
-    if data.is_empty() {
+    let mut keys: Vec<u64> = data.iter().map(|&x| order_key(x)).collect();
+    quantiles_of_keys(&mut keys, qs)
+}
+
+/// An integer that orders like `f64::total_cmp`: negative numbers with all bits flipped, others with
+/// the sign bit set.
+#[inline]
+pub(crate) fn order_key(x: f64) -> u64 {
+    let b = x.to_bits();
+    if b >> 63 == 1 { !b } else { b | 1 << 63 }
+}
+
+/// The number whose [`order_key`] is `k`.
+#[inline]
+fn from_order_key(k: u64) -> f64 {
+    f64::from_bits(if k >> 63 == 1 { k & !(1 << 63) } else { !k })
+}
+
+/// [`quantiles_select`] of the numbers whose [`order_key`]s are `keys` (reordered).
+pub(crate) fn quantiles_of_keys(keys: &mut [u64], qs: &[f64]) -> Vec<f64> {
+    if keys.is_empty() {
         return vec![f64::NAN; qs.len()];
     }
-    let to_key = |x: f64| {
-        let b = x.to_bits();
-        if b >> 63 == 1 { !b } else { b | 1 << 63 }
-    };
-    let from_key = |k: u64| f64::from_bits(if k >> 63 == 1 { k & !(1 << 63) } else { !k });
-    let mut keys: Vec<u64> = data.iter().map(|&x| to_key(x)).collect();
     let mut order: Vec<usize> = (0..qs.len()).collect();
     order.sort_by(|&i, &j| qs[i].clamp(0.0, 1.0).total_cmp(&qs[j].clamp(0.0, 1.0)));
     let mut out = vec![f64::NAN; qs.len()];
@@ -260,12 +274,12 @@ pub fn quantiles_select(data: &[f64], qs: &[f64]) -> Vec<f64> {
             keys[settled..].select_nth_unstable(lo - settled);
             settled = lo + 1;
         }
-        let x_lo = from_key(keys[lo]);
+        let x_lo = from_order_key(keys[lo]);
         out[j] = if frac == 0.0 {
             x_lo
         } else {
             // The next order statistic is the least value above position `lo`.
-            let x_hi = keys[lo + 1..].iter().copied().min().map_or(x_lo, from_key);
+            let x_hi = keys[lo + 1..].iter().copied().min().map_or(x_lo, from_order_key);
             x_lo + frac * (x_hi - x_lo)
         };
     }

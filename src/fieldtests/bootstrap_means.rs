@@ -3,7 +3,7 @@
 
 use super::streams;
 use crate::error::{Error, Result};
-use crate::montecarlo::{quantiles_select, McRng, MonteCarlo, UniformIndex};
+use crate::montecarlo::{order_key, quantiles_of_keys, McRng, MonteCarlo, UniformIndex};
 use crate::sphere::Vec3;
 
 /// Bootstrap bounds of the x (north), y (east) and z (down) components of a mean unit vector.
@@ -60,19 +60,22 @@ fn resampled_mean(v: &[Vec3], pick: &UniformIndex, rng: &mut McRng) -> Option<Ve
     if r > 1e-12 * n as f64 { Some(s * (1.0 / r)) } else { None }
 }
 
-fn bounds(means: &[Vec3], confidence: f64) -> ComponentBounds {
+/// Bounds of both sets from the resampled means (`None` where a resample had no mean): the six
+/// components' quantiles are selected in parallel, each straight from the results (no copies of the
+/// means).
+fn bounds(pairs: &[(Option<Vec3>, Option<Vec3>)], confidence: f64) -> [ComponentBounds; 2] {
     use rayon::prelude::*;
     let lo_q = (1.0 - confidence) / 2.0;
-    // The three components in parallel, each by linear-time selection.
-    let pairs: Vec<(f64, f64)> = (0..3)
+    let q: Vec<Vec<f64>> = (0..6)
         .into_par_iter()
-        .map(|c| {
-            let col: Vec<f64> = means.iter().map(|m| m.to_array()[c]).collect();
-            let q = quantiles_select(&col, &[lo_q, 1.0 - lo_q]);
-            (q[0], q[1])
+        .map(|k| {
+            let (set, c) = (k / 3, k % 3);
+            let mut keys: Vec<u64> = pairs.iter().filter_map(|p| if set == 0 { p.0 } else { p.1 }).map(|m| order_key(m.to_array()[c])).collect();
+            quantiles_of_keys(&mut keys, &[lo_q, 1.0 - lo_q])
         })
         .collect();
-    ComponentBounds { low: [pairs[0].0, pairs[1].0, pairs[2].0], high: [pairs[0].1, pairs[1].1, pairs[2].1] }
+    let set = |s: usize| ComponentBounds { low: std::array::from_fn(|c| q[3 * s + c][0]), high: std::array::from_fn(|c| q[3 * s + c][1]) };
+    [set(0), set(1)]
 }
 
 /// Bootstrap both sets `mc.resamples` times (directions drawn with replacement) and compare the
@@ -91,14 +94,13 @@ pub fn bootstrap_overlap(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f6
     let too_many = || Error::Invalid(format!("a bootstrap of {} and {} directions: more than 2³² − 1 in one set", a.len(), b.len()));
     let (pick_a, pick_b) = (UniformIndex::new(a.len()).ok_or_else(too_many)?, UniformIndex::new(b.len()).ok_or_else(too_many)?);
     let pairs = mc.run("bootstrap of the means", streams::BOOTSTRAP, |rng, _| (resampled_mean(a, &pick_a, rng), resampled_mean(b, &pick_b, rng)));
-    let ma: Vec<Vec3> = pairs.iter().filter_map(|p| p.0).collect();
-    let mb: Vec<Vec3> = pairs.iter().filter_map(|p| p.1).collect();
-    if ma.len() < 20 || mb.len() < 20 {
+    let (na, nb) = (pairs.iter().filter(|p| p.0.is_some()).count(), pairs.iter().filter(|p| p.1.is_some()).count());
+    if na < 20 || nb < 20 {
         return Err(Error::Undefined("too few bootstrap resamples have a mean direction: the directions nearly cancel out".into()));
     }
-    let (set1, set2) = rayon::join(|| bounds(&ma, confidence), || bounds(&mb, confidence));
+    let [set1, set2] = bounds(&pairs, confidence);
     let overlap = [0, 1, 2].map(|c| set1.low[c] <= set2.high[c] && set2.low[c] <= set1.high[c]);
-    Ok(BootstrapOverlap { set1, set2, overlap, confidence, resamples: ma.len().min(mb.len()), passed: overlap.iter().all(|&o| o) })
+    Ok(BootstrapOverlap { set1, set2, overlap, confidence, resamples: na.min(nb), passed: overlap.iter().all(|&o| o) })
 }
 
 #[cfg(test)]
