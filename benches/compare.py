@@ -120,6 +120,12 @@ def main():
         if line.startswith(("note_", "check_")):
             print("  baseline", line)
     print_ratios(base, ours)
+    if "parallel_ceiling_t1" in ours and "parallel_ceiling_t2" in ours:
+        print(f"{'parallel_ceiling (no baseline)':32} {'':>10} {ours['parallel_ceiling_t2']:12.4f} "
+              f"{ours['parallel_ceiling_t1']:11.4f} {'':>7} {ours['parallel_ceiling_t1'] / ours['parallel_ceiling_t2']:9.2f}")
+    for k in ("start_two_threads_after_0ms_idle_us", "start_two_threads_after_5ms_idle_us"):
+        if k in ours:
+            print(f"{k:36} {ours[k]:10.0f}")
     for k in ("fisher_draws_per_s", "fisher_fast_draws_per_s", "bare_uniform_pairs_per_s"):
         if k in ours:
             print(f"{k:32} {ours[k]:14.3e}")

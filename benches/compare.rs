@@ -6,12 +6,14 @@
 
 mod common;
 
-use common::time;
+use common::{time, time_alternating};
+use std::hint::black_box;
 use lodestone::fieldtests::{bootstrap_overlap, fold_test, watson_v, FoldOptions};
 use lodestone::montecarlo::{replicate_rng, MonteCarlo};
 use lodestone::sphere::{Bedding, Direction, Vec3};
 use lodestone::stats::{fisher_mean, FisherSampler};
 use rand::RngExt;
+use rayon::prelude::*;
 use std::path::Path;
 
 fn read_rows(path: &Path) -> Vec<Vec<f64>> {
@@ -21,6 +23,33 @@ fn read_rows(path: &Path) -> Vec<Vec<f64>> {
 
 fn vectors(path: &Path) -> Vec<Vec3> {
     read_rows(path).iter().map(|r| Vec3::new(r[0], r[1], r[2])).collect()
+}
+
+/// One of 64 independent units of a perfectly parallel floating-point job (multiplies and adds on
+/// 16 kB in the first-level cache, the shape of the fold test's sums): its 1 → 2 thread speed-up is
+/// what this machine allows any such job, printed beside the others' for comparison.
+fn ceiling_unit(seed: u64) -> f64 {
+    let data: Vec<f64> = (0..2048u64).map(|i| ((i * 2_654_435_761 + seed) % 1000) as f64 * 1e-3).collect();
+    let mut acc = [[0.0f64; 32]; 4];
+    for rep in 0..50 {
+        for row in data.chunks_exact(32) {
+            for (r, a) in acc.iter_mut().enumerate() {
+                let c = (r + rep) as f64 * 0.25;
+                for (x, y) in a.iter_mut().zip(row) {
+                    *x += c * y;
+                }
+            }
+        }
+    }
+    acc.iter().flatten().sum()
+}
+
+/// Busy-wait for `us` microseconds.
+fn spin_us(us: u64) {
+    let t = std::time::Instant::now();
+    while t.elapsed() < std::time::Duration::from_micros(us) {
+        std::hint::spin_loop();
+    }
 }
 
 fn main() {
@@ -41,18 +70,46 @@ fn main() {
     drop(fisher_rows);
 
     println!("fisher_mean_1e6 {:.6}", time(5, || fisher_mean(&dirs, 0.95).unwrap()));
-    for &t in &threads {
-        let pool = rayon::ThreadPoolBuilder::new().num_threads(t).build().unwrap();
-        pool.install(|| {
-            let mc = MonteCarlo::new(1, 10_000);
-            println!("bootstrap_n200_10000_t{t} {:.6}", time(21, || bootstrap_overlap(&rev200.0, &rev200.1, &mc, 0.95).unwrap()));
-            let mc = MonteCarlo::new(1, 50_000);
-            println!("bootstrap_n1000_50000_t{t} {:.6}", time(3, || bootstrap_overlap(&rev1000.0, &rev1000.1, &mc, 0.95).unwrap()));
-            let mc = MonteCarlo::new(1, 1000);
-            println!("fold_n100_1000x161_t{t} {:.6}", time(21, || fold_test(&fold_v, &beds, &mc, &FoldOptions::default()).unwrap()));
-            let mc = MonteCarlo::new(1, 10_000);
-            println!("watson_v_n200_10000_t{t} {:.6}", time(21, || watson_v(&rev200.0, &rev200.1, &mc, 0.95).unwrap()));
-        });
+    // One and two threads in alternating blocks of calls, so that both see the same states of the
+    // machine (this virtual machine's speed drifts within seconds); the medians of each.
+    let pools: Vec<rayon::ThreadPool> = threads.iter().map(|&t| rayon::ThreadPoolBuilder::new().num_threads(t).build().unwrap()).collect();
+    let paired = |name: &str, per: usize, f: &(dyn Fn() + Sync)| {
+        let times = time_alternating(5, per, &pools, f);
+        for (t, s) in threads.iter().zip(times) {
+            println!("{name}_t{t} {s:.6}");
+        }
+    };
+    let mc = MonteCarlo::new(1, 10_000);
+    paired("bootstrap_n200_10000", 9, &|| {
+        black_box(bootstrap_overlap(&rev200.0, &rev200.1, &mc, 0.95).unwrap());
+    });
+    let mc50 = MonteCarlo::new(1, 50_000);
+    paired("bootstrap_n1000_50000", 1, &|| {
+        black_box(bootstrap_overlap(&rev1000.0, &rev1000.1, &mc50, 0.95).unwrap());
+    });
+    let mc1 = MonteCarlo::new(1, 1000);
+    paired("fold_n100_1000x161", 9, &|| {
+        black_box(fold_test(&fold_v, &beds, &mc1, &FoldOptions::default()).unwrap());
+    });
+    paired("watson_v_n200_10000", 9, &|| {
+        black_box(watson_v(&rev200.0, &rev200.1, &mc, 0.95).unwrap());
+    });
+    paired("parallel_ceiling", 9, &|| {
+        black_box((0..64u64).into_par_iter().map(ceiling_unit).sum::<f64>());
+    });
+    // What it costs to start a two-thread job on a pool idle for 5 ms (its threads asleep): the wall
+    // time of two 200 µs halves joined, less 200 µs; for comparison, the same with the pool just used.
+    for idle_ms in [0, 5] {
+        let mut o: Vec<f64> = (0..21)
+            .map(|_| {
+                std::thread::sleep(std::time::Duration::from_millis(idle_ms));
+                let s = std::time::Instant::now();
+                pools[1].install(|| rayon::join(|| spin_us(200), || spin_us(200)));
+                s.elapsed().as_secs_f64() * 1e6 - 200.0
+            })
+            .collect();
+        o.sort_by(f64::total_cmp);
+        println!("start_two_threads_after_{idle_ms}ms_idle_us {:.0}", o[10]);
     }
     // Draw speed: Fisher draws by the inverse CDF (`sample`: two uniforms, a logarithm, a sine and a cosine
     // each, then a rotation) and by the four-lane trigonometry-free method (`resultant`, summed in the

@@ -306,6 +306,19 @@ mod tests {
                 assert_eq!(got, plain, "batch {batch}, {threads} threads");
             }
         }
+        // Progress adds up to the number of replicates, whatever the batch.
+        struct Count(std::sync::atomic::AtomicU64);
+        impl Progress for Count {
+            fn advance(&self, n: u64) {
+                self.0.fetch_add(n, std::sync::atomic::Ordering::Relaxed);
+            }
+        }
+        for (n, batch) in [(203, 4), (256, 4), (1000, 7), (5, 8)] {
+            let count = Count(std::sync::atomic::AtomicU64::new(0));
+            let mc = MonteCarlo { seed: 1, resamples: n, progress: &count };
+            mc.run_batched("t", 0, batch, || (), |_, rngs, _| vec![(); rngs.len()]);
+            assert_eq!(count.0.load(std::sync::atomic::Ordering::Relaxed), n as u64, "{n} replicates in batches of {batch}");
+        }
     }
 
     #[test]

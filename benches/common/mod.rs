@@ -16,3 +16,27 @@ pub fn time<T>(runs: usize, mut f: impl FnMut() -> T) -> f64 {
     t.sort_by(f64::total_cmp);
     t[runs / 2]
 }
+
+/// Median wall times (seconds) of `f` run inside each of `pools`, the pools taking turns in blocks
+/// (`rounds` blocks of `per` timed calls in each pool, after one untimed call that wakes the pool's
+/// threads), so that drifts of the machine's speed reach all pools alike while every timed call finds
+/// its pool awake, as back-to-back calls do.
+pub fn time_alternating(rounds: usize, per: usize, pools: &[rayon::ThreadPool], f: &(dyn Fn() + Sync)) -> Vec<f64> {
+    let mut t = vec![Vec::with_capacity(rounds * per); pools.len()];
+    for _ in 0..rounds {
+        for (p, ts) in pools.iter().zip(t.iter_mut()) {
+            p.install(f);
+            for _ in 0..per {
+                let s = Instant::now();
+                p.install(f);
+                ts.push(s.elapsed().as_secs_f64());
+            }
+        }
+    }
+    t.into_iter()
+        .map(|mut ts| {
+            ts.sort_by(f64::total_cmp);
+            ts[ts.len() / 2]
+        })
+        .collect()
+}
