@@ -99,28 +99,35 @@ impl<'a> MonteCarlo<'a> {
         let n = self.resamples;
         self.progress.start(label, n as u64);
         // An indexed parallel map (results written in place, in replicate order), at least 16
-        // replicates per task; a scratch value per task; progress reported every 64 replicates.
-        const STEP: usize = 64;
+        // replicates per task; a scratch value per task.
         let out: Vec<T> = (0..n)
             .into_par_iter()
             .with_min_len(16)
             .map_init(&init, |scratch, i| {
                 let mut rng = replicate_rng(self.seed, stream, i as u64);
                 let r = f(scratch, &mut rng, i);
-                if (i + 1) % STEP == 0 {
-                    self.progress.advance(STEP as u64);
-                } else if i + 1 == n {
-                    self.progress.advance((n % STEP) as u64);
-                }
+                self.advance_past(i, i + 1);
                 r
             })
             .collect();
         self.progress.finish();
         out
     }
-}
 
-impl MonteCarlo<'_> {
+    /// Progress for replicates `lo..hi` done, reported in steps of 64 replicates (and the remainder
+    /// when the last replicate is done), so that the sink is called rarely.
+    fn advance_past(&self, lo: usize, hi: usize) {
+        const STEP: usize = 64;
+        let crossed = hi / STEP - lo / STEP;
+        if crossed > 0 {
+            self.progress.advance((crossed * STEP) as u64);
+        }
+        let n = self.resamples;
+        if hi == n && n % STEP > 0 {
+            self.progress.advance((n % STEP) as u64);
+        }
+    }
+
     /// [`MonteCarlo::run_with`] for work that is cheaper done several replicates at a time: `f(scratch,
     /// rngs, first)` gets the streams of replicates `first …` (`batch` of them, fewer at the end) and
     /// returns their results in order. Each replicate still draws from its own stream, so the results
@@ -136,7 +143,6 @@ impl MonteCarlo<'_> {
     {
         let (n, batch) = (self.resamples, batch.max(1));
         self.progress.start(label, n as u64);
-        const STEP: usize = 64;
         let parts: Vec<Vec<T>> = (0..n.div_ceil(batch))
             .into_par_iter()
             .with_min_len(16usize.div_ceil(batch))
@@ -145,14 +151,7 @@ impl MonteCarlo<'_> {
                 let mut rngs: Vec<McRng> = (lo..hi).map(|i| replicate_rng(self.seed, stream, i as u64)).collect();
                 let r = f(scratch, &mut rngs, lo);
                 assert_eq!(r.len(), hi - lo, "a batch of {} replicates returned {} results", hi - lo, r.len());
-                // Progress in steps of 64 replicates, as in `run_with`.
-                let crossed = hi / STEP - lo / STEP;
-                if crossed > 0 {
-                    self.progress.advance((crossed * STEP) as u64);
-                }
-                if hi == n && n % STEP > 0 {
-                    self.progress.advance((n % STEP) as u64);
-                }
+                self.advance_past(lo, hi);
                 r
             })
             .collect();
@@ -306,7 +305,7 @@ mod tests {
                 assert_eq!(got, plain, "batch {batch}, {threads} threads");
             }
         }
-        // Progress adds up to the number of replicates, whatever the batch.
+        // Progress adds up to the number of replicates, whatever the batch, and one at a time.
         struct Count(std::sync::atomic::AtomicU64);
         impl Progress for Count {
             fn advance(&self, n: u64) {
@@ -318,6 +317,8 @@ mod tests {
             let mc = MonteCarlo { seed: 1, resamples: n, progress: &count };
             mc.run_batched("t", 0, batch, || (), |_, rngs, _| vec![(); rngs.len()]);
             assert_eq!(count.0.load(std::sync::atomic::Ordering::Relaxed), n as u64, "{n} replicates in batches of {batch}");
+            mc.run("t", 0, |_, _| ());
+            assert_eq!(count.0.load(std::sync::atomic::Ordering::Relaxed), 2 * n as u64, "{n} replicates one at a time");
         }
     }
 
