@@ -329,26 +329,14 @@ impl<'a> Problem<'a> {
             }
         }
         let last = self.pol.len() - 1;
-        let gap_top = self
-            .gaps
-            .iter()
-            .map(|gp| {
-                let p = self.pol[gp.a];
-                let cp = p.as_chron()?;
-                let skipped = self.skips(0, gp.a, p)?;
-                Some(GapRun { cp, skipped, t: LnSpan::new((self.u_top - gp.hi).max(0.0), self.u_top - gp.lo) })
-            })
-            .collect();
-        let gap_bottom = self
-            .gaps
-            .iter()
-            .map(|gp| {
-                let p = self.pol[gp.c];
-                let cp = p.as_chron()?;
-                let skipped = self.skips(gp.c, last, p)?;
-                Some(GapRun { cp, skipped, t: LnSpan::new((gp.lo - self.u_bottom).max(0.0), gp.hi - self.u_bottom) })
-            })
-            .collect();
+        // A run from a gap to the top or the bottom of the column: zones z0..=z1 of the polarity of
+        // zone `zone`, spanning `t`.
+        let edge_run = |zone: usize, z0: usize, z1: usize, t: LnSpan| {
+            let p = self.pol[zone];
+            Some(GapRun { cp: p.as_chron()?, skipped: self.skips(z0, z1, p)?, t })
+        };
+        let gap_top = self.gaps.iter().map(|gp| edge_run(gp.a, 0, gp.a, LnSpan::new((self.u_top - gp.hi).max(0.0), self.u_top - gp.lo))).collect();
+        let gap_bottom = self.gaps.iter().map(|gp| edge_run(gp.c, gp.c, last, LnSpan::new((gp.lo - self.u_bottom).max(0.0), gp.hi - self.u_bottom))).collect();
         RunTables { n, inter, top, bottom, gap_inter, gap_top, gap_bottom }
     }
 
