@@ -7,18 +7,22 @@
 mod common;
 
 use common::{time, time_alternating};
-use std::hint::black_box;
 use lodestone::fieldtests::{bootstrap_overlap, fold_test, watson_v, FoldOptions};
 use lodestone::montecarlo::{replicate_rng, MonteCarlo};
 use lodestone::sphere::{Bedding, Direction, Vec3};
 use lodestone::stats::{fisher_mean, FisherSampler};
 use rand::RngExt;
 use rayon::prelude::*;
+use std::hint::black_box;
 use std::path::Path;
 
 fn read_rows(path: &Path) -> Vec<Vec<f64>> {
     let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
-    text.lines().skip(1).filter(|l| !l.trim().is_empty()).map(|l| l.split(',').map(|c| c.trim().parse().unwrap()).collect()).collect()
+    text.lines()
+        .skip(1)
+        .filter(|l| !l.trim().is_empty())
+        .map(|l| l.split(',').map(|c| c.trim().parse().unwrap()).collect())
+        .collect()
 }
 
 fn vectors(path: &Path) -> Vec<Vec3> {
@@ -64,7 +68,8 @@ fn main() {
     let rev1000 = (vectors(&dir.join("rev1000_a.csv")), vectors(&dir.join("rev1000_b.csv")));
     let fold_rows = read_rows(&dir.join("fold100.csv"));
     let fold_v: Vec<Vec3> = fold_rows.iter().map(|r| Vec3::new(r[0], r[1], r[2])).collect();
-    let beds: Vec<Bedding> = fold_rows.iter().map(|r| Bedding::from_dip_direction(r[3], r[4], false).unwrap()).collect();
+    let beds: Vec<Bedding> =
+        fold_rows.iter().map(|r| Bedding::from_dip_direction(r[3], r[4], false).unwrap()).collect();
     let fisher_rows = read_rows(&dir.join("fisher1e6.csv"));
     let dirs: Vec<Direction> = fisher_rows.iter().map(|r| Direction::new(r[0], r[1]).unwrap()).collect();
     drop(fisher_rows);
@@ -72,7 +77,8 @@ fn main() {
     println!("fisher_mean_1e6 {:.6}", time(5, || fisher_mean(&dirs, 0.95).unwrap()));
     // One and two threads in alternating blocks of calls, so that both see the same states of the
     // machine (this virtual machine's speed drifts within seconds); the medians of each.
-    let pools: Vec<rayon::ThreadPool> = threads.iter().map(|&t| rayon::ThreadPoolBuilder::new().num_threads(t).build().unwrap()).collect();
+    let pools: Vec<rayon::ThreadPool> =
+        threads.iter().map(|&t| rayon::ThreadPoolBuilder::new().num_threads(t).build().unwrap()).collect();
     let paired = |name: &str, per: usize, f: &(dyn Fn() + Sync)| {
         let times = time_alternating(5, per, &pools, f);
         for (t, s) in threads.iter().zip(times) {

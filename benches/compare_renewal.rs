@@ -23,9 +23,7 @@ fn read_sample(path: &Path) -> Sample {
     let (mut complete, mut censored) = (Vec::new(), None);
     for (i, line) in text.lines().enumerate().skip(1).filter(|(_, l)| !l.trim().is_empty()) {
         let cells: Vec<&str> = line.split(',').map(str::trim).collect();
-        let x: f64 = cells[0]
-            .parse()
-            .unwrap_or_else(|e| panic!("{}:{}: length: {e}", path.display(), i + 1));
+        let x: f64 = cells[0].parse().unwrap_or_else(|e| panic!("{}:{}: length: {e}", path.display(), i + 1));
         if cells.get(1) == Some(&"1") {
             censored = Some(x);
         } else {
@@ -52,9 +50,8 @@ fn main() {
         return;
     }
     let s = read_sample(&path);
-    let only: Option<Vec<String>> = std::env::var("LODESTONE_COMPARE_ONLY")
-        .ok()
-        .map(|v| v.split(',').map(str::to_string).collect());
+    let only: Option<Vec<String>> =
+        std::env::var("LODESTONE_COMPARE_ONLY").ok().map(|v| v.split(',').map(str::to_string).collect());
     let wanted = |name: &str| match &only {
         None => true,
         Some(w) => w.iter().any(|w| name.contains(w.as_str())),
@@ -106,15 +103,9 @@ fn main() {
     for threads in [1, 2] {
         let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
         pool.install(|| {
-            for f in fits
-                .fits
-                .iter()
-                .filter(|f| wanted(&format!("{}_gof_10000", f.fitted.model.name())))
-            {
+            for f in fits.fits.iter().filter(|f| wanted(&format!("{}_gof_10000", f.fitted.model.name()))) {
                 let m = f.fitted;
-                let t = time(3, || {
-                    goodness_of_fit(&m, black_box(&s), &MonteCarlo::new(1, 10_000), 0).unwrap()
-                });
+                let t = time(3, || goodness_of_fit(&m, black_box(&s), &MonteCarlo::new(1, 10_000), 0).unwrap());
                 println!("{}_gof_10000_t{threads} {t:.6}", m.model.name());
             }
             if wanted("five_fits_plus_gamma_gof_10000") {

@@ -3,7 +3,9 @@
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use lodestone::simulate::{simulate_timescale, FirstPolarity, RenewalModel, TimeScaleModel};
-use lodestone::strat::{build_zones, classify, correlate, CorrelateOptions, ZoneColumn, DEFAULT_MIN_LEVELS, DEFAULT_THRESHOLD};
+use lodestone::strat::{
+    build_zones, classify, correlate, CorrelateOptions, ZoneColumn, DEFAULT_MIN_LEVELS, DEFAULT_THRESHOLD,
+};
 use lodestone::table::{Polarity, StratAxis, TimeScale};
 use std::hint::black_box;
 
@@ -47,7 +49,9 @@ fn bench(c: &mut Criterion) {
     );
     let mut g = c.benchmark_group("correlate");
     g.sample_size(10);
-    g.bench_function("zones40_chrons300", |b| b.iter(|| black_box(correlate(&col, &ts, &CorrelateOptions::default()).unwrap())));
+    g.bench_function("zones40_chrons300", |b| {
+        b.iter(|| black_box(correlate(&col, &ts, &CorrelateOptions::default()).unwrap()))
+    });
     g.finish();
 }
 

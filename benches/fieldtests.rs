@@ -29,7 +29,9 @@ fn benches(c: &mut Criterion) {
         bn.iter(|| black_box(watson_v(&a, &b, &mc, 0.95).unwrap()))
     });
     // Fold test: N = 100 sites, 1 000 resamples × 161 untilting steps.
-    let beds: Vec<Bedding> = (0..100).map(|i| Bedding::from_dip_direction(if i % 2 == 0 { 90.0 } else { 270.0 }, 30.0, false).unwrap()).collect();
+    let beds: Vec<Bedding> = (0..100)
+        .map(|i| Bedding::from_dip_direction(if i % 2 == 0 { 90.0 } else { 270.0 }, 30.0, false).unwrap())
+        .collect();
     let v: Vec<Vec3> = a.iter().zip(&beds).map(|(u, bd)| bd.retilt(*u)).collect();
     g.bench_function("fold_n100_1000x161", |bn| {
         let mc = MonteCarlo::new(1, 1000);

@@ -35,7 +35,9 @@ fn reader(c: &mut Criterion) {
     g.sample_size(10);
     g.bench_function("parse_100k_rows", |b| b.iter(|| Table::parse("bench.csv", black_box(&bytes)).unwrap()));
     let t = Table::parse("bench.csv", &bytes).unwrap();
-    g.bench_function("typed_directions_100k_rows", |b| b.iter(|| read_directions(black_box(&t), &GroupBy::Default).unwrap()));
+    g.bench_function("typed_directions_100k_rows", |b| {
+        b.iter(|| read_directions(black_box(&t), &GroupBy::Default).unwrap())
+    });
     g.finish();
 }
 

@@ -7,10 +7,7 @@ use lodestone::reversals::{fit_models, goodness_of_fit, Fitted, Model, Sample};
 use std::hint::black_box;
 
 fn sample() -> Sample {
-    let g = Fitted {
-        model: Model::Gamma,
-        params: [2.0, 0.125],
-    };
+    let g = Fitted { model: Model::Gamma, params: [2.0, 0.125] };
     Sample::new(MonteCarlo::new(1, 300).run("bench", 0, |r, _| g.sample(r)), Some(0.78)).unwrap()
 }
 

@@ -248,7 +248,11 @@ pub fn quantiles_select(data: &[f64], qs: &[f64]) -> Vec<f64> {
 #[inline]
 pub(crate) fn order_key(x: f64) -> u64 {
     let b = x.to_bits();
-    if b >> 63 == 1 { !b } else { b | 1 << 63 }
+    if b >> 63 == 1 {
+        !b
+    } else {
+        b | 1 << 63
+    }
 }
 
 /// The number whose [`order_key`] is `k`.
@@ -300,7 +304,13 @@ mod tests {
             let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap();
             for batch in [1, 4, 7, 203, 500] {
                 let got = pool.install(|| {
-                    mc.run_batched("t", 4, batch, || (), |_, rngs, first| rngs.iter_mut().enumerate().map(|(k, r)| draw(r, first + k)).collect())
+                    mc.run_batched(
+                        "t",
+                        4,
+                        batch,
+                        || (),
+                        |_, rngs, first| rngs.iter_mut().enumerate().map(|(k, r)| draw(r, first + k)).collect(),
+                    )
                 });
                 assert_eq!(got, plain, "batch {batch}, {threads} threads");
             }
@@ -316,9 +326,17 @@ mod tests {
             let count = Count(std::sync::atomic::AtomicU64::new(0));
             let mc = MonteCarlo { seed: 1, resamples: n, progress: &count };
             mc.run_batched("t", 0, batch, || (), |_, rngs, _| vec![(); rngs.len()]);
-            assert_eq!(count.0.load(std::sync::atomic::Ordering::Relaxed), n as u64, "{n} replicates in batches of {batch}");
+            assert_eq!(
+                count.0.load(std::sync::atomic::Ordering::Relaxed),
+                n as u64,
+                "{n} replicates in batches of {batch}"
+            );
             mc.run("t", 0, |_, _| ());
-            assert_eq!(count.0.load(std::sync::atomic::Ordering::Relaxed), 2 * n as u64, "{n} replicates one at a time");
+            assert_eq!(
+                count.0.load(std::sync::atomic::Ordering::Relaxed),
+                2 * n as u64,
+                "{n} replicates one at a time"
+            );
         }
     }
 

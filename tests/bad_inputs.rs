@@ -46,7 +46,8 @@ struct Case {
     expect: Expect,
 }
 
-const STEPS: &[u8] = b"specimen,step,dec,inc,moment\nS1,0,10,40,5e-6\nS1,10,12,41,4e-6\nS1,20,11,39,3e-6\nS1,30,13,40,2e-6\n";
+const STEPS: &[u8] =
+    b"specimen,step,dec,inc,moment\nS1,0,10,40,5e-6\nS1,10,12,41,4e-6\nS1,20,11,39,3e-6\nS1,30,13,40,2e-6\n";
 const SITES: &[u8] = b"site,lat,lon,dec,inc\nA,40,250,10,55\nB,40,250,350,60\nC,40,250,5,50\n";
 const RANGE: &[&str] = &["components", "st.csv", "--from", "0", "--to", "30"];
 const PICKED: &[&str] = &["components", "st.csv", "--picks", "pk.csv"];
@@ -65,56 +66,223 @@ fn catalogue() -> Vec<Case> {
     let mean = &["mean", "d.csv"][..];
     vec![
         // ---- directions table (mean) ----
-        Case { name: "missing required column", files: &[("d.csv", b"site,dec\nA,10\n")], args: mean, expect: r("d.csv", 1, "inc") },
-        Case { name: "duplicated column (case-insensitive)", files: &[("d.csv", b"dec,inc,DEC\n1,2,3\n")], args: mean, expect: r("d.csv", 1, "dec") },
-        Case { name: "non-numeric cell", files: &[("d.csv", b"dec,inc\n10,20\n10,abc\n")], args: mean, expect: r("d.csv", 3, "inc") },
-        Case { name: "NaN cell", files: &[("d.csv", b"dec,inc\n10,20\nNaN,5\n")], args: mean, expect: r("d.csv", 3, "dec") },
+        Case {
+            name: "missing required column",
+            files: &[("d.csv", b"site,dec\nA,10\n")],
+            args: mean,
+            expect: r("d.csv", 1, "inc"),
+        },
+        Case {
+            name: "duplicated column (case-insensitive)",
+            files: &[("d.csv", b"dec,inc,DEC\n1,2,3\n")],
+            args: mean,
+            expect: r("d.csv", 1, "dec"),
+        },
+        Case {
+            name: "non-numeric cell",
+            files: &[("d.csv", b"dec,inc\n10,20\n10,abc\n")],
+            args: mean,
+            expect: r("d.csv", 3, "inc"),
+        },
+        Case {
+            name: "NaN cell",
+            files: &[("d.csv", b"dec,inc\n10,20\nNaN,5\n")],
+            args: mean,
+            expect: r("d.csv", 3, "dec"),
+        },
         Case { name: "inf cell", files: &[("d.csv", b"dec,inc\n10,inf\n")], args: mean, expect: r("d.csv", 2, "inc") },
-        Case { name: "-infinity cell", files: &[("d.csv", b"dec,inc\n-infinity,10\n")], args: mean, expect: r("d.csv", 2, "dec") },
-        Case { name: "overflowing number", files: &[("d.csv", b"dec,inc\n10,1e400\n")], args: mean, expect: r("d.csv", 2, "inc") },
-        Case { name: "empty required cell", files: &[("d.csv", b"dec,inc\n10,20\n,20\n")], args: mean, expect: r("d.csv", 3, "dec") },
-        Case { name: "inclination above 90", files: &[("d.csv", b"dec,inc\n10,90.5\n")], args: mean, expect: r("d.csv", 2, "inc") },
-        Case { name: "inclination below -90", files: &[("d.csv", b"dec,inc\n10,-91\n")], args: mean, expect: r("d.csv", 2, "inc") },
-        Case { name: "declination above 360", files: &[("d.csv", b"dec,inc\n361,10\n")], args: mean, expect: r("d.csv", 2, "dec") },
-        Case { name: "declination below -360", files: &[("d.csv", b"dec,inc\n-360.5,10\n")], args: mean, expect: r("d.csv", 2, "dec") },
-        Case { name: "latitude out of range", files: &[("d.csv", b"dec,inc,lat,lon\n10,20,95,3\n")], args: mean, expect: r("d.csv", 2, "lat") },
-        Case { name: "longitude out of range", files: &[("d.csv", b"dec,inc,lat,lon\n10,20,45,-200\n")], args: mean, expect: r("d.csv", 2, "lon") },
+        Case {
+            name: "-infinity cell",
+            files: &[("d.csv", b"dec,inc\n-infinity,10\n")],
+            args: mean,
+            expect: r("d.csv", 2, "dec"),
+        },
+        Case {
+            name: "overflowing number",
+            files: &[("d.csv", b"dec,inc\n10,1e400\n")],
+            args: mean,
+            expect: r("d.csv", 2, "inc"),
+        },
+        Case {
+            name: "empty required cell",
+            files: &[("d.csv", b"dec,inc\n10,20\n,20\n")],
+            args: mean,
+            expect: r("d.csv", 3, "dec"),
+        },
+        Case {
+            name: "inclination above 90",
+            files: &[("d.csv", b"dec,inc\n10,90.5\n")],
+            args: mean,
+            expect: r("d.csv", 2, "inc"),
+        },
+        Case {
+            name: "inclination below -90",
+            files: &[("d.csv", b"dec,inc\n10,-91\n")],
+            args: mean,
+            expect: r("d.csv", 2, "inc"),
+        },
+        Case {
+            name: "declination above 360",
+            files: &[("d.csv", b"dec,inc\n361,10\n")],
+            args: mean,
+            expect: r("d.csv", 2, "dec"),
+        },
+        Case {
+            name: "declination below -360",
+            files: &[("d.csv", b"dec,inc\n-360.5,10\n")],
+            args: mean,
+            expect: r("d.csv", 2, "dec"),
+        },
+        Case {
+            name: "latitude out of range",
+            files: &[("d.csv", b"dec,inc,lat,lon\n10,20,95,3\n")],
+            args: mean,
+            expect: r("d.csv", 2, "lat"),
+        },
+        Case {
+            name: "longitude out of range",
+            files: &[("d.csv", b"dec,inc,lat,lon\n10,20,45,-200\n")],
+            args: mean,
+            expect: r("d.csv", 2, "lon"),
+        },
         Case { name: "empty file", files: &[("d.csv", b"")], args: mean, expect: r_row("d.csv", 1) },
-        Case { name: "only comments and blank lines", files: &[("d.csv", b"# nothing yet\n\n# still nothing\n")], args: mean, expect: r_row("d.csv", 1) },
+        Case {
+            name: "only comments and blank lines",
+            files: &[("d.csv", b"# nothing yet\n\n# still nothing\n")],
+            args: mean,
+            expect: r_row("d.csv", 1),
+        },
         Case { name: "header with no rows", files: &[("d.csv", b"dec,inc\n")], args: mean, expect: r_row("d.csv", 1) },
-        Case { name: "BOM and CRLF, bad cell on line 3", files: &[("d.csv", b"\xEF\xBB\xBFdec,inc\r\n10,20\r\n10,x\r\n")], args: mean, expect: r("d.csv", 3, "inc") },
-        Case { name: "comment lines keep line numbers true", files: &[("d.csv", b"# Lantern Fell, bench 4\n#\ndec,inc\n10,20\n\n10,x\n")], args: mean, expect: r("d.csv", 6, "inc") },
-        Case { name: "ragged row: too few cells", files: &[("d.csv", b"dec,inc,site\n10,20,A\n10,20\n")], args: mean, expect: r_row("d.csv", 3) },
-        Case { name: "ragged row: extra filled cell", files: &[("d.csv", b"dec,inc\n10,20\n10,20,30\n")], args: mean, expect: r_row("d.csv", 3) },
-        Case { name: "unterminated quote", files: &[("d.csv", b"dec,inc\n10,20\n\"10,20\n")], args: mean, expect: r_row("d.csv", 3) },
-        Case { name: "invalid UTF-8", files: &[("d.csv", b"dec,inc\n10,20\n10,\xff\n")], args: mean, expect: r_row("d.csv", 3) },
-        Case { name: "bedding dip above 90", files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_dip\n10,20,30,95\n")], args: mean, expect: r("d.csv", 2, "bed_dip") },
-        Case { name: "bedding given twice", files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_strike,bed_dip\n10,20,30,300,20\n")], args: mean, expect: r("d.csv", 2, "bed_strike") },
-        Case { name: "bedding dip without direction", files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_dip\n10,20,,20\n")], args: mean, expect: r("d.csv", 2, "bed_dip_dir") },
-        Case { name: "tilt frame on a row without bedding", files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_dip\n10,20,30,20\n12,22,,\n")], args: &["mean", "d.csv", "--frame", "tilt"], expect: r("d.csv", 3, "bed_dip") },
-        Case { name: "unknown kind word", files: &[("d.csv", b"dec,inc,kind\n10,20,circle\n")], args: mean, expect: r("d.csv", 2, "kind") },
-        Case { name: "both height and depth", files: &[("d.csv", b"dec,inc,height,depth\n10,20,1,2\n")], args: mean, expect: r("d.csv", 1, "depth") },
-        Case { name: "--by names a missing column", files: &[("d.csv", b"dec,inc\n10,20\n")], args: &["mean", "d.csv", "--by", "formation"], expect: r("d.csv", 1, "formation") },
-        Case { name: "unknown frame word", files: &[("d.csv", b"dec,inc\n10,20\n")], args: &["mean", "d.csv", "--frame", "sideways"], expect: Usage },
-        Case { name: "missing input file", files: &[], args: &["mean", "nowhere.csv"], expect: Failed { says: "nowhere.csv" } },
+        Case {
+            name: "BOM and CRLF, bad cell on line 3",
+            files: &[("d.csv", b"\xEF\xBB\xBFdec,inc\r\n10,20\r\n10,x\r\n")],
+            args: mean,
+            expect: r("d.csv", 3, "inc"),
+        },
+        Case {
+            name: "comment lines keep line numbers true",
+            files: &[("d.csv", b"# Lantern Fell, bench 4\n#\ndec,inc\n10,20\n\n10,x\n")],
+            args: mean,
+            expect: r("d.csv", 6, "inc"),
+        },
+        Case {
+            name: "ragged row: too few cells",
+            files: &[("d.csv", b"dec,inc,site\n10,20,A\n10,20\n")],
+            args: mean,
+            expect: r_row("d.csv", 3),
+        },
+        Case {
+            name: "ragged row: extra filled cell",
+            files: &[("d.csv", b"dec,inc\n10,20\n10,20,30\n")],
+            args: mean,
+            expect: r_row("d.csv", 3),
+        },
+        Case {
+            name: "unterminated quote",
+            files: &[("d.csv", b"dec,inc\n10,20\n\"10,20\n")],
+            args: mean,
+            expect: r_row("d.csv", 3),
+        },
+        Case {
+            name: "invalid UTF-8",
+            files: &[("d.csv", b"dec,inc\n10,20\n10,\xff\n")],
+            args: mean,
+            expect: r_row("d.csv", 3),
+        },
+        Case {
+            name: "bedding dip above 90",
+            files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_dip\n10,20,30,95\n")],
+            args: mean,
+            expect: r("d.csv", 2, "bed_dip"),
+        },
+        Case {
+            name: "bedding given twice",
+            files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_strike,bed_dip\n10,20,30,300,20\n")],
+            args: mean,
+            expect: r("d.csv", 2, "bed_strike"),
+        },
+        Case {
+            name: "bedding dip without direction",
+            files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_dip\n10,20,,20\n")],
+            args: mean,
+            expect: r("d.csv", 2, "bed_dip_dir"),
+        },
+        Case {
+            name: "tilt frame on a row without bedding",
+            files: &[("d.csv", b"dec,inc,bed_dip_dir,bed_dip\n10,20,30,20\n12,22,,\n")],
+            args: &["mean", "d.csv", "--frame", "tilt"],
+            expect: r("d.csv", 3, "bed_dip"),
+        },
+        Case {
+            name: "unknown kind word",
+            files: &[("d.csv", b"dec,inc,kind\n10,20,circle\n")],
+            args: mean,
+            expect: r("d.csv", 2, "kind"),
+        },
+        Case {
+            name: "both height and depth",
+            files: &[("d.csv", b"dec,inc,height,depth\n10,20,1,2\n")],
+            args: mean,
+            expect: r("d.csv", 1, "depth"),
+        },
+        Case {
+            name: "--by names a missing column",
+            files: &[("d.csv", b"dec,inc\n10,20\n")],
+            args: &["mean", "d.csv", "--by", "formation"],
+            expect: r("d.csv", 1, "formation"),
+        },
+        Case {
+            name: "unknown frame word",
+            files: &[("d.csv", b"dec,inc\n10,20\n")],
+            args: &["mean", "d.csv", "--frame", "sideways"],
+            expect: Usage,
+        },
+        Case {
+            name: "missing input file",
+            files: &[],
+            args: &["mean", "nowhere.csv"],
+            expect: Failed { says: "nowhere.csv" },
+        },
         // Edge data that is valid: reported, never a NaN.
         Case {
             name: "group of one direction",
             files: &[("d.csv", b"site,dec,inc\nQ,123,45\n")],
             args: mean,
-            expect: Accepted { json: &[("/groups/0/n", Jv::Num(1.0)), ("/groups/0/dec", Jv::Num(123.0)), ("/groups/0/k", Jv::Null), ("/groups/0/a95", Jv::Null), ("/groups/0/theta63", Jv::Null)] },
+            expect: Accepted {
+                json: &[
+                    ("/groups/0/n", Jv::Num(1.0)),
+                    ("/groups/0/dec", Jv::Num(123.0)),
+                    ("/groups/0/k", Jv::Null),
+                    ("/groups/0/a95", Jv::Null),
+                    ("/groups/0/theta63", Jv::Null),
+                ],
+            },
         },
         Case {
             name: "identical directions: k infinite, cone of zero width",
             files: &[("d.csv", b"dec,inc\n10,20\n10,20\n10,20\n")],
             args: mean,
-            expect: Accepted { json: &[("/groups/0/n", Jv::Num(3.0)), ("/groups/0/k", Jv::Str("inf")), ("/groups/0/a95", Jv::Num(0.0)), ("/groups/0/inc", Jv::Num(20.0))] },
+            expect: Accepted {
+                json: &[
+                    ("/groups/0/n", Jv::Num(3.0)),
+                    ("/groups/0/k", Jv::Str("inf")),
+                    ("/groups/0/a95", Jv::Num(0.0)),
+                    ("/groups/0/inc", Jv::Num(20.0)),
+                ],
+            },
         },
         Case {
             name: "exactly antipodal pair: no mean direction",
             files: &[("d.csv", b"dec,inc\n0,0\n180,0\n")],
             args: mean,
-            expect: Accepted { json: &[("/groups/0/n", Jv::Num(2.0)), ("/groups/0/dec", Jv::Null), ("/groups/0/inc", Jv::Null), ("/groups/0/a95", Jv::Null)] },
+            expect: Accepted {
+                json: &[
+                    ("/groups/0/n", Jv::Num(2.0)),
+                    ("/groups/0/dec", Jv::Null),
+                    ("/groups/0/inc", Jv::Null),
+                    ("/groups/0/a95", Jv::Null),
+                ],
+            },
         },
         Case {
             name: "antipodal steep pair",
@@ -142,40 +310,200 @@ fn catalogue() -> Vec<Case> {
             expect: Accepted { json: &[("/groups/0/n", Jv::Num(2.0)), ("/groups/0/dec", Jv::Num(10.0))] },
         },
         // ---- steps table (components) ----
-        Case { name: "steps: missing moment column", files: &[("st.csv", b"specimen,step,dec,inc\nS1,0,10,40\n")], args: RANGE, expect: r("st.csv", 1, "moment") },
-        Case { name: "steps: zero moment", files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,0\n")], args: RANGE, expect: r("st.csv", 2, "moment") },
-        Case { name: "steps: negative moment", files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,1e-6\nS1,10,10,40,-1e-6\n")], args: RANGE, expect: r("st.csv", 3, "moment") },
-        Case { name: "steps: repeated step", files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,2e-6\nS1,0,10,40,1e-6\n")], args: RANGE, expect: r("st.csv", 3, "step") },
-        Case { name: "steps: decreasing step", files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,20,10,40,2e-6\nS1,10,10,40,1e-6\n")], args: RANGE, expect: r("st.csv", 3, "step") },
-        Case { name: "steps: negative step", files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,-5,10,40,2e-6\n")], args: RANGE, expect: r("st.csv", 2, "step") },
-        Case { name: "steps: unknown treatment", files: &[("st.csv", b"specimen,step,dec,inc,moment,treatment\nS1,0,10,40,2e-6,microwave\n")], args: RANGE, expect: r("st.csv", 2, "treatment") },
-        Case { name: "steps: empty specimen name", files: &[("st.csv", b"specimen,step,dec,inc,moment\n,0,10,40,2e-6\n")], args: RANGE, expect: r("st.csv", 2, "specimen") },
-        Case { name: "steps: site changes within a specimen", files: &[("st.csv", b"specimen,site,step,dec,inc,moment\nS1,P,0,10,40,2e-6\nS1,Q,10,10,40,1e-6\n")], args: RANGE, expect: r("st.csv", 3, "site") },
-        Case { name: "steps: inclination out of range", files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,140,2e-6\n")], args: RANGE, expect: r("st.csv", 2, "inc") },
-        Case { name: "steps: NaN moment", files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,nan\n")], args: RANGE, expect: r("st.csv", 2, "moment") },
-        Case { name: "steps: header with no rows", files: &[("st.csv", b"specimen,step,dec,inc,moment\n")], args: RANGE, expect: r_row("st.csv", 1) },
-        Case { name: "components: --from above --to", files: &[("st.csv", STEPS)], args: &["components", "st.csv", "--from", "30", "--to", "0"], expect: Failed { says: "--from" } },
-        Case { name: "components: non-numeric --from", files: &[("st.csv", STEPS)], args: &["components", "st.csv", "--from", "low", "--to", "30"], expect: Usage },
+        Case {
+            name: "steps: missing moment column",
+            files: &[("st.csv", b"specimen,step,dec,inc\nS1,0,10,40\n")],
+            args: RANGE,
+            expect: r("st.csv", 1, "moment"),
+        },
+        Case {
+            name: "steps: zero moment",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,0\n")],
+            args: RANGE,
+            expect: r("st.csv", 2, "moment"),
+        },
+        Case {
+            name: "steps: negative moment",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,1e-6\nS1,10,10,40,-1e-6\n")],
+            args: RANGE,
+            expect: r("st.csv", 3, "moment"),
+        },
+        Case {
+            name: "steps: repeated step",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,2e-6\nS1,0,10,40,1e-6\n")],
+            args: RANGE,
+            expect: r("st.csv", 3, "step"),
+        },
+        Case {
+            name: "steps: decreasing step",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,20,10,40,2e-6\nS1,10,10,40,1e-6\n")],
+            args: RANGE,
+            expect: r("st.csv", 3, "step"),
+        },
+        Case {
+            name: "steps: negative step",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,-5,10,40,2e-6\n")],
+            args: RANGE,
+            expect: r("st.csv", 2, "step"),
+        },
+        Case {
+            name: "steps: unknown treatment",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment,treatment\nS1,0,10,40,2e-6,microwave\n")],
+            args: RANGE,
+            expect: r("st.csv", 2, "treatment"),
+        },
+        Case {
+            name: "steps: empty specimen name",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\n,0,10,40,2e-6\n")],
+            args: RANGE,
+            expect: r("st.csv", 2, "specimen"),
+        },
+        Case {
+            name: "steps: site changes within a specimen",
+            files: &[("st.csv", b"specimen,site,step,dec,inc,moment\nS1,P,0,10,40,2e-6\nS1,Q,10,10,40,1e-6\n")],
+            args: RANGE,
+            expect: r("st.csv", 3, "site"),
+        },
+        Case {
+            name: "steps: inclination out of range",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,140,2e-6\n")],
+            args: RANGE,
+            expect: r("st.csv", 2, "inc"),
+        },
+        Case {
+            name: "steps: NaN moment",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\nS1,0,10,40,nan\n")],
+            args: RANGE,
+            expect: r("st.csv", 2, "moment"),
+        },
+        Case {
+            name: "steps: header with no rows",
+            files: &[("st.csv", b"specimen,step,dec,inc,moment\n")],
+            args: RANGE,
+            expect: r_row("st.csv", 1),
+        },
+        Case {
+            name: "components: --from above --to",
+            files: &[("st.csv", STEPS)],
+            args: &["components", "st.csv", "--from", "30", "--to", "0"],
+            expect: Failed { says: "--from" },
+        },
+        Case {
+            name: "components: non-numeric --from",
+            files: &[("st.csv", STEPS)],
+            args: &["components", "st.csv", "--from", "low", "--to", "30"],
+            expect: Usage,
+        },
         // ---- picks table (components --picks) ----
-        Case { name: "picks: unknown specimen", files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to\nS9,0,30\n")], args: PICKED, expect: r("pk.csv", 2, "specimen") },
-        Case { name: "picks: from above to", files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to\nS1,30,0\n")], args: PICKED, expect: r("pk.csv", 2, "to") },
-        Case { name: "picks: range too short for a plane", files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to,kind\nS1,0,10,plane\n")], args: PICKED, expect: r("pk.csv", 2, "from") },
-        Case { name: "picks: unknown anchor word", files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to,anchor\nS1,0,30,pinned\n")], args: PICKED, expect: r("pk.csv", 2, "anchor") },
-        Case { name: "picks: unknown kind word", files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to,kind\nS1,0,30,arc\n")], args: PICKED, expect: r("pk.csv", 2, "kind") },
-        Case { name: "picks: missing to column", files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from\nS1,0\n")], args: PICKED, expect: r("pk.csv", 1, "to") },
-        Case { name: "picks: inf bound", files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to\nS1,0,inf\n")], args: PICKED, expect: r("pk.csv", 2, "to") },
+        Case {
+            name: "picks: unknown specimen",
+            files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to\nS9,0,30\n")],
+            args: PICKED,
+            expect: r("pk.csv", 2, "specimen"),
+        },
+        Case {
+            name: "picks: from above to",
+            files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to\nS1,30,0\n")],
+            args: PICKED,
+            expect: r("pk.csv", 2, "to"),
+        },
+        Case {
+            name: "picks: range too short for a plane",
+            files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to,kind\nS1,0,10,plane\n")],
+            args: PICKED,
+            expect: r("pk.csv", 2, "from"),
+        },
+        Case {
+            name: "picks: unknown anchor word",
+            files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to,anchor\nS1,0,30,pinned\n")],
+            args: PICKED,
+            expect: r("pk.csv", 2, "anchor"),
+        },
+        Case {
+            name: "picks: unknown kind word",
+            files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to,kind\nS1,0,30,arc\n")],
+            args: PICKED,
+            expect: r("pk.csv", 2, "kind"),
+        },
+        Case {
+            name: "picks: missing to column",
+            files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from\nS1,0\n")],
+            args: PICKED,
+            expect: r("pk.csv", 1, "to"),
+        },
+        Case {
+            name: "picks: inf bound",
+            files: &[("st.csv", STEPS), ("pk.csv", b"specimen,from,to\nS1,0,inf\n")],
+            args: PICKED,
+            expect: r("pk.csv", 2, "to"),
+        },
         // ---- sites table (poles, expected) ----
-        Case { name: "sites: missing lon column", files: &[("s.csv", b"site,lat,dec,inc\nA,40,10,55\n")], args: &["poles", "s.csv"], expect: r("s.csv", 1, "lon") },
-        Case { name: "sites: longitude beyond 360", files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\nB,40,400,10,55\n")], args: &["poles", "s.csv"], expect: r("s.csv", 3, "lon") },
-        Case { name: "sites: latitude beyond 90", files: &[("s.csv", b"site,lat,lon,dec,inc\nA,-90.01,250,10,55\n")], args: &["poles", "s.csv"], expect: r("s.csv", 2, "lat") },
-        Case { name: "sites: fractional n", files: &[("s.csv", b"site,lat,lon,dec,inc,n\nA,40,250,10,55,2.5\n")], args: &["poles", "s.csv"], expect: r("s.csv", 2, "n") },
-        Case { name: "sites: zero k", files: &[("s.csv", b"site,lat,lon,dec,inc,k\nA,40,250,10,55,0\n")], args: &["poles", "s.csv"], expect: r("s.csv", 2, "k") },
-        Case { name: "sites: a95 above 180", files: &[("s.csv", b"site,lat,lon,dec,inc,a95\nA,40,250,10,55,181\n")], args: &["poles", "s.csv"], expect: r("s.csv", 2, "a95") },
-        Case { name: "sites: empty site name", files: &[("s.csv", b"site,lat,lon,dec,inc\n,40,250,10,55\n")], args: &["poles", "s.csv"], expect: r("s.csv", 2, "site") },
-        Case { name: "sites: unknown cutoff", files: &[("s.csv", SITES)], args: &["poles", "s.csv", "--cutoff", "wide"], expect: Failed { says: "cutoff" } },
-        Case { name: "poles: a single site has no paleopole", files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\n")], args: &["poles", "s.csv"], expect: Failed { says: "at least 2" } },
-        Case { name: "expected: bad latitude in sites table", files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\nB,x,250,10,55\n")], args: EXPECTED, expect: r("s.csv", 3, "lat") },
-        Case { name: "expected: pole latitude out of range", files: &[], args: &["expected", "--pole-lat", "95", "--pole-lon", "0", "--lat", "10", "--lon", "10"], expect: Failed { says: "95" } },
+        Case {
+            name: "sites: missing lon column",
+            files: &[("s.csv", b"site,lat,dec,inc\nA,40,10,55\n")],
+            args: &["poles", "s.csv"],
+            expect: r("s.csv", 1, "lon"),
+        },
+        Case {
+            name: "sites: longitude beyond 360",
+            files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\nB,40,400,10,55\n")],
+            args: &["poles", "s.csv"],
+            expect: r("s.csv", 3, "lon"),
+        },
+        Case {
+            name: "sites: latitude beyond 90",
+            files: &[("s.csv", b"site,lat,lon,dec,inc\nA,-90.01,250,10,55\n")],
+            args: &["poles", "s.csv"],
+            expect: r("s.csv", 2, "lat"),
+        },
+        Case {
+            name: "sites: fractional n",
+            files: &[("s.csv", b"site,lat,lon,dec,inc,n\nA,40,250,10,55,2.5\n")],
+            args: &["poles", "s.csv"],
+            expect: r("s.csv", 2, "n"),
+        },
+        Case {
+            name: "sites: zero k",
+            files: &[("s.csv", b"site,lat,lon,dec,inc,k\nA,40,250,10,55,0\n")],
+            args: &["poles", "s.csv"],
+            expect: r("s.csv", 2, "k"),
+        },
+        Case {
+            name: "sites: a95 above 180",
+            files: &[("s.csv", b"site,lat,lon,dec,inc,a95\nA,40,250,10,55,181\n")],
+            args: &["poles", "s.csv"],
+            expect: r("s.csv", 2, "a95"),
+        },
+        Case {
+            name: "sites: empty site name",
+            files: &[("s.csv", b"site,lat,lon,dec,inc\n,40,250,10,55\n")],
+            args: &["poles", "s.csv"],
+            expect: r("s.csv", 2, "site"),
+        },
+        Case {
+            name: "sites: unknown cutoff",
+            files: &[("s.csv", SITES)],
+            args: &["poles", "s.csv", "--cutoff", "wide"],
+            expect: Failed { says: "cutoff" },
+        },
+        Case {
+            name: "poles: a single site has no paleopole",
+            files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\n")],
+            args: &["poles", "s.csv"],
+            expect: Failed { says: "at least 2" },
+        },
+        Case {
+            name: "expected: bad latitude in sites table",
+            files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\nB,x,250,10,55\n")],
+            args: EXPECTED,
+            expect: r("s.csv", 3, "lat"),
+        },
+        Case {
+            name: "expected: pole latitude out of range",
+            files: &[],
+            args: &["expected", "--pole-lat", "95", "--pole-lon", "0", "--lat", "10", "--lon", "10"],
+            expect: Failed { says: "95" },
+        },
         Case {
             name: "poles: reversed and normal sites mapped through the pole",
             files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,0,59.2\nB,40,250,180,-59.2\n")],
@@ -183,34 +511,135 @@ fn catalogue() -> Vec<Case> {
             expect: Accepted { json: &[("/pole/n", Jv::Num(2.0))] },
         },
         // ---- levels tables (column) and time scales (correlate) ----
-        Case { name: "levels: non-numeric height", files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,40,10\nx,2,58,40,10\n")], args: &["column", "lv.csv"], expect: r("lv.csv", 3, "height") },
-        Case { name: "levels: no height or depth column", files: &[("lv.csv", b"dec,inc,lat,lon\n0,60,40,10\n")], args: &["column", "lv.csv"], expect: r("lv.csv", 1, "height") },
-        Case { name: "levels: latitude out of range", files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,140,10\n")], args: &["column", "lv.csv"], expect: r("lv.csv", 2, "lat") },
+        Case {
+            name: "levels: non-numeric height",
+            files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,40,10\nx,2,58,40,10\n")],
+            args: &["column", "lv.csv"],
+            expect: r("lv.csv", 3, "height"),
+        },
+        Case {
+            name: "levels: no height or depth column",
+            files: &[("lv.csv", b"dec,inc,lat,lon\n0,60,40,10\n")],
+            args: &["column", "lv.csv"],
+            expect: r("lv.csv", 1, "height"),
+        },
+        Case {
+            name: "levels: latitude out of range",
+            files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,140,10\n")],
+            args: &["column", "lv.csv"],
+            expect: r("lv.csv", 2, "lat"),
+        },
         Case {
             // Decision of the column verb: rows at one height are one level (their directions averaged).
             name: "levels: duplicate heights form one level",
             files: &[("lv.csv", b"height,dec,inc,lat,lon\n1,0,60,40,10\n1,2,58,40,10\n")],
             args: &["column", "lv.csv"],
-            expect: Accepted { json: &[("/levels/0/n", Jv::Num(2.0)), ("/levels/0/height", Jv::Num(1.0)), ("/levels/0/polarity", Jv::Str("N"))] },
+            expect: Accepted {
+                json: &[
+                    ("/levels/0/n", Jv::Num(2.0)),
+                    ("/levels/0/height", Jv::Num(1.0)),
+                    ("/levels/0/polarity", Jv::Str("N")),
+                ],
+            },
         },
-        Case { name: "timescale: overlapping chrons", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.7,1.0,R\n")], args: CORRELATE, expect: r("ts.csv", 3, "young") },
-        Case { name: "timescale: gap", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.9,1.0,R\n")], args: CORRELATE, expect: r("ts.csv", 3, "young") },
-        Case { name: "timescale: zero-length chron", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,0.8,R\n")], args: CORRELATE, expect: r("ts.csv", 3, "old") },
-        Case { name: "timescale: negative age", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n-0.2,0.8,N\n")], args: CORRELATE, expect: r("ts.csv", 2, "young") },
-        Case { name: "timescale: unknown polarity code", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,T\n")], args: CORRELATE, expect: r("ts.csv", 3, "polarity") },
-        Case { name: "timescale: header only", files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n")], args: CORRELATE, expect: r_row("ts.csv", 1) },
+        Case {
+            name: "timescale: overlapping chrons",
+            files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.7,1.0,R\n")],
+            args: CORRELATE,
+            expect: r("ts.csv", 3, "young"),
+        },
+        Case {
+            name: "timescale: gap",
+            files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.9,1.0,R\n")],
+            args: CORRELATE,
+            expect: r("ts.csv", 3, "young"),
+        },
+        Case {
+            name: "timescale: zero-length chron",
+            files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,0.8,R\n")],
+            args: CORRELATE,
+            expect: r("ts.csv", 3, "old"),
+        },
+        Case {
+            name: "timescale: negative age",
+            files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n-0.2,0.8,N\n")],
+            args: CORRELATE,
+            expect: r("ts.csv", 2, "young"),
+        },
+        Case {
+            name: "timescale: unknown polarity code",
+            files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,T\n")],
+            args: CORRELATE,
+            expect: r("ts.csv", 3, "polarity"),
+        },
+        Case {
+            name: "timescale: header only",
+            files: &[("lv.csv", LEVELS), ("ts.csv", b"young,old,polarity\n")],
+            args: CORRELATE,
+            expect: r_row("ts.csv", 1),
+        },
         // ---- field tests ----
-        Case { name: "test reversal: one polarity only", files: &[("d.csv", b"dec,inc\n0,60\n3,58\n")], args: &["test", "reversal", "d.csv"], expect: Failed { says: "at least 2" } },
-        Case { name: "test random: one direction", files: &[("d.csv", b"dec,inc\n0,60\n")], args: &["test", "random", "d.csv"], expect: Failed { says: "at least 2" } },
+        Case {
+            name: "test reversal: one polarity only",
+            files: &[("d.csv", b"dec,inc\n0,60\n3,58\n")],
+            args: &["test", "reversal", "d.csv"],
+            expect: Failed { says: "at least 2" },
+        },
+        Case {
+            name: "test random: one direction",
+            files: &[("d.csv", b"dec,inc\n0,60\n")],
+            args: &["test", "random", "d.csv"],
+            expect: Failed { says: "at least 2" },
+        },
         // ---- reversal-record statistics (intervals, hazard, rate) ----
-        Case { name: "intervals: unknown polarity code", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,T\n")], args: &["intervals", "ts.csv"], expect: r("ts.csv", 3, "polarity") },
-        Case { name: "intervals: overlapping chrons", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.7,1.0,R\n")], args: &["intervals", "ts.csv"], expect: r("ts.csv", 3, "young") },
-        Case { name: "intervals: too few complete intervals", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")], args: &["intervals", "ts.csv"], expect: Failed { says: "at least 2 complete intervals" } },
-        Case { name: "intervals: empty window", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")], args: &["intervals", "ts.csv", "--from", "3", "--to", "1"], expect: Failed { says: "empty" } },
-        Case { name: "rate: zero window", files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")], args: &["rate", "ts.csv", "--window", "0"], expect: Failed { says: "window" } },
-        Case { name: "hazard: negative elapsed time", files: &[("ts.csv", b"young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,0.9,N\n0.9,1.0,R\n1.0,1.4,N\n")], args: &["hazard", "ts.csv", "--elapsed=-1"], expect: Failed { says: "elapsed" } },
-        Case { name: "hazard: negative horizon", files: &[("ts.csv", b"young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,0.9,N\n0.9,1.0,R\n1.0,1.4,N\n")], args: &["hazard", "ts.csv", "--elapsed=0.5", "--horizon=-0.1"], expect: Failed { says: "horizon" } },
-        Case { name: "test reversal: inclination out of range", files: &[("d.csv", b"dec,inc\n0,60\n180,-95\n")], args: &["test", "reversal", "d.csv"], expect: r("d.csv", 3, "inc") },
+        Case {
+            name: "intervals: unknown polarity code",
+            files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,T\n")],
+            args: &["intervals", "ts.csv"],
+            expect: r("ts.csv", 3, "polarity"),
+        },
+        Case {
+            name: "intervals: overlapping chrons",
+            files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.7,1.0,R\n")],
+            args: &["intervals", "ts.csv"],
+            expect: r("ts.csv", 3, "young"),
+        },
+        Case {
+            name: "intervals: too few complete intervals",
+            files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")],
+            args: &["intervals", "ts.csv"],
+            expect: Failed { says: "at least 2 complete intervals" },
+        },
+        Case {
+            name: "intervals: empty window",
+            files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")],
+            args: &["intervals", "ts.csv", "--from", "3", "--to", "1"],
+            expect: Failed { says: "empty" },
+        },
+        Case {
+            name: "rate: zero window",
+            files: &[("ts.csv", b"young,old,polarity\n0,0.8,N\n0.8,1.0,R\n")],
+            args: &["rate", "ts.csv", "--window", "0"],
+            expect: Failed { says: "window" },
+        },
+        Case {
+            name: "hazard: negative elapsed time",
+            files: &[("ts.csv", b"young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,0.9,N\n0.9,1.0,R\n1.0,1.4,N\n")],
+            args: &["hazard", "ts.csv", "--elapsed=-1"],
+            expect: Failed { says: "elapsed" },
+        },
+        Case {
+            name: "hazard: negative horizon",
+            files: &[("ts.csv", b"young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,0.9,N\n0.9,1.0,R\n1.0,1.4,N\n")],
+            args: &["hazard", "ts.csv", "--elapsed=0.5", "--horizon=-0.1"],
+            expect: Failed { says: "horizon" },
+        },
+        Case {
+            name: "test reversal: inclination out of range",
+            files: &[("d.csv", b"dec,inc\n0,60\n180,-95\n")],
+            args: &["test", "reversal", "d.csv"],
+            expect: r("d.csv", 3, "inc"),
+        },
     ]
 }
 
@@ -302,14 +731,16 @@ fn run_case(c: &Case) -> Result<(), String> {
             if code != Some(0) {
                 return Err(format!("exit {code:?}, expected 0; stderr: {err}"));
             }
-            let v: serde_json::Value = serde_json::from_str(&stdout).map_err(|e| format!("bad JSON ({e}): {stdout}"))?;
+            let v: serde_json::Value =
+                serde_json::from_str(&stdout).map_err(|e| format!("bad JSON ({e}): {stdout}"))?;
             for (p, want) in *json {
                 check_json(&v, p, *want)?;
             }
             // The same run for people must not show a NaN either.
             let mut table_args: Vec<&str> = c.args.to_vec();
             table_args.extend_from_slice(&["--format", "table"]);
-            let t = Command::cargo_bin("lodestone").unwrap().current_dir(dir.path()).args(&table_args).output().unwrap();
+            let t =
+                Command::cargo_bin("lodestone").unwrap().current_dir(dir.path()).args(&table_args).output().unwrap();
             let text = String::from_utf8_lossy(&t.stdout);
             if !t.status.success() || text.contains("NaN") || stdout.contains("NaN") {
                 return Err(format!("table output failed or shows NaN: {text}"));
@@ -323,7 +754,8 @@ fn run_case(c: &Case) -> Result<(), String> {
 fn catalogue_of_bad_inputs() {
     let cases = catalogue();
     assert!(cases.len() >= 30, "the catalogue should hold at least 30 cases");
-    let failures: Vec<String> = cases.iter().filter_map(|c| run_case(c).err().map(|e| format!("[{}] {e}", c.name))).collect();
+    let failures: Vec<String> =
+        cases.iter().filter_map(|c| run_case(c).err().map(|e| format!("[{}] {e}", c.name))).collect();
     assert!(failures.is_empty(), "{} of {} cases failed:\n{}", failures.len(), cases.len(), failures.join("\n"));
 }
 

@@ -63,23 +63,11 @@ fn range_fit_recovers_the_known_component_and_feeds_mean() {
     assert!(fit["mad"].as_f64().unwrap() < 1e-5 && fit["dang"].as_f64().unwrap() < 1e-5);
     // The CSV output is a directions table that `mean` reads.
     let csv = cmd()
-        .args([
-            "components",
-            f.to_str().unwrap(),
-            "--from",
-            "20",
-            "--to",
-            "80",
-            "--format",
-            "csv",
-        ])
+        .args(["components", f.to_str().unwrap(), "--from", "20", "--to", "80", "--format", "csv"])
         .output()
         .unwrap();
     let text = String::from_utf8(csv.stdout).unwrap();
-    assert!(
-        text.starts_with("specimen,site,kind,anchor,n_steps,from,to,dec,inc,mad,dang,height\n"),
-        "{text}"
-    );
+    assert!(text.starts_with("specimen,site,kind,anchor,n_steps,from,to,dec,inc,mad,dang,height\n"), "{text}");
     let fits = write(&d, "fits.csv", &text);
     let m = run_json(&["mean", fits.to_str().unwrap(), "--format", "json"]);
     assert_eq!(m["groups"][0]["group"], "SA");
@@ -98,20 +86,12 @@ fn auto_picks_and_planes() {
     assert_eq!(v["rule"]["max_mad"], 5.0);
     // Picks: a plane for A1 over the whole path (pole ⟂ both components), an anchored line for A2;
     // a specimen without a pick is listed, not dropped.
-    let picks = write(
-        &d,
-        "picks.csv",
-        "specimen,from,to,kind,anchor\nA1,0,80,plane,free\n",
-    );
+    let picks = write(&d, "picks.csv", "specimen,from,to,kind,anchor\nA1,0,80,plane,free\n");
     let v = run_json(&["components", f.to_str().unwrap(), "--picks", picks.to_str().unwrap(), "--format", "json"]);
     assert_eq!(v["fits"][0]["kind"], "plane");
     assert!(v["fits"][0]["dang"].is_null());
     assert_eq!(v["unfitted"][0]["specimen"], "A2");
-    let picks = write(
-        &d,
-        "picks2.csv",
-        "specimen,from,to,anchor\nA2,30,80,origin\n",
-    );
+    let picks = write(&d, "picks2.csv", "specimen,from,to,anchor\nA2,30,80,origin\n");
     let v = run_json(&["components", f.to_str().unwrap(), "--picks", picks.to_str().unwrap(), "--format", "json"]);
     assert_eq!(v["fits"][0]["anchor"], "origin");
     assert!((v["fits"][0]["dec"].as_f64().unwrap() - 200.0).abs() < 1e-6);
@@ -123,28 +103,10 @@ fn mean_mixes_lines_and_planes_and_stays_fisher_without_planes() {
     // Lines only: identical to the plain Fisher run of the same rows.
     let lines = "site,dec,inc,kind\nS,12,45,line\nS,20,51,line\nS,355,38,line\nS,8,60,line\n";
     let plain = "site,dec,inc\nS,12,45\nS,20,51\nS,355,38\nS,8,60\n";
-    let a = cmd()
-        .args([
-            "mean",
-            write(&d, "l.csv", lines).to_str().unwrap(),
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    let b = cmd()
-        .args([
-            "mean",
-            write(&d, "p.csv", plain).to_str().unwrap(),
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    let (a, b): (serde_json::Value, serde_json::Value) = (
-        serde_json::from_slice(&a.stdout).unwrap(),
-        serde_json::from_slice(&b.stdout).unwrap(),
-    );
+    let a = cmd().args(["mean", write(&d, "l.csv", lines).to_str().unwrap(), "--format", "json"]).output().unwrap();
+    let b = cmd().args(["mean", write(&d, "p.csv", plain).to_str().unwrap(), "--format", "json"]).output().unwrap();
+    let (a, b): (serde_json::Value, serde_json::Value) =
+        (serde_json::from_slice(&a.stdout).unwrap(), serde_json::from_slice(&b.stdout).unwrap());
     for k in ["n", "dec", "inc", "r", "k", "a95", "theta63"] {
         assert_eq!(a["groups"][0][k], b["groups"][0][k], "{k}");
     }
@@ -187,11 +149,7 @@ fn bad_input_is_refused_with_file_line_column() {
             format!("{head}X,0,10,20,1e-8\nX,0,11,20,1e-8\n"),
             ":3: column 'step': step 0 of specimen X is repeated",
         ),
-        (
-            "zero.csv",
-            format!("{head}X,0,10,20,0\n"),
-            ":2: column 'moment': is zero",
-        ),
+        ("zero.csv", format!("{head}X,0,10,20,0\n"), ":2: column 'moment': is zero"),
         (
             "nomoment.csv",
             "specimen,step,dec,inc\nX,0,10,20\n".to_string(),
@@ -210,46 +168,32 @@ fn bad_input_is_refused_with_file_line_column() {
     }
     let f = write(&d, "steps.csv", &steps_csv());
     let picks = [
-        ("unknown.csv", "specimen,from,to\nZZ,0,80\n", ":2: column 'specimen': specimen 'ZZ' is not in the steps table"),
-        ("short.csv", "specimen,from,to\nA1,20,25\n", ":2: column 'from': the range 20 to 25 holds 1 step(s) of specimen A1; a line needs at least 2"),
+        (
+            "unknown.csv",
+            "specimen,from,to\nZZ,0,80\n",
+            ":2: column 'specimen': specimen 'ZZ' is not in the steps table",
+        ),
+        (
+            "short.csv",
+            "specimen,from,to\nA1,20,25\n",
+            ":2: column 'from': the range 20 to 25 holds 1 step(s) of specimen A1; a line needs at least 2",
+        ),
         ("shortplane.csv", "specimen,from,to,kind\nA1,20,30,plane\n", "a plane needs at least 3"),
         ("backwards.csv", "specimen,from,to\nA1,80,20\n", ":2: column 'to': 20 is below from = 80"),
     ];
     for (name, body, msg) in picks {
         let p = write(&d, name, body);
         cmd()
-            .args([
-                "components",
-                f.to_str().unwrap(),
-                "--picks",
-                p.to_str().unwrap(),
-            ])
+            .args(["components", f.to_str().unwrap(), "--picks", p.to_str().unwrap()])
             .assert()
             .code(1)
             .stderr(predicate::str::contains(name))
             .stderr(predicate::str::contains(msg));
     }
     // Command-line mistakes exit 2: no range choice, --from without --to, two choices at once.
-    cmd()
-        .args(["components", f.to_str().unwrap()])
-        .assert()
-        .code(2);
-    cmd()
-        .args(["components", f.to_str().unwrap(), "--from", "20"])
-        .assert()
-        .code(2);
-    cmd()
-        .args([
-            "components",
-            f.to_str().unwrap(),
-            "--auto",
-            "--from",
-            "20",
-            "--to",
-            "30",
-        ])
-        .assert()
-        .code(2);
+    cmd().args(["components", f.to_str().unwrap()]).assert().code(2);
+    cmd().args(["components", f.to_str().unwrap(), "--from", "20"]).assert().code(2);
+    cmd().args(["components", f.to_str().unwrap(), "--auto", "--from", "20", "--to", "30"]).assert().code(2);
 }
 
 #[test]
@@ -258,16 +202,7 @@ fn plots_one_figure_per_specimen_and_never_over_inputs() {
     let body = steps_csv().replace("A2,", "A/2 x,");
     let f = write(&d, "steps.csv", &body);
     let dir = d.path().join("figs");
-    cmd()
-        .args([
-            "components",
-            f.to_str().unwrap(),
-            "--auto",
-            "--plot",
-            dir.to_str().unwrap(),
-        ])
-        .assert()
-        .success();
+    cmd().args(["components", f.to_str().unwrap(), "--auto", "--plot", dir.to_str().unwrap()]).assert().success();
     let svg = fs::read_to_string(dir.join("A1.svg")).unwrap();
     assert!(svg.contains("<svg") && svg.contains("MAD"));
     assert!(dir.join("A_2_x.svg").exists());
@@ -287,22 +222,10 @@ fn plots_one_figure_per_specimen_and_never_over_inputs() {
     assert_eq!(&fs::read(dir.join("A1.png")).unwrap()[1..4], b"PNG");
     // A steps file that sits where a figure would go is an input: refused, left intact.
     let clash = d.path().join("A1.svg");
-    let only_a1: String = body
-        .lines()
-        .filter(|l| !l.starts_with("A/2"))
-        .collect::<Vec<_>>()
-        .join("\n")
-        + "\n";
+    let only_a1: String = body.lines().filter(|l| !l.starts_with("A/2")).collect::<Vec<_>>().join("\n") + "\n";
     fs::write(&clash, &only_a1).unwrap();
     cmd()
-        .args([
-            "components",
-            clash.to_str().unwrap(),
-            "--auto",
-            "--plot",
-            d.path().to_str().unwrap(),
-            "--force",
-        ])
+        .args(["components", clash.to_str().unwrap(), "--auto", "--plot", d.path().to_str().unwrap(), "--force"])
         .assert()
         .code(1)
         .stderr(predicate::str::contains("input"));

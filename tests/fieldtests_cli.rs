@@ -22,7 +22,13 @@ fn write(dir: &tempfile::TempDir, name: &str, body: &str) -> PathBuf {
 /// `n` directions around each of two means, as a directions table.
 fn two_sets(seed: u64, n: usize, k: f64, m1: Direction, m2: Direction) -> String {
     let (s1, s2) = (FisherSampler::new(m1, k).unwrap(), FisherSampler::new(m2, k).unwrap());
-    let d = MonteCarlo::new(seed, 2 * n).run("data", 9, |r, i| if i < n { s1.sample_direction(r) } else { s2.sample_direction(r) });
+    let d = MonteCarlo::new(seed, 2 * n).run("data", 9, |r, i| {
+        if i < n {
+            s1.sample_direction(r)
+        } else {
+            s2.sample_direction(r)
+        }
+    });
     let mut s = String::from("site,dec,inc\n");
     for (i, x) in d.iter().enumerate() {
         writeln!(s, "S{i:02},{:.3},{:.3}", x.dec, x.inc).unwrap();
@@ -54,7 +60,13 @@ fn reversal_json_fields_and_thread_independence() {
     assert_eq!(v["passed"], true);
     assert!(v["notes"].as_array().unwrap().iter().any(|n| n.as_str().unwrap().contains("not proof")));
     // Same seed, 1 thread and 2 threads: identical output, byte for byte.
-    let run = |t: &str, seed: &str| cmd().args(["--threads", t, "--seed", seed, "test", "reversal", f, "--format", "json", "--resamples", "300"]).output().unwrap().stdout;
+    let run = |t: &str, seed: &str| {
+        cmd()
+            .args(["--threads", t, "--seed", seed, "test", "reversal", f, "--format", "json", "--resamples", "300"])
+            .output()
+            .unwrap()
+            .stdout
+    };
     assert_eq!(run("1", "9"), run("2", "9"));
     assert_ne!(run("1", "9"), run("1", "10"));
 }
@@ -71,9 +83,16 @@ fn reversal_fails_for_modes_15_degrees_off() {
     assert_eq!(v["v_w_passed"], false);
     assert_eq!(v["bootstrap"]["passed"], false);
     // The table output names all three approaches and the csv output is the approaches table.
-    cmd().args(["test", "reversal", f.to_str().unwrap(), "--resamples", "200"]).assert().success()
-        .stdout(predicates::str::contains("V_w")).stdout(predicates::str::contains("class negative"));
-    cmd().args(["test", "reversal", f.to_str().unwrap(), "--resamples", "200", "--format", "csv"]).assert().success()
+    cmd()
+        .args(["test", "reversal", f.to_str().unwrap(), "--resamples", "200"])
+        .assert()
+        .success()
+        .stdout(predicates::str::contains("V_w"))
+        .stdout(predicates::str::contains("class negative"));
+    cmd()
+        .args(["test", "reversal", f.to_str().unwrap(), "--resamples", "200", "--format", "csv"])
+        .assert()
+        .success()
         .stdout(predicates::str::starts_with("check,value,critical,outcome\n"));
 }
 
@@ -116,7 +135,17 @@ fn fold_test_verdicts_and_figure() {
     let pre = write(&d, "pre.csv", &fold_table(true, 24));
     let post = write(&d, "post.csv", &fold_table(false, 24));
     let svg = d.path().join("fold.svg");
-    let v = json(&["test", "fold", pre.to_str().unwrap(), "--format", "json", "--resamples", "200", "--plot", svg.to_str().unwrap()]);
+    let v = json(&[
+        "test",
+        "fold",
+        pre.to_str().unwrap(),
+        "--format",
+        "json",
+        "--resamples",
+        "200",
+        "--plot",
+        svg.to_str().unwrap(),
+    ]);
     assert_eq!(v["verdict"], "pre-folding");
     assert!((v["best_untilt"].as_f64().unwrap() - 100.0).abs() <= 12.0, "{}", v["best_untilt"]);
     assert!(v["ci_low"].as_f64().unwrap() <= 100.0 && v["ci_high"].as_f64().unwrap() >= 100.0);
@@ -132,11 +161,17 @@ fn fold_needs_bedding_on_every_row() {
     let d = tempfile::tempdir().unwrap();
     let f = write(&d, "nobed.csv", "dec,inc,bed_dip_dir,bed_dip\n10,40,90,20\n20,40,,\n15,45,90,20\n");
     let plot = d.path().join("x.svg");
-    cmd().args(["test", "fold", f.to_str().unwrap(), "--plot", plot.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["test", "fold", f.to_str().unwrap(), "--plot", plot.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicates::str::contains("nobed.csv:3: column 'bed_dip': no bedding"));
     assert!(!plot.exists());
     let f = write(&d, "plane.csv", "dec,inc,kind\n10,40,line\n20,40,plane\n");
-    cmd().args(["test", "random", f.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["test", "random", f.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicates::str::contains("plane.csv:3: column 'kind'"));
     cmd().args(["test", "reversal"]).assert().code(2);
 }
@@ -146,8 +181,18 @@ fn randomness_test_outputs() {
     let d = tempfile::tempdir().unwrap();
     // Ten directions at the vertices of a regular icosahedron-like spread cancel out: R is tiny.
     let phi = (1.0 + 5f64.sqrt()) / 2.0;
-    let verts = [(0.0, 1.0, phi), (0.0, -1.0, -phi), (1.0, phi, 0.0), (-1.0, -phi, 0.0), (phi, 0.0, 1.0), (-phi, 0.0, -1.0),
-                 (0.0, -1.0, phi), (0.0, 1.0, -phi), (1.0, -phi, 0.0), (-1.0, phi, 0.0)];
+    let verts = [
+        (0.0, 1.0, phi),
+        (0.0, -1.0, -phi),
+        (1.0, phi, 0.0),
+        (-1.0, -phi, 0.0),
+        (phi, 0.0, 1.0),
+        (-phi, 0.0, -1.0),
+        (0.0, -1.0, phi),
+        (0.0, 1.0, -phi),
+        (1.0, -phi, 0.0),
+        (-1.0, phi, 0.0),
+    ];
     let mut s = String::from("dec,inc\n");
     for (x, y, z) in verts {
         let dir = Direction::from_vector(lodestone::sphere::Vec3::new(x, y, z)).unwrap();
@@ -163,6 +208,9 @@ fn randomness_test_outputs() {
     let g = write(&d, "tight.csv", &two_sets(3, 5, 20.0, N, N));
     let v = json(&["test", "random", g.to_str().unwrap(), "--format", "json"]);
     assert_eq!(v["random"], false);
-    cmd().args(["test", "random", g.to_str().unwrap(), "--format", "csv"]).assert().success()
+    cmd()
+        .args(["test", "random", g.to_str().unwrap(), "--format", "csv"])
+        .assert()
+        .success()
         .stdout(predicates::str::starts_with("n,r,r0,p_value,random\n10,"));
 }

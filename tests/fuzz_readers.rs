@@ -13,17 +13,52 @@ fn cases() -> u32 {
 /// Bytes that look like CSV: header-ish words, numbers, separators, quotes, comments, BOMs, junk.
 fn csvish() -> impl Strategy<Value = Vec<u8>> {
     let token = prop_oneof![
-        Just(b"dec".to_vec()), Just(b"inc".to_vec()), Just(b"site".to_vec()), Just(b"young".to_vec()),
-        Just(b"old".to_vec()), Just(b"polarity".to_vec()), Just(b"bed_dip".to_vec()), Just(b"bed_dip_dir".to_vec()),
-        Just(b"bed_strike".to_vec()), Just(b"height".to_vec()), Just(b"depth".to_vec()), Just(b"kind".to_vec()),
-        Just(b"plane".to_vec()), Just(b"N".to_vec()), Just(b"R".to_vec()), Just(b"x_az".to_vec()), Just(b"x_plunge".to_vec()),
-        Just(b",".to_vec()), Just(b"\n".to_vec()), Just(b"\r\n".to_vec()), Just(b"\"".to_vec()), Just(b"#".to_vec()),
-        Just(b"\xEF\xBB\xBF".to_vec()), Just(b"NaN".to_vec()), Just(b"inf".to_vec()), Just(b"-1e308".to_vec()),
-        Just(b"1e400".to_vec()), Just(b"overturned".to_vec()), Just(b"yes".to_vec()),
-        Just(b"specimen".to_vec()), Just(b"step".to_vec()), Just(b"moment".to_vec()), Just(b"treatment".to_vec()),
-        Just(b"af".to_vec()), Just(b"thermal".to_vec()), Just(b"from".to_vec()), Just(b"to".to_vec()),
-        Just(b"anchor".to_vec()), Just(b"origin".to_vec()), Just(b"lat".to_vec()), Just(b"lon".to_vec()),
-        Just(b"n".to_vec()), Just(b"k".to_vec()), Just(b"a95".to_vec()), Just(b"S1".to_vec()), Just(b"0".to_vec()),
+        Just(b"dec".to_vec()),
+        Just(b"inc".to_vec()),
+        Just(b"site".to_vec()),
+        Just(b"young".to_vec()),
+        Just(b"old".to_vec()),
+        Just(b"polarity".to_vec()),
+        Just(b"bed_dip".to_vec()),
+        Just(b"bed_dip_dir".to_vec()),
+        Just(b"bed_strike".to_vec()),
+        Just(b"height".to_vec()),
+        Just(b"depth".to_vec()),
+        Just(b"kind".to_vec()),
+        Just(b"plane".to_vec()),
+        Just(b"N".to_vec()),
+        Just(b"R".to_vec()),
+        Just(b"x_az".to_vec()),
+        Just(b"x_plunge".to_vec()),
+        Just(b",".to_vec()),
+        Just(b"\n".to_vec()),
+        Just(b"\r\n".to_vec()),
+        Just(b"\"".to_vec()),
+        Just(b"#".to_vec()),
+        Just(b"\xEF\xBB\xBF".to_vec()),
+        Just(b"NaN".to_vec()),
+        Just(b"inf".to_vec()),
+        Just(b"-1e308".to_vec()),
+        Just(b"1e400".to_vec()),
+        Just(b"overturned".to_vec()),
+        Just(b"yes".to_vec()),
+        Just(b"specimen".to_vec()),
+        Just(b"step".to_vec()),
+        Just(b"moment".to_vec()),
+        Just(b"treatment".to_vec()),
+        Just(b"af".to_vec()),
+        Just(b"thermal".to_vec()),
+        Just(b"from".to_vec()),
+        Just(b"to".to_vec()),
+        Just(b"anchor".to_vec()),
+        Just(b"origin".to_vec()),
+        Just(b"lat".to_vec()),
+        Just(b"lon".to_vec()),
+        Just(b"n".to_vec()),
+        Just(b"k".to_vec()),
+        Just(b"a95".to_vec()),
+        Just(b"S1".to_vec()),
+        Just(b"0".to_vec()),
         (-400.0f64..400.0).prop_map(|x| format!("{x}").into_bytes()),
         proptest::collection::vec(any::<u8>(), 0..4),
     ];
@@ -83,7 +118,8 @@ proptest! {
 fn reference_steps() -> &'static StepSet {
     static SET: std::sync::OnceLock<StepSet> = std::sync::OnceLock::new();
     SET.get_or_init(|| {
-        let text = b"specimen,step,dec,inc,moment\nS1,0,10,40,5e-6\nS1,10,12,41,4e-6\nS1,20,11,39,3e-6\nS1,30,13,40,2e-6\n";
+        let text =
+            b"specimen,step,dec,inc,moment\nS1,0,10,40,5e-6\nS1,10,12,41,4e-6\nS1,20,11,39,3e-6\nS1,30,13,40,2e-6\n";
         read_steps(&Table::parse("ref.csv", text).unwrap()).unwrap()
     })
 }

@@ -40,10 +40,16 @@ fn json_output_follows_the_contract() {
 fn csv_and_table_outputs() {
     let d = tempfile::tempdir().unwrap();
     let f = write(&d, "d.csv", FOUR);
-    cmd().args(["mean", f.to_str().unwrap(), "--format", "csv"]).assert().success()
+    cmd()
+        .args(["mean", f.to_str().unwrap(), "--format", "csv"])
+        .assert()
+        .success()
         .stdout(predicate::str::starts_with("group,n,dec,inc,r,k,a95,theta63\nA,4,"))
         .stdout(predicate::str::contains("\nB,1,123,45,1,,,\n"));
-    cmd().args(["--format", "table", "mean", f.to_str().unwrap()]).assert().success()
+    cmd()
+        .args(["--format", "table", "mean", f.to_str().unwrap()])
+        .assert()
+        .success()
         .stdout(predicate::str::contains("group  n"))
         .stdout(predicate::str::contains("one direction only"));
 }
@@ -52,7 +58,10 @@ fn csv_and_table_outputs() {
 fn whole_file_and_by_column_and_tilt() {
     let d = tempfile::tempdir().unwrap();
     let f = write(&d, "d.csv", "lith,dec,inc,bed_dip_dir,bed_dip\nx,90,30,90,30\nx,90,30,90,30\ny,0,0,90,30\n");
-    let out = cmd().args(["mean", f.to_str().unwrap(), "--by", "lith", "--frame", "tilt", "--format", "json"]).output().unwrap();
+    let out = cmd()
+        .args(["mean", f.to_str().unwrap(), "--by", "lith", "--frame", "tilt", "--format", "json"])
+        .output()
+        .unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     // Down-dip lines restore to horizontal (090, 0); identical directions give k = "inf".
@@ -114,7 +123,10 @@ fn plots_are_written_and_inputs_never_overwritten() {
     fs::write(&svg_input, FOUR).unwrap();
     // Using an input file as the plot path is refused.
     let g = write(&d, "in.svg", "dec,inc\n1,2\n");
-    cmd().args(["mean", g.to_str().unwrap(), "--plot", g.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["mean", g.to_str().unwrap(), "--plot", g.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicate::str::contains("input"));
     assert_eq!(fs::read_to_string(&g).unwrap(), "dec,inc\n1,2\n");
     cmd().args(["mean", f.to_str().unwrap(), "--plot", d.path().join("x.pdf").to_str().unwrap()]).assert().code(1);
@@ -247,5 +259,8 @@ fn many_groups_streamed_and_whole_table_outputs_are_identical() {
     let (csv, notes) = run("csv", "0.95", false);
     assert_eq!(String::from_utf8(csv).unwrap().lines().count(), 354);
     let notes = String::from_utf8(notes).unwrap();
-    assert!(notes.contains("note: Q: one direction only") && notes.contains("note: (all): one direction only"), "{notes}");
+    assert!(
+        notes.contains("note: Q: one direction only") && notes.contains("note: (all): one direction only"),
+        "{notes}"
+    );
 }

@@ -58,7 +58,11 @@ fn cutoffs_report_what_they_removed_and_results_repeat_with_the_seed() {
     assert!(vd["scatter"]["n_removed"].as_u64().unwrap() >= 1);
     assert!(fixed["scatter"]["s"].as_f64().unwrap() < none["scatter"]["s"].as_f64().unwrap());
     for v in [&none, &fixed, &vd] {
-        let (lo, s, hi) = (v["scatter"]["s_low"].as_f64().unwrap(), v["scatter"]["s"].as_f64().unwrap(), v["scatter"]["s_high"].as_f64().unwrap());
+        let (lo, s, hi) = (
+            v["scatter"]["s_low"].as_f64().unwrap(),
+            v["scatter"]["s"].as_f64().unwrap(),
+            v["scatter"]["s_high"].as_f64().unwrap(),
+        );
         assert!(lo < s && s < hi, "{lo} {s} {hi}");
     }
     let again = json(&["poles", demo, "--northern", "--resamples", "100", "--threads", "1"]);
@@ -70,10 +74,26 @@ fn poles_figure_and_csv() {
     let d = tempfile::tempdir().unwrap();
     let demo = concat!(env!("CARGO_MANIFEST_DIR"), "/records/kestrel-ridge-sites.csv");
     let svg = d.path().join("p.svg");
-    cmd().args(["poles", demo, "--northern", "--cutoff", "vandamme", "--resamples", "50", "--quiet", "--plot", svg.to_str().unwrap(), "--format", "csv"])
+    cmd()
+        .args([
+            "poles",
+            demo,
+            "--northern",
+            "--cutoff",
+            "vandamme",
+            "--resamples",
+            "50",
+            "--quiet",
+            "--plot",
+            svg.to_str().unwrap(),
+            "--format",
+            "csv",
+        ])
         .assert()
         .success()
-        .stdout(predicate::str::starts_with("site,lat,lon,dec,inc,plat,plon,dp,dm,paleolat,paleolat_low,paleolat_high\nKR01,"));
+        .stdout(predicate::str::starts_with(
+            "site,lat,lon,dec,inc,plat,plon,dp,dm,paleolat,paleolat_low,paleolat_high\nKR01,",
+        ));
     let body = fs::read_to_string(&svg).unwrap();
     assert!(body.starts_with("<svg") && body.contains("paleopole"));
 }
@@ -82,13 +102,33 @@ fn poles_figure_and_csv() {
 fn bad_input_is_refused_with_file_line_and_column() {
     let d = tempfile::tempdir().unwrap();
     let f = write(&d, "lat.csv", "site,lat,lon,dec,inc\nA,10,0,0,20\nB,95,0,0,20\n");
-    cmd().args(["poles", f.to_str().unwrap()]).assert().code(1).stderr(predicate::str::contains("lat.csv:3: column 'lat': 95 is outside [-90, 90]"));
+    cmd()
+        .args(["poles", f.to_str().unwrap()])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("lat.csv:3: column 'lat': 95 is outside [-90, 90]"));
     let f = write(&d, "oval.csv", "site,lat,lon,dec,inc,a95\nA,10,0,0,20,5\nB,12,0,0,20,\n");
-    cmd().args(["poles", f.to_str().unwrap(), "--ovals"]).assert().code(1).stderr(predicate::str::contains("oval.csv:3: column 'a95'"));
+    cmd()
+        .args(["poles", f.to_str().unwrap(), "--ovals"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("oval.csv:3: column 'a95'"));
     let f = write(&d, "one.csv", "site,lat,lon,dec,inc\nA,10,0,0,20\n");
-    cmd().args(["poles", f.to_str().unwrap()]).assert().code(1).stderr(predicate::str::contains("paleopole").and(predicate::str::contains("at least 2 sites, got 1")));
-    cmd().args(["poles", f.to_str().unwrap(), "--cutoff", "sideways"]).assert().code(1).stderr(predicate::str::contains("--cutoff"));
-    cmd().args(["dipole", "vadm", "--intensity", "30", "--lat", "-95"]).assert().code(1).stderr(predicate::str::contains("latitude"));
+    cmd()
+        .args(["poles", f.to_str().unwrap()])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("paleopole").and(predicate::str::contains("at least 2 sites, got 1")));
+    cmd()
+        .args(["poles", f.to_str().unwrap(), "--cutoff", "sideways"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("--cutoff"));
+    cmd()
+        .args(["dipole", "vadm", "--intensity", "30", "--lat", "-95"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("latitude"));
 }
 
 #[test]
@@ -113,8 +153,19 @@ fn expected_direction_round_trips_the_vgp() {
     let f = write(&d, "s.csv", "site,lat,lon,dec,inc\nA,-33.9,18.4,200,-30\nB,0,10,355,5\n");
     let p = json(&["poles", f.to_str().unwrap(), "--resamples", "20"]);
     for (i, s) in p["sites"].as_array().unwrap().iter().enumerate() {
-        let e = json(&["expected", "--pole-lat", &s["plat"].to_string(), "--pole-lon", &s["plon"].to_string(),
-            "--lat", &s["lat"].to_string(), "--lon", &s["lon"].to_string(), "--a95", "5"]);
+        let e = json(&[
+            "expected",
+            "--pole-lat",
+            &s["plat"].to_string(),
+            "--pole-lon",
+            &s["plon"].to_string(),
+            "--lat",
+            &s["lat"].to_string(),
+            "--lon",
+            &s["lon"].to_string(),
+            "--a95",
+            "5",
+        ]);
         let r = &e["sites"][0];
         assert!((r["dec"].as_f64().unwrap() - s["dec"].as_f64().unwrap()).abs() < 1e-8, "site {i}");
         assert!((r["inc"].as_f64().unwrap() - s["inc"].as_f64().unwrap()).abs() < 1e-8, "site {i}");

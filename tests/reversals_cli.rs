@@ -46,10 +46,7 @@ fn json(args: &[&str]) -> Value {
     serde_json::from_slice(&out.stdout).unwrap()
 }
 
-const GAMMA2: Fitted = Fitted {
-    model: Model::Gamma,
-    params: [2.0, 0.125],
-};
+const GAMMA2: Fitted = Fitted { model: Model::Gamma, params: [2.0, 0.125] };
 
 #[test]
 fn intervals_follow_the_contract_and_the_censored_closed_form() {
@@ -73,10 +70,7 @@ fn intervals_follow_the_contract_and_the_censored_closed_form() {
     assert!((models[0]["params"]["rate"].as_f64().unwrap() - 78.0 / total).abs() < 1e-9);
     assert!(models[1]["params"]["shape"].is_number() && models[3]["params"]["sigma"].is_number());
     assert!(models[4]["params"]["mean"].is_number() && models[4]["params"]["shape"].is_number());
-    assert!(
-        v["lr_test"]["p_value"].as_f64().unwrap() < 0.05,
-        "gamma(2) intervals reject shape 1"
-    );
+    assert!(v["lr_test"]["p_value"].as_f64().unwrap() < 0.05, "gamma(2) intervals reject shape 1");
     // --no-censor: censored is null and the rate is n / Σ complete.
     let v = json(&["intervals", f.to_str().unwrap(), "--resamples", "20", "--no-censor"]);
     assert!(v["censored"].is_null());
@@ -101,16 +95,7 @@ fn min_length_merges_and_says_so() {
 fn hazard_reports_models_average_and_cautions() {
     let d = tempfile::tempdir().unwrap();
     let (f, _) = scale(&d, GAMMA2, 80, 23);
-    let v = json(&[
-        "hazard",
-        f.to_str().unwrap(),
-        "--elapsed",
-        "0.3",
-        "--horizon",
-        "0.1",
-        "--resamples",
-        "40",
-    ]);
+    let v = json(&["hazard", f.to_str().unwrap(), "--elapsed", "0.3", "--horizon", "0.1", "--resamples", "40"]);
     let models = v["models"].as_array().unwrap();
     assert_eq!(models.len(), 5);
     // The exponential answer does not depend on the elapsed time: 1 − e^(−λΔ) (Cox 1962).
@@ -119,7 +104,9 @@ fn hazard_reports_models_average_and_cautions() {
     assert!((models[0]["hazard"].as_f64().unwrap() - rate).abs() < 1e-12);
     let ps: Vec<f64> = models.iter().map(|m| m["p_within"].as_f64().unwrap()).collect();
     let avg = v["averaged"]["p_within"].as_f64().unwrap();
-    assert!(avg >= ps.iter().copied().fold(1.0, f64::min) - 1e-12 && avg <= ps.iter().copied().fold(0.0, f64::max) + 1e-12);
+    assert!(
+        avg >= ps.iter().copied().fold(1.0, f64::min) - 1e-12 && avg <= ps.iter().copied().fold(0.0, f64::max) + 1e-12
+    );
     let (lo, hi) = (v["averaged"]["low"].as_f64().unwrap(), v["averaged"]["high"].as_f64().unwrap());
     assert!(lo <= hi);
     let cautions = v["cautions"].to_string();
@@ -160,15 +147,7 @@ fn hazard_reports_models_average_and_cautions() {
 #[test]
 fn rate_outputs_and_figures() {
     let d = tempfile::tempdir().unwrap();
-    let (f, len) = scale(
-        &d,
-        Fitted {
-            model: Model::Exponential,
-            params: [4.0, f64::NAN],
-        },
-        60,
-        24,
-    );
+    let (f, len) = scale(&d, Fitted { model: Model::Exponential, params: [4.0, f64::NAN] }, 60, 24);
     let v = json(&["rate", f.to_str().unwrap(), "--window", "2"]);
     let pts = v["rate"].as_array().unwrap();
     assert!(!pts.is_empty());
@@ -187,17 +166,9 @@ fn rate_outputs_and_figures() {
         let out = d.path().join(name);
         cmd()
             .args(
-                [
-                    verb,
-                    f.to_str().unwrap(),
-                    "--plot",
-                    out.to_str().unwrap(),
-                    "--resamples",
-                    "10",
-                    "--quiet",
-                ]
-                .iter()
-                .filter(|a| verb != "rate" || (**a != "--resamples" && **a != "10")),
+                [verb, f.to_str().unwrap(), "--plot", out.to_str().unwrap(), "--resamples", "10", "--quiet"]
+                    .iter()
+                    .filter(|a| verb != "rate" || (**a != "--resamples" && **a != "10")),
             )
             .assert()
             .success();
@@ -224,11 +195,7 @@ fn bad_input_names_file_line_and_column_and_writes_nothing() {
     assert!(!fig.exists());
     // Two chrons leave one complete interval: too few to fit, a clear error.
     fs::write(&f, "young,old,polarity\n0,0.5,N\n0.5,1.0,R\n").unwrap();
-    cmd()
-        .args(["intervals", f.to_str().unwrap()])
-        .assert()
-        .code(1)
-        .stderr(predicate::str::contains("at least 2"));
+    cmd().args(["intervals", f.to_str().unwrap()]).assert().code(1).stderr(predicate::str::contains("at least 2"));
     // No open chron in the window and no --elapsed.
     let (s, _) = scale(&d, GAMMA2, 30, 25);
     cmd()

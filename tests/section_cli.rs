@@ -24,7 +24,19 @@ fn repo(p: &str) -> PathBuf {
 fn simulate(dir: &Path, seed: &str) {
     let ts = repo("records/timescales/chrons-0-6ma.csv");
     let out = cmd()
-        .args(["simulate", "section", dir.to_str().unwrap(), "--seed", seed, "--base-age", "2.0", "--lat", "-33.5", "--lon", "18.2"])
+        .args([
+            "simulate",
+            "section",
+            dir.to_str().unwrap(),
+            "--seed",
+            seed,
+            "--base-age",
+            "2.0",
+            "--lat",
+            "-33.5",
+            "--lon",
+            "18.2",
+        ])
         .args(["--rates", "2.2@1.2,1.4", "--spacing", "0.8", "--specimens", "3", "--kappa", "60"])
         .args(["--bedding", "40/10,60/25,80/35", "--timescale", ts.to_str().unwrap(), "--quiet"])
         .output()
@@ -81,9 +93,16 @@ fn simulated_section_recovers_the_true_correlation_and_age_model() {
         if w[0]["polarity"] != w[1]["polarity"] {
             // The true tie between them: the youngest true boundary older than the upper level.
             let (h0, h1) = (w[0]["height"].as_f64().unwrap(), w[1]["height"].as_f64().unwrap());
-            let ties: Vec<f64> = truth["ties"].as_array().unwrap().iter()
-                .filter(|t| { let h = t["height"].as_f64().unwrap(); h > h0 && h < h1 })
-                .map(|t| t["age"].as_f64().unwrap()).collect();
+            let ties: Vec<f64> = truth["ties"]
+                .as_array()
+                .unwrap()
+                .iter()
+                .filter(|t| {
+                    let h = t["height"].as_f64().unwrap();
+                    h > h0 && h < h1
+                })
+                .map(|t| t["age"].as_f64().unwrap())
+                .collect();
             expected.push((h0, h1, ties));
         }
     }
@@ -91,12 +110,20 @@ fn simulated_section_recovers_the_true_correlation_and_age_model() {
     assert_eq!(got.len(), expected.len(), "ties {got:?} against the true reversals {expected:?}");
     for (g, (h0, h1, ages)) in got.iter().rev().zip(&expected) {
         assert!(g[0] >= *h0 - 1e-9 && g[0] <= *h1 + 1e-9, "tie at {} m outside the gap {h0}–{h1}", g[0]);
-        assert!(ages.iter().any(|a| (a - g[1]).abs() < 1e-6), "tie age {} not among the true boundary ages {ages:?}", g[1]);
+        assert!(
+            ages.iter().any(|a| (a - g[1]).abs() < 1e-6),
+            "tie age {} not among the true boundary ages {ages:?}",
+            g[1]
+        );
     }
 
     // Age model against the true ages of the levels.
-    let ages: BTreeMap<String, f64> = levels.iter().map(|l| (l["site"].as_str().unwrap().to_string(), l["age"].as_f64().unwrap())).collect();
-    let pol: BTreeMap<String, String> = levels.iter().map(|l| (l["site"].as_str().unwrap().to_string(), l["polarity"].as_str().unwrap().to_string())).collect();
+    let ages: BTreeMap<String, f64> =
+        levels.iter().map(|l| (l["site"].as_str().unwrap().to_string(), l["age"].as_f64().unwrap())).collect();
+    let pol: BTreeMap<String, String> = levels
+        .iter()
+        .map(|l| (l["site"].as_str().unwrap().to_string(), l["polarity"].as_str().unwrap().to_string()))
+        .collect();
     let rows = read_csv(&out.join("tables/age-model.csv"));
     assert!(rows.len() >= levels.len() * 3 / 4, "{} of {} levels used", rows.len(), levels.len());
     let errs: Vec<f64> = rows.iter().map(|r| (r["age"].parse::<f64>().unwrap() - ages[&r["site"]]).abs()).collect();
@@ -152,8 +179,13 @@ fn report_holds_every_figure_and_table_and_loads_in_a_browser_if_one_is_installe
         assert!(!html.contains(bad), "report contains {bad}");
     }
     // The cautions travel into the report.
-    assert!(html.contains("not proof of the correlation") && html.contains("not proof of when the rocks were magnetized"));
-    assert!(html.contains("not a forecast") && html.contains("id=\"table-hazard\""), "the hazard stage and its caution are in the report");
+    assert!(
+        html.contains("not proof of the correlation") && html.contains("not proof of when the rocks were magnetized")
+    );
+    assert!(
+        html.contains("not a forecast") && html.contains("id=\"table-hazard\""),
+        "the hazard stage and its caution are in the report"
+    );
     // A refused second run into the same non-empty folder.
     let o = cmd().args(["demo", "--out", out.to_str().unwrap(), "--quiet"]).output().unwrap();
     assert_eq!(o.status.code(), Some(1));
@@ -161,7 +193,11 @@ fn report_holds_every_figure_and_table_and_loads_in_a_browser_if_one_is_installe
 
     // Headless browser load, when Debian's chromium is installed (never installed by the tests).
     let browser = ["chromium", "chromium-browser"].into_iter().find(|b| {
-        std::process::Command::new("sh").args(["-c", &format!("command -v {b}")]).output().map(|o| o.status.success()).unwrap_or(false)
+        std::process::Command::new("sh")
+            .args(["-c", &format!("command -v {b}")])
+            .output()
+            .map(|o| o.status.success())
+            .unwrap_or(false)
     });
     let Some(b) = browser else {
         eprintln!("skipped the headless-browser load: no chromium on PATH");
@@ -169,7 +205,13 @@ fn report_holds_every_figure_and_table_and_loads_in_a_browser_if_one_is_installe
     };
     let shot = d.path().join("shot.png");
     let o = std::process::Command::new(b)
-        .args(["--headless", "--no-sandbox", "--disable-gpu", &format!("--screenshot={}", shot.display()), "--window-size=1200,3000"])
+        .args([
+            "--headless",
+            "--no-sandbox",
+            "--disable-gpu",
+            &format!("--screenshot={}", shot.display()),
+            "--window-size=1200,3000",
+        ])
         .arg(format!("file://{}", out.join("report.html").display()))
         .output()
         .unwrap();
@@ -187,7 +229,10 @@ fn bad_project_folders_fail_with_exit_code_1_naming_the_problem() {
     assert!(String::from_utf8_lossy(&o.stderr).contains("no steps.csv"));
     fs::write(proj.join("steps.csv"), "specimen,site,step,dec,inc,moment\nA1,S1,0,10,40,1e-6\n").unwrap();
     fs::write(proj.join("sampling.csv"), "site,lat,lon,height\nS1,95,10,1\n").unwrap();
-    let o = cmd().args(["section", proj.to_str().unwrap(), "--out", d.path().join("o").to_str().unwrap(), "--quiet"]).output().unwrap();
+    let o = cmd()
+        .args(["section", proj.to_str().unwrap(), "--out", d.path().join("o").to_str().unwrap(), "--quiet"])
+        .output()
+        .unwrap();
     assert_eq!(o.status.code(), Some(1));
     let e = String::from_utf8_lossy(&o.stderr);
     assert!(e.contains("sampling.csv:2") && e.contains("'lat'"), "{e}");
@@ -201,7 +246,19 @@ fn stages_that_cannot_run_are_skipped_with_warnings_not_failures() {
     let d = tempfile::tempdir().unwrap();
     let proj = d.path().join("flat");
     let o = cmd()
-        .args(["simulate", "section", proj.to_str().unwrap(), "--seed", "3", "--base-age", "1.5", "--lat", "12", "--lon", "300"])
+        .args([
+            "simulate",
+            "section",
+            proj.to_str().unwrap(),
+            "--seed",
+            "3",
+            "--base-age",
+            "1.5",
+            "--lat",
+            "12",
+            "--lon",
+            "300",
+        ])
         .args(["--spacing", "1.5", "--specimens", "2", "--quiet"])
         .output()
         .unwrap();

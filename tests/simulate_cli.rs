@@ -40,11 +40,7 @@ const SECTION: &[&str] = &[
 ];
 
 fn simulate(out: &Path, extra: &[&str]) -> assert_cmd::assert::Assert {
-    cmd()
-        .args(["simulate", "section", out.to_str().unwrap()])
-        .args(SECTION)
-        .args(extra)
-        .assert()
+    cmd().args(["simulate", "section", out.to_str().unwrap()]).args(SECTION).args(extra).assert()
 }
 
 fn read_all(dir: &Path) -> BTreeMap<String, Vec<u8>> {
@@ -65,13 +61,7 @@ fn same_seed_gives_the_same_folder_byte_for_byte_on_any_thread_count() {
     let (fa, fb, fc) = (read_all(&a), read_all(&b), read_all(&c));
     assert_eq!(
         fa.keys().collect::<Vec<_>>(),
-        vec![
-            "sampling.csv",
-            "settings.toml",
-            "steps.csv",
-            "timescale.csv",
-            "truth.json"
-        ]
+        vec!["sampling.csv", "settings.toml", "steps.csv", "timescale.csv", "truth.json"]
     );
     assert_eq!(fa, fb);
     assert_ne!(fa["steps.csv"], fc["steps.csv"]);
@@ -115,11 +105,7 @@ fn every_file_passes_the_readers_and_agrees_with_the_truth() {
 fn site_means_recover_each_levels_field_within_its_confidence_cone() {
     let d = tempfile::tempdir().unwrap();
     let dir = d.path().join("kg");
-    simulate(
-        &dir,
-        &["--seed", "12", "--quiet", "--kappa", "30", "--level-kappa", "40"],
-    )
-    .success();
+    simulate(&dir, &["--seed", "12", "--quiet", "--kappa", "30", "--level-kappa", "40"]).success();
     let steps = Table::read(&dir.join("steps.csv")).unwrap();
     let set = read_directions(&steps, &GroupBy::Default).unwrap();
     let sampling = Table::read(&dir.join("sampling.csv")).unwrap();
@@ -127,12 +113,7 @@ fn site_means_recover_each_levels_field_within_its_confidence_cone() {
     let bedding: BTreeMap<String, _> = sampling
         .rows
         .iter()
-        .map(|r| {
-            (
-                sampling.text(r, site_col).to_string(),
-                read_bedding(&sampling, r).unwrap().unwrap(),
-            )
-        })
+        .map(|r| (sampling.text(r, site_col).to_string(), read_bedding(&sampling, r).unwrap().unwrap()))
         .collect();
     // At 400 °C the overprint (unblocked by 300 °C) is gone: the step holds the characteristic
     // direction plus noise. Untilt it with the level's bedding and average per site.
@@ -143,10 +124,7 @@ fn site_means_recover_each_levels_field_within_its_confidence_cone() {
         if steps.number(row, step_col).unwrap() == 400.0 {
             let site = rec.site.clone().unwrap();
             let v: Vec3 = bedding[&site].untilt(rec.direction.to_vector());
-            by_site
-                .entry(site)
-                .or_default()
-                .push(Direction::from_vector(v).unwrap());
+            by_site.entry(site).or_default().push(Direction::from_vector(v).unwrap());
         }
     }
     let truth: serde_json::Value = serde_json::from_slice(&fs::read(dir.join("truth.json")).unwrap()).unwrap();
@@ -154,11 +132,8 @@ fn site_means_recover_each_levels_field_within_its_confidence_cone() {
     let levels = truth["levels"].as_array().unwrap();
     for lv in levels {
         let f = fisher_mean(&by_site[lv["site"].as_str().unwrap()], 0.95).unwrap();
-        let t = Direction::new(
-            lv["field_tilt"]["dec"].as_f64().unwrap(),
-            lv["field_tilt"]["inc"].as_f64().unwrap(),
-        )
-        .unwrap();
+        let t = Direction::new(lv["field_tilt"]["dec"].as_f64().unwrap(), lv["field_tilt"]["inc"].as_f64().unwrap())
+            .unwrap();
         if f.mean.unwrap().angle_to(t) <= f.alpha.unwrap_or(180.0) {
             inside += 1;
         }
@@ -166,11 +141,7 @@ fn site_means_recover_each_levels_field_within_its_confidence_cone() {
     // Fisher's α95 covers the true mean in 95 % of samples (Fisher 1953): of 134 sites about 127
     // should be inside; the binomial standard deviation is 2.5 sites, so require at least 117.
     eprintln!("{inside} of {} sites hold the true field in their α95", levels.len());
-    assert!(
-        inside >= 117,
-        "{inside} of {} sites hold the true field in their α95",
-        levels.len()
-    );
+    assert!(inside >= 117, "{inside} of {} sites hold the true field in their α95", levels.len());
 }
 
 #[test]
@@ -179,10 +150,7 @@ fn refuses_a_non_empty_folder_without_force_and_writes_nothing_on_bad_input() {
     let dir = d.path().join("kg");
     fs::create_dir(&dir).unwrap();
     fs::write(dir.join("notes.txt"), "field notebook").unwrap();
-    simulate(&dir, &["--quiet"])
-        .failure()
-        .code(1)
-        .stderr(predicates::str::contains("not empty"));
+    simulate(&dir, &["--quiet"]).failure().code(1).stderr(predicates::str::contains("not empty"));
     assert!(!dir.join("steps.csv").exists());
     simulate(&dir, &["--quiet", "--force"]).success();
     assert!(dir.join("steps.csv").exists());
@@ -196,14 +164,8 @@ fn refuses_a_non_empty_folder_without_force_and_writes_nothing_on_bad_input() {
         .stderr(predicates::str::contains("time scale covers"));
     assert!(!none.exists());
     // Bad option values: exit 1 with a reason; an unknown model name is a command-line error (2).
-    simulate(&none, &["--steps", "0,100,x"])
-        .failure()
-        .code(1)
-        .stderr(predicates::str::contains("--steps"));
-    simulate(&none, &["--kappa", "0"])
-        .failure()
-        .code(1)
-        .stderr(predicates::str::contains("kappa"));
+    simulate(&none, &["--steps", "0,100,x"]).failure().code(1).stderr(predicates::str::contains("--steps"));
+    simulate(&none, &["--kappa", "0"]).failure().code(1).stderr(predicates::str::contains("kappa"));
     simulate(&none, &["--model", "pareto"]).failure().code(2);
     assert!(!none.exists());
 }
@@ -230,18 +192,7 @@ fn a_given_time_scale_is_sampled_and_copied() {
             "--rates",
             "2",
         ])
-        .args([
-            "--spacing",
-            "0.5",
-            "--lat",
-            "52",
-            "--lon",
-            "-4",
-            "--core",
-            "--format",
-            "json",
-            "--quiet",
-        ])
+        .args(["--spacing", "0.5", "--lat", "52", "--lon", "-4", "--core", "--format", "json", "--quiet"])
         .output()
         .unwrap();
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
@@ -322,22 +273,9 @@ fn timescale_verb_writes_a_valid_table_whose_mean_approaches_the_model() {
     let back = TimeScale::from_table(&Table::read(&f).unwrap()).unwrap();
     assert_eq!(back.chrons.len() as u64, v["n_chrons"].as_u64().unwrap());
     assert_eq!(back.chrons[0].name.as_deref(), Some("Z1"));
+    cmd().args(["simulate", "timescale", "--span", "5", "--out", f.to_str().unwrap()]).assert().failure().code(1);
     cmd()
-        .args(["simulate", "timescale", "--span", "5", "--out", f.to_str().unwrap()])
-        .assert()
-        .failure()
-        .code(1);
-    cmd()
-        .args([
-            "simulate",
-            "timescale",
-            "--model",
-            "exponential",
-            "--shape",
-            "2",
-            "--span",
-            "5",
-        ])
+        .args(["simulate", "timescale", "--model", "exponential", "--shape", "2", "--span", "5"])
         .assert()
         .failure()
         .code(1);

@@ -55,7 +55,10 @@ fn column_csv_feeds_correlate_and_the_demo_section_is_recovered() {
     let out = cmd().args(["column", DEMO, "--format", "csv"]).output().unwrap();
     assert!(out.status.success());
     let csv = String::from_utf8(out.stdout).unwrap();
-    assert!(csv.starts_with("zone,polarity,n_levels,status,base,base_low,base_high,top,top_low,top_high,axis\n"), "{csv}");
+    assert!(
+        csv.starts_with("zone,polarity,n_levels,status,base,base_low,base_high,top,top_low,top_high,axis\n"),
+        "{csv}"
+    );
     let zones = write(&d, "zones.csv", &csv);
     let svg = d.path().join("c.svg");
     let out = cmd()
@@ -88,30 +91,57 @@ fn column_csv_feeds_correlate_and_the_demo_section_is_recovered() {
 
 #[test]
 fn anchors_are_parsed_and_checked() {
-    cmd().args(["correlate", DEMO, SCALE, "--anchor", "30:x"]).assert().code(1).stderr(predicate::str::contains("not a number"));
+    cmd()
+        .args(["correlate", DEMO, SCALE, "--anchor", "30:x"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("not a number"));
     // An anchor of 50 Ma excludes every candidate of a 0-6 Ma scale.
-    cmd().args(["correlate", DEMO, SCALE, "--anchor", "30:50"]).assert().code(1).stderr(predicate::str::contains("anchors exclude"));
+    cmd()
+        .args(["correlate", DEMO, SCALE, "--anchor", "30:50"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("anchors exclude"));
 }
 
 #[test]
 fn bad_inputs_get_clear_messages() {
     let d = tempfile::tempdir().unwrap();
     let dup = write(&d, "dup.csv", "height,vgp_lat\n1,70\n2,-70\n1,60\n");
-    cmd().args(["column", dup.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["column", dup.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicate::str::contains("dup.csv:4: column 'height'").and(predicate::str::contains("repeats line 2")));
     let z = write(&d, "z.csv", "height,vgp_lat\n1,70\n2,-70\n3,60\n");
     let gap = write(&d, "gap.csv", "young,old,polarity\n0,1,N\n1.2,2,R\n");
-    cmd().args(["correlate", z.to_str().unwrap(), gap.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["correlate", z.to_str().unwrap(), gap.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicate::str::contains("gap.csv:3").and(predicate::str::contains("a gap between line 2")));
     let over = write(&d, "over.csv", "young,old,polarity\n0,1,N\n0.8,2,R\n");
-    cmd().args(["correlate", z.to_str().unwrap(), over.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["correlate", z.to_str().unwrap(), over.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicate::str::contains("an overlap"));
     let code = write(&d, "code.csv", "young,old,polarity\n0,1,N\n1,2,Q\n");
-    cmd().args(["correlate", z.to_str().unwrap(), code.to_str().unwrap()]).assert().code(1)
+    cmd()
+        .args(["correlate", z.to_str().unwrap(), code.to_str().unwrap()])
+        .assert()
+        .code(1)
         .stderr(predicate::str::contains("code.csv:3: column 'polarity': 'Q' is not a polarity code"));
     let zt = write(&d, "zt.csv", "polarity,n_levels,base,base_low,base_high,top,top_low,top_high\nX,2,0,0,0,1,1,2\n");
-    cmd().args(["correlate", zt.to_str().unwrap(), SCALE]).assert().code(1)
+    cmd()
+        .args(["correlate", zt.to_str().unwrap(), SCALE])
+        .assert()
+        .code(1)
         .stderr(predicate::str::contains("zt.csv:2: column 'polarity'"));
     let thr = write(&d, "t.csv", "height,vgp_lat\n1,70\n");
-    cmd().args(["column", thr.to_str().unwrap(), "--threshold", "0"]).assert().code(1).stderr(predicate::str::contains("threshold"));
+    cmd()
+        .args(["column", thr.to_str().unwrap(), "--threshold", "0"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("threshold"));
 }

@@ -4,7 +4,9 @@ use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::ColumnFigure;
-use lodestone::strat::{read_levels, status_word, zone_levels, LevelOptions, LevelSet, ZoneColumn, ZonePolarity, ZONE_COLUMNS};
+use lodestone::strat::{
+    read_levels, status_word, zone_levels, LevelOptions, LevelSet, ZoneColumn, ZonePolarity, ZONE_COLUMNS,
+};
 use lodestone::table::Table;
 use serde_json::{json, Value};
 use std::path::PathBuf;
@@ -60,10 +62,20 @@ pub fn run(a: ColumnArgs, ctx: &mut Ctx) -> Result<Report> {
     let set = read_levels(&table, LevelOptions { in_situ: a.in_situ })?;
     let (pol, col) = zone_levels(&set, a.threshold, a.min_levels)?;
     let axis = set.axis.column();
-    let mut lev = Section::new(&format!("Levels of {} (VGP threshold {}°)", a.file.display(), a.threshold), &[axis, "vgp_lat", "polarity", "n", "a95", "mad"]);
+    let mut lev = Section::new(
+        &format!("Levels of {} (VGP threshold {}°)", a.file.display(), a.threshold),
+        &[axis, "vgp_lat", "polarity", "n", "a95", "mad"],
+    );
     let mut levels = Vec::new();
     for (l, p) in set.levels.iter().zip(&pol) {
-        lev.rows.push(vec![Cell::Num(l.position, 3), Cell::Num(l.vgp_lat, 1), Cell::Text(p.code().into()), Cell::Int(l.n as i64), Cell::opt(l.a95, 1), Cell::opt(l.mad, 1)]);
+        lev.rows.push(vec![
+            Cell::Num(l.position, 3),
+            Cell::Num(l.vgp_lat, 1),
+            Cell::Text(p.code().into()),
+            Cell::Int(l.n as i64),
+            Cell::opt(l.a95, 1),
+            Cell::opt(l.mad, 1),
+        ]);
         levels.push(json!({axis: l.position, "vgp_lat": l.vgp_lat, "polarity": p.code(), "n": l.n, "a95": jnum(l.a95), "mad": jnum(l.mad), "lines": l.lines}));
     }
     let (zsec, zones) = zones_section(&col, &format!("Magnetozones (listed by increasing {axis})"));
@@ -71,7 +83,10 @@ pub fn run(a: ColumnArgs, ctx: &mut Ctx) -> Result<Report> {
     notes.extend(column_notes(&set, &col, a.threshold, a.min_levels));
     if let Some(path) = &a.plot {
         let fig = ColumnFigure {
-            title: format!("Polarity column — {}", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()),
+            title: format!(
+                "Polarity column — {}",
+                a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
+            ),
             axis: set.axis,
             zones: col.zones.clone(),
             levels: set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect(),

@@ -66,16 +66,8 @@ pub enum PlotFormat {
 
 /// A file name made from a specimen name: letters, digits, `.`, `-`, `_` kept; anything else `_`.
 fn sanitise(name: &str) -> String {
-    let s: String = name
-        .chars()
-        .map(|c| {
-            if c.is_ascii_alphanumeric() || "-_.".contains(c) {
-                c
-            } else {
-                '_'
-            }
-        })
-        .collect();
+    let s: String =
+        name.chars().map(|c| if c.is_ascii_alphanumeric() || "-_.".contains(c) { c } else { '_' }).collect();
     let s = s.trim_start_matches('.').to_string();
     if s.is_empty() {
         "specimen".into()
@@ -105,11 +97,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         ctx.inputs.add(p);
     }
     let set: StepSet = read_steps(&Table::read(&a.steps)?)?;
-    let anchor = if a.anchor {
-        Anchor::Origin
-    } else {
-        Anchor::Free
-    };
+    let anchor = if a.anchor { Anchor::Origin } else { Anchor::Free };
     let mut fits: Vec<SpecimenFit> = Vec::new();
     let mut unfitted: Vec<(String, String)> = Vec::new();
     let mut notes = Vec::new();
@@ -132,17 +120,13 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         }
     } else if a.auto {
         method = "auto";
-        let rule = AutoRule {
-            min_steps: a.min_steps,
-            max_mad: a.max_mad,
-            max_dang: a.max_dang,
-            anchor,
-        };
+        let rule = AutoRule { min_steps: a.min_steps, max_mad: a.max_mad, max_dang: a.max_dang, anchor };
         notes.push(format!(
             "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
              among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
             rule.min_steps, anchor.as_str(), rule.max_mad, rule.max_dang));
-        rule_json = json!({"min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
+        rule_json =
+            json!({"min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
         for sp in &set.specimens {
             match auto_line(sp, &rule) {
                 AutoOutcome::Fitted(f) => fits.push(f),
@@ -164,31 +148,20 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
                 Ok(f) => fits.push(f),
                 Err(e) => unfitted.push((
                     sp.specimen.clone(),
-                    e.to_string()
-                        .trim_start_matches(&format!("specimen {}: ", sp.specimen))
-                        .to_string(),
+                    e.to_string().trim_start_matches(&format!("specimen {}: ", sp.specimen)).to_string(),
                 )),
             }
         }
     }
     let axis = set.axis;
-    let mut columns = vec![
-        "specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang",
-    ];
+    let mut columns = vec!["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"];
     if let Some(ax) = axis {
         columns.push(ax.column());
     }
     if set.has_bedding {
         columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
     }
-    let mut sec = Section::new(
-        &format!(
-            "Principal components of {} ({} fits)",
-            a.steps.display(),
-            method
-        ),
-        &columns,
-    );
+    let mut sec = Section::new(&format!("Principal components of {} ({} fits)", a.steps.display(), method), &columns);
     let mut fits_json = Vec::new();
     for f in &fits {
         let sp = set.get(&f.specimen).expect("fitted specimen exists");
@@ -211,14 +184,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         if set.has_bedding {
             row.push(Cell::opt(sp.bedding.map(|b| b.dip_dir), 1));
             row.push(Cell::opt(sp.bedding.map(|b| b.dip), 1));
-            row.push(Cell::Text(
-                if sp.bedding.is_some_and(|b| b.overturned) {
-                    "yes"
-                } else {
-                    "no"
-                }
-                .into(),
-            ));
+            row.push(Cell::Text(if sp.bedding.is_some_and(|b| b.overturned) { "yes" } else { "no" }.into()));
         }
         sec.rows.push(row);
         let mut j = json!({
@@ -234,20 +200,19 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     if !unfitted.is_empty() {
         let mut u = Section::new("Specimens not fitted", &["specimen", "reason"]);
         for (s, why) in &unfitted {
-            u.rows
-                .push(vec![Cell::Text(s.clone()), Cell::Text(why.clone())]);
+            u.rows.push(vec![Cell::Text(s.clone()), Cell::Text(why.clone())]);
             notes.push(format!("{s}: not fitted: {why}."));
         }
         sections.push(u);
     }
-    if fits
-        .iter()
-        .any(|f| f.kind == FitKind::Line && f.anchor == Anchor::Free)
-    {
+    if fits.iter().any(|f| f.kind == FitKind::Line && f.anchor == Anchor::Free) {
         notes.push("Free lines point from the last step used toward the first (the component removed over the range); anchored lines point from the origin toward the steps.".into());
     }
     if fits.iter().any(|f| f.kind == FitKind::Plane) {
-        notes.push("For planes, dec and inc give the pole of the great circle; `lodestone mean` combines them with lines.".into());
+        notes.push(
+            "For planes, dec and inc give the pole of the great circle; `lodestone mean` combines them with lines."
+                .into(),
+        );
     }
     if let Some(dir) = &a.plot {
         write_plots(dir, &set, &fits, a.plot_format, a.force, ctx)?;
@@ -294,11 +259,7 @@ fn write_plots(
             specimen: sp.specimen.clone(),
             unit: unit_of(sp).into(),
             steps: sp.steps.iter().map(|s| (s.step, s.vector())).collect(),
-            fits: fits
-                .iter()
-                .filter(|f| f.specimen == sp.specimen)
-                .cloned()
-                .collect(),
+            fits: fits.iter().filter(|f| f.specimen == sp.specimen).cloned().collect(),
         };
         super::write_figure(&fig, &dir.join(format!("{name}.{ext}")), &ctx.inputs)?;
     }

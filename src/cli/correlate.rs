@@ -82,7 +82,12 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
         let set = read_levels(&zt, LevelOptions::default())?;
         notes.extend(set.notes.clone());
         let (_, col) = zone_levels(&set, a.threshold, a.min_levels)?;
-        notes.push(format!("{} was read as a levels table and zoned with threshold {}° and min-levels {}.", a.zones.display(), a.threshold, a.min_levels));
+        notes.push(format!(
+            "{} was read as a levels table and zoned with threshold {}° and min-levels {}.",
+            a.zones.display(),
+            a.threshold,
+            a.min_levels
+        ));
         (col, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect())
     };
     let opts = CorrelateOptions {
@@ -99,19 +104,32 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
         &format!("Correlations of {} with {} (lower score is better)", a.zones.display(), a.timescale.display()),
         &["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
     );
-    let mut ties_sec = Section::new("Tie points of every candidate", &["rank", axis, "low", "high", "age", "chron_above", "chron_below"]);
+    let mut ties_sec = Section::new(
+        "Tie points of every candidate",
+        &["rank", axis, "low", "high", "age", "chron_above", "chron_below"],
+    );
     let mut cands = Vec::new();
     for c in &res.candidates {
         let am = &c.age_model;
         summary.rows.push(vec![
-            Cell::Int(c.rank as i64), Cell::Num(c.score, 2), Cell::Num(c.mean_rate, 2), Cell::Int(c.ties.len() as i64),
-            Cell::Int(c.missing_chrons as i64), Cell::Int(c.skipped_zones as i64),
-            Cell::Num(am[0].age, 3), Cell::Num(am[am.len() - 1].age, 3),
+            Cell::Int(c.rank as i64),
+            Cell::Num(c.score, 2),
+            Cell::Num(c.mean_rate, 2),
+            Cell::Int(c.ties.len() as i64),
+            Cell::Int(c.missing_chrons as i64),
+            Cell::Int(c.skipped_zones as i64),
+            Cell::Num(am[0].age, 3),
+            Cell::Num(am[am.len() - 1].age, 3),
         ]);
         for t in &c.ties {
             ties_sec.rows.push(vec![
-                Cell::Int(c.rank as i64), Cell::Num(t.position, 3), Cell::Num(t.low, 3), Cell::Num(t.high, 3), Cell::Num(t.age, 3),
-                Cell::Text(t.chron_above.clone()), Cell::Text(t.chron_below.clone()),
+                Cell::Int(c.rank as i64),
+                Cell::Num(t.position, 3),
+                Cell::Num(t.low, 3),
+                Cell::Num(t.high, 3),
+                Cell::Num(t.age, 3),
+                Cell::Text(t.chron_above.clone()),
+                Cell::Text(t.chron_below.clone()),
             ]);
         }
         cands.push(json!({
@@ -126,11 +144,19 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
         }));
     }
     let best = &res.candidates[0];
-    let mut runs = Section::new("Age model of the best candidate: runs and accumulation rates (cm/kyr)", &["top", "base", "age_young", "age_old", "rate", "reading", "missing"]);
+    let mut runs = Section::new(
+        "Age model of the best candidate: runs and accumulation rates (cm/kyr)",
+        &["top", "base", "age_young", "age_old", "rate", "reading", "missing"],
+    );
     for r in &best.runs {
         runs.rows.push(vec![
-            Cell::Num(r.top, 3), Cell::Num(r.base, 3), Cell::Num(r.age_young, 3), Cell::Num(r.age_old, 3), Cell::opt(r.rate, 2),
-            Cell::Text(format!("{:?}", r.reading).to_lowercase()), Cell::Text(r.missing.join(" ")),
+            Cell::Num(r.top, 3),
+            Cell::Num(r.base, 3),
+            Cell::Num(r.age_young, 3),
+            Cell::Num(r.age_old, 3),
+            Cell::opt(r.rate, 2),
+            Cell::Text(format!("{:?}", r.reading).to_lowercase()),
+            Cell::Text(r.missing.join(" ")),
         ]);
     }
     let sentence = comparison_sentence(&res);
@@ -141,16 +167,24 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     notes.push("End runs have no rate of their own: their ages are extrapolated at the candidate's mean rate. Rates between ties use boundary midpoints; each boundary may lie anywhere in its sampling gap.".into());
     notes.push("Caution: the ranking is a statistical statement about a steady-rate model, not proof of the correlation. Independent age control (dated beds as --anchor, biostratigraphy), local practice and the published literature decide.".into());
     if let Some(path) = &a.plot {
-        let (y0, y1) = best.age_model.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
+        let (y0, y1) =
+            best.age_model.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
         let shown = ts.chrons.iter().filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05).cloned().collect();
         let fig = ColumnFigure {
-            title: format!("{} against {}", a.zones.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
-                a.timescale.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()),
+            title: format!(
+                "{} against {}",
+                a.zones.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
+                a.timescale.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
+            ),
             axis: col.axis,
             zones: col.zones.clone(),
             levels,
             threshold: Some(a.threshold),
-            scale: Some(ScalePanel { chrons: shown, ties: best.ties.iter().map(|t| (t.position, t.age)).collect(), label: "candidate 1".into() }),
+            scale: Some(ScalePanel {
+                chrons: shown,
+                ties: best.ties.iter().map(|t| (t.position, t.age)).collect(),
+                label: "candidate 1".into(),
+            }),
         };
         super::write_figure(&fig, path, &ctx.inputs)?;
     }

@@ -50,7 +50,12 @@ pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Report> {
             let m = vadm(intensity, lat)?;
             notes.push(format!("VADM assumes a geocentric axial dipole at the site's present latitude; Earth radius {EARTH_RADIUS_M} m, μ0 = 4π × 10⁻⁷ H/m."));
             let mut s = Section::new("Virtual axial dipole moment", &["kind", "intensity_ut", "lat", "moment"]);
-            s.rows.push(vec![Cell::Text("vadm".into()), Cell::Num(intensity, 2), Cell::Num(lat, 2), Cell::Text(format!("{m:.4e}"))]);
+            s.rows.push(vec![
+                Cell::Text("vadm".into()),
+                Cell::Num(intensity, 2),
+                Cell::Num(lat, 2),
+                Cell::Text(format!("{m:.4e}")),
+            ]);
             (json!({"kind": "vadm", "intensity": intensity, "lat": lat, "moment": m, "radius_m": EARTH_RADIUS_M}), s)
         }
         DipoleWhat::Vdm { intensity, inc } => {
@@ -58,8 +63,17 @@ pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Report> {
             let plat = lodestone::poles::paleolatitude_range(inc, 0.0)?.paleolat;
             notes.push(format!("VDM uses the magnetic (paleo)latitude {plat:.2}° from tan I = 2 tan λ; Earth radius {EARTH_RADIUS_M} m, μ0 = 4π × 10⁻⁷ H/m."));
             let mut s = Section::new("Virtual dipole moment", &["kind", "intensity_ut", "inc", "paleolat", "moment"]);
-            s.rows.push(vec![Cell::Text("vdm".into()), Cell::Num(intensity, 2), Cell::Num(inc, 2), Cell::Num(plat, 2), Cell::Text(format!("{m:.4e}"))]);
-            (json!({"kind": "vdm", "intensity": intensity, "inc": inc, "paleolat": plat, "moment": m, "radius_m": EARTH_RADIUS_M}), s)
+            s.rows.push(vec![
+                Cell::Text("vdm".into()),
+                Cell::Num(intensity, 2),
+                Cell::Num(inc, 2),
+                Cell::Num(plat, 2),
+                Cell::Text(format!("{m:.4e}")),
+            ]);
+            (
+                json!({"kind": "vdm", "intensity": intensity, "inc": inc, "paleolat": plat, "moment": m, "radius_m": EARTH_RADIUS_M}),
+                s,
+            )
         }
         DipoleWhat::Gauss { g10, g11, h11 } => {
             let d = gauss_dipole(g10, g11, h11)?;

@@ -39,7 +39,20 @@ pub fn run(a: ExpectedArgs, ctx: &mut Ctx) -> Result<Report> {
     }
     let mut sec = Section::new(
         &format!("Expected directions from the pole {:.2}°, {:.2}°E", pole.lat, pole.lon),
-        &["site", "lat", "lon", "dec", "inc", "delta_dec", "delta_inc", "obs_dec", "obs_inc", "angle", "rotation", "flattening"],
+        &[
+            "site",
+            "lat",
+            "lon",
+            "dec",
+            "inc",
+            "delta_dec",
+            "delta_inc",
+            "obs_dec",
+            "obs_inc",
+            "angle",
+            "rotation",
+            "flattening",
+        ],
     );
     let mut rows = Vec::new();
     let mut add = |name: String, site: GeoPoint, obs: Option<lodestone::sphere::Direction>| -> Result<()> {

@@ -56,10 +56,7 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Report> {
         Err(e) => notes.push(format!("No bootstrap interval for the averaged probability: {e}")),
     }
     let mut sec = Section::new(
-        &format!(
-            "Hazard at {elapsed} Myr since the last reversal; P(reversal within {} Myr | none so far)",
-            a.horizon
-        ),
+        &format!("Hazard at {elapsed} Myr since the last reversal; P(reversal within {} Myr | none so far)", a.horizon),
         &[],
     );
     sec.columns = ["model"]

@@ -32,12 +32,8 @@ impl Window {
     pub fn load(&self, ctx: &mut Ctx) -> Result<IntervalRecord> {
         ctx.inputs.add(&self.timescale);
         let ts = TimeScale::from_table(&Table::read(&self.timescale)?)?;
-        let opt = IntervalOptions {
-            from: self.from,
-            to: self.to,
-            min_length: self.min_length,
-            censor: !self.no_censor,
-        };
+        let opt =
+            IntervalOptions { from: self.from, to: self.to, min_length: self.min_length, censor: !self.no_censor };
         Ok(reversals::intervals(&ts, &opt)?)
     }
 }
@@ -52,10 +48,7 @@ pub fn record_notes(rec: &IntervalRecord, file: &Path) -> Vec<String> {
         rec.to
     )];
     if rec.joined > 0 {
-        n.push(format!(
-            "{} adjacent chrons of the same polarity were joined into single intervals.",
-            rec.joined
-        ));
+        n.push(format!("{} adjacent chrons of the same polarity were joined into single intervals.", rec.joined));
     }
     if rec.merged_short > 0 {
         n.push(format!(
@@ -97,10 +90,7 @@ pub const PARAM_COLUMNS: [&str; 6] = ["rate", "shape", "scale", "mu", "sigma", "
 /// Cells for [`PARAM_COLUMNS`].
 pub fn param_cells(f: &lodestone::reversals::Fitted) -> Vec<Cell> {
     let named = f.named_params();
-    PARAM_COLUMNS
-        .iter()
-        .map(|c| Cell::opt(named.iter().find(|(k, _)| k == c).map(|p| p.1), 4))
-        .collect()
+    PARAM_COLUMNS.iter().map(|c| Cell::opt(named.iter().find(|(k, _)| k == c).map(|p| p.1), 4)).collect()
 }
 
 #[derive(Debug, Args)]

@@ -8,7 +8,9 @@ use super::{jnum, Cell, Ctx, Output, Section, StreamedReport};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
-use lodestone::stats::{group_means, stream_group_sums, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums};
+use lodestone::stats::{
+    group_means, stream_group_sums, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums,
+};
 use lodestone::table::{read_directions, GroupBy, Table, TableStream};
 use serde::ser::{Error as _, SerializeSeq, Serializer};
 use serde::Serialize;
@@ -66,7 +68,8 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     if a.plot.is_none() {
         let mut stream = TableStream::open(&a.file)?;
         let keep_lines = ctx.global.format == super::Format::Json;
-        if let StreamedSums::Sums { group_column, groups, .. } = stream_group_sums(&mut stream, &by, frame, keep_lines)? {
+        if let StreamedSums::Sums { group_column, groups, .. } = stream_group_sums(&mut stream, &by, frame, keep_lines)?
+        {
             streamed = Some((Groups::Sums(groups), group_column));
         }
     }
@@ -78,8 +81,11 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
             let means = group_means(&set, frame, A95)?;
             if let Some(path) = &a.plot {
                 let fig = EqualAreaPlot {
-                    title: format!("{} — {} coordinates", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
-                        if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }),
+                    title: format!(
+                        "{} — {} coordinates",
+                        a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
+                        if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }
+                    ),
                     cone_label: "α95".into(),
                     groups: means
                         .iter()
@@ -91,7 +97,10 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
                                 .filter_map(|l| set.records.iter().find(|r| r.line == *l))
                                 .map(|r| match frame {
                                     Frame::Geo => r.direction,
-                                    Frame::Tilt => lodestone::sphere::Direction::from_vector(r.bedding.expect("checked").untilt(r.direction.to_vector())).expect("unit"),
+                                    Frame::Tilt => lodestone::sphere::Direction::from_vector(
+                                        r.bedding.expect("checked").untilt(r.direction.to_vector()),
+                                    )
+                                    .expect("unit"),
                                 })
                                 .collect(),
                             mean: g.stats.mean.map(|m| (m, g.stats.alpha)),
@@ -105,7 +114,11 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     };
     let other = (a.confidence - 0.95).abs() > 1e-12;
     let mut head = Section::new(
-        &format!("Fisher means ({} coordinates) of {}", if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }, a.file.display()),
+        &format!(
+            "Fisher means ({} coordinates) of {}",
+            if frame == Frame::Geo { "geographic" } else { "tilt-corrected" },
+            a.file.display()
+        ),
         &["group", "n", "dec", "inc", "r", "k", "a95", "theta63"],
     );
     if other {
@@ -165,7 +178,13 @@ impl MeanOutput {
     fn views(&self) -> Box<dyn Iterator<Item = lodestone::error::Result<GroupView<'_>>> + '_> {
         match &self.groups {
             Groups::Sums(s) => Box::new(s.iter().map(|g| {
-                Ok(GroupView { group: g.group, stats: g.stats(A95)?, planes: 0, undefined: None, lines: Lines::Runs(g) })
+                Ok(GroupView {
+                    group: g.group,
+                    stats: g.stats(A95)?,
+                    planes: 0,
+                    undefined: None,
+                    lines: Lines::Runs(g),
+                })
             })),
             Groups::Whole(m) => Box::new(m.iter().map(|g| {
                 Ok(GroupView {

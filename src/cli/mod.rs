@@ -2,20 +2,20 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
-mod dipole;
-mod expected;
-mod components;
 mod column;
+mod components;
 mod correlate;
 mod demo;
-mod io;
-mod mean;
-mod poles;
+mod dipole;
+mod expected;
 mod hazard;
 mod intervals;
-mod rate;
+mod io;
+mod mean;
 mod output;
+mod poles;
 mod progress;
+mod rate;
 mod section;
 mod simulate;
 mod test;
@@ -128,7 +128,9 @@ pub fn run() -> i32 {
             let stdout = std::io::stdout();
             let stderr = std::io::stderr();
             let mut out = std::io::BufWriter::new(stdout.lock());
-            match write_output(&report, ctx.global.format, &mut out, &mut stderr.lock()).and_then(|()| std::io::Write::flush(&mut out)) {
+            match write_output(&report, ctx.global.format, &mut out, &mut stderr.lock())
+                .and_then(|()| std::io::Write::flush(&mut out))
+            {
                 Ok(()) => 0,
                 Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => 0,
                 Err(e) => {

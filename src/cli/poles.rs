@@ -119,7 +119,13 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
 
     let pp = paleopole(&averaged)?;
     let mut pole_sec = Section::new("Paleopole (Fisher mean of the VGPs)", &["n", "plat", "plon", "k", "a95"]);
-    pole_sec.rows.push(vec![Cell::Int(pp.n as i64), Cell::Num(pp.pole.lat, 1), Cell::Num(pp.pole.lon, 1), Cell::Num(pp.k.0, 1), Cell::opt(pp.a95, 1)]);
+    pole_sec.rows.push(vec![
+        Cell::Int(pp.n as i64),
+        Cell::Num(pp.pole.lat, 1),
+        Cell::Num(pp.pole.lon, 1),
+        Cell::Num(pp.k.0, 1),
+        Cell::opt(pp.a95, 1),
+    ]);
 
     let sc = vgp_scatter(&scatter_sites, cutoff)?;
     let kept: Vec<ScatterSite> = scatter_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
@@ -143,7 +149,8 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         Cell::Int(sc.n_removed as i64),
         Cell::opt(sc.threshold, 1),
     ]);
-    let removed: Vec<&str> = set.records.iter().zip(&sc.kept).filter(|(_, k)| !**k).map(|(r, _)| r.site.as_str()).collect();
+    let removed: Vec<&str> =
+        set.records.iter().zip(&sc.kept).filter(|(_, k)| !**k).map(|(r, _)| r.site.as_str()).collect();
     for (j, keep) in sites_json.iter_mut().zip(&sc.kept) {
         j["kept"] = json!(keep);
     }
@@ -160,7 +167,11 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
     }
     notes.push("VGPs and the paleopole rest on a model: a geocentric dipole field at each site, averaged over enough time for secular variation to cancel; the paleopole uses every site (the cutoff applies to the scatter only).".into());
     if !missing_oval.is_empty() {
-        notes.push(format!("dp, dm and the paleolatitude range are empty for {} site(s) without a95 (or n and k): {}.", missing_oval.len(), missing_oval.join(", ")));
+        notes.push(format!(
+            "dp, dm and the paleolatitude range are empty for {} site(s) without a95 (or n and k): {}.",
+            missing_oval.len(),
+            missing_oval.join(", ")
+        ));
     }
     notes.push(format!(
         "Scatter: VGPs in the southern hemisphere are mapped to the north for the scatter; cutoff {cut_name} removed {} of {} site(s){}.",
@@ -176,7 +187,10 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         _ => {}
     }
     if boot.n_negative > 0 {
-        notes.push(format!("{} of {} bootstrap resamples had a negative S_B² and count as 0.", boot.n_negative, boot.resamples));
+        notes.push(format!(
+            "{} of {} bootstrap resamples had a negative S_B² and count as 0.",
+            boot.n_negative, boot.resamples
+        ));
     }
     notes.push(format!(
         "The scatter interval is a seeded bootstrap over sites (seed {}, {} resamples, 95 % percentile); it depends on the cutoff and on how sites were chosen, and is a statement about this sample, not about the field itself.",
@@ -185,7 +199,10 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
 
     if let Some(path) = &a.plot {
         let fig = PolePlot {
-            title: format!("VGPs — {}", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()),
+            title: format!(
+                "VGPs — {}",
+                a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
+            ),
             centre: pp.pole,
             vgps: averaged
                 .iter()

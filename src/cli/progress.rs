@@ -25,7 +25,10 @@ impl lodestone::montecarlo::Progress for Bar {
         }
         // Hidden at first: runs shorter than about a second never show a bar.
         let b = ProgressBar::with_draw_target(Some(total), ProgressDrawTarget::hidden());
-        b.set_style(ProgressStyle::with_template("{msg} [{bar:30}] {pos}/{len} ({eta})").unwrap_or_else(|_| ProgressStyle::default_bar()));
+        b.set_style(
+            ProgressStyle::with_template("{msg} [{bar:30}] {pos}/{len} ({eta})")
+                .unwrap_or_else(|_| ProgressStyle::default_bar()),
+        );
         b.set_message(label.to_string());
         *self.bar.lock().unwrap_or_else(|e| e.into_inner()) = Some(b);
     }

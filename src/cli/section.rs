@@ -64,11 +64,18 @@ pub fn run_project(project: Project, out: &Path, force: bool, ctx: &mut Ctx) -> 
 fn summary(res: &SectionRun, title: &str, out: &Path, n_files: usize) -> Report {
     let mut sec = Section::new(&format!("Section {title}: stages"), &["stage", "ran", "result"]);
     for st in &res.stages {
-        sec.rows.push(vec![Cell::Text(st.name.clone()), Cell::Text(if st.ran { "yes" } else { "no" }.into()), Cell::Text(st.result.clone())]);
+        sec.rows.push(vec![
+            Cell::Text(st.name.clone()),
+            Cell::Text(if st.ran { "yes" } else { "no" }.into()),
+            Cell::Text(st.result.clone()),
+        ]);
     }
     let mut notes: Vec<String> = res.warnings.clone();
     if !res.rejected.is_empty() {
-        notes.push(format!("{} specimen(s) or site(s) rejected: see tables/rejected.csv and the report.", res.rejected.len()));
+        notes.push(format!(
+            "{} specimen(s) or site(s) rejected: see tables/rejected.csv and the report.",
+            res.rejected.len()
+        ));
     }
     notes.extend(res.cautions.iter().cloned());
     notes.push(format!("Wrote {n_files} files to {} (open {}).", out.display(), out.join("report.html").display()));

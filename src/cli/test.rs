@@ -154,7 +154,11 @@ fn check_resamples(n: usize) -> Result<()> {
 }
 
 fn yes_no(b: bool, yes: &str, no: &str) -> String {
-    if b { yes.into() } else { no.into() }
+    if b {
+        yes.into()
+    } else {
+        no.into()
+    }
 }
 
 /// The three-approach table and JSON shared by the reversal and common-mean tests.
@@ -203,7 +207,9 @@ fn comparison_output(c: &MeanComparison, what: &str, title: &str) -> (Section, V
     let verdict = if c.passed {
         format!(
             "{what} agree within the 95 % limits: gamma = {:.1}° ≤ gamma_c = {:.1}°, class {}.",
-            c.mm90.gamma, c.mm90.gamma_c, c.mm90.class.name()
+            c.mm90.gamma,
+            c.mm90.gamma_c,
+            c.mm90.class.name()
         )
     } else {
         format!("{what} differ at the 95 % level: gamma = {:.1}° > gamma_c = {:.1}°.", c.mm90.gamma, c.mm90.gamma_c)
@@ -235,11 +241,26 @@ fn reversal(a: OneFile, ctx: &mut Ctx) -> Result<Report> {
     let mc = ctx.monte_carlo(a.resamples);
     let t = fieldtests::reversal_test(&v, &mc, CONFIDENCE)?;
     let c = &t.comparison;
-    let (sec, mut j, mut notes) =
-        comparison_output(c, "The two polarity modes", &format!("Reversal test of {} ({} coordinates)", a.file.display(), frame_name(a.frame)));
+    let (sec, mut j, mut notes) = comparison_output(
+        c,
+        "The two polarity modes",
+        &format!("Reversal test of {} ({} coordinates)", a.file.display(), frame_name(a.frame)),
+    );
     let mut modes = Section::new("Polarity modes (split on the principal axis)", &["mode", "n", "dec", "inc", "k"]);
-    modes.rows.push(vec![Cell::Text("1".into()), Cell::Int(c.n1 as i64), Cell::Num(c.mean1.dec, 1), Cell::Num(c.mean1.inc, 1), Cell::Num(c.k1, 1)]);
-    modes.rows.push(vec![Cell::Text("2".into()), Cell::Int(c.n2 as i64), Cell::Num(t.mode2_mean.dec, 1), Cell::Num(t.mode2_mean.inc, 1), Cell::Num(c.k2, 1)]);
+    modes.rows.push(vec![
+        Cell::Text("1".into()),
+        Cell::Int(c.n1 as i64),
+        Cell::Num(c.mean1.dec, 1),
+        Cell::Num(c.mean1.inc, 1),
+        Cell::Num(c.k1, 1),
+    ]);
+    modes.rows.push(vec![
+        Cell::Text("2".into()),
+        Cell::Int(c.n2 as i64),
+        Cell::Num(t.mode2_mean.dec, 1),
+        Cell::Num(t.mode2_mean.inc, 1),
+        Cell::Num(c.k2, 1),
+    ]);
     let lines = |idx: &[usize]| idx.iter().map(|&i| set.records[i].line).collect::<Vec<_>>();
     j["split"] = json!({
         "axis_dec": t.split.axis.dec, "axis_inc": t.split.axis.inc,
@@ -269,13 +290,27 @@ fn common_mean(a: TwoFiles, ctx: &mut Ctx) -> Result<Report> {
     );
     let mut means = Section::new("Means", &["file", "n", "dec", "inc", "k"]);
     for (p, n, m, k) in [(&a.a, c.n1, c.mean1, c.k1), (&a.b, c.n2, c.mean2, c.k2)] {
-        means.rows.push(vec![Cell::Text(p.display().to_string()), Cell::Int(n as i64), Cell::Num(m.dec, 1), Cell::Num(m.inc, 1), Cell::Num(k, 1)]);
+        means.rows.push(vec![
+            Cell::Text(p.display().to_string()),
+            Cell::Int(n as i64),
+            Cell::Num(m.dec, 1),
+            Cell::Num(m.inc, 1),
+            Cell::Num(k, 1),
+        ]);
     }
     notes.push(CAUTION.into());
     finish(j, vec![sec, means], notes, format!("{} {}", a.a.display(), a.b.display()), a.frame, a.resamples, ctx)
 }
 
-fn finish(mut j: Value, sections: Vec<Section>, notes: Vec<String>, file: String, frame: FrameArg, resamples: usize, ctx: &Ctx) -> Result<Report> {
+fn finish(
+    mut j: Value,
+    sections: Vec<Section>,
+    notes: Vec<String>,
+    file: String,
+    frame: FrameArg,
+    resamples: usize,
+    ctx: &Ctx,
+) -> Result<Report> {
     j["file"] = json!(file);
     j["frame"] = json!(frame_name(frame));
     j["confidence"] = json!(CONFIDENCE);
@@ -341,7 +376,10 @@ fn fold(a: FoldArgs, ctx: &mut Ctx) -> Result<Report> {
     ));
     notes.push(CAUTION.into());
     if let Some(path) = &a.plot {
-        let fig = lodestone::figures::FoldPlot::from_test(&t, a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default());
+        let fig = lodestone::figures::FoldPlot::from_test(
+            &t,
+            a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
+        );
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
     let j = json!({
@@ -368,7 +406,13 @@ fn random(a: RandomArgs, ctx: &mut Ctx) -> Result<Report> {
         &format!("Randomness test of {} ({} coordinates)", a.file.display(), frame_name(a.frame)),
         &["n", "r", "r0", "p_value", "random"],
     );
-    sec.rows.push(vec![Cell::Int(t.n as i64), Cell::Num(t.r, 3), Cell::Num(t.r0, 3), Cell::Num(t.p_value, 4), Cell::Text(yes_no(t.random, "yes", "no"))]);
+    sec.rows.push(vec![
+        Cell::Int(t.n as i64),
+        Cell::Num(t.r, 3),
+        Cell::Num(t.r0, 3),
+        Cell::Num(t.p_value, 4),
+        Cell::Text(yes_no(t.random, "yes", "no")),
+    ]);
     let notes = vec![
         if t.random {
             format!("R = {:.2} < R0 = {:.2}: randomness cannot be rejected at 95 % (p = {:.3}).", t.r, t.r0, t.p_value)

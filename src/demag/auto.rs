@@ -26,12 +26,7 @@ pub struct AutoRule {
 
 impl Default for AutoRule {
     fn default() -> Self {
-        Self {
-            min_steps: 3,
-            max_mad: 5.0,
-            max_dang: 10.0,
-            anchor: Anchor::Free,
-        }
+        Self { min_steps: 3, max_mad: 5.0, max_dang: 10.0, anchor: Anchor::Free }
     }
 }
 
@@ -49,9 +44,7 @@ pub fn auto_line(sp: &SpecimenSteps, rule: &AutoRule) -> AutoOutcome {
     let n = sp.steps.len();
     let min = rule.min_steps.max(FitKind::Line.min_steps());
     if n < min {
-        return AutoOutcome::Unfitted(format!(
-            "{n} step(s); the rule needs at least {min} consecutive steps"
-        ));
+        return AutoOutcome::Unfitted(format!("{n} step(s); the rule needs at least {min} consecutive steps"));
     }
     let mut best: Option<SpecimenFit> = None;
     let mut least_mad: Option<(f64, f64, f64)> = None; // (mad, from, to) of the tightest run seen, for the reason

@@ -118,10 +118,7 @@ fn scatter(points: &[Vec3], anchor: Anchor) -> ([[f64; 3]; 3], Vec3) {
 /// moments near 1e±160 overflow or underflow; a power of two rescales exactly, so ordinary data give
 /// bit-identical results.
 fn rescaled(points: &[Vec3]) -> (Vec<Vec3>, f64) {
-    let m = points
-        .iter()
-        .flat_map(|p| [p.x.abs(), p.y.abs(), p.z.abs()])
-        .fold(0.0f64, f64::max);
+    let m = points.iter().flat_map(|p| [p.x.abs(), p.y.abs(), p.z.abs()]).fold(0.0f64, f64::max);
     if !(m > 0.0 && m.is_finite()) {
         return (points.to_vec(), 1.0);
     }
@@ -140,20 +137,10 @@ fn check_points(points: &[Vec3], kind: FitKind) -> Result<()> {
             FitKind::Line => "a best-fit line",
             FitKind::Plane => "a best-fit plane",
         };
-        return Err(Error::TooFew {
-            what,
-            needed: need,
-            got: points.len(),
-            unit: "steps",
-        });
+        return Err(Error::TooFew { what, needed: need, got: points.len(), unit: "steps" });
     }
-    if points
-        .iter()
-        .any(|p| !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite()))
-    {
-        return Err(Error::Invalid(
-            "a demagnetization step has a non-finite component".into(),
-        ));
+    if points.iter().any(|p| !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite())) {
+        return Err(Error::Invalid("a demagnetization step has a non-finite component".into()));
     }
     Ok(())
 }
@@ -186,9 +173,7 @@ pub fn fit_line(points: &[Vec3], anchor: Anchor) -> Result<LineFit> {
     let e = sym_eigen(t);
     let l = e.values.map(|x| x.max(0.0));
     if !(l[0] > 0.0) {
-        return Err(Error::Undefined(
-            "the steps coincide: a line through them is undefined".into(),
-        ));
+        return Err(Error::Undefined("the steps coincide: a line through them is undefined".into()));
     }
     let mad = ((l[1] + l[2]) / l[0]).sqrt().atan().to_degrees();
     let v = e.vectors[0];
@@ -218,13 +203,8 @@ pub fn fit_line(points: &[Vec3], anchor: Anchor) -> Result<LineFit> {
         Anchor::Free => free_dir,
         Anchor::Origin => orient(v, centre),
     };
-    let dang = if centre.norm() > crate::tolerance::ZERO_NORM {
-        angle_between(free_dir, centre)
-    } else {
-        f64::NAN
-    };
-    let direction =
-        Direction::from_vector(v).ok_or_else(|| Error::Undefined("no line direction".into()))?;
+    let dang = if centre.norm() > crate::tolerance::ZERO_NORM { angle_between(free_dir, centre) } else { f64::NAN };
+    let direction = Direction::from_vector(v).ok_or_else(|| Error::Undefined("no line direction".into()))?;
     Ok(LineFit {
         direction,
         mad,
@@ -255,9 +235,7 @@ pub fn fit_plane(points: &[Vec3], anchor: Anchor) -> Result<PlaneFit> {
     let e = sym_eigen(t);
     let l = e.values.map(|x| x.max(0.0));
     if !(l[1] > 1e-14 * l[0]) || !(l[0] > 0.0) {
-        return Err(Error::Undefined(
-            "the steps lie on one line: a plane through them is undefined".into(),
-        ));
+        return Err(Error::Undefined("the steps lie on one line: a plane through them is undefined".into()));
     }
     let mad = (l[2] / l[1] + l[2] / l[0]).sqrt().atan().to_degrees();
     let mut pole = e.vectors[2];
@@ -265,13 +243,6 @@ pub fn fit_plane(points: &[Vec3], anchor: Anchor) -> Result<PlaneFit> {
     if pole.dot(turn) < 0.0 {
         pole = -pole;
     }
-    let pole =
-        Direction::from_vector(pole).ok_or_else(|| Error::Undefined("no plane pole".into()))?;
-    Ok(PlaneFit {
-        pole,
-        mad,
-        centre: centre * scale,
-        eigenvalues: e.values.map(|x| x * scale * scale),
-        anchor,
-    })
+    let pole = Direction::from_vector(pole).ok_or_else(|| Error::Undefined("no plane pole".into()))?;
+    Ok(PlaneFit { pole, mad, centre: centre * scale, eigenvalues: e.values.map(|x| x * scale * scale), anchor })
 }

@@ -12,12 +12,7 @@ const STEP_MATCH: f64 = 1e-9;
 /// Indices of the steps whose value lies in `[from, to]` (inclusive, with a tiny tolerance).
 pub fn steps_in_range(sp: &SpecimenSteps, from: f64, to: f64) -> Vec<usize> {
     let tol = STEP_MATCH * from.abs().max(to.abs()).max(1.0);
-    sp.steps
-        .iter()
-        .enumerate()
-        .filter(|(_, s)| s.step >= from - tol && s.step <= to + tol)
-        .map(|(i, _)| i)
-        .collect()
+    sp.steps.iter().enumerate().filter(|(_, s)| s.step >= from - tol && s.step <= to + tol).map(|(i, _)| i).collect()
 }
 
 /// One fit of one specimen, ready for a directions table.
@@ -51,13 +46,7 @@ pub struct SpecimenFit {
 ///
 /// The steps used must be consecutive in the specimen's list (they are, since the list is sorted).
 /// Errors: too few steps in the range (2 for a line, 3 for a plane), or a degenerate geometry.
-pub fn fit_range(
-    sp: &SpecimenSteps,
-    from: f64,
-    to: f64,
-    kind: FitKind,
-    anchor: Anchor,
-) -> Result<SpecimenFit> {
+pub fn fit_range(sp: &SpecimenSteps, from: f64, to: f64, kind: FitKind, anchor: Anchor) -> Result<SpecimenFit> {
     let idx = steps_in_range(sp, from, to);
     if idx.len() < kind.min_steps() {
         return Err(Error::Invalid(format!(

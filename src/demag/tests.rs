@@ -54,11 +54,7 @@ fn degenerate_ranges_are_errors_not_panics() {
                                                                        // Two distinct steps make an exact line: MAD 0.
     let f = fit_line(&[a, a * 0.5], Anchor::Free).unwrap();
     assert_abs_diff_eq!(f.mad, 0.0, epsilon = 1e-9);
-    assert_abs_diff_eq!(
-        f.direction.angle_to(Direction::from_vector(a).unwrap()),
-        0.0,
-        epsilon = 1e-9
-    );
+    assert_abs_diff_eq!(f.direction.angle_to(Direction::from_vector(a).unwrap()), 0.0, epsilon = 1e-9);
 }
 
 /// A synthetic specimen: a soft overprint (dec 5, inc 62) removed linearly by step 20, and a
@@ -74,9 +70,7 @@ pub(crate) fn synthetic(sigma: f64, replicate: u64) -> (SpecimenSteps, Vec3) {
         let (u, v): (f64, f64) = (rng.random::<f64>().max(1e-300), rng.random());
         (-2.0 * u.ln()).sqrt() * (std::f64::consts::TAU * v).cos()
     };
-    let levels = [
-        0.0, 5.0, 10.0, 15.0, 20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0,
-    ];
+    let levels = [0.0, 5.0, 10.0, 15.0, 20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0];
     let steps = levels
         .iter()
         .enumerate()
@@ -93,16 +87,7 @@ pub(crate) fn synthetic(sigma: f64, replicate: u64) -> (SpecimenSteps, Vec3) {
             }
         })
         .collect();
-    (
-        SpecimenSteps {
-            specimen: format!("S{replicate}"),
-            site: None,
-            position: None,
-            bedding: None,
-            steps,
-        },
-        chrm,
-    )
+    (SpecimenSteps { specimen: format!("S{replicate}"), site: None, position: None, bedding: None, steps }, chrm)
 }
 
 #[test]
@@ -121,21 +106,11 @@ fn noiseless_history_is_recovered_exactly() {
     assert!(o.mad < 1e-6);
     assert!(o.dang.unwrap() > 30.0);
     let over = Direction::new(5.0, 62.0).unwrap().to_vector() * 0.8 + chrm * 0.2;
-    assert_abs_diff_eq!(
-        o.direction.angle_to(Direction::from_vector(over).unwrap()),
-        0.0,
-        epsilon = 1e-6
-    );
+    assert_abs_diff_eq!(o.direction.angle_to(Direction::from_vector(over).unwrap()), 0.0, epsilon = 1e-6);
     // Over the overlap the path is a plane containing both components: its pole is ⟂ to both.
     let p = fit_range(&sp, 0.0, 90.0, FitKind::Plane, Anchor::Origin).unwrap();
     let pole = p.direction.to_vector();
-    assert!(
-        pole.dot(chrm).abs() < 1e-9
-            && pole
-                .dot(Direction::new(5.0, 62.0).unwrap().to_vector())
-                .abs()
-                < 1e-9
-    );
+    assert!(pole.dot(chrm).abs() < 1e-9 && pole.dot(Direction::new(5.0, 62.0).unwrap().to_vector()).abs() < 1e-9);
 }
 
 #[test]
@@ -144,10 +119,7 @@ fn noisy_fits_recover_the_direction_and_mad_grows_with_noise() {
     // E(λ₂ + λ₃) ≈ 2σ²(n − 1) (free line, centred) while λ₁ ≈ Σ (tᵢ − t̄)² (the spread along the
     // line); hence MAD ≈ atan(√(2σ²(n − 1)/Σ (tᵢ − t̄)²)), proportional to σ. The noise-free spread of
     // the steps 20–90 along the line: tᵢ = 1 − sᵢ/100.
-    let s: Vec<f64> = [20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0]
-        .iter()
-        .map(|x| 1.0 - x / 100.0)
-        .collect();
+    let s: Vec<f64> = [20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0, 90.0].iter().map(|x| 1.0 - x / 100.0).collect();
     let tbar = s.iter().sum::<f64>() / 8.0;
     let spread: f64 = s.iter().map(|t| (t - tbar).powi(2)).sum();
     let mut mean_mads = Vec::new();
@@ -162,28 +134,19 @@ fn noisy_fits_recover_the_direction_and_mad_grows_with_noise() {
         }
         let mean_mad = mad_sum / reps as f64;
         // E(√X) for X with E(X) = a is a little below √a; allow 12 %.
-        let predicted = (2.0 * sigma * sigma * 7.0 / spread)
-            .sqrt()
-            .atan()
-            .to_degrees();
+        let predicted = (2.0 * sigma * sigma * 7.0 / spread).sqrt().atan().to_degrees();
         assert!(
             (mean_mad - predicted).abs() < 0.12 * predicted,
             "σ {sigma}: mean MAD {mean_mad} vs predicted {predicted}"
         );
         // Direction error: of order σ/√spread radians; no replicate beyond 5× that.
         let bound = 5.0 * (sigma / spread.sqrt()).to_degrees();
-        assert!(
-            worst < bound,
-            "σ {sigma}: worst angle {worst} vs bound {bound}"
-        );
+        assert!(worst < bound, "σ {sigma}: worst angle {worst} vs bound {bound}");
         mean_mads.push(mean_mad);
     }
     for w in mean_mads.windows(2) {
         let ratio = w[1] / w[0];
-        assert!(
-            (1.7..2.3).contains(&ratio),
-            "doubling σ should double MAD: ratio {ratio}"
-        );
+        assert!((1.7..2.3).contains(&ratio), "doubling σ should double MAD: ratio {ratio}");
     }
 }
 
@@ -206,8 +169,7 @@ fn auto_rule_finds_the_characteristic_segment() {
     let (mut sp, _) = synthetic(0.0, 0);
     let mut rng = replicate_rng(9, 0, 0);
     for s in &mut sp.steps {
-        s.direction =
-            Direction::new(rng.random_range(0.0..360.0), rng.random_range(-80.0..80.0)).unwrap();
+        s.direction = Direction::new(rng.random_range(0.0..360.0), rng.random_range(-80.0..80.0)).unwrap();
     }
     match auto_line(&sp, &rule) {
         AutoOutcome::Unfitted(why) => assert!(why.contains("MAD"), "{why}"),

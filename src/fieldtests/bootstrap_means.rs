@@ -57,7 +57,11 @@ fn resampled_mean(v: &[Vec3], pick: &UniformIndex, rng: &mut McRng) -> Option<Ve
     }
     let s = (part[0] + part[1]) + (part[2] + part[3]);
     let r = s.norm();
-    if r > 1e-12 * n as f64 { Some(s * (1.0 / r)) } else { None }
+    if r > 1e-12 * n as f64 {
+        Some(s * (1.0 / r))
+    } else {
+        None
+    }
 }
 
 /// Bounds of both sets from the resampled means (`None` where a resample had no mean): the six
@@ -70,11 +74,18 @@ fn bounds(pairs: &[(Option<Vec3>, Option<Vec3>)], confidence: f64) -> [Component
         .into_par_iter()
         .map(|k| {
             let (set, c) = (k / 3, k % 3);
-            let mut keys: Vec<u64> = pairs.iter().filter_map(|p| if set == 0 { p.0 } else { p.1 }).map(|m| order_key(m.to_array()[c])).collect();
+            let mut keys: Vec<u64> = pairs
+                .iter()
+                .filter_map(|p| if set == 0 { p.0 } else { p.1 })
+                .map(|m| order_key(m.to_array()[c]))
+                .collect();
             quantiles_of_keys(&mut keys, &[lo_q, 1.0 - lo_q])
         })
         .collect();
-    let set = |s: usize| ComponentBounds { low: std::array::from_fn(|c| q[3 * s + c][0]), high: std::array::from_fn(|c| q[3 * s + c][1]) };
+    let set = |s: usize| ComponentBounds {
+        low: std::array::from_fn(|c| q[3 * s + c][0]),
+        high: std::array::from_fn(|c| q[3 * s + c][1]),
+    };
     [set(0), set(1)]
 }
 
@@ -91,12 +102,19 @@ fn bounds(pairs: &[(Option<Vec3>, Option<Vec3>)], confidence: f64) -> [Component
 /// *J. Geophys. Res.* 96, 11723–11740; Efron & Tibshirani (1993), *An Introduction to the Bootstrap*.
 pub fn bootstrap_overlap(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<BootstrapOverlap> {
     super::check_two_sets("a bootstrap of two means", a, b, mc.resamples, confidence)?;
-    let too_many = || Error::Invalid(format!("a bootstrap of {} and {} directions: more than 2³² − 1 in one set", a.len(), b.len()));
-    let (pick_a, pick_b) = (UniformIndex::new(a.len()).ok_or_else(too_many)?, UniformIndex::new(b.len()).ok_or_else(too_many)?);
-    let pairs = mc.run("bootstrap of the means", streams::BOOTSTRAP, |rng, _| (resampled_mean(a, &pick_a, rng), resampled_mean(b, &pick_b, rng)));
+    let too_many = || {
+        Error::Invalid(format!("a bootstrap of {} and {} directions: more than 2³² − 1 in one set", a.len(), b.len()))
+    };
+    let (pick_a, pick_b) =
+        (UniformIndex::new(a.len()).ok_or_else(too_many)?, UniformIndex::new(b.len()).ok_or_else(too_many)?);
+    let pairs = mc.run("bootstrap of the means", streams::BOOTSTRAP, |rng, _| {
+        (resampled_mean(a, &pick_a, rng), resampled_mean(b, &pick_b, rng))
+    });
     let (na, nb) = (pairs.iter().filter(|p| p.0.is_some()).count(), pairs.iter().filter(|p| p.1.is_some()).count());
     if na < 20 || nb < 20 {
-        return Err(Error::Undefined("too few bootstrap resamples have a mean direction: the directions nearly cancel out".into()));
+        return Err(Error::Undefined(
+            "too few bootstrap resamples have a mean direction: the directions nearly cancel out".into(),
+        ));
     }
     let [set1, set2] = bounds(&pairs, confidence);
     let overlap = [0, 1, 2].map(|c| set1.low[c] <= set2.high[c] && set2.low[c] <= set1.high[c]);

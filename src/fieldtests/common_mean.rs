@@ -86,7 +86,12 @@ pub struct Mm90 {
 pub fn mm90_critical_angle(n1: usize, r1: f64, n2: usize, r2: f64, confidence: f64) -> Result<f64> {
     crate::error::check_range("confidence", confidence, 1e-12, 1.0 - 1e-12, "(0, 1)")?;
     if n1 < 2 || n2 < 2 {
-        return Err(Error::TooFew { what: "the critical angle of two means", needed: 2, got: n1.min(n2), unit: "directions in each set" });
+        return Err(Error::TooFew {
+            what: "the critical angle of two means",
+            needed: 2,
+            got: n1.min(n2),
+            unit: "directions in each set",
+        });
     }
     if !(r1 > 0.0 && r2 > 0.0) {
         return Err(Error::Undefined("a set has no mean direction (its resultant vanishes)".into()));
@@ -151,7 +156,12 @@ impl MeanComparison {
 /// McFadden & McElhinny (1990); Watson (1983); Tauxe, Kylstra & Constable (1991).
 pub fn compare_means(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<MeanComparison> {
     if a.len() < 2 || b.len() < 2 {
-        return Err(Error::TooFew { what: "a comparison of two means", needed: 2, got: a.len().min(b.len()), unit: "directions in each set" });
+        return Err(Error::TooFew {
+            what: "a comparison of two means",
+            needed: 2,
+            got: a.len().min(b.len()),
+            unit: "directions in each set",
+        });
     }
     let (sa, sb) = (resultant(a), resultant(b));
     let (r1, r2) = (sa.norm(), sb.norm());

@@ -1,8 +1,8 @@
 //! Fold tests: bootstrap incremental untilting and the classic precision ratio.
 
 use super::streams;
-use crate::error::{check_range, Error, Result};
 use super::untilt_curves::{CurveScratch, UntiltCurves, TILE};
+use crate::error::{check_range, Error, Result};
 use crate::montecarlo::{quantile_sorted, MonteCarlo, UniformIndex};
 use crate::sphere::{Bedding, Vec3};
 use statrs::distribution::{ContinuousCDF, FisherSnedecor};
@@ -173,7 +173,8 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     let data_curve = curve_of(&vec![1u32; n]);
     let best_untilt = steps[argmax(&data_curve)];
     let keep = opt.keep_curves;
-    let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("a fold test of {n} directions: more than 2³² − 1")))?;
+    let pick = UniformIndex::new(n)
+        .ok_or_else(|| Error::Invalid(format!("a fold test of {n} directions: more than 2³² − 1")))?;
     let scratch = || (vec![0u32; n], vec![0u32; TILE * n], CurveScratch::default());
     // The bootstrap (resamples in tiles that share one pass over the untilted numbers), with the two
     // cheap serial summaries computed alongside on the other thread.
@@ -201,7 +202,8 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     maxima.sort_by(f64::total_cmp);
     let lo_q = (1.0 - opt.confidence) / 2.0;
     let (ci_low, ci_high) = (quantile_sorted(&maxima, lo_q), quantile_sorted(&maxima, 1.0 - lo_q));
-    let at_edge = maxima.iter().filter(|&&m| m <= steps[0] || m >= steps[n_steps - 1]).count() as f64 / maxima.len() as f64;
+    let at_edge =
+        maxima.iter().filter(|&&m| m <= steps[0] || m >= steps[n_steps - 1]).count() as f64 / maxima.len() as f64;
     Ok(FoldTest {
         n,
         steps,
@@ -282,7 +284,9 @@ mod tests {
     /// stratigraphic coordinates and tilted (magnetized before folding) or drawn in place (after).
     fn synthetic_fold(seed: u64, n: usize, before: bool) -> (Vec<Vec3>, Vec<Bedding>) {
         let s = FisherSampler::new(Direction { dec: 10.0, inc: 45.0 }, 40.0).unwrap();
-        let beds: Vec<Bedding> = (0..n).map(|i| Bedding::from_dip_direction(if i % 2 == 0 { 90.0 } else { 270.0 }, 40.0, false).unwrap()).collect();
+        let beds: Vec<Bedding> = (0..n)
+            .map(|i| Bedding::from_dip_direction(if i % 2 == 0 { 90.0 } else { 270.0 }, 40.0, false).unwrap())
+            .collect();
         let draws = MonteCarlo::new(seed, n).run("d", 5, |r, _| s.sample(r));
         let v = draws.iter().zip(&beds).map(|(u, b)| if before { b.retilt(*u) } else { *u }).collect();
         (v, beds)

@@ -10,17 +10,17 @@
 mod bootstrap_means;
 mod common_mean;
 mod fold;
-mod untilt_curves;
 mod randomness;
 mod reversal;
+mod untilt_curves;
 mod watson_v;
 
 pub use bootstrap_means::{bootstrap_overlap, BootstrapOverlap, ComponentBounds};
-pub use common_mean::{compare_means, mm90_critical_angle, Mm90, Mm90Class, MeanComparison};
+pub use common_mean::{compare_means, mm90_critical_angle, MeanComparison, Mm90, Mm90Class};
 pub use fold::{bedding_spread, fold_test, precision_ratio, FoldOptions, FoldTest, FoldVerdict, PrecisionRatio};
-pub use untilt_curves::{largest_eigenvalue, largest_eigenvalues};
 pub use randomness::{isotropic_resultant_cdf, randomness_test, watson_r0, R0Route, RandomnessTest};
 pub use reversal::{reversal_test, split_modes, PolaritySplit, ReversalTest};
+pub use untilt_curves::{largest_eigenvalue, largest_eigenvalues};
 pub use watson_v::{watson_v, watson_v_statistic, WatsonV};
 
 /// Monte Carlo stream numbers, so that the parts of one test draw independent random numbers.
@@ -41,7 +41,11 @@ pub const K_CAP: f64 = 1e8;
 pub(crate) fn capped_k(n: usize, r: f64) -> f64 {
     let nf = n as f64;
     let nr = (nf - r).max(0.0);
-    if nr <= 0.0 { K_CAP } else { ((nf - 1.0) / nr).min(K_CAP) }
+    if nr <= 0.0 {
+        K_CAP
+    } else {
+        ((nf - 1.0) / nr).min(K_CAP)
+    }
 }
 
 /// Guards shared by the two-set Monte Carlo comparisons: a confidence in (0, 1), at least two

@@ -72,7 +72,13 @@ fn cdf_fourier(n: usize, r: f64) -> f64 {
     let (mut sg, mut sbig) = (0.0, 0.0);
     for j in 0..=m {
         let t = j as f64 * h;
-        let w = if j == 0 || j == m { 1.0 } else if j % 2 == 1 { 4.0 } else { 2.0 };
+        let w = if j == 0 || j == m {
+            1.0
+        } else if j % 2 == 1 {
+            4.0
+        } else {
+            2.0
+        };
         let (phi, s_over_t) = if t == 0.0 { (1.0, r) } else { ((t.sin() / t).powi(n as i32), (r * t).sin() / t) };
         sg += w * phi * (r * t).cos();
         sbig += w * phi * s_over_t;
@@ -114,7 +120,11 @@ pub fn isotropic_resultant_cdf(n: usize, r: f64) -> f64 {
     if n == 1 {
         return 0.0; // R = 1 exactly
     }
-    if n <= EXACT_MAX_N { cdf_exact(n, r) } else { cdf_fourier(n, r) }
+    if n <= EXACT_MAX_N {
+        cdf_exact(n, r)
+    } else {
+        cdf_fourier(n, r)
+    }
 }
 
 /// Critical resultant R₀: the `confidence` quantile of R for N isotropic unit vectors.
@@ -135,7 +145,11 @@ pub fn watson_r0(n: usize, confidence: f64) -> Result<f64> {
     let (mut lo, mut hi) = (0.0, nf.min(8.0 * nf.sqrt()));
     while hi - lo > 1e-10 {
         let mid = 0.5 * (lo + hi);
-        if isotropic_resultant_cdf(n, mid) < confidence { lo = mid } else { hi = mid }
+        if isotropic_resultant_cdf(n, mid) < confidence {
+            lo = mid
+        } else {
+            hi = mid
+        }
     }
     Ok(0.5 * (lo + hi))
 }
@@ -186,7 +200,12 @@ mod tests {
     fn both_routes_match_high_precision_values() {
         // Reference: mpmath 1.3.0 at 60 digits, the exact finite sums: P(R ≤ r) for (N, r).
         // The f64 alternating sum already loses about 2e-7 at N = 20, hence the switch at N = 12.
-        let cases = [(12, 5.0, 0.90302550854544542), (16, 7.5, 0.98810206950412642), (20, 7.5, 0.96481599679951033), (20, 5.0, 0.70734752022797855)];
+        let cases = [
+            (12, 5.0, 0.90302550854544542),
+            (16, 7.5, 0.98810206950412642),
+            (20, 7.5, 0.96481599679951033),
+            (20, 5.0, 0.70734752022797855),
+        ];
         for (n, r, want) in cases {
             let got = isotropic_resultant_cdf(n, r);
             assert!((got - want).abs() < 1e-9, "N = {n}, r = {r}: {got} vs {want}");

@@ -31,13 +31,23 @@ pub fn split_modes(v: &[Vec3]) -> Result<PolaritySplit> {
         return Err(Error::TooFew { what: "a polarity split", needed: 1, got: 0, unit: "directions" });
     }
     let mut axis = principal_axes(v).vectors[0];
-    let flip = if axis.z.abs() > 1e-12 { axis.z < 0.0 } else if axis.x.abs() > 1e-12 { axis.x < 0.0 } else { axis.y < 0.0 };
+    let flip = if axis.z.abs() > 1e-12 {
+        axis.z < 0.0
+    } else if axis.x.abs() > 1e-12 {
+        axis.x < 0.0
+    } else {
+        axis.y < 0.0
+    };
     if flip {
         axis = -axis;
     }
     let (mut mode1, mut mode2) = (Vec::new(), Vec::new());
     for (i, u) in v.iter().enumerate() {
-        if u.dot(axis) >= 0.0 { mode1.push(i) } else { mode2.push(i) }
+        if u.dot(axis) >= 0.0 {
+            mode1.push(i)
+        } else {
+            mode2.push(i)
+        }
     }
     let axis = Direction::from_vector(axis).ok_or_else(|| Error::Undefined("no principal axis".into()))?;
     Ok(PolaritySplit { axis, mode1, mode2 })
@@ -108,7 +118,9 @@ mod tests {
         // MM90 test in about 95 % of seeds. With 20 seeds (a small debug-build check) we require at
         // least 16 passes: P(≤ 15 passes | p = 0.95) ≈ 0.003 (binomial).
         let mc = MonteCarlo::new(1, 200);
-        let passes = (0..20).filter(|&s| reversal_test(&two_modes(100 + s, 15, 30.0, 0.0), &mc, 0.95).unwrap().comparison.passed).count();
+        let passes = (0..20)
+            .filter(|&s| reversal_test(&two_modes(100 + s, 15, 30.0, 0.0), &mc, 0.95).unwrap().comparison.passed)
+            .count();
         assert!(passes >= 16, "passes = {passes}/20");
         // Modes 15° from antipodal, k = 50, N = 30 each: α95 ≈ 3.6°, so every test must fail.
         for s in 0..3 {

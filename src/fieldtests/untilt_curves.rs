@@ -99,7 +99,10 @@ fn largest_eigenvalues_body<const L: usize>(m: &[f64], scale: f64, out: &mut [f6
         let (aa, bb, cc) = (lanes(&|j| a[j] - q[j]), lanes(&|j| b[j] - q[j]), lanes(&|j| c[j] - q[j]));
         let p2 = lanes(&|j| (aa[j] * aa[j] + bb[j] * bb[j] + cc[j] * cc[j] + 2.0 * off[j]) * SIXTH);
         let p = lanes(&|j| p2[j].sqrt());
-        let det = lanes(&|j| aa[j] * (bb[j] * cc[j] - f[j] * f[j]) - d[j] * (d[j] * cc[j] - f[j] * e[j]) + e[j] * (d[j] * f[j] - bb[j] * e[j]));
+        let det = lanes(&|j| {
+            aa[j] * (bb[j] * cc[j] - f[j] * f[j]) - d[j] * (d[j] * cc[j] - f[j] * e[j])
+                + e[j] * (d[j] * f[j] - bb[j] * e[j])
+        });
         let h = lanes(&|j| (det[j] / (p2[j] * p[j])).clamp(-2.0, 2.0));
         let deg: [bool; L] = std::array::from_fn(|j| !(p2[j] > 1e-300));
         let mut t = lanes(&|j| 2.0 - (2.0 - h[j]) * NINTH);
@@ -176,8 +179,28 @@ macro_rules! newton_simd {
 #[cfg(target_arch = "x86_64")]
 use std::arch::x86_64 as simd;
 
-newton_simd!(newton_x4_avx2, "avx2", simd::__m256d, simd::_mm256_loadu_pd, simd::_mm256_storeu_pd, simd::_mm256_set1_pd, simd::_mm256_mul_pd, simd::_mm256_sub_pd, simd::_mm256_div_pd);
-newton_simd!(newton_x8_avx512, "avx512f", simd::__m512d, simd::_mm512_loadu_pd, simd::_mm512_storeu_pd, simd::_mm512_set1_pd, simd::_mm512_mul_pd, simd::_mm512_sub_pd, simd::_mm512_div_pd);
+newton_simd!(
+    newton_x4_avx2,
+    "avx2",
+    simd::__m256d,
+    simd::_mm256_loadu_pd,
+    simd::_mm256_storeu_pd,
+    simd::_mm256_set1_pd,
+    simd::_mm256_mul_pd,
+    simd::_mm256_sub_pd,
+    simd::_mm256_div_pd
+);
+newton_simd!(
+    newton_x8_avx512,
+    "avx512f",
+    simd::__m512d,
+    simd::_mm512_loadu_pd,
+    simd::_mm512_storeu_pd,
+    simd::_mm512_set1_pd,
+    simd::_mm512_mul_pd,
+    simd::_mm512_sub_pd,
+    simd::_mm512_div_pd
+);
 
 /// The depressed cubic of a symmetric 3 × 3 matrix (see [`largest_eigenvalue`]).
 #[derive(Debug, Clone, Copy)]
@@ -342,7 +365,11 @@ impl UntiltCurves {
         mats.clear();
         for (w, s) in wts.chunks_exact(n).zip(sums.chunks_exact(stride)).take(m) {
             let total: f64 = w.iter().sum();
-            mats.extend(s[..self.n_steps * COLS].chunks_exact(COLS).flat_map(|m| [m[0], m[1], total - m[0] - m[1], m[2], m[3], m[4]]));
+            mats.extend(
+                s[..self.n_steps * COLS]
+                    .chunks_exact(COLS)
+                    .flat_map(|m| [m[0], m[1], total - m[0] - m[1], m[2], m[3], m[4]]),
+            );
         }
         out.resize(m * self.n_steps, 0.0);
         largest_eigenvalues(mats, 1.0 / self.n as f64, out);
@@ -437,7 +464,15 @@ mod tests {
     fn closed_form_eigenvalue_matches_jacobi() {
         // Cases: general, scalar (p = 0), dominant axis, rank one, a girdle (double largest root), a
         // near-girdle, and a negative-definite matrix.
-        let ms = [[0.5, 0.3, 0.2, 0.1, -0.05, 0.02], [1.0, 1.0, 1.0, 0.0, 0.0, 0.0], [0.9, 0.05, 0.05, 0.2, 0.1, 0.01], [0.0, 0.0, 1.0, 0.0, 0.0, 0.0], [0.5, 0.5, 0.0, 0.0, 0.0, 0.0], [0.5, 0.5 - 1e-9, 1e-9, 1e-7, 0.0, 0.0], [-1.0, -2.0, -3.0, 0.3, 0.2, 0.1]];
+        let ms = [
+            [0.5, 0.3, 0.2, 0.1, -0.05, 0.02],
+            [1.0, 1.0, 1.0, 0.0, 0.0, 0.0],
+            [0.9, 0.05, 0.05, 0.2, 0.1, 0.01],
+            [0.0, 0.0, 1.0, 0.0, 0.0, 0.0],
+            [0.5, 0.5, 0.0, 0.0, 0.0, 0.0],
+            [0.5, 0.5 - 1e-9, 1e-9, 1e-7, 0.0, 0.0],
+            [-1.0, -2.0, -3.0, 0.3, 0.2, 0.1],
+        ];
         for m in ms {
             let full = [[m[0], m[3], m[4]], [m[3], m[1], m[5]], [m[4], m[5], m[2]]];
             let jac = sym_eigen(full);
@@ -451,12 +486,17 @@ mod tests {
                 continue;
             }
             let q = (m[0] + m[1] + m[2]) / 3.0;
-            let p2 = ((m[0] - q).powi(2) + (m[1] - q).powi(2) + (m[2] - q).powi(2) + 2.0 * (m[3] * m[3] + m[4] * m[4] + m[5] * m[5])) / 6.0;
+            let p2 = ((m[0] - q).powi(2)
+                + (m[1] - q).powi(2)
+                + (m[2] - q).powi(2)
+                + 2.0 * (m[3] * m[3] + m[4] * m[4] + m[5] * m[5]))
+                / 6.0;
             if p2 > 0.0 {
                 let p = p2.sqrt();
                 let b = full.map(|r| r.map(|x| x / p));
                 let bd = [b[0][0] - q / p, b[1][1] - q / p, b[2][2] - q / p];
-                let det = bd[0] * (bd[1] * bd[2] - b[1][2] * b[1][2]) - b[0][1] * (b[0][1] * bd[2] - b[1][2] * b[0][2]) + b[0][2] * (b[0][1] * b[1][2] - bd[1] * b[0][2]);
+                let det = bd[0] * (bd[1] * bd[2] - b[1][2] * b[1][2]) - b[0][1] * (b[0][1] * bd[2] - b[1][2] * b[0][2])
+                    + b[0][2] * (b[0][1] * b[1][2] - bd[1] * b[0][2]);
                 let trig = q + 2.0 * p * ((det / 2.0).clamp(-1.0, 1.0).acos() / 3.0).cos();
                 assert!((largest_eigenvalue(m) - trig).abs() < tol, "{m:?}: {} vs {trig}", largest_eigenvalue(m));
             }
@@ -470,10 +510,17 @@ mod tests {
         let n = 7;
         let mut rng = crate::montecarlo::replicate_rng(9, 0, 0);
         use rand::RngExt;
-        let packed: Vec<f64> = (0..3 * n * BLOCK).map(|_| (rng.random::<f64>() - 0.5) * 10f64.powi(rng.random_range(-8..8))).collect();
+        let packed: Vec<f64> =
+            (0..3 * n * BLOCK).map(|_| (rng.random::<f64>() - 0.5) * 10f64.powi(rng.random_range(-8..8))).collect();
         // Four resamples of seven directions; zero weights included (the last resample draws nothing
         // but the direction 6).
-        let w: Vec<f64> = [[1.0, 0.0, 3.0, 1.0, 0.0, 0.0, 2.0], [0.0, 2.0, 0.0, 0.0, 4.0, 1.0, 0.0], [1.0; 7], [0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 7.0]].concat();
+        let w: Vec<f64> = [
+            [1.0, 0.0, 3.0, 1.0, 0.0, 0.0, 2.0],
+            [0.0, 2.0, 0.0, 0.0, 4.0, 1.0, 0.0],
+            [1.0; 7],
+            [0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 7.0],
+        ]
+        .concat();
         let (mut fast, mut plain) = (vec![0.0; TILE * 3 * BLOCK], vec![0.0; TILE * 3 * BLOCK]);
         weighted_tiles(&packed, n, &w, &mut fast);
         weighted_tiles_body::<8>(&packed, n, &w, &mut plain);
@@ -534,8 +581,14 @@ mod tests {
             assert_eq!(*o, 0.25 * largest_eigenvalue(*m));
         }
         // The packed weighted sums against a plain sum of weighted outer products, at every step.
-        let v: Vec<Vec3> = [(10.0, 40.0), (200.0, -30.0), (95.0, 5.0)].iter().map(|&(d, i)| crate::sphere::Direction::new(d, i).unwrap().to_vector()).collect();
-        let beds: Vec<Bedding> = [(90.0, 30.0), (270.0, 45.0), (10.0, 80.0)].iter().map(|&(a, d)| Bedding::from_dip_direction(a, d, false).unwrap()).collect();
+        let v: Vec<Vec3> = [(10.0, 40.0), (200.0, -30.0), (95.0, 5.0)]
+            .iter()
+            .map(|&(d, i)| crate::sphere::Direction::new(d, i).unwrap().to_vector())
+            .collect();
+        let beds: Vec<Bedding> = [(90.0, 30.0), (270.0, 45.0), (10.0, 80.0)]
+            .iter()
+            .map(|&(a, d)| Bedding::from_dip_direction(a, d, false).unwrap())
+            .collect();
         let steps: Vec<f64> = (0..9).map(|s| -10.0 + 20.0 * s as f64).collect();
         let curves = UntiltCurves::new(&v, &beds, &steps);
         let w = [2u32, 0, 1];
@@ -546,7 +599,10 @@ mod tests {
         let tile = curves.tau1_tile(&tile_w.concat(), &mut scratch).to_vec();
         for (r, one) in tile_w.iter().enumerate() {
             let alone = curves.tau1(one);
-            assert!(alone.iter().zip(&tile[r * steps.len()..]).all(|(a, b)| a.to_bits() == b.to_bits()), "resample {r}");
+            assert!(
+                alone.iter().zip(&tile[r * steps.len()..]).all(|(a, b)| a.to_bits() == b.to_bits()),
+                "resample {r}"
+            );
         }
         for (s, pct) in steps.iter().enumerate() {
             let mut m = [0.0; 6];

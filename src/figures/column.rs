@@ -65,11 +65,13 @@ impl Figure for ColumnFigure {
         };
         let font = (theme::FONT, 15).into_font().color(&theme::INK);
         let small = (theme::FONT, 12).into_font().color(&theme::INK);
-        root.draw(&Text::new(self.title.clone(), (20, 18), (theme::FONT, 18).into_font().color(&theme::INK))).map_err(de)?;
+        root.draw(&Text::new(self.title.clone(), (20, 18), (theme::FONT, 18).into_font().color(&theme::INK)))
+            .map_err(de)?;
         // VGP latitude panel.
         let (vx0, vx1) = (80, 330);
         let vx = |lat: f64| -> i32 { vx0 + ((lat + 90.0) / 180.0 * (vx1 - vx0) as f64).round() as i32 };
-        root.draw(&Rectangle::new([(vx0, top as i32), (vx1, bottom as i32)], theme::INK.stroke_width(1))).map_err(de)?;
+        root.draw(&Rectangle::new([(vx0, top as i32), (vx1, bottom as i32)], theme::INK.stroke_width(1)))
+            .map_err(de)?;
         for lat in [-90.0, -45.0, 0.0, 45.0, 90.0] {
             root.draw(&Text::new(format!("{lat:.0}"), (vx(lat) - 10, bottom as i32 + 6), small.clone())).map_err(de)?;
         }
@@ -78,7 +80,11 @@ impl Figure for ColumnFigure {
             None => vec![0.0],
         };
         for g in guides {
-            root.draw(&PathElement::new(vec![(vx(g), top as i32), (vx(g), bottom as i32)], theme::GUIDE.stroke_width(1))).map_err(de)?;
+            root.draw(&PathElement::new(
+                vec![(vx(g), top as i32), (vx(g), bottom as i32)],
+                theme::GUIDE.stroke_width(1),
+            ))
+            .map_err(de)?;
         }
         root.draw(&Text::new("VGP latitude (°)", (vx0 + 70, bottom as i32 + 22), font.clone())).map_err(de)?;
         let mut pts: Vec<(f64, f64)> = self.levels.clone();
@@ -108,16 +114,19 @@ impl Figure for ColumnFigure {
         root.draw(&Text::new("polarity", (cx0 - 8, 40), font.clone())).map_err(de)?;
         // Time scale and ties.
         if let Some(sc) = &self.scale {
-            let (a0, a1) = sc.chrons.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), c| (x.min(c.young), y.max(c.old)));
+            let (a0, a1) =
+                sc.chrons.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), c| (x.min(c.young), y.max(c.old)));
             let ay = |age: f64| -> i32 { (top + (age - a0) / (a1 - a0).max(1e-9) * (bottom - top)).round() as i32 };
             let (sx0, sx1) = (600, 650);
             for c in &sc.chrons {
                 let col = if c.polarity == Polarity::Normal { theme::NORMAL } else { theme::REVERSED };
                 root.draw(&Rectangle::new([(sx0, ay(c.young)), (sx1, ay(c.old))], col.filled())).map_err(de)?;
-                root.draw(&Rectangle::new([(sx0, ay(c.young)), (sx1, ay(c.old))], theme::INK.stroke_width(1))).map_err(de)?;
+                root.draw(&Rectangle::new([(sx0, ay(c.young)), (sx1, ay(c.old))], theme::INK.stroke_width(1)))
+                    .map_err(de)?;
                 if let Some(n) = &c.name {
                     if ay(c.old) - ay(c.young) >= 12 {
-                        root.draw(&Text::new(n.clone(), (sx1 + 8, (ay(c.young) + ay(c.old)) / 2 - 6), small.clone())).map_err(de)?;
+                        root.draw(&Text::new(n.clone(), (sx1 + 8, (ay(c.young) + ay(c.old)) / 2 - 6), small.clone()))
+                            .map_err(de)?;
                     }
                 }
             }
@@ -126,7 +135,8 @@ impl Figure for ColumnFigure {
                 root.draw(&Text::new(format!("{a:.2}"), (sx0 - 48, ay(a) - 7), small.clone())).map_err(de)?;
             }
             for &(p, age) in &sc.ties {
-                root.draw(&PathElement::new(vec![(cx1, py(p)), (sx0, ay(age))], theme::series(1).stroke_width(1))).map_err(de)?;
+                root.draw(&PathElement::new(vec![(cx1, py(p)), (sx0, ay(age))], theme::series(1).stroke_width(1)))
+                    .map_err(de)?;
             }
             root.draw(&Text::new(format!("age (Ma) — {}", sc.label), (sx0 - 40, 40), font.clone())).map_err(de)?;
         }

@@ -67,7 +67,8 @@ pub fn draw_net<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>) -> Result<Net
     let c = (w as f64 / 2.0, h as f64 / 2.0);
     let rad = size / 2.0 - 28.0;
     let nc = NetCoords { cx: c.0, cy: c.1, rad };
-    let circle: Vec<(i32, i32)> = (0..=360).map(|k| nc.px(((k as f64).to_radians().sin(), (k as f64).to_radians().cos()))).collect();
+    let circle: Vec<(i32, i32)> =
+        (0..=360).map(|k| nc.px(((k as f64).to_radians().sin(), (k as f64).to_radians().cos()))).collect();
     area.draw(&PathElement::new(circle, theme::INK.stroke_width(2))).map_err(de)?;
     let font = (theme::FONT, 15).into_font().color(&theme::INK);
     for (dec, label) in [(0.0, "N"), (90.0, "E"), (180.0, "S"), (270.0, "W")] {
@@ -81,8 +82,11 @@ pub fn draw_net<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>) -> Result<Net
         for inc in (10..90).step_by(10) {
             let p = nc.px(project(Direction { dec, inc: inc as f64 }));
             let (dx, dy) = if dec == 0.0 || dec == 180.0 { (4, 0) } else { (0, 4) };
-            area.draw(&PathElement::new(vec![(p.0 - dx, p.1 - dy), (p.0 + dx, p.1 + dy)], theme::GUIDE.stroke_width(1)))
-                .map_err(de)?;
+            area.draw(&PathElement::new(
+                vec![(p.0 - dx, p.1 - dy), (p.0 + dx, p.1 + dy)],
+                theme::GUIDE.stroke_width(1),
+            ))
+            .map_err(de)?;
         }
     }
     area.draw(&Cross::new(nc.px((0.0, 0.0)), 4, theme::GUIDE.stroke_width(1))).map_err(de)?;
@@ -103,7 +107,13 @@ impl NetCoords {
         ((self.cx + x * self.rad).round() as i32, (self.cy - y * self.rad).round() as i32)
     }
     /// Draw one direction as a circle marker: filled when pointing down, open when up.
-    pub fn marker<DB: DrawingBackend>(&self, area: &DrawingArea<DB, Shift>, d: Direction, color: RGBColor, size: i32) -> Result<(), String> {
+    pub fn marker<DB: DrawingBackend>(
+        &self,
+        area: &DrawingArea<DB, Shift>,
+        d: Direction,
+        color: RGBColor,
+        size: i32,
+    ) -> Result<(), String> {
         let p = self.px(project(d));
         if d.inc >= 0.0 {
             area.draw(&Circle::new(p, size, color.filled())).map_err(de)?;
@@ -114,7 +124,12 @@ impl NetCoords {
         Ok(())
     }
     /// Draw a path of directions (a small or great circle): solid on the lower hemisphere, thin on the upper.
-    pub fn curve<DB: DrawingBackend>(&self, area: &DrawingArea<DB, Shift>, pts: &[Direction], color: RGBColor) -> Result<(), String> {
+    pub fn curve<DB: DrawingBackend>(
+        &self,
+        area: &DrawingArea<DB, Shift>,
+        pts: &[Direction],
+        color: RGBColor,
+    ) -> Result<(), String> {
         let mut run: Vec<(i32, i32)> = Vec::new();
         let mut down = pts.first().map(|d| d.inc >= 0.0).unwrap_or(true);
         let flush = |run: &mut Vec<(i32, i32)>, down: bool| -> Result<(), String> {
@@ -160,7 +175,9 @@ impl Figure for EqualAreaPlot {
                 let p = nc.px(project(m));
                 let style = if m.inc >= 0.0 { color.filled() } else { theme::PAPER.filled() };
                 net_area.draw(&Rectangle::new([(p.0 - 6, p.1 - 6), (p.0 + 6, p.1 + 6)], style)).map_err(de)?;
-                net_area.draw(&Rectangle::new([(p.0 - 6, p.1 - 6), (p.0 + 6, p.1 + 6)], theme::INK.stroke_width(1))).map_err(de)?;
+                net_area
+                    .draw(&Rectangle::new([(p.0 - 6, p.1 - 6), (p.0 + 6, p.1 + 6)], theme::INK.stroke_width(1)))
+                    .map_err(de)?;
             }
         }
         // Legend, drawn by hand on the right.
@@ -169,12 +186,17 @@ impl Figure for EqualAreaPlot {
         let shown = self.groups.len().min(24);
         for (gi, g) in self.groups.iter().take(shown).enumerate() {
             right.draw(&Circle::new((14, y + 7), 5, theme::series(gi).filled())).map_err(de)?;
-            let cone = g.mean.and_then(|m| m.1).map(|a| format!(" ({} {:.1}°)", self.cone_label, a)).unwrap_or_default();
-            right.draw(&Text::new(format!("{} n={}{}", g.label, g.points.len(), cone), (26, y), font.clone())).map_err(de)?;
+            let cone =
+                g.mean.and_then(|m| m.1).map(|a| format!(" ({} {:.1}°)", self.cone_label, a)).unwrap_or_default();
+            right
+                .draw(&Text::new(format!("{} n={}{}", g.label, g.points.len(), cone), (26, y), font.clone()))
+                .map_err(de)?;
             y += 20;
         }
         if self.groups.len() > shown {
-            right.draw(&Text::new(format!("… and {} more groups", self.groups.len() - shown), (26, y), font.clone())).map_err(de)?;
+            right
+                .draw(&Text::new(format!("… and {} more groups", self.groups.len() - shown), (26, y), font.clone()))
+                .map_err(de)?;
             y += 20;
         }
         y += 14;
@@ -186,7 +208,9 @@ impl Figure for EqualAreaPlot {
         right.draw(&Text::new("open: upper hemisphere (up)", (26, y), small.clone())).map_err(de)?;
         y += 18;
         right.draw(&Rectangle::new([(9, y + 1), (19, y + 11)], theme::INK.stroke_width(1))).map_err(de)?;
-        right.draw(&Text::new(format!("square: mean, ring: {}", self.cone_label), (26, y), small.clone())).map_err(de)?;
+        right
+            .draw(&Text::new(format!("square: mean, ring: {}", self.cone_label), (26, y), small.clone()))
+            .map_err(de)?;
         y += 18;
         right.draw(&Text::new("equal-area projection", (26, y), small)).map_err(de)?;
         Ok(())

@@ -85,22 +85,27 @@ impl Figure for FoldPlot {
         root.draw(&Text::new(self.title.clone(), (16, 10), title_font)).map_err(de)?;
         let body = root.margin(40, 8, 8, 8);
         let (left, right) = body.split_horizontally(500);
-        let (x0, x1) = (
-            self.steps.first().copied().unwrap_or(-10.0),
-            self.steps.last().copied().unwrap_or(150.0),
-        );
+        let (x0, x1) = (self.steps.first().copied().unwrap_or(-10.0), self.steps.last().copied().unwrap_or(150.0));
         let all = self.curves.iter().flatten().chain(self.data_curve.iter());
         let (lo, hi) = all.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &x| (a.min(x), b.max(x)));
-        let (lo, hi) = if lo.is_finite() && hi > lo { (lo - 0.02 * (hi - lo), hi + 0.02 * (hi - lo)) } else { (0.3, 1.0) };
-        let mut c = panel(&left, "largest eigenvalue τ1 against untilting", (x0, x1), (lo, hi), ("untilting (%)", "τ1"))?;
+        let (lo, hi) =
+            if lo.is_finite() && hi > lo { (lo - 0.02 * (hi - lo), hi + 0.02 * (hi - lo)) } else { (0.3, 1.0) };
+        let mut c =
+            panel(&left, "largest eigenvalue τ1 against untilting", (x0, x1), (lo, hi), ("untilting (%)", "τ1"))?;
         for curve in &self.curves {
-            c.draw_series(LineSeries::new(self.steps.iter().copied().zip(curve.iter().copied()), theme::series(1).mix(0.45).stroke_width(1)))
-                .map_err(de)?;
+            c.draw_series(LineSeries::new(
+                self.steps.iter().copied().zip(curve.iter().copied()),
+                theme::series(1).mix(0.45).stroke_width(1),
+            ))
+            .map_err(de)?;
         }
-        c.draw_series(LineSeries::new(self.steps.iter().copied().zip(self.data_curve.iter().copied()), theme::INK.stroke_width(3)))
-            .map_err(de)?
-            .label("data")
-            .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], theme::INK.stroke_width(3)));
+        c.draw_series(LineSeries::new(
+            self.steps.iter().copied().zip(self.data_curve.iter().copied()),
+            theme::INK.stroke_width(3),
+        ))
+        .map_err(de)?
+        .label("data")
+        .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], theme::INK.stroke_width(3)));
         c.draw_series(std::iter::once(PathElement::new(vec![(x0, lo), (x0, lo)], theme::series(1).stroke_width(1))))
             .map_err(de)?
             .label(format!("{} resamples", self.curves.len()))
@@ -113,7 +118,13 @@ impl Figure for FoldPlot {
             .draw()
             .map_err(de)?;
 
-        let mut d = panel(&right, "share of resamples peaking at or below", (x0, x1), (0.0, 1.0), ("untilting at the peak (%)", "cumulative share"))?;
+        let mut d = panel(
+            &right,
+            "share of resamples peaking at or below",
+            (x0, x1),
+            (0.0, 1.0),
+            ("untilting at the peak (%)", "cumulative share"),
+        )?;
         let m = self.maxima.len().max(1) as f64;
         let mut pts = vec![(x0, 0.0)];
         for (i, x) in self.maxima.iter().enumerate() {
@@ -127,7 +138,11 @@ impl Figure for FoldPlot {
         }
         let font = (theme::FONT, 13).into_font().color(&theme::INK);
         right
-            .draw(&Text::new(format!("interval {:.0} to {:.0} %: {}", self.ci.0, self.ci.1, self.verdict), (150, 330), font))
+            .draw(&Text::new(
+                format!("interval {:.0} to {:.0} %: {}", self.ci.0, self.ci.1, self.verdict),
+                (150, 330),
+                font,
+            ))
             .map_err(de)?;
         Ok(())
     }

@@ -22,12 +22,7 @@ pub struct HazardFigure {
 impl HazardFigure {
     /// Build from fitted models, over 0 … max(2 × elapsed, 3 × the longest fitted mean).
     pub fn new(fits: &RenewalFits, elapsed: f64, source: &str) -> Self {
-        let top = fits
-            .fits
-            .iter()
-            .map(|f| 3.0 * f.fitted.mean())
-            .fold(2.0 * elapsed, f64::max)
-            .max(1e-3);
+        let top = fits.fits.iter().map(|f| 3.0 * f.fitted.mean()).fold(2.0 * elapsed, f64::max).max(1e-3);
         let xs: Vec<f64> = (1..=240).map(|i| top * i as f64 / 240.0).collect();
         let curves = fits
             .fits
@@ -53,12 +48,8 @@ impl Figure for HazardFigure {
         let xmax = self.curves.first().and_then(|c| c.points.last()).map_or(1.0, |p| p.0);
         // Clip the vertical range at a generous multiple of the median hazard so that a curve that
         // diverges near zero (shape < 1) does not flatten the others.
-        let mut hs: Vec<f64> = self
-            .curves
-            .iter()
-            .flat_map(|c| c.points.iter().map(|p| p.1))
-            .filter(|h| h.is_finite())
-            .collect();
+        let mut hs: Vec<f64> =
+            self.curves.iter().flat_map(|c| c.points.iter().map(|p| p.1)).filter(|h| h.is_finite()).collect();
         hs.sort_by(f64::total_cmp);
         let ymax = hs.get(hs.len() * 95 / 100).copied().unwrap_or(1.0).max(1e-9) * 1.2;
         let mut chart = axes(

@@ -92,10 +92,7 @@ pub(crate) fn draw_curves<'a, DB: DrawingBackend + 'a>(
     for (i, c) in curves.iter().enumerate() {
         let colour = theme::series(i);
         chart
-            .draw_series(LineSeries::new(
-                c.points.iter().copied().filter(|p| p.1.is_finite()),
-                colour.stroke_width(2),
-            ))
+            .draw_series(LineSeries::new(c.points.iter().copied().filter(|p| p.1.is_finite()), colour.stroke_width(2)))
             .map_err(de)?
             .label(c.label.clone())
             .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], colour.stroke_width(2)));
@@ -116,14 +113,8 @@ impl Figure for IntervalFigure {
     }
     fn draw<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String> {
         let xmax = self.curves.first().and_then(|c| c.points.last()).map_or(1.0, |p| p.0);
-        let mut chart = axes(
-            root,
-            &self.title,
-            0.0..xmax,
-            0.0..1.0,
-            "interval length (Myr)",
-            "fraction of intervals not longer",
-        )?;
+        let mut chart =
+            axes(root, &self.title, 0.0..xmax, 0.0..1.0, "interval length (Myr)", "fraction of intervals not longer")?;
         let n = self.lengths.len() as f64;
         let mut steps = vec![(0.0, 0.0)];
         for (i, &x) in self.lengths.iter().enumerate() {

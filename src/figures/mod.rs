@@ -3,21 +3,21 @@
 
 mod column;
 mod equal_area;
-mod pole_plot;
 mod fold;
 mod hazard;
 mod intervals;
+mod pole_plot;
 mod rate;
 mod render;
-mod vector_endpoint;
 pub mod theme;
+mod vector_endpoint;
 
 pub use column::{ColumnFigure, ScalePanel};
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
-pub use pole_plot::{pole_map_rim, pole_map_xy, MappedVgp, PolePlot};
 pub use fold::FoldPlot;
-pub use render::{de, register_fonts, render, Figure, FigureFormat};
-pub use vector_endpoint::{endpoint_projections, VectorEndpointPlot};
 pub use hazard::HazardFigure;
 pub use intervals::{Curve, IntervalFigure};
+pub use pole_plot::{pole_map_rim, pole_map_xy, MappedVgp, PolePlot};
 pub use rate::RateFigure;
+pub use render::{de, register_fonts, render, Figure, FigureFormat};
+pub use vector_endpoint::{endpoint_projections, VectorEndpointPlot};

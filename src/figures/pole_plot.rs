@@ -65,7 +65,13 @@ impl Map {
         ((self.cx + x * self.rad).round() as i32, (self.cy - y * self.rad).round() as i32)
     }
     /// Draw a polyline of points, broken where it leaves the map.
-    fn line<DB: DrawingBackend>(&self, area: &DrawingArea<DB, Shift>, pts: &[GeoPoint], style: ShapeStyle, dashed: bool) -> Result<(), String> {
+    fn line<DB: DrawingBackend>(
+        &self,
+        area: &DrawingArea<DB, Shift>,
+        pts: &[GeoPoint],
+        style: ShapeStyle,
+        dashed: bool,
+    ) -> Result<(), String> {
         let mut run: Vec<(i32, i32)> = Vec::new();
         let flush = |run: &mut Vec<(i32, i32)>| -> Result<(), String> {
             if run.len() > 1 {
@@ -120,7 +126,13 @@ impl Figure for PolePlot {
         let area = left.margin(36, 0, 0, 0);
         let (w, h) = area.dim_in_pixel();
         let rim = pole_map_rim(self.centre, self.vgps.iter().map(|v| v.pole));
-        let m = Map { centre: self.centre, rim, cx: w as f64 / 2.0, cy: h as f64 / 2.0, rad: (w.min(h) as f64) / 2.0 - 36.0 };
+        let m = Map {
+            centre: self.centre,
+            rim,
+            cx: w as f64 / 2.0,
+            cy: h as f64 / 2.0,
+            rad: (w.min(h) as f64) / 2.0 - 36.0,
+        };
         // Graticule: parallels every 30 deg, meridians every 30 deg; the rim.
         let guide = theme::GUIDE.stroke_width(1);
         for lat in [-60.0, -30.0, 0.0, 30.0, 60.0] {
@@ -135,7 +147,13 @@ impl Figure for PolePlot {
             // Label the meridian where it last lies on the map, toward the rim.
             if let Some(p) = pts.iter().rev().find(|p| m.inside(**p) && m.centre.distance_azimuth(**p).0 > rim - 12.0) {
                 let (x, y) = m.px(*p);
-                let text = if lon == 0.0 || lon == 180.0 { format!("{lon:.0}°") } else if lon < 180.0 { format!("{lon:.0}°E") } else { format!("{:.0}°W", 360.0 - lon) };
+                let text = if lon == 0.0 || lon == 180.0 {
+                    format!("{lon:.0}°")
+                } else if lon < 180.0 {
+                    format!("{lon:.0}°E")
+                } else {
+                    format!("{:.0}°W", 360.0 - lon)
+                };
                 area.draw(&Text::new(text, (x + 3, y - 6), label.clone())).map_err(de)?;
             }
         }
@@ -188,7 +206,9 @@ impl Figure for PolePlot {
         }
         // Key, drawn by hand.
         let mut y = 54;
-        let mut key = |draw: &dyn Fn(&DrawingArea<DB, Shift>, (i32, i32)) -> Result<(), String>, text: String| -> Result<(), String> {
+        let mut key = |draw: &dyn Fn(&DrawingArea<DB, Shift>, (i32, i32)) -> Result<(), String>,
+                       text: String|
+         -> Result<(), String> {
             draw(&right, (16, y + 7))?;
             right.draw(&Text::new(text, (32, y), small.clone())).map_err(de)?;
             y += 22;
@@ -208,14 +228,32 @@ impl Figure for PolePlot {
             )?;
         }
         if n_out > 0 {
-            key(&|a, p| a.draw(&Cross::new(p, 4, theme::INTERMEDIATE.stroke_width(2))).map_err(de), format!("outside the cutoff ({n_out})"))?;
+            key(
+                &|a, p| a.draw(&Cross::new(p, 4, theme::INTERMEDIATE.stroke_width(2))).map_err(de),
+                format!("outside the cutoff ({n_out})"),
+            )?;
         }
         if let Some((_, a95)) = self.mean {
             let txt = a95.map(|a| format!("paleopole, A95 {a:.1}°")).unwrap_or_else(|| "paleopole".into());
-            key(&|a, p| a.draw(&Polygon::new(vec![(p.0, p.1 - 7), (p.0 + 7, p.1), (p.0, p.1 + 7), (p.0 - 7, p.1)], mean_col.filled())).map_err(de), txt)?;
+            key(
+                &|a, p| {
+                    a.draw(&Polygon::new(
+                        vec![(p.0, p.1 - 7), (p.0 + 7, p.1), (p.0, p.1 + 7), (p.0 - 7, p.1)],
+                        mean_col.filled(),
+                    ))
+                    .map_err(de)
+                },
+                txt,
+            )?;
         }
         if let Some((_, c)) = self.cutoff {
-            key(&|a, p| a.draw(&PathElement::new(vec![(p.0 - 8, p.1), (p.0 - 2, p.1)], theme::series(1).stroke_width(1))).map_err(de), format!("cutoff {c:.1}° about the mean"))?;
+            key(
+                &|a, p| {
+                    a.draw(&PathElement::new(vec![(p.0 - 8, p.1), (p.0 - 2, p.1)], theme::series(1).stroke_width(1)))
+                        .map_err(de)
+                },
+                format!("cutoff {c:.1}° about the mean"),
+            )?;
         }
         y += 8;
         for line in [
@@ -247,7 +285,11 @@ mod tests {
         // Equal area (Snyder 1987, §24): the area inside radius r is proportional to the cap area 1 - cos(rho).
         for rho in [10.0f64, 45.0, 80.0] {
             let (x, y) = pole_map_xy(np, GeoPoint::new(90.0 - rho, 33.0).unwrap(), 90.0);
-            assert_abs_diff_eq!(x * x + y * y, (1.0 - rho.to_radians().cos()) / (1.0 - 90f64.to_radians().cos()), epsilon = 1e-12);
+            assert_abs_diff_eq!(
+                x * x + y * y,
+                (1.0 - rho.to_radians().cos()) / (1.0 - 90f64.to_radians().cos()),
+                epsilon = 1e-12
+            );
         }
         assert_eq!(pole_map_rim(np, [GeoPoint::new(10.0, 0.0).unwrap()]), 90.0);
         assert_eq!(pole_map_rim(np, [GeoPoint::new(-40.0, 0.0).unwrap()]), 150.0);

@@ -25,15 +25,9 @@ impl Figure for RateFigure {
         (900, 520)
     }
     fn draw<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String> {
-        let (x0, x1) = self
-            .points
-            .iter()
-            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.age), b.max(p.age)));
-        let (x0, x1) = if x0 < x1 {
-            (x0 - self.window / 2.0, x1 + self.window / 2.0)
-        } else {
-            (0.0, 1.0)
-        };
+        let (x0, x1) =
+            self.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.age), b.max(p.age)));
+        let (x0, x1) = if x0 < x1 { (x0 - self.window / 2.0, x1 + self.window / 2.0) } else { (0.0, 1.0) };
         let ymax = self.points.iter().map(|p| p.high).fold(0.0, f64::max).max(1e-9) * 1.1;
         let y_desc = format!("reversals per Myr ({} Myr window)", self.window);
         let mut chart = axes(root, &self.title, x0..x1, 0.0..ymax, "age (Ma)", &y_desc)?;

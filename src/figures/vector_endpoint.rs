@@ -51,11 +51,7 @@ impl VectorEndpointPlot {
             Anchor::Origin => Vec3::ZERO,
         };
         let proj: Vec<f64> = pts.iter().map(|p| (*p - centre).dot(v)).collect();
-        let (mut lo, mut hi) = proj
-            .iter()
-            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &t| {
-                (a.min(t), b.max(t))
-            });
+        let (mut lo, mut hi) = proj.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &t| (a.min(t), b.max(t)));
         if f.anchor == Anchor::Origin {
             lo = lo.min(0.0);
             hi = hi.max(0.0);
@@ -63,10 +59,7 @@ impl VectorEndpointPlot {
         Some((centre + v * lo, centre + v * hi))
     }
 
-    fn draw_endpoints<DB: DrawingBackend>(
-        &self,
-        area: &DrawingArea<DB, Shift>,
-    ) -> Result<(), String> {
+    fn draw_endpoints<DB: DrawingBackend>(&self, area: &DrawingArea<DB, Shift>) -> Result<(), String> {
         let (w, h) = area.dim_in_pixel();
         let (w, h) = (w as f64, h as f64);
         let mut ext: f64 = 0.0;
@@ -91,66 +84,28 @@ impl VectorEndpointPlot {
         let scale = ((w - 2.0 * margin) / (hi.0 - lo.0)).min((h - 2.0 * margin) / (hi.1 - lo.1));
         let ox = margin + ((w - 2.0 * margin) - scale * (hi.0 - lo.0)) / 2.0 - scale * lo.0;
         let oy = margin + ((h - 2.0 * margin) - scale * (hi.1 - lo.1)) / 2.0 + scale * hi.1;
-        let px = |(a, b): (f64, f64)| -> (i32, i32) {
-            (
-                (ox + scale * a).round() as i32,
-                (oy - scale * b).round() as i32,
-            )
-        };
+        let px =
+            |(a, b): (f64, f64)| -> (i32, i32) { ((ox + scale * a).round() as i32, (oy - scale * b).round() as i32) };
         // Axes through the origin across the data box.
         let axis = theme::GUIDE.stroke_width(1);
-        area.draw(&PathElement::new(
-            vec![px((lo.0, 0.0)), px((hi.0, 0.0))],
-            axis,
-        ))
-        .map_err(de)?;
-        area.draw(&PathElement::new(
-            vec![px((0.0, lo.1)), px((0.0, hi.1))],
-            axis,
-        ))
-        .map_err(de)?;
+        area.draw(&PathElement::new(vec![px((lo.0, 0.0)), px((hi.0, 0.0))], axis)).map_err(de)?;
+        area.draw(&PathElement::new(vec![px((0.0, lo.1)), px((0.0, hi.1))], axis)).map_err(de)?;
         let font = (theme::FONT, 13).into_font().color(&theme::INK);
-        let (r_end, l_end, t_end, b_end) = (
-            px((hi.0, 0.0)),
-            px((lo.0, 0.0)),
-            px((0.0, hi.1)),
-            px((0.0, lo.1)),
-        );
-        area.draw(&Text::new("N", (r_end.0 + 4, r_end.1 - 7), font.clone()))
-            .map_err(de)?;
-        area.draw(&Text::new("S", (l_end.0 - 14, l_end.1 - 7), font.clone()))
-            .map_err(de)?;
-        area.draw(&Text::new(
-            "W, up",
-            (t_end.0 + 4, t_end.1 - 14),
-            font.clone(),
-        ))
-        .map_err(de)?;
-        area.draw(&Text::new(
-            "E, down",
-            (b_end.0 + 4, b_end.1 + 2),
-            font.clone(),
-        ))
-        .map_err(de)?;
+        let (r_end, l_end, t_end, b_end) = (px((hi.0, 0.0)), px((lo.0, 0.0)), px((0.0, hi.1)), px((0.0, lo.1)));
+        area.draw(&Text::new("N", (r_end.0 + 4, r_end.1 - 7), font.clone())).map_err(de)?;
+        area.draw(&Text::new("S", (l_end.0 - 14, l_end.1 - 7), font.clone())).map_err(de)?;
+        area.draw(&Text::new("W, up", (t_end.0 + 4, t_end.1 - 14), font.clone())).map_err(de)?;
+        area.draw(&Text::new("E, down", (b_end.0 + 4, b_end.1 + 2), font.clone())).map_err(de)?;
         let (hcol, vcol) = (theme::series(0), theme::series(1));
         for (k, col) in [(0usize, hcol), (1, vcol)] {
-            let path: Vec<(i32, i32)> = self
-                .steps
-                .iter()
-                .map(|(_, v)| px(endpoint_projections(*v)[k]))
-                .collect();
-            area.draw(&PathElement::new(path, col.mix(0.6).stroke_width(1)))
-                .map_err(de)?;
+            let path: Vec<(i32, i32)> = self.steps.iter().map(|(_, v)| px(endpoint_projections(*v)[k])).collect();
+            area.draw(&PathElement::new(path, col.mix(0.6).stroke_width(1))).map_err(de)?;
         }
         for f in &self.fits {
             if let Some((a, b)) = self.fit_segment(f) {
                 for k in 0..2 {
-                    let (pa, pb) = (
-                        px(endpoint_projections(a)[k]),
-                        px(endpoint_projections(b)[k]),
-                    );
-                    area.draw(&PathElement::new(vec![pa, pb], FIT.stroke_width(3)))
-                        .map_err(de)?;
+                    let (pa, pb) = (px(endpoint_projections(a)[k]), px(endpoint_projections(b)[k]));
+                    area.draw(&PathElement::new(vec![pa, pb], FIT.stroke_width(3))).map_err(de)?;
                 }
             }
         }
@@ -160,39 +115,19 @@ impl VectorEndpointPlot {
             let [hp, vp] = endpoint_projections(*v);
             let (ph, pv) = (px(hp), px(vp));
             area.draw(&Circle::new(ph, 4, hcol.filled())).map_err(de)?;
-            area.draw(&Rectangle::new(
-                [(pv.0 - 4, pv.1 - 4), (pv.0 + 4, pv.1 + 4)],
-                theme::PAPER.filled(),
-            ))
-            .map_err(de)?;
-            area.draw(&Rectangle::new(
-                [(pv.0 - 4, pv.1 - 4), (pv.0 + 4, pv.1 + 4)],
-                vcol.stroke_width(2),
-            ))
-            .map_err(de)?;
-            if i % every == 0 || i + 1 == self.steps.len() {
-                area.draw(&Text::new(
-                    format_step(*step),
-                    (ph.0 + 6, ph.1 - 14),
-                    small.clone(),
-                ))
+            area.draw(&Rectangle::new([(pv.0 - 4, pv.1 - 4), (pv.0 + 4, pv.1 + 4)], theme::PAPER.filled()))
                 .map_err(de)?;
+            area.draw(&Rectangle::new([(pv.0 - 4, pv.1 - 4), (pv.0 + 4, pv.1 + 4)], vcol.stroke_width(2)))
+                .map_err(de)?;
+            if i % every == 0 || i + 1 == self.steps.len() {
+                area.draw(&Text::new(format_step(*step), (ph.0 + 6, ph.1 - 14), small.clone())).map_err(de)?;
             }
         }
         // A scale bar of one round length, labelled to its right.
         let bar = (nice_step(ext) * scale).round() as i32;
         let y0 = h as i32 - 12;
-        area.draw(&PathElement::new(
-            vec![(10, y0), (10 + bar, y0)],
-            theme::INK.stroke_width(2),
-        ))
-        .map_err(de)?;
-        area.draw(&Text::new(
-            format!("{} A·m²", sig(nice_step(ext))),
-            (16 + bar, y0 - 7),
-            small,
-        ))
-        .map_err(de)?;
+        area.draw(&PathElement::new(vec![(10, y0), (10 + bar, y0)], theme::INK.stroke_width(2))).map_err(de)?;
+        area.draw(&Text::new(format!("{} A·m²", sig(nice_step(ext))), (16 + bar, y0 - 7), small)).map_err(de)?;
         Ok(())
     }
 }
@@ -234,11 +169,7 @@ impl Figure for VectorEndpointPlot {
         root.fill(&theme::PAPER).map_err(de)?;
         let title_font = (theme::FONT, 18).into_font().color(&theme::INK);
         root.draw(&Text::new(
-            format!(
-                "Specimen {} — demagnetization ({} steps)",
-                self.specimen,
-                self.steps.len()
-            ),
+            format!("Specimen {} — demagnetization ({} steps)", self.specimen, self.steps.len()),
             (16, 10),
             title_font,
         ))
@@ -247,15 +178,9 @@ impl Figure for VectorEndpointPlot {
         let (left, right) = body.split_horizontally(600);
         self.draw_endpoints(&left)?;
         let nc = draw_net(&right)?;
-        let dirs: Vec<Direction> = self
-            .steps
-            .iter()
-            .filter_map(|(_, v)| Direction::from_vector(*v))
-            .collect();
+        let dirs: Vec<Direction> = self.steps.iter().filter_map(|(_, v)| Direction::from_vector(*v)).collect();
         let path: Vec<(i32, i32)> = dirs.iter().map(|d| nc.px(project(*d))).collect();
-        right
-            .draw(&PathElement::new(path, theme::GUIDE.stroke_width(1)))
-            .map_err(de)?;
+        right.draw(&PathElement::new(path, theme::GUIDE.stroke_width(1))).map_err(de)?;
         for d in &dirs {
             nc.marker(&right, *d, theme::series(0), 4)?;
         }
@@ -264,24 +189,10 @@ impl Figure for VectorEndpointPlot {
                 FitKind::Plane => nc.curve(&right, &small_circle(f.direction, 90.0, 360), FIT)?,
                 FitKind::Line => {
                     let p = nc.px(project(f.direction));
-                    let diamond = vec![
-                        (p.0, p.1 - 8),
-                        (p.0 + 8, p.1),
-                        (p.0, p.1 + 8),
-                        (p.0 - 8, p.1),
-                        (p.0, p.1 - 8),
-                    ];
-                    let fill = if f.direction.inc >= 0.0 {
-                        FIT
-                    } else {
-                        theme::PAPER
-                    };
-                    right
-                        .draw(&Polygon::new(diamond.clone(), fill.filled()))
-                        .map_err(de)?;
-                    right
-                        .draw(&PathElement::new(diamond, FIT.stroke_width(2)))
-                        .map_err(de)?;
+                    let diamond = vec![(p.0, p.1 - 8), (p.0 + 8, p.1), (p.0, p.1 + 8), (p.0 - 8, p.1), (p.0, p.1 - 8)];
+                    let fill = if f.direction.inc >= 0.0 { FIT } else { theme::PAPER };
+                    right.draw(&Polygon::new(diamond.clone(), fill.filled())).map_err(de)?;
+                    right.draw(&PathElement::new(diamond, FIT.stroke_width(2))).map_err(de)?;
                 }
             }
         }
@@ -289,20 +200,13 @@ impl Figure for VectorEndpointPlot {
         let font = (theme::FONT, 13).into_font().color(&theme::INK);
         let (_, h) = root.dim_in_pixel();
         let mut y = h as i32 - 66;
-        let unit = if self.unit.is_empty() {
-            String::new()
-        } else {
-            format!(" {}", self.unit)
-        };
+        let unit = if self.unit.is_empty() { String::new() } else { format!(" {}", self.unit) };
         for f in self.fits.iter().take(2) {
             let what = match f.kind {
                 FitKind::Line => "line",
                 FitKind::Plane => "plane (pole)",
             };
-            let dang = f
-                .dang
-                .map(|d| format!(", DANG {d:.1}°"))
-                .unwrap_or_default();
+            let dang = f.dang.map(|d| format!(", DANG {d:.1}°")).unwrap_or_default();
             let text = format!(
                 "{what}, {} fit, steps {}–{}{unit} (n = {}): D {:.1}°, I {:.1}°, MAD {:.1}°{dang}",
                 f.anchor.as_str(),
@@ -313,17 +217,12 @@ impl Figure for VectorEndpointPlot {
                 f.direction.inc,
                 f.mad
             );
-            root.draw(&Text::new(text, (16, y), font.clone()))
-                .map_err(de)?;
+            root.draw(&Text::new(text, (16, y), font.clone())).map_err(de)?;
             y += 18;
         }
         let key = "discs: horizontal projection · squares: vertical projection · rust: fitted line or plane";
-        root.draw(&Text::new(
-            key,
-            (16, h as i32 - 22),
-            (theme::FONT, 12).into_font().color(&theme::INK),
-        ))
-        .map_err(de)?;
+        root.draw(&Text::new(key, (16, h as i32 - 22), (theme::FONT, 12).into_font().color(&theme::INK)))
+            .map_err(de)?;
         Ok(())
     }
 }

@@ -11,7 +11,7 @@ mod scatter;
 mod tests;
 
 pub use dipole::{gauss_dipole, vadm, vdm, GaussDipole, EARTH_RADIUS_M, IGRF_REFERENCE_RADIUS_M, MU0};
-pub use oval::{expected_oval, paleolatitude_range, ExpectedOval, pole_oval, vgp_oval, PaleolatitudeRange, PoleOval};
+pub use oval::{expected_oval, paleolatitude_range, pole_oval, vgp_oval, ExpectedOval, PaleolatitudeRange, PoleOval};
 pub use paleopole::{northern, paleopole, Paleopole};
 pub use scatter::{
     bootstrap_scatter, precision_from_a95, vgp_scatter, within_site_sw, Cutoff, Scatter, ScatterInterval, ScatterSite,

@@ -82,7 +82,11 @@ pub struct ExpectedOval {
 /// # References
 /// Butler (1992), §11.1 (expected directions and their confidence limits); Beck (1980), *J. Geophys.
 /// Res.* 85, 7115–7131.
-pub fn expected_oval(site: crate::sphere::GeoPoint, pole: crate::sphere::GeoPoint, a95_deg: f64) -> Result<ExpectedOval> {
+pub fn expected_oval(
+    site: crate::sphere::GeoPoint,
+    pole: crate::sphere::GeoPoint,
+    a95_deg: f64,
+) -> Result<ExpectedOval> {
     check_range("A95", a95_deg, 0.0, 90.0, "[0, 90]")?;
     let (p, _) = site.distance_azimuth(pole);
     let (sp, c2) = (p.to_radians().sin(), p.to_radians().cos().powi(2));

@@ -193,7 +193,8 @@ pub fn vgp_scatter(sites: &[ScatterSite], cutoff: Cutoff) -> Result<Scatter> {
             Cutoff::Vandamme => {
                 let a = 1.8 * f.s_total + 5.0;
                 threshold = Some(a);
-                let (j, dmax) = f.dist.iter().enumerate().fold((0, f64::MIN), |b, (j, &d)| if d > b.1 { (j, d) } else { b });
+                let (j, dmax) =
+                    f.dist.iter().enumerate().fold((0, f64::MIN), |b, (j, &d)| if d > b.1 { (j, d) } else { b });
                 if dmax > a {
                     kept[idx[j]] = false;
                 } else {

@@ -18,7 +18,16 @@ fn vgp_matches_geographiclib_direct_problem_on_a_unit_sphere() {
     // VGP is the point at arc p (magnetic colatitude, in radians = metres) along azimuth D from the site.
     let sphere = Geodesic::new(1.0, 0.0);
     let sites = [(41.6, 243.85), (0.0, 10.0), (-33.9, 18.4), (89.5, 120.0), (-89.0, 300.0), (12.0, 359.9)];
-    let dirs = [(0.0, 60.0), (10.0, 50.0), (200.0, -30.0), (355.0, 5.0), (90.0, 80.0), (180.0, -60.0), (135.0, -89.0), (270.0, 0.0)];
+    let dirs = [
+        (0.0, 60.0),
+        (10.0, 50.0),
+        (200.0, -30.0),
+        (355.0, 5.0),
+        (90.0, 80.0),
+        (180.0, -60.0),
+        (135.0, -89.0),
+        (270.0, 0.0),
+    ];
     for &(la, lo) in &sites {
         let site = GeoPoint::new(la, lo).unwrap();
         for &(d, i) in &dirs {

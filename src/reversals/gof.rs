@@ -120,13 +120,7 @@ pub fn goodness_of_fit(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64)
     let b = null.len() as f64;
     let ks_p = (1.0 + null.iter().filter(|t| t.0 >= d).count() as f64) / (b + 1.0);
     let ad_p = (1.0 + null.iter().filter(|t| t.1 >= a).count() as f64) / (b + 1.0);
-    Ok(GoodnessOfFit {
-        ks_d: d,
-        ks_p,
-        ad: a,
-        ad_p,
-        resamples: null.len(),
-    })
+    Ok(GoodnessOfFit { ks_d: d, ks_p, ad: a, ad_p, resamples: null.len() })
 }
 
 #[cfg(test)]
@@ -141,15 +135,15 @@ mod tests {
         // (a Weibull with shape 1, scale 1 on x = −ln(1 − u) maps to the uniform case).
         let u = [0.1f64, 0.4, 0.7];
         let x: Vec<f64> = u.iter().map(|u| -(1.0 - u).ln()).collect();
-        let e = Fitted {
-            model: Model::Exponential,
-            params: [1.0, f64::NAN],
-        };
+        let e = Fitted { model: Model::Exponential, params: [1.0, f64::NAN] };
         assert!((ks_statistic(&x, |v| e.cdf(v)) - 0.3).abs() < 1e-12);
         // Anderson & Darling (1954) definition written out by hand for the same uniform values:
         // A² = −3 − (1/3)[1·(ln .1 + ln .3) + 3·(ln .4 + ln .6) + 5·(ln .7 + ln .9)].
-        let want =
-            -3.0 - (((0.1f64).ln() + (0.3f64).ln()) + 3.0 * ((0.4f64).ln() + (0.6f64).ln()) + 5.0 * ((0.7f64).ln() + (0.9f64).ln())) / 3.0;
+        let want = -3.0
+            - (((0.1f64).ln() + (0.3f64).ln())
+                + 3.0 * ((0.4f64).ln() + (0.6f64).ln())
+                + 5.0 * ((0.7f64).ln() + (0.9f64).ln()))
+                / 3.0;
         assert!((ad_statistic(&x, &e) - want).abs() < 1e-12);
         // The shared-evaluation path used by the bootstrap gives the same two numbers.
         let g = Fitted { model: Model::Gamma, params: [2.0, 0.2] };
@@ -164,15 +158,9 @@ mod tests {
         // Lilliefors (1969), Table 1 (exponential, mean unknown), n = 20, 5 % level: about 0.234
         // (value as stated in the issue; from memory of the table). The 95 % quantile of the
         // bootstrap null distribution of D must agree within Monte Carlo error.
-        let e = Fitted {
-            model: Model::Exponential,
-            params: [1.0, f64::NAN],
-        };
+        let e = Fitted { model: Model::Exponential, params: [1.0, f64::NAN] };
         let s = Sample::new((1..=20).map(|i| i as f64 / 10.0).collect(), None).unwrap();
-        let mut d: Vec<f64> = null_statistics(&e, &s, &MonteCarlo::new(5, 4000), 0)
-            .into_iter()
-            .map(|t| t.0)
-            .collect();
+        let mut d: Vec<f64> = null_statistics(&e, &s, &MonteCarlo::new(5, 4000), 0).into_iter().map(|t| t.0).collect();
         d.sort_by(f64::total_cmp);
         let q = quantile_sorted(&d, 0.95);
         eprintln!("bootstrap 95 % point of D (exponential, n = 20, 4000 replicates): {q:.4}");
@@ -184,10 +172,7 @@ mod tests {
     #[test]
     fn bootstrap_p_values_behave() {
         // Gamma(2) data: the exponential model is rejected, the gamma model is not (seeded).
-        let g = Fitted {
-            model: Model::Gamma,
-            params: [2.0, 0.125],
-        };
+        let g = Fitted { model: Model::Gamma, params: [2.0, 0.125] };
         let xs = MonteCarlo::new(9, 150).run("x", 0, |r, _| g.sample(r));
         let s = Sample::new(xs, None).unwrap();
         let mc = MonteCarlo::new(1, 200);

@@ -100,11 +100,7 @@ fn averaged_p(fits: &RenewalFits, elapsed: f64, horizon: f64) -> Option<f64> {
 pub fn hazard_at(fits: &RenewalFits, s: &Sample, elapsed: f64, horizon: f64) -> Result<HazardEstimate> {
     crate::error::check_range("elapsed", elapsed, 0.0, f64::MAX, "[0, ∞) Myr")?;
     if !(horizon > 0.0 && horizon.is_finite()) {
-        return Err(Error::OutOfRange {
-            name: "horizon",
-            value: horizon,
-            range: "(0, ∞) Myr",
-        });
+        return Err(Error::OutOfRange { name: "horizon", value: horizon, range: "(0, ∞) Myr" });
     }
     if fits.fits.is_empty() {
         return Err(Error::Undefined("no renewal model could be fitted".into()));
@@ -121,8 +117,8 @@ pub fn hazard_at(fits: &RenewalFits, s: &Sample, elapsed: f64, horizon: f64) -> 
             weight: f.weight,
         })
         .collect();
-    let averaged =
-        averaged_p(fits, elapsed, horizon).ok_or_else(|| Error::Undefined(format!("no model gives a finite survival at {elapsed} Myr")))?;
+    let averaged = averaged_p(fits, elapsed, horizon)
+        .ok_or_else(|| Error::Undefined(format!("no model gives a finite survival at {elapsed} Myr")))?;
     let shorter = s.complete.iter().filter(|&&x| x < elapsed).count();
     Ok(HazardEstimate {
         elapsed,
@@ -150,11 +146,7 @@ pub fn averaged_interval(
     stream: u64,
 ) -> Result<BootInterval> {
     if !(level > 0.0 && level < 1.0) {
-        return Err(Error::OutOfRange {
-            name: "level",
-            value: level,
-            range: "(0, 1)",
-        });
+        return Err(Error::OutOfRange { name: "level", value: level, range: "(0, 1)" });
     }
     let n = s.n();
     let mut vals: Vec<f64> = mc
@@ -187,10 +179,7 @@ mod tests {
     fn exponential_has_no_memory() {
         // Commonly stated figure: mean interval 0.25 Myr. P(reversal within 0.1 Myr | elapsed T) =
         // 1 − e^(−0.4) ≈ 0.330 for every T (Cox 1962: the exponential is the memoryless law).
-        let e = Fitted {
-            model: Model::Exponential,
-            params: [4.0, f64::NAN],
-        };
+        let e = Fitted { model: Model::Exponential, params: [4.0, f64::NAN] };
         for t in [0.0, 0.1, 0.77, 3.0] {
             assert!((p_within(&e, t, 0.1).unwrap() - (1.0 - (-0.4f64).exp())).abs() < 1e-12);
         }
@@ -199,10 +188,7 @@ mod tests {
     #[test]
     fn gamma_shape_above_one_has_rising_hazard() {
         // Shape > 1: the hazard increases with elapsed time, so P(within) does too (Cox 1962, §1.3).
-        let g = Fitted {
-            model: Model::Gamma,
-            params: [2.0, 0.125],
-        };
+        let g = Fitted { model: Model::Gamma, params: [2.0, 0.125] };
         assert!(p_within(&g, 0.5, 0.1).unwrap() > p_within(&g, 0.05, 0.1).unwrap());
         // Exact: S(x) = (1 + x/θ) e^(−x/θ) for shape 2 (closed form of the Erlang survival).
         let s = |x: f64| (1.0 + x / 0.125) * (-x / 0.125).exp();
@@ -219,11 +205,7 @@ mod tests {
         assert!((h.averaged - manual).abs() < 1e-12);
         assert!((h.percentile - 100.0 * 14.0 / 40.0).abs() < 1e-12); // 0.02 … 0.28 are shorter than 0.3
         let b = averaged_interval(&s, &Model::ALL, 0.3, 0.1, 0.9, &MonteCarlo::new(1, 60), 0).unwrap();
-        assert!(
-            b.low <= h.averaged + 0.05 && b.high >= h.averaged - 0.05 && b.low <= b.high,
-            "{b:?} {}",
-            h.averaged
-        );
+        assert!(b.low <= h.averaged + 0.05 && b.high >= h.averaged - 0.05 && b.low <= b.high, "{b:?} {}", h.averaged);
         assert!(hazard_at(&fits, &s, -1.0, 0.1).is_err());
         assert!(hazard_at(&fits, &s, 0.3, 0.0).is_err());
     }

@@ -43,12 +43,7 @@ pub struct IntervalOptions {
 
 impl Default for IntervalOptions {
     fn default() -> Self {
-        IntervalOptions {
-            from: None,
-            to: None,
-            min_length: 0.0,
-            censor: true,
-        }
+        IntervalOptions { from: None, to: None, min_length: 0.0, censor: true }
     }
 }
 
@@ -96,19 +91,10 @@ impl IntervalRecord {
 /// (short events and the interval distribution); Lawless (2003), §1.2 (right censoring).
 pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord> {
     if ts.chrons.is_empty() {
-        return Err(Error::TooFew {
-            what: "a time scale",
-            needed: 1,
-            got: 0,
-            unit: "chrons",
-        });
+        return Err(Error::TooFew { what: "a time scale", needed: 1, got: 0, unit: "chrons" });
     }
     if !(opt.min_length.is_finite() && opt.min_length >= 0.0) {
-        return Err(Error::OutOfRange {
-            name: "min_length",
-            value: opt.min_length,
-            range: "[0, ∞) Myr",
-        });
+        return Err(Error::OutOfRange { name: "min_length", value: opt.min_length, range: "[0, ∞) Myr" });
     }
     let from = opt.from.unwrap_or(ts.young()).max(ts.young());
     let to = opt.to.unwrap_or(ts.old()).min(ts.old());
@@ -194,11 +180,8 @@ pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord
     if opt.censor {
         rec.censored = rec.open.as_ref().map(Interval::duration);
     }
-    rec.reversals = list
-        .windows(2)
-        .map(|w| w[0].old)
-        .filter(|&a| a > from + AGE_TOLERANCE && a < to - AGE_TOLERANCE)
-        .collect();
+    rec.reversals =
+        list.windows(2).map(|w| w[0].old).filter(|&a| a > from + AGE_TOLERANCE && a < to - AGE_TOLERANCE).collect();
     Ok(rec)
 }
 
@@ -226,28 +209,14 @@ mod tests {
         assert_eq!(d, vec![0.3, 0.02, 0.48, 0.5]);
         assert_eq!(r.left_out, 1);
         assert_eq!(r.reversals.len(), 5);
-        let no = intervals(
-            &ts(SCALE),
-            &IntervalOptions {
-                censor: false,
-                ..Default::default()
-            },
-        )
-        .unwrap();
+        let no = intervals(&ts(SCALE), &IntervalOptions { censor: false, ..Default::default() }).unwrap();
         assert_eq!(no.censored, None);
         assert_eq!(no.complete.len(), 4);
     }
 
     #[test]
     fn short_chrons_merge_into_neighbours() {
-        let r = intervals(
-            &ts(SCALE),
-            &IntervalOptions {
-                min_length: 0.03,
-                ..Default::default()
-            },
-        )
-        .unwrap();
+        let r = intervals(&ts(SCALE), &IntervalOptions { min_length: 0.03, ..Default::default() }).unwrap();
         assert_eq!(r.merged_short, 1);
         // R 0.7–1.0, N event, R 1.02–1.5 become one reversed interval 0.7–1.5.
         assert!((r.complete[0].duration() - 0.8).abs() < 1e-12);
@@ -260,26 +229,13 @@ mod tests {
 
     #[test]
     fn window_leaves_out_cut_intervals() {
-        let r = intervals(
-            &ts(SCALE),
-            &IntervalOptions {
-                from: Some(0.8),
-                to: Some(2.0),
-                ..Default::default()
-            },
-        )
-        .unwrap();
+        let r =
+            intervals(&ts(SCALE), &IntervalOptions { from: Some(0.8), to: Some(2.0), ..Default::default() }).unwrap();
         assert!(r.open.is_none() && r.censored.is_none());
         assert_eq!(r.left_out, 1); // the reversed interval 0.7–1.0 is cut at 0.8
         assert_eq!(r.complete.len(), 3);
-        assert!(intervals(
-            &ts(SCALE),
-            &IntervalOptions {
-                from: Some(3.0),
-                to: Some(2.0),
-                ..Default::default()
-            }
-        )
-        .is_err());
+        assert!(
+            intervals(&ts(SCALE), &IntervalOptions { from: Some(3.0), to: Some(2.0), ..Default::default() }).is_err()
+        );
     }
 }

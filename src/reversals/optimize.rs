@@ -28,7 +28,14 @@ pub struct Minimum {
 /// Nelder, J. A. & Mead, R. (1965), A simplex method for function minimization. *Computer Journal*
 /// 7, 308–313. Lagarias, J. C. et al. (1998), *SIAM J. Optim.* 9, 112–147 (convergence in low
 /// dimensions).
-pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(mut f: F, start: &[f64], step: f64, ftol: f64, xtol: f64, max_eval: usize) -> Minimum {
+pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(
+    mut f: F,
+    start: &[f64],
+    step: f64,
+    ftol: f64,
+    xtol: f64,
+    max_eval: usize,
+) -> Minimum {
     let n = start.len();
     let mut eval = 0usize;
     let mut g = |x: &[f64], eval: &mut usize| {
@@ -54,10 +61,8 @@ pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(mut f: F, start: &[f64], step: f64, 
         simplex = order.iter().map(|&i| simplex[i].clone()).collect();
         vals = order.iter().map(|&i| vals[i]).collect();
         let spread = (vals[n] - vals[0]).abs();
-        let size = simplex[1..]
-            .iter()
-            .flat_map(|p| p.iter().zip(&simplex[0]).map(|(a, b)| (a - b).abs()))
-            .fold(0.0, f64::max);
+        let size =
+            simplex[1..].iter().flat_map(|p| p.iter().zip(&simplex[0]).map(|(a, b)| (a - b).abs())).fold(0.0, f64::max);
         if spread <= ftol && size <= xtol {
             converged = true;
             break;
@@ -101,12 +106,7 @@ pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(mut f: F, start: &[f64], step: f64, 
         }
     }
     let best = (0..=n).min_by(|&a, &b| vals[a].total_cmp(&vals[b])).unwrap_or(0);
-    Minimum {
-        x: simplex[best].clone(),
-        value: vals[best],
-        evaluations: eval,
-        converged,
-    }
+    Minimum { x: simplex[best].clone(), value: vals[best], evaluations: eval, converged }
 }
 
 /// Root of a decreasing function `g` on (lo, hi) by Newton steps safeguarded with bisection.
@@ -115,7 +115,13 @@ pub fn nelder_mead<F: FnMut(&[f64]) -> f64>(mut f: F, start: &[f64], step: f64, 
 ///
 /// # References
 /// Press, W. H. et al. (2007), *Numerical Recipes*, 3rd ed., §9.4 (`rtsafe`).
-pub fn newton_bisect<G: FnMut(f64) -> (f64, f64)>(mut g: G, mut lo: f64, mut hi: f64, start: f64, tol: f64) -> Option<f64> {
+pub fn newton_bisect<G: FnMut(f64) -> (f64, f64)>(
+    mut g: G,
+    mut lo: f64,
+    mut hi: f64,
+    start: f64,
+    tol: f64,
+) -> Option<f64> {
     let (glo, _) = g(lo);
     let (ghi, _) = g(hi);
     if !(glo > 0.0 && ghi < 0.0) {
@@ -133,11 +139,7 @@ pub fn newton_bisect<G: FnMut(f64) -> (f64, f64)>(mut g: G, mut lo: f64, mut hi:
             hi = x
         }
         let newton = x - v / d;
-        let next = if d.is_finite() && d != 0.0 && newton > lo && newton < hi {
-            newton
-        } else {
-            0.5 * (lo + hi)
-        };
+        let next = if d.is_finite() && d != 0.0 && newton > lo && newton < hi { newton } else { 0.5 * (lo + hi) };
         if (next - x).abs() <= tol * (1.0 + x.abs()) {
             return Some(next);
         }

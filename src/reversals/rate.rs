@@ -35,31 +35,16 @@ pub struct RatePoint {
 /// Cox & Lewis (1966), §3.
 pub fn windowed_rate(ages: &[f64], from: f64, to: f64, window: f64, step: f64, level: f64) -> Result<Vec<RatePoint>> {
     if !(window > 0.0 && window.is_finite()) {
-        return Err(Error::OutOfRange {
-            name: "window",
-            value: window,
-            range: "(0, ∞) Myr",
-        });
+        return Err(Error::OutOfRange { name: "window", value: window, range: "(0, ∞) Myr" });
     }
     if !(step > 0.0 && step.is_finite()) {
-        return Err(Error::OutOfRange {
-            name: "step",
-            value: step,
-            range: "(0, ∞) Myr",
-        });
+        return Err(Error::OutOfRange { name: "step", value: step, range: "(0, ∞) Myr" });
     }
     if !(level > 0.0 && level < 1.0) {
-        return Err(Error::OutOfRange {
-            name: "level",
-            value: level,
-            range: "(0, 1)",
-        });
+        return Err(Error::OutOfRange { name: "level", value: level, range: "(0, 1)" });
     }
     if window > to - from {
-        return Err(Error::Invalid(format!(
-            "the window ({window} Myr) is longer than the record ({} Myr)",
-            to - from
-        )));
+        return Err(Error::Invalid(format!("the window ({window} Myr) is longer than the record ({} Myr)", to - from)));
     }
     let alpha = 1.0 - level;
     let n_points = ((to - from - window) / step + 1e-9).floor() as usize + 1;
@@ -68,19 +53,9 @@ pub fn windowed_rate(ages: &[f64], from: f64, to: f64, window: f64, step: f64, l
         let lo = from + i as f64 * step;
         let hi = lo + window;
         let k = ages.iter().filter(|&&a| a >= lo && a < hi).count();
-        let low = if k == 0 {
-            0.0
-        } else {
-            chi2_quantile(alpha / 2.0, 2.0 * k as f64) / (2.0 * window)
-        };
+        let low = if k == 0 { 0.0 } else { chi2_quantile(alpha / 2.0, 2.0 * k as f64) / (2.0 * window) };
         let high = chi2_quantile(1.0 - alpha / 2.0, 2.0 * k as f64 + 2.0) / (2.0 * window);
-        out.push(RatePoint {
-            age: 0.5 * (lo + hi),
-            rate: k as f64 / window,
-            low,
-            high,
-            count: k,
-        });
+        out.push(RatePoint { age: 0.5 * (lo + hi), rate: k as f64 / window, low, high, count: k });
     }
     Ok(out)
 }
@@ -112,20 +87,11 @@ pub fn laplace_test(ages: &[f64], from: f64, to: f64) -> Result<LaplaceTest> {
     let inside: Vec<f64> = ages.iter().filter(|&&a| a > from && a < to).map(|a| to - a).collect();
     let n = inside.len();
     if n < 2 {
-        return Err(Error::TooFew {
-            what: "the Laplace trend test",
-            needed: 2,
-            got: n,
-            unit: "reversals",
-        });
+        return Err(Error::TooFew { what: "the Laplace trend test", needed: 2, got: n, unit: "reversals" });
     }
     let t = to - from;
     let u = (inside.iter().sum::<f64>() / n as f64 - t / 2.0) / (t * (1.0 / (12.0 * n as f64)).sqrt());
-    Ok(LaplaceTest {
-        n,
-        u,
-        p_value: two_sided(u),
-    })
+    Ok(LaplaceTest { n, u, p_value: two_sided(u) })
 }
 
 fn two_sided(z: f64) -> f64 {
@@ -168,22 +134,13 @@ pub fn clustering_test(ages: &[f64]) -> Result<ClusteringTest> {
     let mut h = Vec::new();
     for i in 2..t.len().saturating_sub(2) {
         let (fwd, back) = (t[i + 1] - t[i], t[i] - t[i - 1]);
-        let (dt, tau) = if fwd < back {
-            (fwd, t[i + 2] - t[i + 1])
-        } else {
-            (back, t[i - 1] - t[i - 2])
-        };
+        let (dt, tau) = if fwd < back { (fwd, t[i + 2] - t[i + 1]) } else { (back, t[i - 1] - t[i - 2]) };
         if 2.0 * dt + tau > 0.0 {
             h.push(2.0 * dt / (2.0 * dt + tau));
         }
     }
     if h.len() < 3 {
-        return Err(Error::TooFew {
-            what: "the clustering test",
-            needed: 7,
-            got: t.len(),
-            unit: "reversals",
-        });
+        return Err(Error::TooFew { what: "the clustering test", needed: 7, got: t.len(), unit: "reversals" });
     }
     let n = h.len() as f64;
     let mean_h = h.iter().sum::<f64>() / n;
@@ -193,14 +150,7 @@ pub fn clustering_test(ages: &[f64]) -> Result<ClusteringTest> {
     let ks_d = super::gof::ks_statistic(&sorted, |x| x.clamp(0.0, 1.0));
     let lambda = (n.sqrt() + 0.12 + 0.11 / n.sqrt()) * ks_d;
     h.reverse();
-    Ok(ClusteringTest {
-        h,
-        mean_h,
-        z,
-        p_value: two_sided(z),
-        ks_d,
-        ks_p: kolmogorov_sf(lambda),
-    })
+    Ok(ClusteringTest { h, mean_h, z, p_value: two_sided(z), ks_d, ks_p: kolmogorov_sf(lambda) })
 }
 
 /// Survival function of the Kolmogorov distribution, Q(λ) = 2 Σₖ (−1)^(k−1) e^(−2k²λ²).
@@ -277,11 +227,7 @@ mod tests {
             })
             .remove(0);
         let c = clustering_test(&ages).unwrap();
-        assert!(
-            (c.mean_h - 0.5).abs() < 4.0 * (1.0 / (12.0 * c.h.len() as f64)).sqrt(),
-            "{}",
-            c.mean_h
-        );
+        assert!((c.mean_h - 0.5).abs() < 4.0 * (1.0 / (12.0 * c.h.len() as f64)).sqrt(), "{}", c.mean_h);
         // Tight pairs of events, far apart: strongly clustered, H near 0.
         let pairs: Vec<f64> = (0..40).flat_map(|i| [i as f64, i as f64 + 0.01]).collect();
         let c = clustering_test(&pairs).unwrap();

@@ -86,16 +86,10 @@ pub fn fit_models(s: &Sample, models: &[Model]) -> RenewalFits {
                         weight: f64::NAN,
                     });
                 } else {
-                    failures.push(FitFailure {
-                        model: m,
-                        reason: "the fitted log-likelihood is not finite".into(),
-                    });
+                    failures.push(FitFailure { model: m, reason: "the fitted log-likelihood is not finite".into() });
                 }
             }
-            Err(e) => failures.push(FitFailure {
-                model: m,
-                reason: e.to_string(),
-            }),
+            Err(e) => failures.push(FitFailure { model: m, reason: e.to_string() }),
         }
     }
     set_weights(&mut fits);
@@ -132,13 +126,8 @@ mod tests {
 
     #[test]
     fn weights_sum_to_one_and_criteria_follow_definitions() {
-        let xs = MonteCarlo::new(3, 60).run("x", 0, |r, _| {
-            Fitted {
-                model: Model::Gamma,
-                params: [2.0, 0.1],
-            }
-            .sample(r)
-        });
+        let xs =
+            MonteCarlo::new(3, 60).run("x", 0, |r, _| Fitted { model: Model::Gamma, params: [2.0, 0.1] }.sample(r));
         let s = Sample::new(xs, Some(0.15)).unwrap();
         let f = fit_models(&s, &Model::ALL);
         assert_eq!(f.fits.len(), 5);
@@ -164,20 +153,14 @@ mod tests {
         // about the nominal 5 % (binomial bounds for 200 trials, common practice).
         let mc = MonteCarlo::new(11, 20);
         let rejects = mc.run("g2", 0, |rng, _| {
-            let t = Fitted {
-                model: Model::Gamma,
-                params: [2.0, 0.125],
-            };
+            let t = Fitted { model: Model::Gamma, params: [2.0, 0.125] };
             let s = Sample::new((0..300).map(|_| t.sample(rng)).collect(), None).unwrap();
             fit_models(&s, &[Model::Exponential, Model::Gamma]).lr_test.unwrap().p_value < 0.05
         });
         assert!(rejects.iter().all(|&r| r));
         let mc = MonteCarlo::new(12, 200);
         let rejects = mc.run("e", 0, |rng, _| {
-            let t = Fitted {
-                model: Model::Exponential,
-                params: [4.0, f64::NAN],
-            };
+            let t = Fitted { model: Model::Exponential, params: [4.0, f64::NAN] };
             let s = Sample::new((0..300).map(|_| t.sample(rng)).collect(), None).unwrap();
             fit_models(&s, &[Model::Exponential, Model::Gamma]).lr_test.unwrap().p_value < 0.05
         });

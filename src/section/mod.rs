@@ -18,8 +18,8 @@ mod settings;
 mod tables;
 
 pub use pipeline::{run, Stage, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
-pub use reversal_stats::HAZARD_HORIZON;
 pub use report_html::report_html;
+pub use reversal_stats::HAZARD_HORIZON;
 pub use settings::{SectionSettings, KNOWN_KEYS};
 pub use tables::CsvTable;
 

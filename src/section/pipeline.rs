@@ -46,7 +46,14 @@ pub struct Stage {
 
 impl Stage {
     pub(super) fn new(name: &str) -> Self {
-        Stage { name: name.into(), ran: true, method: String::new(), result: String::new(), tables: vec![], figures: vec![] }
+        Stage {
+            name: name.into(),
+            ran: true,
+            method: String::new(),
+            result: String::new(),
+            tables: vec![],
+            figures: vec![],
+        }
     }
 }
 
@@ -93,7 +100,9 @@ fn read_sampling(f: &ProjectFile) -> Result<(StratAxis, Vec<SiteInfo>)> {
     t.require_rows()?;
     let (sc, lat_c, lon_c) = (t.require("site")?, t.require("lat")?, t.require("lon")?);
     let Some((axis, pc)) = strat_axis(&t)? else {
-        return Err(t.error(t.header_line, Some("height"), "a column 'height' (m, upward) or 'depth' (m, downward) is required").into());
+        return Err(t
+            .error(t.header_line, Some("height"), "a column 'height' (m, upward) or 'depth' (m, downward) is required")
+            .into());
     };
     let mut out: Vec<(SiteInfo, usize)> = Vec::new();
     for row in &t.rows {
@@ -108,8 +117,17 @@ fn read_sampling(f: &ProjectFile) -> Result<(StratAxis, Vec<SiteInfo>)> {
         let lon = t.number_in(row, lon_c, -180.0, 360.0)?;
         let position = t.number(row, pc)?;
         if let Some((s, l)) = out.iter().find(|(s, _)| s.position == position) {
-            return Err(t.error(row.line, Some(axis.column()), format!(
-                "{} {position} is also the level of site '{}' on line {l}; two sites cannot share one level", axis.column(), s.site)).into());
+            return Err(t
+                .error(
+                    row.line,
+                    Some(axis.column()),
+                    format!(
+                        "{} {position} is also the level of site '{}' on line {l}; two sites cannot share one level",
+                        axis.column(),
+                        s.site
+                    ),
+                )
+                .into());
         }
         let location = GeoPoint::new(lat, lon).map_err(|e| t.error(row.line, Some("lat"), e.to_string()))?;
         let bedding = read_bedding(&t, row)?;
@@ -121,13 +139,18 @@ fn read_sampling(f: &ProjectFile) -> Result<(StratAxis, Vec<SiteInfo>)> {
 }
 
 pub(super) fn draw<F: Figure>(fig: &F, stem: &str, caption: String) -> Result<FigureOutput> {
-    let svg = String::from_utf8(render(fig, FigureFormat::Svg)?).map_err(|e| Error::Invalid(format!("figure {stem}: {e}")))?;
+    let svg = String::from_utf8(render(fig, FigureFormat::Svg)?)
+        .map_err(|e| Error::Invalid(format!("figure {stem}: {e}")))?;
     let png = render(fig, FigureFormat::Png)?;
     Ok(FigureOutput { stem: stem.into(), caption, svg, png })
 }
 
 fn yn(b: bool) -> String {
-    if b { "yes".into() } else { "no".into() }
+    if b {
+        "yes".into()
+    } else {
+        "no".into()
+    }
 }
 
 /// Run the whole chain on a project. `progress` receives the Monte Carlo progress; `on_stage` is
@@ -149,13 +172,15 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     on_stage("reading the project");
     let (settings, unknown) = match &p.settings {
         Some(f) => {
-            let text = std::str::from_utf8(&f.bytes).map_err(|_| Error::Invalid(format!("{}: not UTF-8 text", f.name)))?;
+            let text =
+                std::str::from_utf8(&f.bytes).map_err(|_| Error::Invalid(format!("{}: not UTF-8 text", f.name)))?;
             SectionSettings::from_settings(&Settings::parse(&f.name, text)?)?
         }
         None => (SectionSettings::default(), vec![]),
     };
     for k in &unknown {
-        warnings.push(format!("settings.toml: unknown key '{k}' ignored (known keys: {}).", super::KNOWN_KEYS.join(", ")));
+        warnings
+            .push(format!("settings.toml: unknown key '{k}' ignored (known keys: {}).", super::KNOWN_KEYS.join(", ")));
     }
     let (axis, sites) = read_sampling(&p.sampling)?;
     let st = parse(&p.steps)?;
@@ -163,7 +188,18 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     for sp in &set.specimens {
         let line = sp.steps.first().map_or(st.header_line, |s| s.line);
         match &sp.site {
-            None => return Err(st.error(line, Some("site"), format!("specimen '{}' has no site; every specimen must name a site of {}", sp.specimen, p.sampling.name)).into()),
+            None => {
+                return Err(st
+                    .error(
+                        line,
+                        Some("site"),
+                        format!(
+                            "specimen '{}' has no site; every specimen must name a site of {}",
+                            sp.specimen, p.sampling.name
+                        ),
+                    )
+                    .into())
+            }
             Some(s) if !sites.iter().any(|x| &x.site == s) => {
                 return Err(st.error(line, Some("site"), format!("site '{s}' is not in {}", p.sampling.name)).into())
             }
@@ -201,7 +237,12 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
             }
         }
     } else {
-        let rule = AutoRule { min_steps: settings.min_steps, max_mad: settings.max_mad, max_dang: settings.max_dang, anchor: Anchor::Free };
+        let rule = AutoRule {
+            min_steps: settings.min_steps,
+            max_mad: settings.max_mad,
+            max_dang: settings.max_dang,
+            anchor: Anchor::Free,
+        };
         stage.method = format!(
             "No picks table: each specimen's characteristic line was chosen automatically as the longest run of at least {} consecutive steps whose free principal-component line (Kirschvink 1980) has MAD ≤ {}° and DANG ≤ {}° (ties: smaller MAD, then the earlier run).",
             rule.min_steps, rule.max_mad, rule.max_dang);
@@ -212,17 +253,32 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
             }
         }
     }
-    let (accepted, over): (Vec<SpecimenFit>, Vec<SpecimenFit>) = fits.into_iter().partition(|f| f.mad <= settings.max_mad);
+    let (accepted, over): (Vec<SpecimenFit>, Vec<SpecimenFit>) =
+        fits.into_iter().partition(|f| f.mad <= settings.max_mad);
     for f in &over {
         reject_sp(&f.specimen, format!("MAD {:.1}° exceeds max_mad = {}°", f.mad, settings.max_mad), &mut rejected);
     }
     let fits = accepted;
-    let mut ft = CsvTable::new("components", "Characteristic components per specimen (geographic coordinates)",
-        &["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"]);
+    let mut ft = CsvTable::new(
+        "components",
+        "Characteristic components per specimen (geographic coordinates)",
+        &["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"],
+    );
     for f in &fits {
         let sp = set.get(&f.specimen).expect("fitted specimen exists");
-        ft.push(vec![f.specimen.clone(), sp.site.clone().unwrap_or_default(), f.kind.as_str().into(), f.anchor.as_str().into(),
-            f.n_steps.to_string(), num(f.from, 1), num(f.to, 1), num(f.direction.dec, 2), num(f.direction.inc, 2), num(f.mad, 2), opt(f.dang, 2)]);
+        ft.push(vec![
+            f.specimen.clone(),
+            sp.site.clone().unwrap_or_default(),
+            f.kind.as_str().into(),
+            f.anchor.as_str().into(),
+            f.n_steps.to_string(),
+            num(f.from, 1),
+            num(f.to, 1),
+            num(f.direction.dec, 2),
+            num(f.direction.inc, 2),
+            num(f.mad, 2),
+            opt(f.dang, 2),
+        ]);
     }
     let mut fitted: Vec<&str> = fits.iter().map(|f| f.specimen.as_str()).collect();
     fitted.dedup();
@@ -238,75 +294,171 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     on_stage("site means");
     let mut stage = Stage::new("Site means");
     let flat = Bedding::from_dip_direction(0.0, 0.0, false)?;
-    let records: Vec<DirectionRecord> = fits.iter().enumerate().map(|(i, f)| {
-        let sp = set.get(&f.specimen).expect("fitted specimen exists");
-        let s = sites.iter().find(|x| Some(&x.site) == sp.site.as_ref()).expect("checked above");
-        DirectionRecord {
-            line: i + 2, site: Some(s.site.clone()), specimen: Some(f.specimen.clone()), direction: f.direction,
-            lat: Some(s.location.lat), lon: Some(s.location.lon), position: Some(s.position),
-            bedding: Some(s.bedding.unwrap_or(flat)),
-            kind: if f.kind == FitKind::Plane { DirectionKind::Plane } else { DirectionKind::Line },
-            group: Some(s.site.clone()),
-        }
-    }).collect();
-    let dset = DirectionSet { source: "components".into(), axis: Some(axis), group_column: Some("site".into()), records };
+    let records: Vec<DirectionRecord> = fits
+        .iter()
+        .enumerate()
+        .map(|(i, f)| {
+            let sp = set.get(&f.specimen).expect("fitted specimen exists");
+            let s = sites.iter().find(|x| Some(&x.site) == sp.site.as_ref()).expect("checked above");
+            DirectionRecord {
+                line: i + 2,
+                site: Some(s.site.clone()),
+                specimen: Some(f.specimen.clone()),
+                direction: f.direction,
+                lat: Some(s.location.lat),
+                lon: Some(s.location.lon),
+                position: Some(s.position),
+                bedding: Some(s.bedding.unwrap_or(flat)),
+                kind: if f.kind == FitKind::Plane { DirectionKind::Plane } else { DirectionKind::Line },
+                group: Some(s.site.clone()),
+            }
+        })
+        .collect();
+    let dset =
+        DirectionSet { source: "components".into(), axis: Some(axis), group_column: Some("site".into()), records };
     let by_site = |frame: Frame| -> Result<BTreeMap<String, GroupMean>> {
         if dset.records.is_empty() {
             return Ok(BTreeMap::new());
         }
-        Ok(group_means(&dset, frame, settings.confidence)?.into_iter().map(|g| (g.group.clone().unwrap_or_default(), g)).collect())
+        Ok(group_means(&dset, frame, settings.confidence)?
+            .into_iter()
+            .map(|g| (g.group.clone().unwrap_or_default(), g))
+            .collect())
     };
     let (geo, tilt) = (by_site(Frame::Geo)?, by_site(Frame::Tilt)?);
     stage.method = format!(
         "Fisher (1953) mean of each site's components in geographic and in tilt-corrected coordinates (bedding from {}); great circles are combined with lines after McFadden & McElhinny (1988). Cones at {} % confidence. A site is used downstream when it has a mean and its tilt-corrected α{:.0} is at most {}°; a site of one specimen is used without a cone.",
         p.sampling.name, settings.confidence * 100.0, settings.confidence * 100.0, settings.max_site_a95);
-    let mut mt = CsvTable::new("site-means", "Site means, geographic and tilt-corrected",
-        &["site", col_name, "n", "planes", "dec_geo", "inc_geo", "k_geo", "a95_geo", "dec_tilt", "inc_tilt", "k_tilt", "a95_tilt", "used"]);
+    let mut mt = CsvTable::new(
+        "site-means",
+        "Site means, geographic and tilt-corrected",
+        &[
+            "site", col_name, "n", "planes", "dec_geo", "inc_geo", "k_geo", "a95_geo", "dec_tilt", "inc_tilt",
+            "k_tilt", "a95_tilt", "used",
+        ],
+    );
     let mut used: Vec<UsedSite> = Vec::new();
     for (idx, s) in sites.iter().enumerate() {
-        let reject = |why: String, rejected: &mut Vec<Rejection>| rejected.push(Rejection { what: "site".into(), name: s.site.clone(), stage: "site means".into(), reason: why });
+        let reject = |why: String, rejected: &mut Vec<Rejection>| {
+            rejected.push(Rejection {
+                what: "site".into(),
+                name: s.site.clone(),
+                stage: "site means".into(),
+                reason: why,
+            })
+        };
         let (Some(g), Some(t)) = (geo.get(&s.site), tilt.get(&s.site)) else {
             reject("no specimen with an accepted component".into(), &mut rejected);
-            mt.push(vec![s.site.clone(), num(s.position, 3), "0".into(), "0".into(), "".into(), "".into(), "".into(), "".into(), "".into(), "".into(), "".into(), "".into(), "no".into()]);
+            mt.push(vec![
+                s.site.clone(),
+                num(s.position, 3),
+                "0".into(),
+                "0".into(),
+                "".into(),
+                "".into(),
+                "".into(),
+                "".into(),
+                "".into(),
+                "".into(),
+                "".into(),
+                "".into(),
+                "no".into(),
+            ]);
             continue;
         };
         let k = |m: &GroupMean| m.stats.k.map(|k| k.0);
         let ok = match (t.stats.mean, g.stats.mean, &t.undefined) {
-            (_, _, Some(why)) => { reject(format!("no mean: {why}"), &mut rejected); false }
-            (None, _, _) | (_, None, _) => { reject("the directions cancel out (no mean)".into(), &mut rejected); false }
+            (_, _, Some(why)) => {
+                reject(format!("no mean: {why}"), &mut rejected);
+                false
+            }
+            (None, _, _) | (_, None, _) => {
+                reject("the directions cancel out (no mean)".into(), &mut rejected);
+                false
+            }
             _ if t.stats.alpha.is_some_and(|a| a > settings.max_site_a95) => {
-                reject(format!("α{:.0} = {:.1}° exceeds max_site_a95 = {}°", settings.confidence * 100.0, t.stats.alpha.unwrap_or(0.0), settings.max_site_a95), &mut rejected);
+                reject(
+                    format!(
+                        "α{:.0} = {:.1}° exceeds max_site_a95 = {}°",
+                        settings.confidence * 100.0,
+                        t.stats.alpha.unwrap_or(0.0),
+                        settings.max_site_a95
+                    ),
+                    &mut rejected,
+                );
                 false
             }
             _ => true,
         };
-        mt.push(vec![s.site.clone(), num(s.position, 3), g.stats.n.to_string(), g.planes.to_string(),
-            opt(g.stats.mean.map(|m| m.dec), 1), opt(g.stats.mean.map(|m| m.inc), 1), opt(k(g), 1), opt(g.stats.alpha, 1),
-            opt(t.stats.mean.map(|m| m.dec), 1), opt(t.stats.mean.map(|m| m.inc), 1), opt(k(t), 1), opt(t.stats.alpha, 1), yn(ok)]);
+        mt.push(vec![
+            s.site.clone(),
+            num(s.position, 3),
+            g.stats.n.to_string(),
+            g.planes.to_string(),
+            opt(g.stats.mean.map(|m| m.dec), 1),
+            opt(g.stats.mean.map(|m| m.inc), 1),
+            opt(k(g), 1),
+            opt(g.stats.alpha, 1),
+            opt(t.stats.mean.map(|m| m.dec), 1),
+            opt(t.stats.mean.map(|m| m.inc), 1),
+            opt(k(t), 1),
+            opt(t.stats.alpha, 1),
+            yn(ok),
+        ]);
         if ok {
             let (gm, tm) = (g.stats.mean.expect("checked"), t.stats.mean.expect("checked"));
             let v = vgp(s.location, tm);
-            used.push(UsedSite { idx, geo: gm, tilt: tm, n: t.stats.n, k: k(t), a95: t.stats.alpha,
-                vgp_lat: v.pole.lat, vgp_lon: v.pole.lon, paleolat: v.paleolat, colat: v.colatitude,
-                polarity: classify(v.pole.lat, settings.vgp_threshold) });
+            used.push(UsedSite {
+                idx,
+                geo: gm,
+                tilt: tm,
+                n: t.stats.n,
+                k: k(t),
+                a95: t.stats.alpha,
+                vgp_lat: v.pole.lat,
+                vgp_lon: v.pole.lon,
+                paleolat: v.paleolat,
+                colat: v.colatitude,
+                polarity: classify(v.pole.lat, settings.vgp_threshold),
+            });
         }
     }
     head.sites_used = used.len();
     stage.result = format!("{} of {} sites have a usable mean.", used.len(), sites.len());
     stage.tables.push(mt.stem.clone());
     tables.push(mt);
-    for (frame, stem, label) in [(Frame::Geo, "site-means-geo", "geographic"), (Frame::Tilt, "site-means-tilt", "tilt-corrected")] {
+    for (frame, stem, label) in
+        [(Frame::Geo, "site-means-geo", "geographic"), (Frame::Tilt, "site-means-tilt", "tilt-corrected")]
+    {
         let mut groups = Vec::new();
-        for (pol, name) in [(ZonePolarity::Normal, "normal sites"), (ZonePolarity::Reversed, "reversed sites"), (ZonePolarity::Intermediate, "intermediate sites")] {
-            let pts: Vec<Direction> = used.iter().filter(|u| u.polarity == pol).map(|u| if frame == Frame::Geo { u.geo } else { u.tilt }).collect();
-            if pts.is_empty() { continue; }
+        for (pol, name) in [
+            (ZonePolarity::Normal, "normal sites"),
+            (ZonePolarity::Reversed, "reversed sites"),
+            (ZonePolarity::Intermediate, "intermediate sites"),
+        ] {
+            let pts: Vec<Direction> = used
+                .iter()
+                .filter(|u| u.polarity == pol)
+                .map(|u| if frame == Frame::Geo { u.geo } else { u.tilt })
+                .collect();
+            if pts.is_empty() {
+                continue;
+            }
             let mean = if pts.len() >= 2 && pol != ZonePolarity::Intermediate {
                 fisher_mean(&pts, settings.confidence).ok().and_then(|s| s.mean.map(|m| (m, s.alpha)))
-            } else { None };
+            } else {
+                None
+            };
             groups.push(NetGroup { label: name.into(), points: pts, mean });
         }
-        if groups.is_empty() { continue; }
-        let fig = EqualAreaPlot { title: format!("Site means — {label} coordinates"), groups, cone_label: format!("α{:.0}", settings.confidence * 100.0) };
+        if groups.is_empty() {
+            continue;
+        }
+        let fig = EqualAreaPlot {
+            title: format!("Site means — {label} coordinates"),
+            groups,
+            cone_label: format!("α{:.0}", settings.confidence * 100.0),
+        };
         figures.push(draw(&fig, stem, format!("Site means in {label} coordinates on a lower/upper-hemisphere equal-area net, with the Fisher mean and cone of each polarity.")) ?);
         stage.figures.push(stem.into());
     }
@@ -315,7 +467,8 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     // ---- Field tests
     on_stage("field tests");
     let mut stage = Stage::new("Field tests");
-    let mut tt = CsvTable::new("field-tests", "Field tests (95 %)", &["test", "quantity", "value", "critical", "outcome"]);
+    let mut tt =
+        CsvTable::new("field-tests", "Field tests (95 %)", &["test", "quantity", "value", "critical", "outcome"]);
     let mut methods = Vec::new();
     let mut results = Vec::new();
     let n_n = used.iter().filter(|u| u.polarity == ZonePolarity::Normal).count();
@@ -326,17 +479,44 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
             Ok(t) => {
                 let c = &t.comparison;
                 methods.push(format!("Reversal test on the tilt-corrected site means: the set is split into two modes on its principal axis, mode 2 is flipped, and the means are compared by the angle γ against γc with the classes of McFadden & McElhinny (1990), by Watson's V_w against a critical value simulated from Fisher sets, and by a bootstrap of Cartesian bounds (Tauxe et al. 1991); {} resamples, seed {}.", settings.resamples, settings.seed));
-                tt.push(vec!["reversal".into(), "gamma (deg)".into(), num(c.mm90.gamma, 2), num(c.mm90.gamma_c, 2), format!("class {}", c.mm90.class.name())]);
-                tt.push(vec!["reversal".into(), "V_w".into(), num(c.watson.v_w, 2), num(c.watson.v_crit, 2), if c.watson.passed { "pass".into() } else { "fail".into() }]);
-                tt.push(vec!["reversal".into(), "bootstrap overlap x/y/z".into(), "".into(), "".into(), if c.bootstrap.passed { "pass".into() } else { "fail".into() }]);
-                results.push(format!("Reversal test ({} and {} sites): γ = {:.1}° against γc = {:.1}°, class {}; V_w {}; bootstrap {}.",
-                    c.n1, c.n2, c.mm90.gamma, c.mm90.gamma_c, c.mm90.class.name(),
-                    if c.watson.passed { "passes" } else { "fails" }, if c.bootstrap.passed { "passes" } else { "fails" }));
+                tt.push(vec![
+                    "reversal".into(),
+                    "gamma (deg)".into(),
+                    num(c.mm90.gamma, 2),
+                    num(c.mm90.gamma_c, 2),
+                    format!("class {}", c.mm90.class.name()),
+                ]);
+                tt.push(vec![
+                    "reversal".into(),
+                    "V_w".into(),
+                    num(c.watson.v_w, 2),
+                    num(c.watson.v_crit, 2),
+                    if c.watson.passed { "pass".into() } else { "fail".into() },
+                ]);
+                tt.push(vec![
+                    "reversal".into(),
+                    "bootstrap overlap x/y/z".into(),
+                    "".into(),
+                    "".into(),
+                    if c.bootstrap.passed { "pass".into() } else { "fail".into() },
+                ]);
+                results.push(format!(
+                    "Reversal test ({} and {} sites): γ = {:.1}° against γc = {:.1}°, class {}; V_w {}; bootstrap {}.",
+                    c.n1,
+                    c.n2,
+                    c.mm90.gamma,
+                    c.mm90.gamma_c,
+                    c.mm90.class.name(),
+                    if c.watson.passed { "passes" } else { "fails" },
+                    if c.bootstrap.passed { "passes" } else { "fails" }
+                ));
             }
             Err(e) => warnings.push(format!("Reversal test skipped: {e}.")),
         }
     } else {
-        warnings.push(format!("Reversal test skipped: it needs at least two normal and two reversed sites (found {n_n} and {n_r})."));
+        warnings.push(format!(
+            "Reversal test skipped: it needs at least two normal and two reversed sites (found {n_n} and {n_r})."
+        ));
     }
     let beds: Vec<Bedding> = used.iter().map(|u| sites[u.idx].bedding.unwrap_or(flat)).collect();
     let spread = if beds.is_empty() { 0.0 } else { bedding_spread(&beds) };
@@ -345,8 +525,20 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
         match fold_test(&v, &beds, &mc, &FoldOptions::default()) {
             Ok(t) => {
                 methods.push(format!("Fold test on the site means: bootstrap incremental untilting (Tauxe & Watson 1994) from −10 % to 150 %, {} resamples, seed {}; the classic precision ratio (McElhinny 1964) for comparison only.", settings.resamples, settings.seed));
-                tt.push(vec!["fold".into(), "best untilting (%)".into(), num(t.best_untilt, 0), format!("{:.0} to {:.0}", t.ci_low, t.ci_high), t.verdict.name().into()]);
-                tt.push(vec!["fold".into(), "k_tilt / k_geo".into(), num(t.classic.ratio, 2), num(t.classic.f_crit, 2), "comparison only".into()]);
+                tt.push(vec![
+                    "fold".into(),
+                    "best untilting (%)".into(),
+                    num(t.best_untilt, 0),
+                    format!("{:.0} to {:.0}", t.ci_low, t.ci_high),
+                    t.verdict.name().into(),
+                ]);
+                tt.push(vec![
+                    "fold".into(),
+                    "k_tilt / k_geo".into(),
+                    num(t.classic.ratio, 2),
+                    num(t.classic.f_crit, 2),
+                    "comparison only".into(),
+                ]);
                 results.push(format!("Fold test: best untilting {:.0} % (95 % interval {:.0} to {:.0} %): {}. Bedding attitudes differ by up to {:.0}°.",
                     t.best_untilt, t.ci_low, t.ci_high, t.verdict.name(), t.bedding_spread));
                 let fig = FoldPlot::from_test(&t, "site means".into());
@@ -361,7 +553,8 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
         warnings.push(format!("Fold test skipped: the bedding attitudes of the used sites differ by {spread:.1}° (less than 5°), so untilting cannot discriminate."));
     }
     stage.ran = !tt.rows.is_empty();
-    stage.method = if methods.is_empty() { "No field test could run (see the warnings).".into() } else { methods.join(" ") };
+    stage.method =
+        if methods.is_empty() { "No field test could run (see the warnings).".into() } else { methods.join(" ") };
     stage.result = if results.is_empty() { "Skipped.".into() } else { results.join(" ") };
     if stage.ran {
         cautions.push(FIELD_TEST_CAUTION.into());
@@ -376,44 +569,107 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     stage.method = format!(
         "VGP of each used site from its tilt-corrected mean (geocentric axial dipole); dp, dm from α95. Paleopole: Fisher mean of the VGPs after mapping southern VGPs to their antipodes. VGP scatter S_B about the mean pole with cutoff '{}', corrected for within-site scatter where every site has n ≥ 2 and k (McElhinny & McFadden 1997), with a {} % bootstrap interval over sites ({} resamples, seed {}).",
         settings.scatter_cutoff, settings.confidence * 100.0, settings.resamples, settings.seed);
-    let mut vt = CsvTable::new("vgps", "Virtual geomagnetic poles of the used sites (tilt-corrected)",
-        &["site", col_name, "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "polarity"]);
+    let mut vt = CsvTable::new(
+        "vgps",
+        "Virtual geomagnetic poles of the used sites (tilt-corrected)",
+        &["site", col_name, "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "polarity"],
+    );
     for u in &used {
         let oval = u.a95.map(|a| pole_oval(u.colat, a)).transpose().ok().flatten();
-        vt.push(vec![sites[u.idx].site.clone(), num(sites[u.idx].position, 3), num(u.tilt.dec, 1), num(u.tilt.inc, 1), num(u.vgp_lat, 2), num(u.vgp_lon, 2),
-            opt(oval.map(|o| o.dp), 1), opt(oval.map(|o| o.dm), 1), num(u.paleolat, 1), u.polarity.code().into()]);
+        vt.push(vec![
+            sites[u.idx].site.clone(),
+            num(sites[u.idx].position, 3),
+            num(u.tilt.dec, 1),
+            num(u.tilt.inc, 1),
+            num(u.vgp_lat, 2),
+            num(u.vgp_lon, 2),
+            opt(oval.map(|o| o.dp), 1),
+            opt(oval.map(|o| o.dm), 1),
+            num(u.paleolat, 1),
+            u.polarity.code().into(),
+        ]);
     }
     if !used.is_empty() {
         stage.tables.push(vt.stem.clone());
         tables.push(vt);
     }
-    let aligned: Vec<(GeoPoint, bool)> = used.iter().map(|u| northern(GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP"))).collect();
+    let aligned: Vec<(GeoPoint, bool)> =
+        used.iter().map(|u| northern(GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP"))).collect();
     if used.len() >= 2 {
         match paleopole(&aligned.iter().map(|a| a.0).collect::<Vec<_>>()) {
             Ok(pp) => {
-                let sc_sites: Vec<ScatterSite> = used.iter().zip(&aligned).map(|(u, a)| ScatterSite {
-                    pole: a.0,
-                    within: match (u.n, u.k) { (n, Some(k)) if n >= 2 && k.is_finite() => Some(WithinSite { n, sw: within_site_sw(k, u.paleolat) }), _ => None },
-                }).collect();
-                let mut pt = CsvTable::new("paleopole", "Paleopole and VGP scatter",
-                    &["n", "plat", "plon", "k", "a95", "cutoff", "s", "s_low", "s_high", "s_total", "n_used", "n_removed"]);
-                let mut row = vec![pp.n.to_string(), num(pp.pole.lat, 2), num(pp.pole.lon, 2), num(pp.k.0, 1), opt(pp.a95, 2), settings.scatter_cutoff.clone()];
+                let sc_sites: Vec<ScatterSite> = used
+                    .iter()
+                    .zip(&aligned)
+                    .map(|(u, a)| ScatterSite {
+                        pole: a.0,
+                        within: match (u.n, u.k) {
+                            (n, Some(k)) if n >= 2 && k.is_finite() => {
+                                Some(WithinSite { n, sw: within_site_sw(k, u.paleolat) })
+                            }
+                            _ => None,
+                        },
+                    })
+                    .collect();
+                let mut pt = CsvTable::new(
+                    "paleopole",
+                    "Paleopole and VGP scatter",
+                    &[
+                        "n",
+                        "plat",
+                        "plon",
+                        "k",
+                        "a95",
+                        "cutoff",
+                        "s",
+                        "s_low",
+                        "s_high",
+                        "s_total",
+                        "n_used",
+                        "n_removed",
+                    ],
+                );
+                let mut row = vec![
+                    pp.n.to_string(),
+                    num(pp.pole.lat, 2),
+                    num(pp.pole.lon, 2),
+                    num(pp.k.0, 1),
+                    opt(pp.a95, 2),
+                    settings.scatter_cutoff.clone(),
+                ];
                 let mut kept_flags = vec![true; used.len()];
                 match vgp_scatter(&sc_sites, settings.cutoff()) {
                     Ok(sc) => {
                         kept_flags = sc.kept.clone();
-                        let kept: Vec<ScatterSite> = sc_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
+                        let kept: Vec<ScatterSite> =
+                            sc_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
                         let boot = bootstrap_scatter(&kept, settings.confidence, &mc);
                         let (lo, hi) = boot.as_ref().map_or((None, None), |b| (Some(b.low), Some(b.high)));
-                        if let Err(e) = &boot { warnings.push(format!("Scatter interval skipped: {e}.")); }
-                        row.extend([opt(sc.s, 2), opt(lo, 2), opt(hi, 2), num(sc.s_total, 2), sc.n_used.to_string(), sc.n_removed.to_string()]);
+                        if let Err(e) = &boot {
+                            warnings.push(format!("Scatter interval skipped: {e}."));
+                        }
+                        row.extend([
+                            opt(sc.s, 2),
+                            opt(lo, 2),
+                            opt(hi, 2),
+                            num(sc.s_total, 2),
+                            sc.n_used.to_string(),
+                            sc.n_removed.to_string(),
+                        ]);
                         stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {}° ({}–{}°, {} sites used, {} removed by the cutoff).",
                             pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, opt(pp.a95, 1) + "°", opt(sc.s, 1), opt(lo, 1), opt(hi, 1), sc.n_used, sc.n_removed);
                     }
                     Err(e) => {
                         row.extend(["".into(), "".into(), "".into(), "".into(), "".into(), "".into()]);
                         warnings.push(format!("VGP scatter skipped: {e}."));
-                        stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}°.", pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, opt(pp.a95, 1));
+                        stage.result = format!(
+                            "Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}°.",
+                            pp.n,
+                            pp.pole.lat,
+                            pp.pole.lon,
+                            pp.k.0,
+                            opt(pp.a95, 1)
+                        );
                     }
                 }
                 pt.push(row);
@@ -423,7 +679,11 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                 let fig = PolePlot {
                     title: "VGPs and paleopole (polarity-aligned)".into(),
                     centre: pp.pole,
-                    vgps: aligned.iter().zip(&kept_flags).map(|(a, k)| MappedVgp { pole: a.0, kept: *k, flipped: a.1 }).collect(),
+                    vgps: aligned
+                        .iter()
+                        .zip(&kept_flags)
+                        .map(|(a, k)| MappedVgp { pole: a.0, kept: *k, flipped: a.1 })
+                        .collect(),
                     mean: Some((pp.pole, pp.a95)),
                     cutoff: None,
                 };
@@ -431,7 +691,11 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                 stage.figures.push("vgps".into());
                 cautions.push(POLE_CAUTION.into());
             }
-            Err(e) => { stage.ran = false; stage.result = format!("Skipped: {e}."); warnings.push(format!("Paleopole skipped: {e}.")); }
+            Err(e) => {
+                stage.ran = false;
+                stage.result = format!("Skipped: {e}.");
+                warnings.push(format!("Paleopole skipped: {e}."));
+            }
         }
     } else {
         stage.ran = false;
@@ -449,35 +713,78 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     let levels = LevelSet {
         source: p.sampling.name.clone(),
         axis,
-        levels: used.iter().map(|u| Level { position: sites[u.idx].position, vgp_lat: u.vgp_lat, direction: Some(u.tilt), n: u.n, a95: u.a95, mad: None, lines: vec![] }).collect(),
+        levels: used
+            .iter()
+            .map(|u| Level {
+                position: sites[u.idx].position,
+                vgp_lat: u.vgp_lat,
+                direction: Some(u.tilt),
+                n: u.n,
+                a95: u.a95,
+                mad: None,
+                lines: vec![],
+            })
+            .collect(),
         notes: vec![],
     };
     let mut column = None;
     if levels.levels.len() >= 2 {
         match zone_levels(&levels, settings.vgp_threshold, settings.min_levels) {
             Ok((pol, col)) => {
-                let mut lt = CsvTable::new("levels", "Polarity of each level", &["site", col_name, "vgp_lat", "polarity", "n", "a95"]);
+                let mut lt = CsvTable::new(
+                    "levels",
+                    "Polarity of each level",
+                    &["site", col_name, "vgp_lat", "polarity", "n", "a95"],
+                );
                 for ((u, l), pz) in used.iter().zip(&levels.levels).zip(&pol) {
-                    lt.push(vec![sites[u.idx].site.clone(), num(l.position, 3), num(l.vgp_lat, 2), pz.code().into(), l.n.to_string(), opt(l.a95, 1)]);
+                    lt.push(vec![
+                        sites[u.idx].site.clone(),
+                        num(l.position, 3),
+                        num(l.vgp_lat, 2),
+                        pz.code().into(),
+                        l.n.to_string(),
+                        opt(l.a95, 1),
+                    ]);
                 }
-                let mut zt = CsvTable::new("zones", "Magnetozones (the zones table that `correlate` reads)", &ZONE_COLUMNS);
+                let mut zt =
+                    CsvTable::new("zones", "Magnetozones (the zones table that `correlate` reads)", &ZONE_COLUMNS);
                 for (i, z) in col.zones.iter().enumerate() {
-                    zt.push(vec![(i + 1).to_string(), z.polarity.code().into(), z.n_levels.to_string(), status_word(z).into(),
-                        num(z.base.mid, 3), num(z.base.low, 3), num(z.base.high, 3), num(z.top.mid, 3), num(z.top.low, 3), num(z.top.high, 3), col_name.into()]);
+                    zt.push(vec![
+                        (i + 1).to_string(),
+                        z.polarity.code().into(),
+                        z.n_levels.to_string(),
+                        status_word(z).into(),
+                        num(z.base.mid, 3),
+                        num(z.base.low, 3),
+                        num(z.base.high, 3),
+                        num(z.top.mid, 3),
+                        num(z.top.low, 3),
+                        num(z.top.high, 3),
+                        col_name.into(),
+                    ]);
                 }
                 head.zones = col.zones.len();
                 let code: String = col.zones.iter().map(|z| z.polarity.code()).collect::<Vec<_>>().join(" ");
-                stage.result = format!("{} levels form {} magnetozones ({} single-level), listed by increasing {col_name}: {code}.",
-                    levels.levels.len(), col.zones.len(), col.zones.iter().filter(|z| !z.confirmed).count());
+                stage.result = format!(
+                    "{} levels form {} magnetozones ({} single-level), listed by increasing {col_name}: {code}.",
+                    levels.levels.len(),
+                    col.zones.len(),
+                    col.zones.iter().filter(|z| !z.confirmed).count()
+                );
                 stage.tables.extend([lt.stem.clone(), zt.stem.clone()]);
                 tables.extend([lt, zt]);
                 column = Some(col);
             }
-            Err(e) => { stage.ran = false; stage.result = format!("Skipped: {e}."); warnings.push(format!("Polarity column skipped: {e}.")); }
+            Err(e) => {
+                stage.ran = false;
+                stage.result = format!("Skipped: {e}.");
+                warnings.push(format!("Polarity column skipped: {e}."));
+            }
         }
     } else {
         stage.ran = false;
-        stage.result = format!("Skipped: a polarity column needs at least two used levels (found {}).", levels.levels.len());
+        stage.result =
+            format!("Skipped: a polarity column needs at least two used levels (found {}).", levels.levels.len());
         warnings.push(stage.result.clone());
     }
     stages.push(stage);
@@ -506,35 +813,96 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                 opts.miss_penalty, opts.hiatus_penalty, opts.skip_penalty, opts.rate_spread);
             match correlate(col, &ts, &opts) {
                 Ok(res) => {
-                    let mut ct = CsvTable::new("correlations", "Ranked correlations (lower score is better)",
-                        &["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"]);
-                    let mut tt = CsvTable::new("ties", "Tie points of every candidate", &["rank", col_name, "low", "high", "age", "chron_above", "chron_below"]);
+                    let mut ct = CsvTable::new(
+                        "correlations",
+                        "Ranked correlations (lower score is better)",
+                        &[
+                            "rank",
+                            "score",
+                            "mean_rate_cm_kyr",
+                            "ties",
+                            "missing_chrons",
+                            "skipped_zones",
+                            "top_age",
+                            "base_age",
+                        ],
+                    );
+                    let mut tt = CsvTable::new(
+                        "ties",
+                        "Tie points of every candidate",
+                        &["rank", col_name, "low", "high", "age", "chron_above", "chron_below"],
+                    );
                     for c in &res.candidates {
                         let am = &c.age_model;
-                        ct.push(vec![c.rank.to_string(), num(c.score, 3), num(c.mean_rate, 3), c.ties.len().to_string(), c.missing_chrons.to_string(),
-                            c.skipped_zones.to_string(), opt(am.first().map(|a| a.age), 4), opt(am.last().map(|a| a.age), 4)]);
+                        ct.push(vec![
+                            c.rank.to_string(),
+                            num(c.score, 3),
+                            num(c.mean_rate, 3),
+                            c.ties.len().to_string(),
+                            c.missing_chrons.to_string(),
+                            c.skipped_zones.to_string(),
+                            opt(am.first().map(|a| a.age), 4),
+                            opt(am.last().map(|a| a.age), 4),
+                        ]);
                         for t in &c.ties {
-                            tt.push(vec![c.rank.to_string(), num(t.position, 3), num(t.low, 3), num(t.high, 3), num(t.age, 4), t.chron_above.clone(), t.chron_below.clone()]);
+                            tt.push(vec![
+                                c.rank.to_string(),
+                                num(t.position, 3),
+                                num(t.low, 3),
+                                num(t.high, 3),
+                                num(t.age, 4),
+                                t.chron_above.clone(),
+                                t.chron_below.clone(),
+                            ]);
                         }
                     }
                     let best = &res.candidates[0];
-                    let mut at = CsvTable::new("age-model", "Age of each level from the best correlation", &["site", col_name, "age", "polarity"]);
+                    let mut at = CsvTable::new(
+                        "age-model",
+                        "Age of each level from the best correlation",
+                        &["site", col_name, "age", "polarity"],
+                    );
                     for u in &used {
                         let pos = sites[u.idx].position;
-                        at.push(vec![sites[u.idx].site.clone(), num(pos, 3), opt(best.age_at(pos, axis), 4), u.polarity.code().into()]);
+                        at.push(vec![
+                            sites[u.idx].site.clone(),
+                            num(pos, 3),
+                            opt(best.age_at(pos, axis), 4),
+                            u.polarity.code().into(),
+                        ]);
                     }
-                    let mut rt = CsvTable::new("rates", "Runs and accumulation rates of the best correlation", &["top", "base", "age_young", "age_old", "rate_cm_kyr", "reading", "missing_chrons"]);
+                    let mut rt = CsvTable::new(
+                        "rates",
+                        "Runs and accumulation rates of the best correlation",
+                        &["top", "base", "age_young", "age_old", "rate_cm_kyr", "reading", "missing_chrons"],
+                    );
                     for r in &best.runs {
-                        rt.push(vec![num(r.top, 3), num(r.base, 3), num(r.age_young, 4), num(r.age_old, 4), opt(r.rate, 3), format!("{:?}", r.reading).to_lowercase(), r.missing.join(" ")]);
+                        rt.push(vec![
+                            num(r.top, 3),
+                            num(r.base, 3),
+                            num(r.age_young, 4),
+                            num(r.age_old, 4),
+                            opt(r.rate, 3),
+                            format!("{:?}", r.reading).to_lowercase(),
+                            r.missing.join(" "),
+                        ]);
                     }
                     head.ties = best.ties.iter().map(|t| [t.position, t.age]).collect();
                     head.scores = res.candidates.iter().take(2).map(|c| c.score).collect();
                     stage.result = format!("Best candidate: {} ties, mean accumulation rate {:.2} cm/kyr, {} chrons missing, level ages {}–{} Ma. {}",
                         best.ties.len(), best.mean_rate, best.missing_chrons,
                         opt(best.age_model.first().map(|a| a.age), 3), opt(best.age_model.last().map(|a| a.age), 3), comparison_sentence(&res));
-                    let (y0, y1) = best.age_model.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
+                    let (y0, y1) = best
+                        .age_model
+                        .iter()
+                        .fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
                     scale_panel = Some(ScalePanel {
-                        chrons: ts.chrons.iter().filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05).cloned().collect(),
+                        chrons: ts
+                            .chrons
+                            .iter()
+                            .filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05)
+                            .cloned()
+                            .collect(),
                         ties: best.ties.iter().map(|t| (t.position, t.age)).collect(),
                         label: "best candidate".into(),
                     });
@@ -542,14 +910,22 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                     tables.extend([ct, tt, at, rt]);
                     cautions.push(CORRELATION_CAUTION.into());
                 }
-                Err(e) => { stage.ran = false; stage.result = format!("Skipped: {e}."); warnings.push(format!("Correlation skipped: {e}.")); }
+                Err(e) => {
+                    stage.ran = false;
+                    stage.result = format!("Skipped: {e}.");
+                    warnings.push(format!("Correlation skipped: {e}."));
+                }
             }
         }
     }
     if let Some(col) = &column {
         let with_scale = scale_panel.is_some();
         let fig = ColumnFigure {
-            title: if with_scale { "Polarity column and the best correlation".into() } else { "Polarity column".into() },
+            title: if with_scale {
+                "Polarity column and the best correlation".into()
+            } else {
+                "Polarity column".into()
+            },
             axis,
             zones: col.zones.clone(),
             levels: levels.levels.iter().map(|l| (l.position, l.vgp_lat)).collect(),
@@ -577,13 +953,27 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     }
 
     // ---- Rejections
-    let mut jt = CsvTable::new("rejected", "Specimens and sites rejected, with the reason", &["what", "name", "stage", "reason"]);
+    let mut jt = CsvTable::new(
+        "rejected",
+        "Specimens and sites rejected, with the reason",
+        &["what", "name", "stage", "reason"],
+    );
     for r in &rejected {
         jt.push(vec![r.what.clone(), r.name.clone(), r.stage.clone(), r.reason.clone()]);
     }
     tables.push(jt);
 
-    let mut out = SectionRun { settings, tables, figures, report: String::new(), stages, warnings, cautions, rejected, headline: head };
+    let mut out = SectionRun {
+        settings,
+        tables,
+        figures,
+        report: String::new(),
+        stages,
+        warnings,
+        cautions,
+        rejected,
+        headline: head,
+    };
     on_stage("report");
     out.report = super::report_html(&out, &p.title, &project_files(p));
     Ok(out)

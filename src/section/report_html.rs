@@ -52,7 +52,11 @@ pub fn report_html(run: &SectionRun, title: &str, inputs: &[(String, usize)]) ->
     // Summary
     let hd = &run.headline;
     let _ = writeln!(h, "<h2 id=\"summary\">Summary</h2>\n<ul>");
-    let _ = writeln!(h, "<li>{} of {} specimens gave an accepted characteristic component; {} of {} sites were used.</li>", hd.specimens_fitted, hd.specimens, hd.sites_used, hd.sites);
+    let _ = writeln!(
+        h,
+        "<li>{} of {} specimens gave an accepted characteristic component; {} of {} sites were used.</li>",
+        hd.specimens_fitted, hd.specimens, hd.sites_used, hd.sites
+    );
     for st in &run.stages {
         let _ = writeln!(h, "<li><b>{}</b>: {}</li>", escape(&st.name), escape(&st.result));
     }
@@ -123,15 +127,24 @@ pub fn report_html(run: &SectionRun, title: &str, inputs: &[(String, usize)]) ->
         }
         let _ = writeln!(h, "</ul></div>");
     }
-    let _ = writeln!(h, "<h2 id=\"files\">Files written</h2>\n<p>Tables: {}. Figures (SVG and PNG): {}.</p>",
+    let _ = writeln!(
+        h,
+        "<h2 id=\"files\">Files written</h2>\n<p>Tables: {}. Figures (SVG and PNG): {}.</p>",
         run.tables.iter().map(|t| format!("<code>tables/{}.csv</code>", t.stem)).collect::<Vec<_>>().join(", "),
-        run.figures.iter().map(|f| format!("<code>figures/{}</code>", f.stem)).collect::<Vec<_>>().join(", "));
+        run.figures.iter().map(|f| format!("<code>figures/{}</code>", f.stem)).collect::<Vec<_>>().join(", ")
+    );
     h.push_str("</body>\n</html>\n");
     h
 }
 
 fn table_html(h: &mut String, t: &super::CsvTable) {
-    let _ = writeln!(h, "<table id=\"table-{}\"><caption>{} (<code>tables/{}.csv</code>)</caption>", t.stem, escape(&t.title), t.stem);
+    let _ = writeln!(
+        h,
+        "<table id=\"table-{}\"><caption>{} (<code>tables/{}.csv</code>)</caption>",
+        t.stem,
+        escape(&t.title),
+        t.stem
+    );
     let _ = write!(h, "<tr>");
     for c in &t.columns {
         let _ = write!(h, "<th>{}</th>", escape(c));

@@ -27,7 +27,8 @@ fn params(f: &crate::reversals::Fitted) -> String {
 /// Fit the renewal models to the time scale's intervals and evaluate the hazard.
 pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
     let mut stage = Stage::new("Reversal statistics of the time scale");
-    let mut out = ReversalStats { stage: Stage::new(""), tables: vec![], warnings: vec![], cautions: vec![], figures: vec![] };
+    let mut out =
+        ReversalStats { stage: Stage::new(""), tables: vec![], warnings: vec![], cautions: vec![], figures: vec![] };
     stage.method = format!(
         "Maximum-likelihood fits of five renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian) to the lengths of the polarity intervals of {name} over its whole span (adjacent chrons of one polarity joined; the open chron at the young end enters as a right-censored length; the interval cut by the old end is left out); Akaike weights compare the models. The hazard and P(reversal within {HAZARD_HORIZON} Myr | none so far) are evaluated at the open chron's present length. These statistics describe the time scale, not the sampled section."
     );
@@ -54,10 +55,20 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
     for f in &fits.failures {
         out.warnings.push(format!("Renewal fit failed: {f:?}."));
     }
-    let mut ft = CsvTable::new("renewal-fits", "Renewal models fitted to the time scale's polarity intervals",
-        &["model", "params", "mean_interval_myr", "loglik", "aic", "weight"]);
+    let mut ft = CsvTable::new(
+        "renewal-fits",
+        "Renewal models fitted to the time scale's polarity intervals",
+        &["model", "params", "mean_interval_myr", "loglik", "aic", "weight"],
+    );
     for f in &fits.fits {
-        ft.push(vec![f.fitted.model.name().into(), params(&f.fitted), num(f.fitted.mean(), 4), num(f.loglik, 3), num(f.aic, 3), num(f.weight, 3)]);
+        ft.push(vec![
+            f.fitted.model.name().into(),
+            params(&f.fitted),
+            num(f.fitted.mean(), 4),
+            num(f.loglik, 3),
+            num(f.aic, 3),
+            num(f.weight, 3),
+        ]);
     }
     let best = fits.fits.iter().max_by(|a, b| a.weight.total_cmp(&b.weight)).expect("non-empty");
     stage.result = format!(
@@ -74,9 +85,21 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
                     &format!("Hazard at {elapsed:.3} Myr since the last reversal and P(reversal within {HAZARD_HORIZON} Myr | none so far): a statement about the fitted models, not a forecast"),
                     &["model", "weight", "hazard_per_myr", "survival", "p_within"]);
                 for m in &h.models {
-                    ht.push(vec![m.fitted.model.name().into(), num(m.weight, 3), num(m.hazard, 3), num(m.survival, 4), opt(m.p_within, 4)]);
+                    ht.push(vec![
+                        m.fitted.model.name().into(),
+                        num(m.weight, 3),
+                        num(m.hazard, 3),
+                        num(m.survival, 4),
+                        opt(m.p_within, 4),
+                    ]);
                 }
-                ht.push(vec!["averaged (Akaike weights)".into(), num(1.0, 3), String::new(), String::new(), num(h.averaged, 4)]);
+                ht.push(vec![
+                    "averaged (Akaike weights)".into(),
+                    num(1.0, 3),
+                    String::new(),
+                    String::new(),
+                    num(h.averaged, 4),
+                ]);
                 stage.result.push_str(&format!(
                     " Under the fitted models, the Akaike-weighted P(reversal within {HAZARD_HORIZON} Myr | none in the last {elapsed:.3} Myr) is {:.3}; the elapsed length exceeds {:.0} % of the complete intervals.",
                     h.averaged, h.percentile));

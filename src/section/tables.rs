@@ -18,7 +18,12 @@ pub struct CsvTable {
 impl CsvTable {
     /// An empty table.
     pub fn new(stem: &str, title: &str, columns: &[&str]) -> Self {
-        Self { stem: stem.into(), title: title.into(), columns: columns.iter().map(|c| c.to_string()).collect(), rows: vec![] }
+        Self {
+            stem: stem.into(),
+            title: title.into(),
+            columns: columns.iter().map(|c| c.to_string()).collect(),
+            rows: vec![],
+        }
     }
 
     /// Append a row.

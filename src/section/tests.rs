@@ -20,7 +20,10 @@ fn html_escapes_text() {
 fn missing_site_in_sampling_is_an_error_naming_the_line() {
     let p = Project {
         title: "t".into(),
-        steps: ProjectFile::new("steps.csv", "specimen,site,step,dec,inc,moment\nA1,S9,0,10,40,1e-6\nA1,S9,10,10,40,5e-7\n"),
+        steps: ProjectFile::new(
+            "steps.csv",
+            "specimen,site,step,dec,inc,moment\nA1,S9,0,10,40,1e-6\nA1,S9,10,10,40,5e-7\n",
+        ),
         sampling: ProjectFile::new("sampling.csv", "site,lat,lon,height\nS1,40,10,1\n"),
         picks: None,
         timescale: None,
@@ -37,7 +40,8 @@ fn exponential_fit_of_the_stage_is_the_censored_maximum_likelihood_rate() {
     // rate is (number of complete intervals) / (total exposure including the censored length)
     // (Lawless, Statistical Models and Methods for Lifetime Data, 2nd ed. 2003, §2.2; common practice).
     let csv = "young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,1.0,N\n1.0,1.1,R\n1.1,1.5,N\n1.5,1.9,R\n";
-    let ts = crate::table::TimeScale::from_table(&crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap()).unwrap();
+    let ts =
+        crate::table::TimeScale::from_table(&crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap()).unwrap();
     let r = reversal_stats::reversal_statistics("ts.csv", &ts);
     assert!(r.stage.ran, "{:?}", r.warnings);
     let fits = &r.tables[0];

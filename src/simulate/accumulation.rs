@@ -106,27 +106,15 @@ impl AccumulationHistory {
                 }
             };
             if !(s.rate >= 0.0 && s.rate.is_finite()) {
-                return Err(Error::OutOfRange {
-                    name: "accumulation rate",
-                    value: s.rate,
-                    range: "[0, ∞) cm/kyr",
-                });
+                return Err(Error::OutOfRange { name: "accumulation rate", value: s.rate, range: "[0, ∞) cm/kyr" });
             }
             let top = h + s.rate * M_PER_MYR_PER_CM_PER_KYR * (old - young);
-            spans.push(AccumulationSpan {
-                young,
-                old,
-                rate: s.rate,
-                base: h,
-                top,
-            });
+            spans.push(AccumulationSpan { young, old, rate: s.rate, base: h, top });
             h = top;
             old = young;
         }
         if !(h > 0.0) {
-            return Err(Error::Invalid(
-                "the rate history lays down no sediment (every rate is 0)".into(),
-            ));
+            return Err(Error::Invalid("the rate history lays down no sediment (every rate is 0)".into()));
         }
         Ok(Self { spans })
     }

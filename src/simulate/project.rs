@@ -90,10 +90,7 @@ impl Settings {
             };
             let key = k.trim().to_lowercase();
             if key.is_empty() || !key.chars().all(|c| c.is_ascii_alphanumeric() || c == '_') {
-                return Err(err(
-                    None,
-                    format!("'{}' is not a key (letters, digits and _ only)", k.trim()),
-                ));
+                return Err(err(None, format!("'{}' is not a key (letters, digits and _ only)", k.trim())));
             }
             let v = v.trim();
             let value = if let Some(s) = v.strip_prefix('"') {
@@ -118,19 +115,11 @@ impl Settings {
                 return Err(err(Some(&key), format!("set twice (first on line {})", prev.line)));
             }
         }
-        Ok(Settings {
-            source: name.into(),
-            values,
-        })
+        Ok(Settings { source: name.into(), values })
     }
 
     fn err(&self, key: &str, s: &Setting, m: String) -> TableError {
-        TableError {
-            file: self.source.clone(),
-            line: s.line,
-            column: Some(key.into()),
-            message: m,
-        }
+        TableError { file: self.source.clone(), line: s.line, column: Some(key.into()), message: m }
     }
 
     /// A number in `[lo, hi]`, if set.
@@ -158,10 +147,7 @@ impl Settings {
     pub fn boolean(&self, key: &str) -> Result<Option<bool>, TableError> {
         match self.values.get(key) {
             None => Ok(None),
-            Some(Setting {
-                value: SettingValue::Bool(b),
-                ..
-            }) => Ok(Some(*b)),
+            Some(Setting { value: SettingValue::Bool(b), .. }) => Ok(Some(*b)),
             Some(s) => Err(self.err(key, s, "expected true or false".into())),
         }
     }
@@ -170,21 +156,14 @@ impl Settings {
     pub fn text(&self, key: &str) -> Result<Option<&str>, TableError> {
         match self.values.get(key) {
             None => Ok(None),
-            Some(Setting {
-                value: SettingValue::Text(t),
-                ..
-            }) => Ok(Some(t)),
+            Some(Setting { value: SettingValue::Text(t), .. }) => Ok(Some(t)),
             Some(s) => Err(self.err(key, s, "expected a \"quoted string\"".into())),
         }
     }
 
     /// Keys present but not in `known` (for a warning: probably a typing mistake).
     pub fn unknown_keys<'a>(&'a self, known: &[&str]) -> Vec<&'a str> {
-        self.values
-            .keys()
-            .map(String::as_str)
-            .filter(|k| !known.contains(k))
-            .collect()
+        self.values.keys().map(String::as_str).filter(|k| !known.contains(k)).collect()
     }
 }
 
@@ -218,11 +197,7 @@ pub fn timescale_csv(ts: &TimeScale, comment: &str) -> String {
     for l in comment.lines() {
         let _ = writeln!(s, "# {l}");
     }
-    s.push_str(if named {
-        "name,young,old,polarity\n"
-    } else {
-        "young,old,polarity\n"
-    });
+    s.push_str(if named { "name,young,old,polarity\n" } else { "young,old,polarity\n" });
     for c in &ts.chrons {
         if named {
             let _ = write!(s, "{},", c.name.as_deref().unwrap_or(""));

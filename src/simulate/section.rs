@@ -36,19 +36,16 @@ impl Treatment {
     /// Default steps (first step 0 = NRM): °C or mT.
     pub fn default_steps(self) -> Vec<f64> {
         match self {
-            Treatment::Thermal => vec![
-                0.0, 100.0, 150.0, 200.0, 250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 530.0, 560.0,
-            ],
+            Treatment::Thermal => {
+                vec![0.0, 100.0, 150.0, 200.0, 250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 530.0, 560.0]
+            }
             Treatment::Af => vec![0.0, 5.0, 10.0, 15.0, 20.0, 25.0, 30.0, 40.0, 50.0, 60.0, 80.0, 100.0],
         }
     }
     /// Default unblocking range of the characteristic component.
     pub fn default_characteristic(self) -> Unblocking {
         match self {
-            Treatment::Thermal => Unblocking {
-                low: 250.0,
-                high: 590.0,
-            },
+            Treatment::Thermal => Unblocking { low: 250.0, high: 590.0 },
             Treatment::Af => Unblocking { low: 10.0, high: 150.0 },
         }
     }
@@ -268,11 +265,7 @@ impl SectionModel {
             if v > 0.0 && v.is_finite() {
                 Ok(())
             } else {
-                Err(Error::OutOfRange {
-                    name,
-                    value: v,
-                    range: "(0, ∞)",
-                })
+                Err(Error::OutOfRange { name, value: v, range: "(0, ∞)" })
             }
         };
         pos("sampling interval", self.spacing)?;
@@ -284,28 +277,16 @@ impl SectionModel {
         crate::error::check_range("noise", self.noise, 0.0, 10.0, "[0, 10]")?;
         crate::error::check_range("moment spread", self.moment_sigma, 0.0, 5.0, "[0, 5]")?;
         if self.specimens == 0 {
-            return Err(Error::TooFew {
-                what: "a level",
-                needed: 1,
-                got: 0,
-                unit: "specimens",
-            });
+            return Err(Error::TooFew { what: "a level", needed: 1, got: 0, unit: "specimens" });
         }
         if self.steps.len() < 2 {
-            return Err(Error::TooFew {
-                what: "demagnetization",
-                needed: 2,
-                got: self.steps.len(),
-                unit: "steps",
-            });
+            return Err(Error::TooFew { what: "demagnetization", needed: 2, got: self.steps.len(), unit: "steps" });
         }
         if self.steps[0] != 0.0
             || self.steps.windows(2).any(|w| !(w[1] > w[0]))
             || !self.steps.iter().all(|s| s.is_finite())
         {
-            return Err(Error::Invalid(
-                "steps must start at 0 (the NRM) and increase strictly".into(),
-            ));
+            return Err(Error::Invalid("steps must start at 0 (the NRM) and increase strictly".into()));
         }
         self.characteristic.check("characteristic")?;
         if let Some(o) = &self.overprint {
@@ -327,10 +308,7 @@ impl SectionModel {
     /// # Formula
     /// D = 0°, I = atan(2 tan λ) for normal polarity; the antipode for reversed (common practice).
     pub fn dipole_direction(&self, polarity: Polarity) -> Direction {
-        let n = Direction {
-            dec: 0.0,
-            inc: dipole_inclination(self.site.lat),
-        };
+        let n = Direction { dec: 0.0, inc: dipole_inclination(self.site.lat) };
         match polarity {
             Polarity::Normal => n,
             Polarity::Reversed => n.antipode(),
@@ -410,9 +388,8 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
             }
             None => mean,
         };
-        let bedding = (!model.bedding.is_empty())
-            .then(|| model.bedding[i % model.bedding.len()])
-            .filter(|b| b.dip > 0.0);
+        let bedding =
+            (!model.bedding.is_empty()).then(|| model.bedding[i % model.bedding.len()]).filter(|b| b.dip > 0.0);
         let field_geo = match bedding {
             Some(b) => Direction::from_vector(b.retilt(field_tilt.to_vector())).expect("unit vector"),
             None => field_tilt,
@@ -430,11 +407,7 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
         });
     }
     let n_spec = model.specimens;
-    let mc_spec = MonteCarlo {
-        seed: mc.seed,
-        resamples: n_levels * n_spec,
-        progress: mc.progress,
-    };
+    let mc_spec = MonteCarlo { seed: mc.seed, resamples: n_levels * n_spec, progress: mc.progress };
     let specimens = mc_spec.run("simulating specimens", SPECIMEN_STREAM, |rng, j| {
         let lv = &levels[j / n_spec];
         let sampler = FisherSampler::new(lv.field_tilt, model.kappa).expect("kappa checked");
@@ -444,9 +417,7 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
             None => c_tilt,
         };
         let m_c = model.moment * (model.moment_sigma * gaussian(rng)).exp();
-        let o_vec = model
-            .overprint
-            .map(|o| (o.direction.to_vector() * (o.ratio * m_c), o.unblocking));
+        let o_vec = model.overprint.map(|o| (o.direction.to_vector() * (o.ratio * m_c), o.unblocking));
         let steps = model
             .steps
             .iter()
@@ -457,11 +428,7 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
                 }
                 let sd = model.noise * m_c;
                 let v = v + Vec3::new(gaussian(rng), gaussian(rng), gaussian(rng)) * sd;
-                SyntheticStep {
-                    step: s,
-                    direction: Direction::from_vector(v),
-                    moment: v.norm(),
-                }
+                SyntheticStep { step: s, direction: Direction::from_vector(v), moment: v.norm() }
             })
             .collect();
         SyntheticSpecimen {
@@ -494,10 +461,7 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
         });
         if c.young > top_age && i > 0 {
             let h = history.height_at(c.young);
-            let in_hiatus = history
-                .spans
-                .iter()
-                .any(|s| s.rate == 0.0 && c.young > s.young && c.young < s.old);
+            let in_hiatus = history.spans.iter().any(|s| s.rate == 0.0 && c.young > s.young && c.young < s.old);
             ties.push(TrueTie {
                 age: c.young,
                 height: h,
@@ -507,11 +471,5 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
             });
         }
     }
-    Ok(SyntheticSection {
-        history,
-        levels,
-        specimens,
-        chrons,
-        ties,
-    })
+    Ok(SyntheticSection { history, levels, specimens, chrons, ties })
 }

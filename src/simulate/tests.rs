@@ -72,19 +72,10 @@ fn renewal_models_match_scipy_quantiles_and_means() {
         for (p, qv) in [0.25, 0.5, 0.75].into_iter().zip(q) {
             let f = x.iter().filter(|&&v| v <= qv).count() as f64 / n;
             let se = (p * (1.0 - p) / n).sqrt();
-            assert!(
-                (f - p).abs() < 4.0 * se,
-                "{}: F({qv}) = {f}, expected {p} ± {}",
-                model.name(),
-                4.0 * se
-            );
+            assert!((f - p).abs() < 4.0 * se, "{}: F({qv}) = {f}, expected {p} ± {}", model.name(), 4.0 * se);
         }
         let m = x.iter().sum::<f64>() / n;
-        assert!(
-            (m - mean).abs() < 4.0 * sd / n.sqrt(),
-            "{}: mean {m}, model {mean}",
-            model.name()
-        );
+        assert!((m - mean).abs() < 4.0 * sd / n.sqrt(), "{}: mean {m}, model {mean}", model.name());
     }
 }
 
@@ -136,13 +127,8 @@ fn timescale_alternates_tiles_and_reads_back_exactly() {
     assert_eq!(simulate_timescale(&m, 7).unwrap(), ts);
     assert_ne!(simulate_timescale(&m, 8).unwrap().chrons, ts.chrons);
     // Random first polarity: both occur over a few seeds.
-    let r = TimeScaleModel {
-        first: FirstPolarity::Random,
-        ..m
-    };
-    let firsts: Vec<Polarity> = (0..16)
-        .map(|s| simulate_timescale(&r, s).unwrap().chrons[0].polarity)
-        .collect();
+    let r = TimeScaleModel { first: FirstPolarity::Random, ..m };
+    let firsts: Vec<Polarity> = (0..16).map(|s| simulate_timescale(&r, s).unwrap().chrons[0].polarity).collect();
     assert!(firsts.contains(&Polarity::Normal) && firsts.contains(&Polarity::Reversed));
 }
 
@@ -160,27 +146,17 @@ fn youngest_chron_is_length_biased_not_a_fresh_interval() {
         name_prefix: None,
     };
     let n = 600;
-    let first: Vec<f64> = (0..n)
-        .map(|s| simulate_timescale(&m, 1000 + s).unwrap().chrons[0].duration())
-        .collect();
+    let first: Vec<f64> = (0..n).map(|s| simulate_timescale(&m, 1000 + s).unwrap().chrons[0].duration()).collect();
     let mean = first.iter().sum::<f64>() / n as f64;
     // Standard error 0.25/sqrt(600) ≈ 0.0102; allow 4 of them.
     assert!((mean - 0.25).abs() < 0.041, "mean youngest chron {mean}");
     // For a gamma model with shape 4 the backward recurrence time has mean E[X²]/(2E[X]) =
     // (1 + 1/k)·mean/2 = 0.15625 Myr for mean 0.25 (Cox 1962, eq. 5.3), against 0.25 for a fresh start.
-    let g = TimeScaleModel {
-        model: RenewalModel::with_mean("gamma", 0.25, Some(4.0)).unwrap(),
-        ..m
-    };
-    let first: Vec<f64> = (0..n)
-        .map(|s| simulate_timescale(&g, 5000 + s).unwrap().chrons[0].duration())
-        .collect();
+    let g = TimeScaleModel { model: RenewalModel::with_mean("gamma", 0.25, Some(4.0)).unwrap(), ..m };
+    let first: Vec<f64> = (0..n).map(|s| simulate_timescale(&g, 5000 + s).unwrap().chrons[0].duration()).collect();
     let mean = first.iter().sum::<f64>() / n as f64;
     let var = first.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (n - 1) as f64;
-    assert!(
-        (mean - 0.15625).abs() < 4.0 * (var / n as f64).sqrt(),
-        "gamma(4) youngest chron mean {mean}"
-    );
+    assert!((mean - 0.15625).abs() < 4.0 * (var / n as f64).sqrt(), "gamma(4) youngest chron mean {mean}");
 }
 
 fn demo_model() -> SectionModel {
@@ -246,11 +222,7 @@ fn levels_follow_the_rate_history_and_the_time_scale() {
 
 #[test]
 fn characteristic_directions_recover_the_axial_dipole_within_the_fisher_spread() {
-    let m = SectionModel {
-        specimens: 6,
-        spacing: 0.5,
-        ..demo_model()
-    };
+    let m = SectionModel { specimens: 6, spacing: 0.5, ..demo_model() };
     let sec = simulate_section(&m, &fixed_scale(), &MonteCarlo::new(11, 0)).unwrap();
     // Above 300 °C the overprint is gone and what remains is the characteristic component scaled by
     // its remaining fraction: the 350 °C direction is the characteristic direction plus noise.
@@ -258,31 +230,16 @@ fn characteristic_directions_recover_the_axial_dipole_within_the_fisher_spread()
     let mut tilt = Vec::new();
     for sp in &sec.specimens {
         let lv = &sec.levels[sp.level];
-        let v = lv
-            .bedding
-            .unwrap()
-            .untilt(sp.steps[i350].direction.unwrap().to_vector());
+        let v = lv.bedding.unwrap().untilt(sp.steps[i350].direction.unwrap().to_vector());
         let d = Direction::from_vector(v).unwrap();
-        tilt.push(if lv.polarity == Polarity::Reversed {
-            d.antipode()
-        } else {
-            d
-        });
+        tilt.push(if lv.polarity == Polarity::Reversed { d.antipode() } else { d });
     }
     let f = fisher_mean(&tilt, 0.95).unwrap();
     let truth = m.dipole_direction(Polarity::Normal);
     // Axial dipole at 38.2° S: I = atan(2 tan(−38.2°)) = −57.55° (dipole formula, common practice).
-    assert_abs_diff_eq!(
-        truth.inc,
-        (2.0 * (-38.2f64).to_radians().tan()).atan().to_degrees(),
-        epsilon = 1e-12
-    );
+    assert_abs_diff_eq!(truth.inc, (2.0 * (-38.2f64).to_radians().tan()).atan().to_degrees(), epsilon = 1e-12);
     let mean = f.mean.unwrap();
-    assert!(
-        mean.angle_to(truth) < f.alpha.unwrap(),
-        "mean {mean:?} vs {truth:?}, a95 {:?}",
-        f.alpha
-    );
+    assert!(mean.angle_to(truth) < f.alpha.unwrap(), "mean {mean:?} vs {truth:?}, a95 {:?}", f.alpha);
     // Fisher's k = (N−1)/(N−R) estimates κ = 60 with relative standard error ≈ 1/√N (N ≈ 600).
     let k = f.k.unwrap().0;
     assert!((k - 60.0).abs() < 0.2 * 60.0, "k = {k}");
@@ -325,14 +282,10 @@ fn project_tables_pass_the_readers_and_repeat_byte_for_byte() {
     let m = demo_model();
     let ts = fixed_scale();
     let run = |threads: usize| {
-        rayon::ThreadPoolBuilder::new()
-            .num_threads(threads)
-            .build()
-            .unwrap()
-            .install(|| {
-                let sec = simulate_section(&m, &ts, &MonteCarlo::new(21, 0)).unwrap();
-                (steps_csv(&m, &sec, "synthetic"), sampling_csv(&m, &sec, "synthetic"))
-            })
+        rayon::ThreadPoolBuilder::new().num_threads(threads).build().unwrap().install(|| {
+            let sec = simulate_section(&m, &ts, &MonteCarlo::new(21, 0)).unwrap();
+            (steps_csv(&m, &sec, "synthetic"), sampling_csv(&m, &sec, "synthetic"))
+        })
     };
     let (steps, sampling) = run(1);
     assert_eq!((steps.clone(), sampling.clone()), run(2));
@@ -350,10 +303,7 @@ fn project_tables_pass_the_readers_and_repeat_byte_for_byte() {
     let sec_other = simulate_section(&m, &ts, &MonteCarlo::new(22, 0)).unwrap();
     assert_ne!(steps_csv(&m, &sec_other, "synthetic"), steps);
     // A core: depth below the top instead of height.
-    let core = SectionModel {
-        axis: StratAxis::Depth,
-        ..m.clone()
-    };
+    let core = SectionModel { axis: StratAxis::Depth, ..m.clone() };
     let sec = simulate_section(&core, &ts, &MonteCarlo::new(21, 0)).unwrap();
     let t = Table::parse("steps.csv", steps_csv(&core, &sec, "").as_bytes()).unwrap();
     let set = read_directions(&t, &GroupBy::Default).unwrap();
@@ -366,45 +316,15 @@ fn section_edges_are_refused_with_reasons() {
     let ts = fixed_scale();
     let mc = MonteCarlo::new(1, 0);
     let bad = |m: SectionModel| simulate_section(&m, &ts, &mc).unwrap_err().to_string();
-    assert!(bad(SectionModel {
-        base_age: 3.5,
-        ..demo_model()
-    })
-    .contains("time scale covers"));
-    assert!(bad(SectionModel {
-        spacing: 100.0,
-        ..demo_model()
-    })
-    .contains("no level"));
-    assert!(bad(SectionModel {
-        specimens: 0,
-        ..demo_model()
-    })
-    .contains("specimens"));
-    assert!(bad(SectionModel {
-        steps: vec![0.0, 300.0, 600.0],
-        ..demo_model()
-    })
-    .contains("removes the whole"));
-    assert!(bad(SectionModel {
-        steps: vec![10.0, 300.0],
-        ..demo_model()
-    })
-    .contains("start at 0"));
-    assert!(bad(SectionModel {
-        kappa: 0.0,
-        ..demo_model()
-    })
-    .contains("kappa"));
+    assert!(bad(SectionModel { base_age: 3.5, ..demo_model() }).contains("time scale covers"));
+    assert!(bad(SectionModel { spacing: 100.0, ..demo_model() }).contains("no level"));
+    assert!(bad(SectionModel { specimens: 0, ..demo_model() }).contains("specimens"));
+    assert!(bad(SectionModel { steps: vec![0.0, 300.0, 600.0], ..demo_model() }).contains("removes the whole"));
+    assert!(bad(SectionModel { steps: vec![10.0, 300.0], ..demo_model() }).contains("start at 0"));
+    assert!(bad(SectionModel { kappa: 0.0, ..demo_model() }).contains("kappa"));
     // One level, one specimen, flat bedding, no overprint, no noise: still fine.
-    let one = SectionModel {
-        spacing: 40.0,
-        specimens: 1,
-        bedding: vec![],
-        overprint: None,
-        noise: 0.0,
-        ..demo_model()
-    };
+    let one =
+        SectionModel { spacing: 40.0, specimens: 1, bedding: vec![], overprint: None, noise: 0.0, ..demo_model() };
     let sec = simulate_section(&one, &ts, &mc).unwrap();
     assert_eq!(sec.levels.len(), 1);
     assert!(sec.levels[0].bedding.is_none());
@@ -421,17 +341,11 @@ fn settings_file_parses_and_names_lines() {
     assert_eq!(s.boolean("flag").unwrap(), Some(true));
     assert_eq!(s.integer("n", 10_000).unwrap(), Some(1000));
     assert_eq!(s.unknown_keys(&["name", "flag"]), vec!["n"]);
-    let e = Settings::parse("x.toml", "a = 1\n\nb = oops\n")
-        .unwrap_err()
-        .to_string();
+    let e = Settings::parse("x.toml", "a = 1\n\nb = oops\n").unwrap_err().to_string();
     assert!(e.contains("x.toml:3") && e.contains("'b'"), "{e}");
     let e = Settings::parse("x.toml", "a = 1\na = 2\n").unwrap_err().to_string();
     assert!(e.contains("first on line 1"), "{e}");
     let s = Settings::parse("x.toml", "confidence = 1.5\n").unwrap();
-    assert!(s
-        .number("confidence", 0.0, 1.0)
-        .unwrap_err()
-        .to_string()
-        .contains("x.toml:1"));
+    assert!(s.number("confidence", 0.0, 1.0).unwrap_err().to_string().contains("x.toml:1"));
     assert!(Settings::parse("x.toml", "just words\n").is_err());
 }

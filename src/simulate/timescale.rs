@@ -68,11 +68,7 @@ fn positive(name: &'static str, v: f64) -> Result<f64> {
     if v > 0.0 && v.is_finite() {
         Ok(v)
     } else {
-        Err(Error::OutOfRange {
-            name,
-            value: v,
-            range: "(0, ∞)",
-        })
+        Err(Error::OutOfRange { name, value: v, range: "(0, ∞)" })
     }
 }
 
@@ -97,29 +93,17 @@ impl RenewalModel {
             "exponential" => RenewalModel::Exponential { rate: 1.0 / mean },
             "gamma" => {
                 let k = need(shape)?;
-                RenewalModel::Gamma {
-                    shape: k,
-                    scale: mean / k,
-                }
+                RenewalModel::Gamma { shape: k, scale: mean / k }
             }
             "weibull" => {
                 let k = need(shape)?;
-                RenewalModel::Weibull {
-                    shape: k,
-                    scale: mean / gamma_fn(1.0 + 1.0 / k),
-                }
+                RenewalModel::Weibull { shape: k, scale: mean / gamma_fn(1.0 + 1.0 / k) }
             }
             "lognormal" => {
                 let s = need(shape)?;
-                RenewalModel::Lognormal {
-                    mu: mean.ln() - 0.5 * s * s,
-                    sigma: s,
-                }
+                RenewalModel::Lognormal { mu: mean.ln() - 0.5 * s * s, sigma: s }
             }
-            "inverse_gaussian" => RenewalModel::InverseGaussian {
-                mean,
-                shape: need(shape)?,
-            },
+            "inverse_gaussian" => RenewalModel::InverseGaussian { mean, shape: need(shape)? },
             other => {
                 return Err(Error::Invalid(format!(
                     "'{other}' is not a renewal model; expected one of {}",
@@ -166,11 +150,7 @@ impl RenewalModel {
             ),
             RenewalModel::Lognormal { mu, sigma } => {
                 if !mu.is_finite() {
-                    return Err(Error::OutOfRange {
-                        name: "mu",
-                        value: mu,
-                        range: "a finite number",
-                    });
+                    return Err(Error::OutOfRange { name: "mu", value: mu, range: "a finite number" });
                 }
                 IntervalSampler::Lognormal(
                     LogNormal::new(mu, positive("sigma", sigma)?).map_err(|e| bad(e.to_string()))?,
@@ -338,8 +318,5 @@ pub fn simulate_timescale(m: &TimeScaleModel, seed: u64) -> Result<TimeScale> {
             c
         })
         .collect();
-    Ok(TimeScale {
-        source: format!("synthetic {} time scale (seed {seed})", m.model.name()),
-        chrons,
-    })
+    Ok(TimeScale { source: format!("synthetic {} time scale (seed {seed})", m.model.name()), chrons })
 }

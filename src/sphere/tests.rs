@@ -30,7 +30,11 @@ fn angles_and_antipodes() {
     assert_abs_diff_eq!(a.angle_to(a.antipode()), 180.0, epsilon = 1e-9);
     assert_abs_diff_eq!(a.angle_to(a), 0.0, epsilon = 1e-9);
     // Across north: 355 and 5 on the horizon are 10 degrees apart (plane geometry, exact).
-    assert_abs_diff_eq!(Direction::new(355.0, 0.0).unwrap().angle_to(Direction::new(5.0, 0.0).unwrap()), 10.0, epsilon = 1e-9);
+    assert_abs_diff_eq!(
+        Direction::new(355.0, 0.0).unwrap().angle_to(Direction::new(5.0, 0.0).unwrap()),
+        10.0,
+        epsilon = 1e-9
+    );
 }
 
 #[test]

@@ -216,8 +216,10 @@ impl FisherLanes {
         use std::arch::x86_64::*;
         // Lanes 0–3 form set A, lanes 4–7 set B; each set is one 256-bit register per state word.
         // SAFETY (loads and stores): every pointer is to four consecutive u64 inside `self.s`.
-        let load = |w: usize, half: usize| unsafe { _mm256_loadu_si256(self.s[w][4 * half..].as_ptr() as *const __m256i) };
-        let mut st: [[__m256i; 4]; 2] = [[load(0, 0), load(1, 0), load(2, 0), load(3, 0)], [load(0, 1), load(1, 1), load(2, 1), load(3, 1)]];
+        let load =
+            |w: usize, half: usize| unsafe { _mm256_loadu_si256(self.s[w][4 * half..].as_ptr() as *const __m256i) };
+        let mut st: [[__m256i; 4]; 2] =
+            [[load(0, 0), load(1, 0), load(2, 0), load(3, 0)], [load(0, 1), load(1, 1), load(2, 1), load(3, 1)]];
         let rotl23 = |x: __m256i| _mm256_or_si256(_mm256_slli_epi64::<23>(x), _mm256_srli_epi64::<41>(x));
         let rotl45 = |x: __m256i| _mm256_or_si256(_mm256_slli_epi64::<45>(x), _mm256_srli_epi64::<19>(x));
         let next = |s: &mut [__m256i; 4]| {
@@ -249,7 +251,10 @@ impl FisherLanes {
             let w = _mm256_sub_pd(one, _mm256_mul_pd(u, c));
             let bits = _mm256_castpd_si256(w);
             let e0 = _mm256_sub_pd(
-                _mm256_sub_pd(_mm256_castsi256_pd(_mm256_or_si256(_mm256_srli_epi64::<52>(bits), exp_magic)), pd(TWO52)),
+                _mm256_sub_pd(
+                    _mm256_castsi256_pd(_mm256_or_si256(_mm256_srli_epi64::<52>(bits), exp_magic)),
+                    pd(TWO52),
+                ),
                 pd(1023.0),
             );
             let m0 = _mm256_castsi256_pd(_mm256_or_si256(_mm256_and_si256(bits, mantissa), one_bits));
@@ -266,8 +271,14 @@ impl FisherLanes {
             // x = min(−ln w · (1/κ), 2): −ln w by flipping the sign bit, as `-` does.
             let x = _mm256_min_pd(_mm256_mul_pd(_mm256_xor_pd(lnw, pd(-0.0)), inv_kappa), two);
             let sin2 = _mm256_mul_pd(x, _mm256_sub_pd(two, x));
-            let a = _mm256_sub_pd(_mm256_castsi256_pd(_mm256_or_si256(_mm256_and_si256(_mm256_srli_epi64::<12>(r2), high32), two_bits)), three);
-            let b = _mm256_sub_pd(_mm256_castsi256_pd(_mm256_or_si256(_mm256_and_si256(_mm256_slli_epi64::<20>(r2), high32), two_bits)), three);
+            let a = _mm256_sub_pd(
+                _mm256_castsi256_pd(_mm256_or_si256(_mm256_and_si256(_mm256_srli_epi64::<12>(r2), high32), two_bits)),
+                three,
+            );
+            let b = _mm256_sub_pd(
+                _mm256_castsi256_pd(_mm256_or_si256(_mm256_and_si256(_mm256_slli_epi64::<20>(r2), high32), two_bits)),
+                three,
+            );
             let s2 = _mm256_add_pd(_mm256_mul_pd(a, a), _mm256_mul_pd(b, b));
             let fct = _mm256_sqrt_pd(_mm256_div_pd(sin2, s2));
             let ok = _mm256_and_pd(_mm256_cmp_pd::<_CMP_LT_OQ>(s2, one), _mm256_cmp_pd::<_CMP_GT_OQ>(s2, zero));
@@ -329,7 +340,8 @@ impl FisherLanes {
     unsafe fn resultant_avx512(&mut self, n: usize) -> Vec3 {
         use std::arch::x86_64::*;
         // SAFETY (loads and stores): every pointer is to the eight u64 of one state word.
-        let mut st: [__m512i; 4] = std::array::from_fn(|w| unsafe { _mm512_loadu_si512(self.s[w].as_ptr() as *const __m512i) });
+        let mut st: [__m512i; 4] =
+            std::array::from_fn(|w| unsafe { _mm512_loadu_si512(self.s[w].as_ptr() as *const __m512i) });
         let one_bits = _mm512_set1_epi64(ONE_BITS as i64);
         let mantissa = _mm512_set1_epi64(MANTISSA as i64);
         let high32 = _mm512_set1_epi64(HIGH32_AT_20 as i64);
@@ -359,7 +371,10 @@ impl FisherLanes {
             let w = _mm512_sub_pd(one, _mm512_mul_pd(u, c));
             let bits = _mm512_castpd_si512(w);
             let e0 = _mm512_sub_pd(
-                _mm512_sub_pd(_mm512_castsi512_pd(_mm512_or_si512(_mm512_srli_epi64::<52>(bits), exp_magic)), pd(TWO52)),
+                _mm512_sub_pd(
+                    _mm512_castsi512_pd(_mm512_or_si512(_mm512_srli_epi64::<52>(bits), exp_magic)),
+                    pd(TWO52),
+                ),
                 pd(1023.0),
             );
             let m0 = _mm512_castsi512_pd(_mm512_or_si512(_mm512_and_si512(bits, mantissa), one_bits));
@@ -377,8 +392,14 @@ impl FisherLanes {
             let neg = _mm512_castsi512_pd(_mm512_xor_si512(_mm512_castpd_si512(lnw), _mm512_set1_epi64(i64::MIN)));
             let x = _mm512_min_pd(_mm512_mul_pd(neg, inv_kappa), two);
             let sin2 = _mm512_mul_pd(x, _mm512_sub_pd(two, x));
-            let a = _mm512_sub_pd(_mm512_castsi512_pd(_mm512_or_si512(_mm512_and_si512(_mm512_srli_epi64::<12>(r2), high32), two_bits)), three);
-            let b = _mm512_sub_pd(_mm512_castsi512_pd(_mm512_or_si512(_mm512_and_si512(_mm512_slli_epi64::<20>(r2), high32), two_bits)), three);
+            let a = _mm512_sub_pd(
+                _mm512_castsi512_pd(_mm512_or_si512(_mm512_and_si512(_mm512_srli_epi64::<12>(r2), high32), two_bits)),
+                three,
+            );
+            let b = _mm512_sub_pd(
+                _mm512_castsi512_pd(_mm512_or_si512(_mm512_and_si512(_mm512_slli_epi64::<20>(r2), high32), two_bits)),
+                three,
+            );
             let s2 = _mm512_add_pd(_mm512_mul_pd(a, a), _mm512_mul_pd(b, b));
             let fct = _mm512_sqrt_pd(_mm512_div_pd(sin2, s2));
             let ok = _mm512_cmp_pd_mask::<_CMP_LT_OQ>(s2, one) & _mm512_cmp_pd_mask::<_CMP_GT_OQ>(s2, zero);
@@ -464,13 +485,21 @@ mod tests {
                 let mut lc = la.clone();
                 let ra = la.resultant(n);
                 let want = lb.resultant_portable(n);
-                assert_eq!([ra.x, ra.y, ra.z].map(f64::to_bits), [want.x, want.y, want.z].map(f64::to_bits), "kappa {kappa}, n {n}");
+                assert_eq!(
+                    [ra.x, ra.y, ra.z].map(f64::to_bits),
+                    [want.x, want.y, want.z].map(f64::to_bits),
+                    "kappa {kappa}, n {n}"
+                );
                 // The 256-bit path too, where the dispatch above took the 512-bit one.
                 #[cfg(target_arch = "x86_64")]
                 if std::arch::is_x86_feature_detected!("avx2") {
                     // SAFETY: AVX2 present (checked just above).
                     let r2 = unsafe { lc.resultant_avx2(n) };
-                    assert_eq!([r2.x, r2.y, r2.z].map(f64::to_bits), [want.x, want.y, want.z].map(f64::to_bits), "AVX2, kappa {kappa}, n {n}");
+                    assert_eq!(
+                        [r2.x, r2.y, r2.z].map(f64::to_bits),
+                        [want.x, want.y, want.z].map(f64::to_bits),
+                        "AVX2, kappa {kappa}, n {n}"
+                    );
                 }
                 let _ = &mut lc;
             }
@@ -506,8 +535,12 @@ mod tests {
             let n = draws.len() as f64;
             assert!(draws.iter().all(|u| (u.norm() - 1.0).abs() < 1e-12));
             let em = (-2.0 * kappa).exp();
-            let d_cos = ks(draws.iter().map(|u| u.x).collect(), |c| (((kappa * (c - 1.0)).exp() - em) / (1.0 - em)).clamp(0.0, 1.0));
-            let d_phi = ks(draws.iter().map(|u| u.z.atan2(u.y)).collect(), |p| (p + std::f64::consts::PI) / std::f64::consts::TAU);
+            let d_cos = ks(draws.iter().map(|u| u.x).collect(), |c| {
+                (((kappa * (c - 1.0)).exp() - em) / (1.0 - em)).clamp(0.0, 1.0)
+            });
+            let d_phi = ks(draws.iter().map(|u| u.z.atan2(u.y)).collect(), |p| {
+                (p + std::f64::consts::PI) / std::f64::consts::TAU
+            });
             let crit = 1.949474603504375 / n.sqrt();
             assert!(d_cos < crit && d_phi < crit, "kappa {kappa}: D(cos) = {d_cos}, D(phi) = {d_phi}, critical {crit}");
             let sum = draws.iter().fold(Vec3::ZERO, |a, u| a + *u);

@@ -206,7 +206,12 @@ impl GroupSums {
 
     /// The group at index `j`.
     pub fn get(&self, j: usize) -> Option<GroupSum<'_>> {
-        self.slots.get(j).map(|s| GroupSum { group: self.name_of(s), fisher: s.fisher, sums: self, first_run: s.first_run })
+        self.slots.get(j).map(|s| GroupSum {
+            group: self.name_of(s),
+            fisher: s.fisher,
+            sums: self,
+            first_run: s.first_run,
+        })
     }
 
     /// The groups in order of first appearance.
@@ -283,7 +288,10 @@ mod tests {
             plain.push(v);
         }
         assert_eq!(a.fisher, plain);
-        assert_eq!(a.line_runs().collect::<Vec<_>>(), vec![LineRun { first: 2, last: 2 }, LineRun { first: 4, last: 4 }, LineRun { first: 7, last: 7 }]);
+        assert_eq!(
+            a.line_runs().collect::<Vec<_>>(),
+            vec![LineRun { first: 2, last: 2 }, LineRun { first: 4, last: 4 }, LineRun { first: 7, last: 7 }]
+        );
         assert_eq!(a.lines().collect::<Vec<_>>(), vec![2, 4, 7]);
         assert_eq!(s.get(2).unwrap().lines().collect::<Vec<_>>(), vec![5]);
         assert!(s.get(4).is_none());
@@ -298,7 +306,10 @@ mod tests {
             s.push(j, line, unit(0.0, 0.0, 1.0)).unwrap();
         }
         let x = s.get(0).unwrap();
-        assert_eq!(x.line_runs().collect::<Vec<_>>(), vec![LineRun { first: 2, last: 4 }, LineRun { first: 6, last: 7 }]);
+        assert_eq!(
+            x.line_runs().collect::<Vec<_>>(),
+            vec![LineRun { first: 2, last: 4 }, LineRun { first: 6, last: 7 }]
+        );
         let mut s = GroupSums::new(false);
         let j = s.group_index(Some("X")).unwrap();
         s.push(j, 2, unit(0.0, 0.0, 1.0)).unwrap();

@@ -59,17 +59,19 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
             let v = r.direction.to_vector();
             vectors.push(match frame {
                 Frame::Geo => v,
-                Frame::Tilt => match r.bedding {
-                    Some(b) => b.untilt(v),
-                    None => {
-                        return Err(Error::Table(crate::error::TableError {
+                Frame::Tilt => {
+                    match r.bedding {
+                        Some(b) => b.untilt(v),
+                        None => return Err(Error::Table(crate::error::TableError {
                             file: set.source.clone(),
                             line: r.line,
                             column: Some("bed_dip".into()),
-                            message: "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip".into(),
-                        }))
+                            message:
+                                "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip"
+                                    .into(),
+                        })),
                     }
-                },
+                }
             });
         }
         let planes = is_plane.iter().filter(|p| **p).count();
@@ -82,7 +84,9 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
             let poles: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| **p).map(|(v, _)| dir(v)).collect();
             match super::mixed_mean(&lines, &poles, confidence) {
                 Ok(m) => m.as_fisher(),
-                Err(Error::OutOfRange { .. }) => return Err(Error::OutOfRange { name: "confidence", value: confidence, range: "(0, 1)" }),
+                Err(Error::OutOfRange { .. }) => {
+                    return Err(Error::OutOfRange { name: "confidence", value: confidence, range: "(0, 1)" })
+                }
                 Err(e) => {
                     undefined = Some(e.to_string());
                     let r = vectors.iter().fold(crate::sphere::Vec3::ZERO, |a, b| a + *b).norm();
@@ -90,7 +94,13 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
                 }
             }
         };
-        out.push(GroupMean { group, lines: idx.iter().map(|&i| set.records[i].line).collect(), stats, planes, undefined });
+        out.push(GroupMean {
+            group,
+            lines: idx.iter().map(|&i| set.records[i].line).collect(),
+            stats,
+            planes,
+            undefined,
+        });
     }
     Ok(out)
 }

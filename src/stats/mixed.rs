@@ -41,11 +41,7 @@ impl MixedStats {
             k: Some(self.k),
             alpha: self.alpha,
             confidence: self.confidence,
-            theta63: Some(if k.is_infinite() {
-                0.0
-            } else {
-                81.0 / k.sqrt()
-            }),
+            theta63: Some(if k.is_infinite() { 0.0 } else { 81.0 / k.sqrt() }),
         }
     }
 }
@@ -97,11 +93,7 @@ pub fn mixed_cone(n_eff: f64, r: f64, k: f64, confidence: f64) -> Option<f64> {
 /// # References
 /// McFadden & McElhinny (1988), eqs. for k and α95 (from memory, checked in the tests against the
 /// Fisher limit and against a brute-force minimisation).
-pub fn mixed_mean(
-    lines: &[Direction],
-    planes: &[Direction],
-    confidence: f64,
-) -> Result<MixedStats> {
+pub fn mixed_mean(lines: &[Direction], planes: &[Direction], confidence: f64) -> Result<MixedStats> {
     check_range("confidence", confidence, 1e-12, 1.0 - 1e-12, "(0, 1)")?;
     let (m, n) = (lines.len(), planes.len());
     if m + n < 2 || (m == 0 && n < 2) {
@@ -117,21 +109,19 @@ pub fn mixed_mean(
     let n_eff = m as f64 + n as f64 / 2.0;
     let line_sum = lv.iter().fold(Vec3::ZERO, |a, b| a + *b);
     if n == 0 && m < 2 {
-        return Err(Error::TooFew {
-            what: "a combined mean",
-            needed: 2,
-            got: m,
-            unit: "directions",
-        });
+        return Err(Error::TooFew { what: "a combined mean", needed: 2, got: m, unit: "directions" });
     }
     let mut mean = if m > 0 {
-        line_sum.normalized().ok_or_else(|| {
-            Error::Undefined("the lines cancel out (R ≈ 0): no starting mean".into())
-        })?
+        line_sum
+            .normalized()
+            .ok_or_else(|| Error::Undefined("the lines cancel out (R ≈ 0): no starting mean".into()))?
     } else {
         let e = super::principal_axes(&pv);
         if e.values[1] - e.values[2] <= 1e-12 * e.values[0].max(1e-300) {
-            return Err(Error::Undefined("the great circles do not intersect in one direction (their poles are identical or spread evenly)".into()));
+            return Err(Error::Undefined(
+                "the great circles do not intersect in one direction (their poles are identical or spread evenly)"
+                    .into(),
+            ));
         }
         let v = e.vectors[2];
         if v.z < 0.0 {
@@ -147,14 +137,18 @@ pub fn mixed_mean(
         iterations = it;
         sum = line_sum;
         for (i, p) in pv.iter().enumerate() {
-            let x = nearest_on_circle(*p, mean)
-                .ok_or_else(|| Error::Undefined(format!("the mean coincides with the pole of great circle {}: its nearest point is undefined", i + 1)))?;
+            let x = nearest_on_circle(*p, mean).ok_or_else(|| {
+                Error::Undefined(format!(
+                    "the mean coincides with the pole of great circle {}: its nearest point is undefined",
+                    i + 1
+                ))
+            })?;
             points[i] = x;
             sum += x;
         }
-        let next = sum.normalized().ok_or_else(|| {
-            Error::Undefined("the lines and circle points cancel out (R ≈ 0)".into())
-        })?;
+        let next = sum
+            .normalized()
+            .ok_or_else(|| Error::Undefined("the lines and circle points cancel out (R ≈ 0)".into()))?;
         let moved = crate::sphere::angle_between(next, mean).to_radians();
         mean = next;
         if moved < 1e-12 {
@@ -164,11 +158,8 @@ pub fn mixed_mean(
     let r = sum.norm().min((m + n) as f64);
     let total = (m + n) as f64;
     let nr = total - r;
-    let k = if nr <= tolerance::IDENTICAL * total {
-        f64::INFINITY
-    } else {
-        (2.0 * m as f64 + n as f64 - 2.0) / (2.0 * nr)
-    };
+    let k =
+        if nr <= tolerance::IDENTICAL * total { f64::INFINITY } else { (2.0 * m as f64 + n as f64 - 2.0) / (2.0 * nr) };
     let alpha = mixed_cone(n_eff, r, k, confidence);
     Ok(MixedStats {
         n_lines: m,
@@ -179,10 +170,7 @@ pub fn mixed_mean(
         k: Precision(k),
         alpha,
         confidence,
-        circle_points: points
-            .into_iter()
-            .map(|x| Direction::from_vector(x).expect("unit"))
-            .collect(),
+        circle_points: points.into_iter().map(|x| Direction::from_vector(x).expect("unit")).collect(),
         iterations,
     })
 }
@@ -194,23 +182,14 @@ mod tests {
     use approx::assert_abs_diff_eq;
 
     fn dirs(v: &[(f64, f64)]) -> Vec<Direction> {
-        v.iter()
-            .map(|&(d, i)| Direction::new(d, i).unwrap())
-            .collect()
+        v.iter().map(|&(d, i)| Direction::new(d, i).unwrap()).collect()
     }
 
     #[test]
     fn without_planes_it_is_fisher_exactly() {
         // The same six directions as the SciPy-checked Fisher test (scipy.stats.directional_stats,
         // SciPy 1.17.1): the combined mean with N = 0 must give Fisher's mean, R, k and α95.
-        let d = dirs(&[
-            (12.0, 45.0),
-            (20.0, 51.0),
-            (355.0, 38.0),
-            (8.0, 60.0),
-            (25.0, 40.0),
-            (2.0, 47.0),
-        ]);
+        let d = dirs(&[(12.0, 45.0), (20.0, 51.0), (355.0, 38.0), (8.0, 60.0), (25.0, 40.0), (2.0, 47.0)]);
         let f = fisher_mean(&d, 0.95).unwrap();
         let m = mixed_mean(&d, &[], 0.95).unwrap();
         assert_abs_diff_eq!(m.mean.dec, 10.22770404794826, epsilon = 1e-9);
@@ -218,11 +197,7 @@ mod tests {
         assert_abs_diff_eq!(m.r, f.r, epsilon = 1e-12);
         assert_abs_diff_eq!(m.k.0, f.k.unwrap().0, epsilon = 1e-9);
         assert_abs_diff_eq!(m.alpha.unwrap(), f.alpha.unwrap(), epsilon = 1e-9);
-        assert_abs_diff_eq!(
-            m.as_fisher().theta63.unwrap(),
-            f.theta63.unwrap(),
-            epsilon = 1e-9
-        );
+        assert_abs_diff_eq!(m.as_fisher().theta63.unwrap(), f.theta63.unwrap(), epsilon = 1e-9);
         // The cone formula alone, at another level, also reduces to Fisher's (N' = M).
         assert_abs_diff_eq!(
             mixed_cone(6.0, f.r, f.k.unwrap().0, 0.99).unwrap(),

@@ -30,7 +30,12 @@ impl FisherSampler {
             return Err(Error::OutOfRange { name: "kappa", value: kappa, range: "(0, ∞)" });
         }
         // Work in a frame where the mean is the +x axis, then rotate onto the mean.
-        Ok(Self { kappa, inv_kappa: 1.0 / kappa, em1: (-2.0 * kappa).exp_m1(), rot: Rotation::from_north_to(mean.to_vector()) })
+        Ok(Self {
+            kappa,
+            inv_kappa: 1.0 / kappa,
+            em1: (-2.0 * kappa).exp_m1(),
+            rot: Rotation::from_north_to(mean.to_vector()),
+        })
     }
 
     /// Draw one unit vector.

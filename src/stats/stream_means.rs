@@ -136,13 +136,11 @@ pub fn stream_group_sums<R: BufRead>(
         Err(e) => {
             let e = stream.finish_with(e);
             // The whole-table path asks for data rows before it looks for columns.
-            return Err(Error::Table(
-                if stream.rows_read() == 0 && !crate::table::is_layout_fault(&e) {
-                    stream.require_rows().err().unwrap_or(e)
-                } else {
-                    e
-                },
-            ));
+            return Err(Error::Table(if stream.rows_read() == 0 && !crate::table::is_layout_fault(&e) {
+                stream.require_rows().err().unwrap_or(e)
+            } else {
+                e
+            }));
         }
     };
     let mut sums = GroupSums::new(keep_lines);
@@ -194,23 +192,13 @@ pub fn stream_group_sums<R: BufRead>(
             message: "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip".into(),
         }));
     }
-    Ok(StreamedSums::Sums {
-        group_column: cols.group_column,
-        rows: stream.rows_read(),
-        groups: sums,
-    })
+    Ok(StreamedSums::Sums { group_column: cols.group_column, rows: stream.rows_read(), groups: sums })
 }
 
 impl From<StreamedGroup> for GroupMean {
     fn from(g: StreamedGroup) -> GroupMean {
         let lines = g.lines().collect();
-        GroupMean {
-            group: g.group,
-            lines,
-            stats: g.stats,
-            planes: 0,
-            undefined: None,
-        }
+        GroupMean { group: g.group, lines, stats: g.stats, planes: 0, undefined: None }
     }
 }
 
@@ -225,10 +213,7 @@ mod tests {
         text: &str,
         by: &GroupBy,
         frame: Frame,
-    ) -> (
-        std::result::Result<Vec<GroupMean>, String>,
-        std::result::Result<StreamedMeans, String>,
-    ) {
+    ) -> (std::result::Result<Vec<GroupMean>, String>, std::result::Result<StreamedMeans, String>) {
         let whole = Table::parse("t.csv", text.as_bytes())
             .map_err(Error::Table)
             .and_then(|t| read_directions(&t, by).map_err(Error::Table))
@@ -258,17 +243,9 @@ mod tests {
         // Interleaved groups, a row without a group value, a comment, CRLF, a BOM, blank lines.
         same("\u{feff}site,dec,inc\r\nA,10,0\r\n# note, with \"quote\r\nB,200,-30\r\n\r\nA,350,5\r\n,5,5\r\nA,0,10\r\nB,190,-35\r\n", &by, Frame::Geo);
         same("Site , DEC,Inc\nA,10,20\n", &by, Frame::Geo);
-        same(
-            "dec,inc,site\n10,20,X\n10,20,X\n",
-            &GroupBy::Column("Site".into()),
-            Frame::Geo,
-        );
+        same("dec,inc,site\n10,20,X\n10,20,X\n", &GroupBy::Column("Site".into()), Frame::Geo);
         same("site,dec,inc\nA,10,20\nB,30,40\n", &GroupBy::None, Frame::Geo);
-        same(
-            "site,dec,inc,bed_dip_dir,bed_dip\nA,10,20,90,30\nA,15,25,90,30\nB,200,-20,270,10\n",
-            &by,
-            Frame::Tilt,
-        );
+        same("site,dec,inc,bed_dip_dir,bed_dip\nA,10,20,90,30\nA,15,25,90,30\nB,200,-20,270,10\n", &by, Frame::Tilt);
     }
 
     #[test]
@@ -294,11 +271,7 @@ mod tests {
         ] {
             same(text, &by, Frame::Geo);
         }
-        same(
-            "site,dec,inc,bed_dip_dir,bed_dip\nA,10,20,90,30\nB,1,2,,\nA,15,25,,\n",
-            &by,
-            Frame::Tilt,
-        );
+        same("site,dec,inc,bed_dip_dir,bed_dip\nA,10,20,90,30\nB,1,2,,\nA,15,25,,\n", &by, Frame::Tilt);
         same("site,dec,inc\nA,1,2\n", &GroupBy::Column("zone".into()), Frame::Geo);
     }
 
@@ -320,19 +293,10 @@ mod tests {
     fn planes_ask_for_the_whole_table_and_runs_compress_lines() {
         let (_, s) = both("dec,inc,kind\n1,2,line\n3,4,plane\n", &GroupBy::Default, Frame::Geo);
         assert_eq!(s.unwrap(), StreamedMeans::NeedsWholeTable);
-        let (_, s) = both(
-            "site,dec,inc\nA,1,2\nA,1,3\nB,1,2\nA,4,5\n",
-            &GroupBy::Default,
-            Frame::Geo,
-        );
-        let StreamedMeans::Means { groups, rows, .. } = s.unwrap() else {
-            panic!("expected means")
-        };
+        let (_, s) = both("site,dec,inc\nA,1,2\nA,1,3\nB,1,2\nA,4,5\n", &GroupBy::Default, Frame::Geo);
+        let StreamedMeans::Means { groups, rows, .. } = s.unwrap() else { panic!("expected means") };
         assert_eq!(rows, 4);
-        assert_eq!(
-            groups[0].line_runs,
-            vec![LineRun { first: 2, last: 3 }, LineRun { first: 5, last: 5 }]
-        );
+        assert_eq!(groups[0].line_runs, vec![LineRun { first: 2, last: 3 }, LineRun { first: 5, last: 5 }]);
         assert_eq!(groups[0].lines().collect::<Vec<_>>(), vec![2, 3, 5]);
     }
 }

@@ -24,8 +24,9 @@ fn four_symmetric_directions() {
 fn matches_scipy_directional_stats() {
     // scipy.stats.directional_stats (SciPy 1.17.1) on these six directions:
     // mean dec 10.22770404794826, inc 47.316300335867986, R = N * mean_resultant_length = 5.904008521394596.
-    let s = fisher_mean(&dirs(&[(12.0, 45.0), (20.0, 51.0), (355.0, 38.0), (8.0, 60.0), (25.0, 40.0), (2.0, 47.0)]), 0.95)
-        .unwrap();
+    let s =
+        fisher_mean(&dirs(&[(12.0, 45.0), (20.0, 51.0), (355.0, 38.0), (8.0, 60.0), (25.0, 40.0), (2.0, 47.0)]), 0.95)
+            .unwrap();
     let m = s.mean.unwrap();
     assert_abs_diff_eq!(m.dec, 10.22770404794826, epsilon = 1e-9);
     assert_abs_diff_eq!(m.inc, 47.316300335867986, epsilon = 1e-9);
@@ -103,7 +104,10 @@ fn principal_axis_of_a_girdle_free_cluster() {
     let e = principal_axes(&v);
     assert_abs_diff_eq!(e.values.iter().sum::<f64>(), 1.0, epsilon = 1e-12);
     let ax = Direction::from_vector(e.vectors[0]).unwrap();
-    assert!(ax.angle_to(Direction::new(1.0, 11.0).unwrap()) < 2.0 || ax.antipode().angle_to(Direction::new(1.0, 11.0).unwrap()) < 2.0);
+    assert!(
+        ax.angle_to(Direction::new(1.0, 11.0).unwrap()) < 2.0
+            || ax.antipode().angle_to(Direction::new(1.0, 11.0).unwrap()) < 2.0
+    );
 }
 
 mod props {

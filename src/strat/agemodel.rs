@@ -142,7 +142,8 @@ pub(crate) fn build_candidate(pb: &Problem, p: &Path, rank: usize, score: f64, l
         let t = u_hi - u_lo;
         let (age_young, age_old, rate) = if i == 0 {
             let old = ch[e].old;
-            let young = (old - t / r - if cost.reading == Reading::Hiatus { mdur } else { 0.0 }).clamp(ch[s].young, old);
+            let young =
+                (old - t / r - if cost.reading == Reading::Hiatus { mdur } else { 0.0 }).clamp(ch[s].young, old);
             (young, old, None)
         } else if i + 1 == n_runs {
             let young = ch[s - 1].old;

@@ -87,7 +87,14 @@ pub struct CorrelateOptions {
 
 impl Default for CorrelateOptions {
     fn default() -> Self {
-        Self { miss_penalty: 2.0, hiatus_penalty: 6.0, skip_penalty: 2.0, rate_spread: 0.25, candidates: 5, anchors: vec![] }
+        Self {
+            miss_penalty: 2.0,
+            hiatus_penalty: 6.0,
+            skip_penalty: 2.0,
+            rate_spread: 0.25,
+            candidates: 5,
+            anchors: vec![],
+        }
     }
 }
 
@@ -242,13 +249,18 @@ impl<'a> Problem<'a> {
         }
         if gaps.is_empty() {
             return Err(Error::Undefined(
-                "the column has no change between normal and reversed polarity, so it cannot be tied to a time scale".into(),
+                "the column has no change between normal and reversed polarity, so it cannot be tied to a time scale"
+                    .into(),
             ));
         }
         if ts.chrons.len() < 2 {
             return Err(Error::TooFew { what: "a correlation", needed: 2, got: ts.chrons.len(), unit: "chrons" });
         }
-        for (x, name) in [(opts.miss_penalty, "miss penalty"), (opts.hiatus_penalty, "hiatus penalty"), (opts.skip_penalty, "skip penalty")] {
+        for (x, name) in [
+            (opts.miss_penalty, "miss penalty"),
+            (opts.hiatus_penalty, "hiatus penalty"),
+            (opts.skip_penalty, "skip penalty"),
+        ] {
             crate::error::check_range(name, x, 0.0, f64::MAX, "[0, ∞)")?;
         }
         crate::error::check_range("rate spread", opts.rate_spread, 1e-6, 10.0, "(0, 10]")?;
@@ -264,10 +276,20 @@ impl<'a> Problem<'a> {
         let n_levels: usize = units.iter().map(|z| z.n_levels).sum();
         let spacing = if n_levels > 1 { (u_top - u_bottom) / (n_levels - 1) as f64 } else { 0.0 };
         if !(spacing > 0.0) {
-            return Err(Error::Undefined("the column has no thickness (one level, or all levels at one position)".into()));
+            return Err(Error::Undefined(
+                "the column has no thickness (one level, or all levels at one position)".into(),
+            ));
         }
         let anchors_up = opts.anchors.iter().map(|a| (col.up(a.position), *a)).collect();
-        let empty = RunTables { n: 0, inter: vec![], top: vec![], bottom: vec![], gap_inter: vec![], gap_top: vec![], gap_bottom: vec![] };
+        let empty = RunTables {
+            n: 0,
+            inter: vec![],
+            top: vec![],
+            bottom: vec![],
+            gap_inter: vec![],
+            gap_top: vec![],
+            gap_bottom: vec![],
+        };
         let mut pb = Problem {
             col,
             ts,
@@ -306,12 +328,22 @@ impl<'a> Problem<'a> {
             for s in 0..=j {
                 let (missing, mdur) = self.missing(s, j, ch[j].polarity);
                 let (dmin, dmax) = (ch[j].old - ch[s].old, ch[j].old - ch[s].young);
-                top[j * n + s] = ChronRun { u: LnSpan::new(dmin, dmax), h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur), missing, mdur };
+                top[j * n + s] = ChronRun {
+                    u: LnSpan::new(dmin, dmax),
+                    h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur),
+                    missing,
+                    mdur,
+                };
             }
             for e in j + 1..n {
                 let (missing, mdur) = self.missing(j + 1, e, ch[e].polarity);
                 let (dmin, dmax) = (ch[e].young - ch[j].old, ch[e].old - ch[j].old);
-                bottom[j * n + e] = ChronRun { u: LnSpan::new(dmin, dmax), h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur), missing, mdur };
+                bottom[j * n + e] = ChronRun {
+                    u: LnSpan::new(dmin, dmax),
+                    h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur),
+                    missing,
+                    mdur,
+                };
             }
         }
         let ng = self.gaps.len();
@@ -335,8 +367,16 @@ impl<'a> Problem<'a> {
             let p = self.pol[zone];
             Some(GapRun { cp: p.as_chron()?, skipped: self.skips(z0, z1, p)?, t })
         };
-        let gap_top = self.gaps.iter().map(|gp| edge_run(gp.a, 0, gp.a, LnSpan::new((self.u_top - gp.hi).max(0.0), self.u_top - gp.lo))).collect();
-        let gap_bottom = self.gaps.iter().map(|gp| edge_run(gp.c, gp.c, last, LnSpan::new((gp.lo - self.u_bottom).max(0.0), gp.hi - self.u_bottom))).collect();
+        let gap_top = self
+            .gaps
+            .iter()
+            .map(|gp| edge_run(gp.a, 0, gp.a, LnSpan::new((self.u_top - gp.hi).max(0.0), self.u_top - gp.lo)))
+            .collect();
+        let gap_bottom = self
+            .gaps
+            .iter()
+            .map(|gp| edge_run(gp.c, gp.c, last, LnSpan::new((gp.lo - self.u_bottom).max(0.0), gp.hi - self.u_bottom)))
+            .collect();
         RunTables { n, inter, top, bottom, gap_inter, gap_top, gap_bottom }
     }
 
@@ -381,7 +421,13 @@ impl<'a> Problem<'a> {
     #[inline]
     fn interval_term(&self, t: LnSpan, d: LnSpan, ln_r: f64) -> f64 {
         let (lo, hi) = (t.lo - ln_r, t.hi - ln_r);
-        let delta = if lo > d.hi { lo - d.hi } else if hi < d.lo { d.lo - hi } else { 0.0 };
+        let delta = if lo > d.hi {
+            lo - d.hi
+        } else if hi < d.lo {
+            d.lo - hi
+        } else {
+            0.0
+        };
         (delta / self.opts.rate_spread).powi(2)
     }
 
@@ -394,12 +440,23 @@ impl<'a> Problem<'a> {
     /// [`Problem::interior`] with the gap pair already looked up and r = exp(ln r) given.
     #[allow(clippy::too_many_arguments)]
     #[inline]
-    fn interior_with(&self, gr: &GapRun, g1: usize, j1: usize, g2: usize, j2: usize, ln_r: f64, r: f64) -> Option<RunCost> {
+    fn interior_with(
+        &self,
+        gr: &GapRun,
+        g1: usize,
+        j1: usize,
+        g2: usize,
+        j2: usize,
+        ln_r: f64,
+        r: f64,
+    ) -> Option<RunCost> {
         if j2 <= j1 || self.chron_pol(j1 + 1) != gr.cp || self.chron_pol(j2) != gr.cp {
             return None;
         }
         let ch = &self.ts.chrons;
-        if !self.anchors_up.is_empty() && !self.anchors_ok(self.gaps[g1].mid(), self.gaps[g2].mid(), ch[j1].old, ch[j2].old) {
+        if !self.anchors_up.is_empty()
+            && !self.anchors_ok(self.gaps[g1].mid(), self.gaps[g2].mid(), ch[j1].old, ch[j2].old)
+        {
             return None;
         }
         Some(self.run_cost(gr, &self.tab.inter[j2 * self.tab.n + j1], ln_r, r))
@@ -435,7 +492,8 @@ impl<'a> Problem<'a> {
             return None;
         }
         let ch = &self.ts.chrons;
-        if !self.anchors_up.is_empty() && !self.anchors_ok(self.gaps[g].mid(), f64::NEG_INFINITY, ch[j].old, ch[e].old) {
+        if !self.anchors_up.is_empty() && !self.anchors_ok(self.gaps[g].mid(), f64::NEG_INFINITY, ch[j].old, ch[e].old)
+        {
             return None;
         }
         Some(self.run_cost(gr, &self.tab.bottom[j * self.tab.n + e], ln_r, r))
@@ -781,10 +839,8 @@ pub fn correlate(col: &ZoneColumn, ts: &TimeScale, opts: &CorrelateOptions) -> R
     let mut order: Vec<Path> = Vec::new();
     // The passes at each rate are independent: run them in parallel, then merge in grid order so the
     // union (and so the ranking, ties included) is the same as a serial run.
-    let per_rate: Vec<Vec<Path>> = (0..=n_grid)
-        .into_par_iter()
-        .map(|i| kbest(&pb, lo + (hi - lo) * i as f64 / n_grid as f64, k))
-        .collect();
+    let per_rate: Vec<Vec<Path>> =
+        (0..=n_grid).into_par_iter().map(|i| kbest(&pb, lo + (hi - lo) * i as f64 / n_grid as f64, k)).collect();
     for paths in per_rate {
         for p in paths {
             if seen.insert(p.clone(), ()).is_none() {
@@ -798,7 +854,8 @@ pub fn correlate(col: &ZoneColumn, ts: &TimeScale, opts: &CorrelateOptions) -> R
         ));
     }
     // Rescoring is per path; rayon's collect keeps the input order, and the sort below is stable.
-    let mut scored: Vec<(f64, f64, Path)> = order.into_par_iter().filter_map(|p| pb.optimise(&p).map(|(s, x)| (s, x, p))).collect();
+    let mut scored: Vec<(f64, f64, Path)> =
+        order.into_par_iter().filter_map(|p| pb.optimise(&p).map(|(s, x)| (s, x, p))).collect();
     scored.sort_by(|a, b| a.0.total_cmp(&b.0));
     let n_scored = scored.len();
     let candidates = scored

@@ -65,7 +65,11 @@ pub struct LevelOptions {
 pub fn read_levels(t: &Table, opts: LevelOptions) -> Result<LevelSet, TableError> {
     t.require_rows()?;
     let Some((axis, pos_col)) = strat_axis(t)? else {
-        return Err(t.error(t.header_line, Some("height"), "a column 'height' (m, upward) or 'depth' (m, downward) is required"));
+        return Err(t.error(
+            t.header_line,
+            Some("height"),
+            "a column 'height' (m, upward) or 'depth' (m, downward) is required",
+        ));
     };
     let a95_c = t.col("a95");
     let mad_c = t.col("mad");
@@ -76,7 +80,11 @@ pub fn read_levels(t: &Table, opts: LevelOptions) -> Result<LevelSet, TableError
     }
     let in_order = raw.windows(2).all(|w| w[0].0 <= w[1].0) || raw.windows(2).all(|w| w[0].0 >= w[1].0);
     if !in_order {
-        notes.push(format!("{}: rows are not in stratigraphic order; levels were sorted by {}.", t.name, axis.column()));
+        notes.push(format!(
+            "{}: rows are not in stratigraphic order; levels were sorted by {}.",
+            t.name,
+            axis.column()
+        ));
     }
     raw.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
     let mut levels = Vec::new();
@@ -85,8 +93,15 @@ pub fn read_levels(t: &Table, opts: LevelOptions) -> Result<LevelSet, TableError
             if w[0].0 == w[1].0 {
                 let (l1, l2) = (t.rows[w[0].1].line, t.rows[w[1].1].line);
                 let (first, second) = (l1.min(l2), l1.max(l2));
-                return Err(t.error(second, Some(axis.column()), format!(
-                    "{} {} repeats line {first}: a table of VGP latitudes needs one row per level", axis.column(), w[1].0)));
+                return Err(t.error(
+                    second,
+                    Some(axis.column()),
+                    format!(
+                        "{} {} repeats line {first}: a table of VGP latitudes needs one row per level",
+                        axis.column(),
+                        w[1].0
+                    ),
+                ));
             }
         }
         for &(p, i) in &raw {
@@ -107,7 +122,11 @@ pub fn read_levels(t: &Table, opts: LevelOptions) -> Result<LevelSet, TableError
     let (lat_c, lon_c) = (t.col("lat"), t.col("lon"));
     if lat_c.is_none() || lon_c.is_none() {
         let missing = if lat_c.is_none() { "lat" } else { "lon" };
-        return Err(t.error(t.header_line, Some(missing), "a directions table needs the site 'lat' and 'lon' to give VGP latitudes (or give a 'vgp_lat' column)"));
+        return Err(t.error(
+            t.header_line,
+            Some(missing),
+            "a directions table needs the site 'lat' and 'lon' to give VGP latitudes (or give a 'vgp_lat' column)",
+        ));
     }
     let site_c = t.col("site");
     let mut planes = 0usize;
@@ -129,14 +148,25 @@ pub fn read_levels(t: &Table, opts: LevelOptions) -> Result<LevelSet, TableError
                 return Err(t.error(r.line, Some(col), "is empty; every row needs the site coordinates"));
             };
             if lat != first.lat.unwrap_or(lat) || lon != first.lon.unwrap_or(lon) {
-                return Err(t.error(r.line, Some("lat"), format!(
-                    "{} {} is also on line {} with other site coordinates; rows at one level must share lat/lon",
-                    axis.column(), pos, first.line)));
+                return Err(t.error(
+                    r.line,
+                    Some("lat"),
+                    format!(
+                        "{} {} is also on line {} with other site coordinates; rows at one level must share lat/lon",
+                        axis.column(),
+                        pos,
+                        first.line
+                    ),
+                ));
             }
             if site_c.is_some() && r.site != first.site {
-                return Err(t.error(r.line, Some("site"), format!(
+                return Err(t.error(
+                    r.line,
+                    Some("site"),
+                    format!(
                     "{} {} is also on line {} with site '{}'; two sites cannot share one level (a typing error in {}?)",
-                    axis.column(), pos, first.line, first.site.clone().unwrap_or_default(), axis.column())));
+                    axis.column(), pos, first.line, first.site.clone().unwrap_or_default(), axis.column()),
+                ));
             }
             if r.kind == DirectionKind::Plane {
                 planes += 1;
@@ -160,13 +190,29 @@ pub fn read_levels(t: &Table, opts: LevelOptions) -> Result<LevelSet, TableError
         } else {
             let s = fisher_mean(&dirs, 0.95).map_err(|e| t.error(lines[0], None, e.to_string()))?;
             let Some(m) = s.mean else {
-                return Err(t.error(lines[0], Some("dec"), format!(
-                    "the {} directions at {} {} cancel out (no mean direction); check this level", dirs.len(), axis.column(), pos)));
+                return Err(t.error(
+                    lines[0],
+                    Some("dec"),
+                    format!(
+                        "the {} directions at {} {} cancel out (no mean direction); check this level",
+                        dirs.len(),
+                        axis.column(),
+                        pos
+                    ),
+                ));
             };
             (m, s.alpha)
         };
         let mad = if dirs.len() == 1 { t.opt_number_in(&t.rows[group[0]], mad_c, 0.0, 90.0)? } else { None };
-        levels.push(Level { position: pos, vgp_lat: vgp(site, mean).pole.lat, direction: Some(mean), n: dirs.len(), a95, mad, lines });
+        levels.push(Level {
+            position: pos,
+            vgp_lat: vgp(site, mean).pole.lat,
+            direction: Some(mean),
+            n: dirs.len(),
+            a95,
+            mad,
+            lines,
+        });
     }
     if planes > 0 {
         notes.push(format!("{planes} row(s) of kind 'plane' carry no direction and were left out."));

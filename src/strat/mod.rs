@@ -19,7 +19,11 @@ pub use zones::{build_zones, read_zones, status_word, Boundary, Magnetozone, Zon
 pub const DEFAULT_MIN_LEVELS: usize = 2;
 
 /// Zone a level set with a threshold and a minimum zone size.
-pub fn zone_levels(set: &LevelSet, threshold: f64, min_levels: usize) -> crate::Result<(Vec<ZonePolarity>, ZoneColumn)> {
+pub fn zone_levels(
+    set: &LevelSet,
+    threshold: f64,
+    min_levels: usize,
+) -> crate::Result<(Vec<ZonePolarity>, ZoneColumn)> {
     check_threshold(threshold)?;
     let pol: Vec<ZonePolarity> = set.levels.iter().map(|l| classify(l.vgp_lat, threshold)).collect();
     let pos: Vec<f64> = set.levels.iter().map(|l| l.position).collect();

@@ -3,7 +3,7 @@
 
 use super::*;
 use crate::montecarlo::replicate_rng;
-use crate::table::{Table, TimeScale, StratAxis};
+use crate::table::{StratAxis, Table, TimeScale};
 use rand::RngExt;
 
 const SCALE: &str = include_str!("../../records/timescales/chrons-0-6ma.csv");
@@ -55,7 +55,11 @@ fn synth(ts: &TimeScale, young: f64, old: f64, hiatus: &[(f64, f64)], seed: u64)
         let age = a.0 + (h - a.1) / (b.1 - a.1) * (b.0 - a.0);
         let chron = ts.chrons.iter().find(|c| age >= c.young && age < c.old).unwrap();
         let sign = if chron.polarity == crate::table::Polarity::Normal { 1.0 } else { -1.0 };
-        let lat = if rng.random::<f64>() < 0.05 { rng.random_range(-30.0..30.0) } else { sign * rng.random_range(55.0..85.0) };
+        let lat = if rng.random::<f64>() < 0.05 {
+            rng.random_range(-30.0..30.0)
+        } else {
+            sign * rng.random_range(55.0..85.0)
+        };
         s.ages.push(age);
         s.heights.push((h * 1000.0f64).round() / 1000.0);
         s.vgp.push(lat);
@@ -85,7 +89,13 @@ fn check_truth_ranks_first(ts: &TimeScale, s: &Synth, hiatus: &[(f64, f64)]) -> 
     let best = &res.candidates[0];
     for t in &best.ties {
         let truth = true_boundary_ages(ts, s, t);
-        assert!(truth.iter().any(|&a| (a - t.age).abs() < 1e-9), "seed {}: tie at {} m → {} Ma; true boundaries in the gap: {truth:?}", s.seed, t.position, t.age);
+        assert!(
+            truth.iter().any(|&a| (a - t.age).abs() < 1e-9),
+            "seed {}: tie at {} m → {} Ma; true boundaries in the gap: {truth:?}",
+            s.seed,
+            t.position,
+            t.age
+        );
     }
     // Rates of interior runs agree with the true mean rate within the sampling resolution: each end of a
     // run is placed within its gap, so the thickness is off by at most (g1 + g2) / 2.
@@ -101,7 +111,13 @@ fn check_truth_ranks_first(ts: &TimeScale, s: &Synth, hiatus: &[(f64, f64)]) -> 
             / steps as f64;
         let true_rate = h_true / dur_true * M_PER_MYR_TO_CM_PER_KYR;
         let bound = ((a.high - a.low) + (b.high - b.low)) / 2.0 / dur_true * M_PER_MYR_TO_CM_PER_KYR + 0.02 * true_rate;
-        assert!((r.rate.unwrap() - true_rate).abs() <= bound, "run {}–{} m: rate {} vs true {true_rate} (bound {bound})", r.top, r.base, r.rate.unwrap());
+        assert!(
+            (r.rate.unwrap() - true_rate).abs() <= bound,
+            "run {}–{} m: rate {} vs true {true_rate} (bound {bound})",
+            r.top,
+            r.base,
+            r.rate.unwrap()
+        );
     }
     best.clone()
 }
@@ -150,7 +166,10 @@ fn an_anchor_excludes_candidates_that_contradict_it() {
     let col = column_of(&s);
     // Anchor a level near the middle of the section at its true age.
     let i = s.heights.len() / 2;
-    let opts = CorrelateOptions { anchors: vec![Anchor { position: s.heights[i], age: s.ages[i], uncertainty: 0.01 }], ..Default::default() };
+    let opts = CorrelateOptions {
+        anchors: vec![Anchor { position: s.heights[i], age: s.ages[i], uncertainty: 0.01 }],
+        ..Default::default()
+    };
     let res = correlate(&col, &ts, &opts).unwrap();
     for c in &res.candidates {
         let a = c.age_at(s.heights[i], StratAxis::Height).unwrap();
@@ -158,7 +177,10 @@ fn an_anchor_excludes_candidates_that_contradict_it() {
         assert!(s.ages[i] >= run.age_young - 0.01 && s.ages[i] <= run.age_old + 0.01, "rank {}: {a}", c.rank);
     }
     // An anchor at an impossible age removes every candidate.
-    let opts = CorrelateOptions { anchors: vec![Anchor { position: s.heights[i], age: 50.0, uncertainty: 0.0 }], ..Default::default() };
+    let opts = CorrelateOptions {
+        anchors: vec![Anchor { position: s.heights[i], age: 50.0, uncertainty: 0.0 }],
+        ..Default::default()
+    };
     assert!(correlate(&col, &ts, &opts).is_err());
 }
 
@@ -182,4 +204,3 @@ fn a_column_without_a_polarity_change_cannot_be_correlated() {
     let col = build_zones(StratAxis::Height, &[1.0, 2.0], &[ZonePolarity::Normal; 2], 2).unwrap();
     assert!(correlate(&col, &scale(), &CorrelateOptions::default()).is_err());
 }
-

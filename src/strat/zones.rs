@@ -88,7 +88,12 @@ impl ZoneColumn {
 /// # References
 /// Common practice in magnetostratigraphy (Opdyke & Channell 1996, ch. 5): boundaries are placed within
 /// the gap between the nearest levels of opposite polarity.
-pub fn build_zones(axis: StratAxis, positions: &[f64], polarities: &[ZonePolarity], min_levels: usize) -> crate::Result<ZoneColumn> {
+pub fn build_zones(
+    axis: StratAxis,
+    positions: &[f64],
+    polarities: &[ZonePolarity],
+    min_levels: usize,
+) -> crate::Result<ZoneColumn> {
     if positions.len() != polarities.len() {
         return Err(crate::Error::Invalid("positions and polarities differ in length".into()));
     }
@@ -96,7 +101,10 @@ pub fn build_zones(axis: StratAxis, positions: &[f64], polarities: &[ZonePolarit
         return Err(crate::Error::TooFew { what: "a polarity column", needed: 1, got: 0, unit: "levels" });
     }
     if let Some(w) = positions.windows(2).find(|w| !(w[1] > w[0])) {
-        return Err(crate::Error::Invalid(format!("positions must be strictly increasing, found {} then {}", w[0], w[1])));
+        return Err(crate::Error::Invalid(format!(
+            "positions must be strictly increasing, found {} then {}",
+            w[0], w[1]
+        )));
     }
     let mut zones = Vec::new();
     let mut f = 0;
@@ -105,14 +113,26 @@ pub fn build_zones(axis: StratAxis, positions: &[f64], polarities: &[ZonePolarit
         while l + 1 < positions.len() && polarities[l + 1] == polarities[f] {
             l += 1;
         }
-        let lower = if f == 0 { Boundary::end(positions[0]) } else { Boundary::between(positions[f - 1], positions[f]) };
-        let upper = if l + 1 == positions.len() { Boundary::end(positions[l]) } else { Boundary::between(positions[l], positions[l + 1]) };
+        let lower =
+            if f == 0 { Boundary::end(positions[0]) } else { Boundary::between(positions[f - 1], positions[f]) };
+        let upper = if l + 1 == positions.len() {
+            Boundary::end(positions[l])
+        } else {
+            Boundary::between(positions[l], positions[l + 1])
+        };
         let (base, top) = match axis {
             StratAxis::Height => (lower, upper),
             StratAxis::Depth => (upper, lower),
         };
         let n = l - f + 1;
-        zones.push(Magnetozone { polarity: polarities[f], n_levels: n, confirmed: n >= min_levels.max(1), base, top, first_level: Some(f) });
+        zones.push(Magnetozone {
+            polarity: polarities[f],
+            n_levels: n,
+            confirmed: n >= min_levels.max(1),
+            base,
+            top,
+            first_level: Some(f),
+        });
         f = l + 1;
     }
     Ok(ZoneColumn { axis, zones })
@@ -155,16 +175,25 @@ pub fn read_zones(t: &Table) -> Result<ZoneColumn, TableError> {
     let mut rows = Vec::new();
     for row in &t.rows {
         let code = t.text(row, cols[0]);
-        let polarity = ZonePolarity::parse(code)
-            .ok_or_else(|| t.error(row.line, Some("polarity"), format!("'{code}' is not a polarity code (N, R or I)")))?;
+        let polarity = ZonePolarity::parse(code).ok_or_else(|| {
+            t.error(row.line, Some("polarity"), format!("'{code}' is not a polarity code (N, R or I)"))
+        })?;
         let n = t.number(row, cols[1])?;
         if n < 1.0 || n.fract() != 0.0 {
-            return Err(t.error(row.line, Some("n_levels"), format!("{n} is not a whole number of levels (1 or more)")));
+            return Err(t.error(
+                row.line,
+                Some("n_levels"),
+                format!("{n} is not a whole number of levels (1 or more)"),
+            ));
         }
         let v: Vec<f64> = cols[2..].iter().map(|&c| t.number(row, c)).collect::<Result<_, _>>()?;
         for (b, name) in [(0, "base"), (3, "top")] {
             if !(v[b + 1] <= v[b] && v[b] <= v[b + 2]) {
-                return Err(t.error(row.line, Some(name), format!("{} is not within [{}_low, {}_high] = [{}, {}]", v[b], name, name, v[b + 1], v[b + 2])));
+                return Err(t.error(
+                    row.line,
+                    Some(name),
+                    format!("{} is not within [{}_low, {}_high] = [{}, {}]", v[b], name, name, v[b + 1], v[b + 2]),
+                ));
             }
         }
         let this_axis = match t.opt_text(row, axis_c).map(|s| s.to_lowercase()).as_deref() {
@@ -180,17 +209,22 @@ pub fn read_zones(t: &Table) -> Result<ZoneColumn, TableError> {
             None => n >= 2.0,
             Some("confirmed") => true,
             Some("single-level") | Some("unconfirmed") => false,
-            Some(o) => return Err(t.error(row.line, Some("status"), format!("'{o}' is not 'confirmed' or 'single-level'"))),
+            Some(o) => {
+                return Err(t.error(row.line, Some("status"), format!("'{o}' is not 'confirmed' or 'single-level'")))
+            }
         };
         let bnd = |m: f64, lo: f64, hi: f64| Boundary { mid: m, low: lo, high: hi, change: hi > lo };
-        rows.push((row.line, Magnetozone {
-            polarity,
-            n_levels: n as usize,
-            confirmed,
-            base: bnd(v[0], v[1], v[2]),
-            top: bnd(v[3], v[4], v[5]),
-            first_level: None,
-        }));
+        rows.push((
+            row.line,
+            Magnetozone {
+                polarity,
+                n_levels: n as usize,
+                confirmed,
+                base: bnd(v[0], v[1], v[2]),
+                top: bnd(v[3], v[4], v[5]),
+                first_level: None,
+            },
+        ));
     }
     let axis = axis.unwrap_or(StratAxis::Height);
     // Sort by position (the base for height, the top for depth, both the smaller-valued end).
@@ -227,7 +261,11 @@ pub fn read_zones(t: &Table) -> Result<ZoneColumn, TableError> {
                     pu.low, pu.high, lower.low, lower.high)));
             }
             if p.polarity == z.polarity {
-                return Err(t.error(*line, Some("polarity"), format!("this zone has the same polarity as the zone on line {pline}; they would be one zone")));
+                return Err(t.error(
+                    *line,
+                    Some("polarity"),
+                    format!("this zone has the same polarity as the zone on line {pline}; they would be one zone"),
+                ));
             }
         }
     }
@@ -267,6 +305,9 @@ mod tests {
         let e = read_zones(&Table::parse("z.csv", over.as_bytes()).unwrap()).unwrap_err();
         assert!(e.to_string().contains("overlaps the zone on line 2"), "{e}");
         let same = format!("{h}N,2,0,0,0,1.5,1,2\nN,3,1.5,1,2,5,5,5\n");
-        assert!(read_zones(&Table::parse("z.csv", same.as_bytes()).unwrap()).unwrap_err().to_string().contains("same polarity"));
+        assert!(read_zones(&Table::parse("z.csv", same.as_bytes()).unwrap())
+            .unwrap_err()
+            .to_string()
+            .contains("same polarity"));
     }
 }

@@ -103,36 +103,53 @@ pub struct BeddingColumns {
 impl BeddingColumns {
     /// Find `bed_dip_dir`, `bed_strike`, `bed_dip` and `overturned`, where present.
     pub fn locate<T: Columns + ?Sized>(t: &T) -> Self {
-        BeddingColumns { dd: t.col("bed_dip_dir"), strike: t.col("bed_strike"), dip: t.col("bed_dip"), over: t.col("overturned") }
+        BeddingColumns {
+            dd: t.col("bed_dip_dir"),
+            strike: t.col("bed_strike"),
+            dip: t.col("bed_dip"),
+            over: t.col("overturned"),
+        }
     }
 
     /// The bedding of a row, if it has any.
     pub fn read<T: Columns + ?Sized, R: Cells + ?Sized>(&self, t: &T, row: &R) -> Result<Option<Bedding>, TableError> {
-    let BeddingColumns { dd, strike, dip, over } = *self;
-    let dd_v = t.opt_number_in(row, dd, -360.0, 360.0)?;
-    let st_v = t.opt_number_in(row, strike, -360.0, 360.0)?;
-    let dip_v = t.opt_number_in(row, dip, 0.0, 90.0)?;
-    let overturned = t.flag(row, over)?;
-    let b = match (dd_v, st_v, dip_v) {
-        (None, None, None) => return Ok(None),
-        (Some(_), Some(_), _) => {
-            return Err(t.error(row.line(), Some("bed_strike"), "give either bed_dip_dir or bed_strike, not both"))
-        }
-        (Some(d), None, Some(p)) => Bedding::from_dip_direction(d, p, overturned),
-        (None, Some(s), Some(p)) => Bedding::from_strike(s, p, overturned),
-        (_, _, None) => return Err(t.error(row.line(), Some("bed_dip"), "is empty; expected the dip (0-90) with the dip direction or strike")),
-        (None, None, Some(_)) => {
-            return Err(t.error(row.line(), Some("bed_dip_dir"), "is empty; expected a dip direction (or bed_strike) with bed_dip"))
-        }
-    };
-    b.map(Some).map_err(|e| t.error(row.line(), None, e.to_string()))
+        let BeddingColumns { dd, strike, dip, over } = *self;
+        let dd_v = t.opt_number_in(row, dd, -360.0, 360.0)?;
+        let st_v = t.opt_number_in(row, strike, -360.0, 360.0)?;
+        let dip_v = t.opt_number_in(row, dip, 0.0, 90.0)?;
+        let overturned = t.flag(row, over)?;
+        let b = match (dd_v, st_v, dip_v) {
+            (None, None, None) => return Ok(None),
+            (Some(_), Some(_), _) => {
+                return Err(t.error(row.line(), Some("bed_strike"), "give either bed_dip_dir or bed_strike, not both"))
+            }
+            (Some(d), None, Some(p)) => Bedding::from_dip_direction(d, p, overturned),
+            (None, Some(s), Some(p)) => Bedding::from_strike(s, p, overturned),
+            (_, _, None) => {
+                return Err(t.error(
+                    row.line(),
+                    Some("bed_dip"),
+                    "is empty; expected the dip (0-90) with the dip direction or strike",
+                ))
+            }
+            (None, None, Some(_)) => {
+                return Err(t.error(
+                    row.line(),
+                    Some("bed_dip_dir"),
+                    "is empty; expected a dip direction (or bed_strike) with bed_dip",
+                ))
+            }
+        };
+        b.map(Some).map_err(|e| t.error(row.line(), None, e.to_string()))
     }
 }
 
 /// Which position column a table has: `height` or `depth` (both is an error).
 pub fn strat_axis<T: Columns + ?Sized>(t: &T) -> Result<Option<(StratAxis, usize)>, TableError> {
     match (t.col("height"), t.col("depth")) {
-        (Some(_), Some(_)) => Err(t.error(t.header_line(), Some("depth"), "a table has either height or depth, not both")),
+        (Some(_), Some(_)) => {
+            Err(t.error(t.header_line(), Some("depth"), "a table has either height or depth, not both"))
+        }
         (Some(i), None) => Ok(Some((StratAxis::Height, i))),
         (None, Some(i)) => Ok(Some((StratAxis::Depth, i))),
         (None, None) => Ok(None),
@@ -246,7 +263,11 @@ impl DirectionColumns {
     }
 
     /// Parse and check one row.
-    pub fn parse<'a, T: Columns + ?Sized, R: Cells + ?Sized>(&self, t: &T, row: &'a R) -> Result<DirectionRow<'a>, TableError> {
+    pub fn parse<'a, T: Columns + ?Sized, R: Cells + ?Sized>(
+        &self,
+        t: &T,
+        row: &'a R,
+    ) -> Result<DirectionRow<'a>, TableError> {
         let line = row.line();
         let d = t.number_in(row, self.dec, -360.0, 360.0)?;
         let i = t.number_in(row, self.inc, -90.0, 90.0)?;

@@ -39,10 +39,7 @@ pub fn read_picks(t: &Table, steps: &StepSet) -> Result<Vec<Pick>, TableError> {
             let msg = if specimen.is_empty() {
                 "is empty; expected a specimen name".to_string()
             } else {
-                format!(
-                    "specimen '{specimen}' is not in the steps table {}",
-                    steps.source
-                )
+                format!("specimen '{specimen}' is not in the steps table {}", steps.source)
             };
             return Err(t.error(row.line, Some("specimen"), msg));
         };
@@ -54,43 +51,26 @@ pub fn read_picks(t: &Table, steps: &StepSet) -> Result<Vec<Pick>, TableError> {
         let kind = match t.opt_text(row, kind_c).map(|s| s.to_lowercase()).as_deref() {
             None | Some("line") => FitKind::Line,
             Some("plane") => FitKind::Plane,
-            Some(o) => {
-                return Err(t.error(
-                    row.line,
-                    Some("kind"),
-                    format!("'{o}' is not 'line' or 'plane'"),
-                ))
-            }
+            Some(o) => return Err(t.error(row.line, Some("kind"), format!("'{o}' is not 'line' or 'plane'"))),
         };
-        let anchor = match t
-            .opt_text(row, anchor_c)
-            .map(|s| s.to_lowercase())
-            .as_deref()
-        {
+        let anchor = match t.opt_text(row, anchor_c).map(|s| s.to_lowercase()).as_deref() {
             None | Some("free") => Anchor::Free,
             Some("origin") => Anchor::Origin,
-            Some(o) => {
-                return Err(t.error(
-                    row.line,
-                    Some("anchor"),
-                    format!("'{o}' is not 'free' or 'origin'"),
-                ))
-            }
+            Some(o) => return Err(t.error(row.line, Some("anchor"), format!("'{o}' is not 'free' or 'origin'"))),
         };
         let n = crate::demag::steps_in_range(sp, from, to).len();
         if n < kind.min_steps() {
-            return Err(t.error(row.line, Some("from"), format!(
-                "the range {from} to {to} holds {n} step(s) of specimen {specimen}; a {} needs at least {}",
-                kind.as_str(), kind.min_steps())));
+            return Err(t.error(
+                row.line,
+                Some("from"),
+                format!(
+                    "the range {from} to {to} holds {n} step(s) of specimen {specimen}; a {} needs at least {}",
+                    kind.as_str(),
+                    kind.min_steps()
+                ),
+            ));
         }
-        out.push(Pick {
-            line: row.line,
-            specimen,
-            from,
-            to,
-            kind,
-            anchor,
-        });
+        out.push(Pick { line: row.line, specimen, from, to, kind, anchor });
     }
     Ok(out)
 }

@@ -33,8 +33,12 @@ impl Table {
     /// Read and parse a file. The file name in messages is the path as given.
     pub fn read(path: &Path) -> Result<Table, TableError> {
         let name = path.display().to_string();
-        let bytes = std::fs::read(path)
-            .map_err(|e| TableError { file: name.clone(), line: 0, column: None, message: format!("cannot read: {e}") })?;
+        let bytes = std::fs::read(path).map_err(|e| TableError {
+            file: name.clone(),
+            line: 0,
+            column: None,
+            message: format!("cannot read: {e}"),
+        })?;
         Table::parse(&name, &bytes)
     }
 
@@ -50,7 +54,19 @@ impl Table {
         // csv crate's own comment handling (which loses count of lines) is not used.
         let blanked: String = if text.lines().any(|l| l.trim_start().starts_with('#')) {
             text.split_inclusive('\n')
-                .map(|l| if l.trim_start().starts_with('#') { if l.ends_with("\r\n") { "\r\n" } else if l.ends_with('\n') { "\n" } else { "" } } else { l })
+                .map(|l| {
+                    if l.trim_start().starts_with('#') {
+                        if l.ends_with("\r\n") {
+                            "\r\n"
+                        } else if l.ends_with('\n') {
+                            "\n"
+                        } else {
+                            ""
+                        }
+                    } else {
+                        l
+                    }
+                })
                 .collect()
         } else {
             String::new()
@@ -168,7 +184,12 @@ pub(crate) fn check_header<'a>(
     let h: Vec<String> = cells.map(|c| c.trim().to_lowercase()).collect();
     for (i, a) in h.iter().enumerate() {
         if a.is_empty() {
-            return Err(TableError { file: file.to_string(), line, column: None, message: format!("header cell {} is empty", i + 1) });
+            return Err(TableError {
+                file: file.to_string(),
+                line,
+                column: None,
+                message: format!("header cell {} is empty", i + 1),
+            });
         }
         if h[..i].contains(a) {
             return Err(TableError {
@@ -253,7 +274,12 @@ pub trait Columns {
 
     /// An error at `line`, optionally naming a column.
     fn error(&self, line: usize, column: Option<&str>, message: impl Into<String>) -> TableError {
-        TableError { file: self.file_name().to_string(), line, column: column.map(str::to_string), message: message.into() }
+        TableError {
+            file: self.file_name().to_string(),
+            line,
+            column: column.map(str::to_string),
+            message: message.into(),
+        }
     }
 
     /// An optional text cell: `None` when the column is absent or the cell empty.
@@ -279,7 +305,11 @@ pub trait Columns {
     fn number_in<R: Cells + ?Sized>(&self, row: &R, idx: usize, lo: f64, hi: f64) -> Result<f64, TableError> {
         let v = self.number(row, idx)?;
         if v < lo || v > hi {
-            return Err(self.error(row.line(), Some(&self.header_names()[idx]), format!("{v} is outside [{lo}, {hi}]")));
+            return Err(self.error(
+                row.line(),
+                Some(&self.header_names()[idx]),
+                format!("{v} is outside [{lo}, {hi}]"),
+            ));
         }
         Ok(v)
     }
@@ -293,7 +323,13 @@ pub trait Columns {
     }
 
     /// An optional number within `[lo, hi]`.
-    fn opt_number_in<R: Cells + ?Sized>(&self, row: &R, idx: Option<usize>, lo: f64, hi: f64) -> Result<Option<f64>, TableError> {
+    fn opt_number_in<R: Cells + ?Sized>(
+        &self,
+        row: &R,
+        idx: Option<usize>,
+        lo: f64,
+        hi: f64,
+    ) -> Result<Option<f64>, TableError> {
         match idx {
             Some(i) if !row.cell(i).is_empty() => self.number_in(row, i, lo, hi).map(Some),
             _ => Ok(None),
@@ -306,7 +342,11 @@ pub trait Columns {
         match row.cell(i).to_lowercase().as_str() {
             "" | "false" | "no" | "n" | "0" => Ok(false),
             "true" | "yes" | "y" | "1" => Ok(true),
-            s => Err(self.error(row.line(), Some(&self.header_names()[i]), format!("'{s}' is not yes/no (true/false, y/n, 1/0)"))),
+            s => Err(self.error(
+                row.line(),
+                Some(&self.header_names()[i]),
+                format!("'{s}' is not yes/no (true/false, y/n, 1/0)"),
+            )),
         }
     }
 }

@@ -92,7 +92,11 @@ mod tests {
 
     #[test]
     fn reads_and_refuses() {
-        let t = Table::parse("s.csv", b"# sites\nSite,LAT,lon,dec,inc,n,k,a95\nA,41.5,-116,10,55,6,80,7.5\nB,0,359,190,-5,,,\n").unwrap();
+        let t = Table::parse(
+            "s.csv",
+            b"# sites\nSite,LAT,lon,dec,inc,n,k,a95\nA,41.5,-116,10,55,6,80,7.5\nB,0,359,190,-5,,,\n",
+        )
+        .unwrap();
         let s = read_sites(&t).unwrap();
         assert_eq!(s.records.len(), 2);
         assert_eq!(s.records[0].location.lon, 244.0);

@@ -111,11 +111,7 @@ pub fn read_steps(t: &Table) -> Result<StepSet, TableError> {
     for row in &t.rows {
         let name = t.text(row, spec_c).to_string();
         if name.is_empty() {
-            return Err(t.error(
-                row.line,
-                Some("specimen"),
-                "is empty; expected a specimen name",
-            ));
+            return Err(t.error(row.line, Some("specimen"), "is empty; expected a specimen name"));
         }
         let step = t.number(row, step_c)?;
         if step < 0.0 {
@@ -127,8 +123,7 @@ pub fn read_steps(t: &Table) -> Result<StepSet, TableError> {
         }
         let dec = t.number_in(row, dec_c, -360.0, 360.0)?;
         let inc = t.number_in(row, inc_c, -90.0, 90.0)?;
-        let direction =
-            Direction::new(dec, inc).map_err(|e| t.error(row.line, Some("dec"), e.to_string()))?;
+        let direction = Direction::new(dec, inc).map_err(|e| t.error(row.line, Some("dec"), e.to_string()))?;
         let moment = t.number(row, mom_c)?;
         if moment == 0.0 {
             return Err(t.error(
@@ -144,22 +139,12 @@ pub fn read_steps(t: &Table) -> Result<StepSet, TableError> {
                 format!("{moment} is negative; expected the intensity in A·m² (> 0)"),
             ));
         }
-        let treatment = match t
-            .opt_text(row, treat_c)
-            .map(|s| s.to_lowercase())
-            .as_deref()
-        {
+        let treatment = match t.opt_text(row, treat_c).map(|s| s.to_lowercase()).as_deref() {
             None => None,
             Some("nrm") => Some(Treatment::Nrm),
             Some("af") => Some(Treatment::Af),
             Some("thermal") => Some(Treatment::Thermal),
-            Some(o) => {
-                return Err(t.error(
-                    row.line,
-                    Some("treatment"),
-                    format!("'{o}' is not nrm, af or thermal"),
-                ))
-            }
+            Some(o) => return Err(t.error(row.line, Some("treatment"), format!("'{o}' is not nrm, af or thermal"))),
         };
         let site = t.opt_text(row, site_c);
         let position = match axis {
@@ -168,31 +153,16 @@ pub fn read_steps(t: &Table) -> Result<StepSet, TableError> {
         };
         let bedding = read_bedding(t, row)?;
         has_bedding |= bedding.is_some();
-        let rec = StepRecord {
-            line: row.line,
-            step,
-            direction,
-            moment,
-            treatment,
-        };
+        let rec = StepRecord { line: row.line, step, direction, moment, treatment };
         match specimens.iter_mut().find(|s| s.specimen == name) {
-            None => specimens.push(SpecimenSteps {
-                specimen: name,
-                site,
-                position,
-                bedding,
-                steps: vec![rec],
-            }),
+            None => specimens.push(SpecimenSteps { specimen: name, site, position, bedding, steps: vec![rec] }),
             Some(s) => {
                 let prev = s.steps.last().expect("a specimen has a step");
                 if step == prev.step {
                     return Err(t.error(
                         row.line,
                         Some("step"),
-                        format!(
-                            "step {step} of specimen {name} is repeated (also on line {})",
-                            prev.line
-                        ),
+                        format!("step {step} of specimen {name} is repeated (also on line {})", prev.line),
                     ));
                 }
                 if step < prev.step {
@@ -225,10 +195,5 @@ pub fn read_steps(t: &Table) -> Result<StepSet, TableError> {
             }
         }
     }
-    Ok(StepSet {
-        source: t.name.clone(),
-        axis: axis.map(|a| a.0),
-        has_bedding,
-        specimens,
-    })
+    Ok(StepSet { source: t.name.clone(), axis: axis.map(|a| a.0), has_bedding, specimens })
 }

@@ -305,11 +305,7 @@ impl<R: BufRead> TableStream<R> {
     /// fault given. Value faults (`fault` itself) never come from layout checks, so a later layout
     /// fault outranks it; a layout `fault` is kept unless a UTF-8 fault follows.
     pub fn finish_with(&mut self, fault: TableError) -> TableError {
-        let mut first_layout: Option<TableError> = if is_layout_fault(&fault) {
-            Some(fault.clone())
-        } else {
-            None
-        };
+        let mut first_layout: Option<TableError> = if is_layout_fault(&fault) { Some(fault.clone()) } else { None };
         loop {
             match self.next_row() {
                 Ok(true) => {}
@@ -334,8 +330,7 @@ impl<R: BufRead> TableStream<R> {
         let mut sink = [0u8; 4096];
         let f = self.reader.get_mut();
         while f.bad_utf8.is_none() && f.read(&mut sink).map(|n| n > 0).unwrap_or(false) {}
-        f.bad_utf8
-            .map(|l| self.error(l, None, "the file is not valid UTF-8 text"))
+        f.bad_utf8.map(|l| self.error(l, None, "the file is not valid UTF-8 text"))
     }
 }
 

@@ -21,14 +21,20 @@ fn errors_name_file_line_and_column() {
     let e = read_directions(&t, &GroupBy::Default).unwrap_err();
     assert_eq!(e.to_string(), "t.csv:3: column 'inc': 95.2 is outside [-90, 90]");
     let t = parse("dec,inc\n10,abc\n").unwrap();
-    assert_eq!(read_directions(&t, &GroupBy::Default).unwrap_err().to_string(), "t.csv:2: column 'inc': 'abc' is not a number");
+    assert_eq!(
+        read_directions(&t, &GroupBy::Default).unwrap_err().to_string(),
+        "t.csv:2: column 'inc': 'abc' is not a number"
+    );
     let t = parse("dec,inc\n10,NaN\n").unwrap();
     assert!(read_directions(&t, &GroupBy::Default).unwrap_err().to_string().contains("not a finite number"));
     let t = parse("dec,site\n10,a\n").unwrap();
     let e = read_directions(&t, &GroupBy::Default).unwrap_err();
     assert_eq!((e.line, e.column.as_deref()), (1, Some("inc")));
     assert!(parse("").unwrap_err().to_string().starts_with("t.csv:1: the file is empty"));
-    assert!(read_directions(&parse("dec,inc\n").unwrap(), &GroupBy::Default).unwrap_err().to_string().contains("no data rows"));
+    assert!(read_directions(&parse("dec,inc\n").unwrap(), &GroupBy::Default)
+        .unwrap_err()
+        .to_string()
+        .contains("no data rows"));
     assert!(parse("dec,inc,dec\n1,2,3\n").unwrap_err().to_string().contains("column 'dec': the column appears twice"));
     assert_eq!(parse("dec,inc\n1\n").unwrap_err().line, 2);
 }

@@ -83,15 +83,29 @@ impl TimeScale {
             let young = t.number(row, y)?;
             let old = t.number(row, o)?;
             if young < 0.0 {
-                return Err(t.error(row.line, Some("young"), format!("{young} is negative; ages are in Ma before present")));
+                return Err(t.error(
+                    row.line,
+                    Some("young"),
+                    format!("{young} is negative; ages are in Ma before present"),
+                ));
             }
             if old <= young {
-                return Err(t.error(row.line, Some("old"), format!("{old} is not older than young = {young} (a chron must have positive length)")));
+                return Err(t.error(
+                    row.line,
+                    Some("old"),
+                    format!("{old} is not older than young = {young} (a chron must have positive length)"),
+                ));
             }
             let polarity = match t.text(row, p).to_uppercase().as_str() {
                 "N" | "NORMAL" => Polarity::Normal,
                 "R" | "REVERSED" | "REVERSE" => Polarity::Reversed,
-                other => return Err(t.error(row.line, Some("polarity"), format!("'{other}' is not a polarity code (N or R)"))),
+                other => {
+                    return Err(t.error(
+                        row.line,
+                        Some("polarity"),
+                        format!("'{other}' is not a polarity code (N or R)"),
+                    ))
+                }
             };
             chrons.push(Chron { name: t.opt_text(row, name), young, old, polarity, line: row.line });
         }
@@ -103,7 +117,10 @@ impl TimeScale {
                 return Err(t.error(
                     b.line,
                     Some("young"),
-                    format!("{what} between line {} (old = {}) and line {} (young = {}): chrons must tile time", a.line, a.old, b.line, b.young),
+                    format!(
+                        "{what} between line {} (old = {}) and line {} (young = {}): chrons must tile time",
+                        a.line, a.old, b.line, b.young
+                    ),
                 ));
             }
         }

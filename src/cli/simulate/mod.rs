@@ -132,27 +132,16 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
     if named {
         cols.insert(0, "name");
     }
-    let mut sec = Section::new(
-        &format!("Synthetic {} time scale, seed {}", m.model.name(), ctx.global.seed),
-        &cols,
-    );
+    let mut sec = Section::new(&format!("Synthetic {} time scale, seed {}", m.model.name(), ctx.global.seed), &cols);
     for c in &ts.chrons {
-        let mut row = vec![
-            Cell::Num(c.young, 6),
-            Cell::Num(c.old, 6),
-            Cell::Text(c.polarity.code().into()),
-        ];
+        let mut row = vec![Cell::Num(c.young, 6), Cell::Num(c.old, 6), Cell::Text(c.polarity.code().into())];
         if named {
             row.insert(0, Cell::opt_text(c.name.as_deref()));
         }
         sec.rows.push(row);
     }
     let n = ts.chrons.len();
-    let complete: Vec<f64> = if n > 2 {
-        ts.chrons[1..n - 1].iter().map(|c| c.duration()).collect()
-    } else {
-        vec![]
-    };
+    let complete: Vec<f64> = if n > 2 { ts.chrons[1..n - 1].iter().map(|c| c.duration()).collect() } else { vec![] };
     let sample_mean = (!complete.is_empty()).then(|| complete.iter().sum::<f64>() / complete.len() as f64);
     let mut notes = vec![format!(
         "{n} chrons over {} Myr; {} complete intervals (the youngest and oldest chrons are cut by the ends of the span){}; model mean {:.4} Myr.",

@@ -104,14 +104,10 @@ pub struct SectionArgs {
 }
 
 fn pair(text: &str, sep: char, what: &str) -> Result<(f64, f64)> {
-    let (a, b) = text
-        .split_once(sep)
-        .with_context(|| format!("{what} '{text}': expected two numbers separated by '{sep}'"))?;
-    let p = |s: &str| {
-        s.trim()
-            .parse::<f64>()
-            .with_context(|| format!("{what} '{text}': '{}' is not a number", s.trim()))
-    };
+    let (a, b) =
+        text.split_once(sep).with_context(|| format!("{what} '{text}': expected two numbers separated by '{sep}'"))?;
+    let p =
+        |s: &str| s.trim().parse::<f64>().with_context(|| format!("{what} '{text}': '{}' is not a number", s.trim()));
     Ok((p(a)?, p(b)?))
 }
 
@@ -134,11 +130,7 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
         None => treatment.default_steps(),
         Some(s) => s
             .split(',')
-            .map(|x| {
-                x.trim()
-                    .parse::<f64>()
-                    .with_context(|| format!("--steps: '{}' is not a number", x.trim()))
-            })
+            .map(|x| x.trim().parse::<f64>().with_context(|| format!("--steps: '{}' is not a number", x.trim())))
             .collect::<Result<_>>()?,
     };
     let bedding = match &a.bedding {
@@ -177,11 +169,7 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
         bedding,
         treatment,
         steps,
-        characteristic: unblocking(
-            &a.characteristic,
-            treatment.default_characteristic(),
-            "--characteristic",
-        )?,
+        characteristic: unblocking(&a.characteristic, treatment.default_characteristic(), "--characteristic")?,
         overprint,
         moment: a.moment,
         moment_sigma: a.moment_spread,
@@ -238,19 +226,13 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     let (ts, source) = match &a.timescale {
         Some(p) => {
             ctx.inputs.add(p);
-            (
-                TimeScale::from_table(&Table::read(p)?)?,
-                json!({"file": p.display().to_string()}),
-            )
+            (TimeScale::from_table(&Table::read(p)?)?, json!({"file": p.display().to_string()}))
         }
         None => {
             // Cover the section with one mean interval to spare below its base.
             let span = a.base_age + a.renewal.mean_interval;
             let m = a.renewal.model(0.0, span)?;
-            (
-                simulate_timescale(&m, seed)?,
-                json!({"renewal": timescale_model_json(&m)}),
-            )
+            (simulate_timescale(&m, seed)?, json!({"renewal": timescale_model_json(&m)}))
         }
     };
     let mc = ctx.monte_carlo(0);
@@ -268,22 +250,13 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
         (SAMPLING_FILE, sampling_csv(&model, &sec, &what)),
         (
             TIMESCALE_FILE,
-            timescale_csv(
-                &ts,
-                &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}"),
-            ),
+            timescale_csv(&ts, &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}")),
         ),
         (
             SETTINGS_FILE,
-            settings_text(
-                seed,
-                "Settings for lodestone section (flat key = value; see the README, 'Project folder').",
-            ),
+            settings_text(seed, "Settings for lodestone section (flat key = value; see the README, 'Project folder')."),
         ),
-        (
-            TRUTH_FILE,
-            serde_json::to_string_pretty(&truth_json(&model, &sec, &ts, &source, seed))? + "\n",
-        ),
+        (TRUTH_FILE, serde_json::to_string_pretty(&truth_json(&model, &sec, &ts, &source, seed))? + "\n"),
     ];
     for (name, text) in &files {
         write_atomic(&a.out.join(name), text.as_bytes(), &ctx.inputs)?;
@@ -295,17 +268,7 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
             sec.levels.len(),
             model.spacing
         ),
-        &[
-            "chron",
-            "polarity",
-            "young",
-            "old",
-            "base",
-            "top",
-            "thickness",
-            "n_levels",
-            "status",
-        ],
+        &["chron", "polarity", "young", "old", "base", "top", "thickness", "n_levels", "status"],
     );
     let mut missed = Vec::new();
     let mut thin = Vec::new();
@@ -337,10 +300,7 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
             Cell::Text(status.into()),
         ]);
     }
-    let mut notes = vec![format!(
-        "Wrote {} (steps, sampling, time scale, settings, truth).",
-        a.out.display()
-    )];
+    let mut notes = vec![format!("Wrote {} (steps, sampling, time scale, settings, truth).", a.out.display())];
     let complete = sec.chrons.iter().filter(|c| c.complete).count();
     notes.push(format!(
         "Sampling check: {} of {complete} complete chrons hold no level and {} hold only one (a single level cannot make a magnetozone).{}",
@@ -349,11 +309,7 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
         if missed.is_empty() { String::new() } else { format!(" Missed: {}.", missed.join(", ")) }
     ));
     let spans = &sec.history.spans;
-    let min_rate = spans
-        .iter()
-        .filter(|s| s.rate > 0.0)
-        .map(|s| s.rate)
-        .fold(f64::INFINITY, f64::min);
+    let min_rate = spans.iter().filter(|s| s.rate > 0.0).map(|s| s.rate).fold(f64::INFINITY, f64::min);
     // At rate r cm/kyr a chron of length t Myr is 10·r·t m thick: it holds at least one level for
     // sure only if that exceeds the spacing, and at least two only if it exceeds twice the spacing.
     notes.push(format!(
@@ -374,10 +330,7 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     for &rate in &rates {
         for length in [0.005, 0.01, 0.02, 0.05, 0.1, 0.2] {
             let d = chron_thickness(length, rate);
-            let (p1, p2) = (
-                catch_probability(d, model.spacing, 1),
-                catch_probability(d, model.spacing, 2),
-            );
+            let (p1, p2) = (catch_probability(d, model.spacing, 1), catch_probability(d, model.spacing, 2));
             plan.rows.push(vec![
                 Cell::Num(length, 3),
                 Cell::Num(rate, 2),

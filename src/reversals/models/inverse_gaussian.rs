@@ -24,9 +24,7 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     let mu = s.sum_x / n;
     let inv = s.sum_inv / n - 1.0 / mu;
     if !(inv > 1e-14 / mu) {
-        return Err(Error::Undefined(
-            "the inverse Gaussian fit needs intervals of different lengths".into(),
-        ));
+        return Err(Error::Undefined("the inverse Gaussian fit needs intervals of different lengths".into()));
     }
     let start = [mu, 1.0 / inv];
     let Some(c) = s.censored else { return Ok(start) };

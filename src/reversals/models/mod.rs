@@ -34,13 +34,8 @@ pub enum Model {
 
 impl Model {
     /// All models, in report order.
-    pub const ALL: [Model; 5] = [
-        Model::Exponential,
-        Model::Gamma,
-        Model::Weibull,
-        Model::Lognormal,
-        Model::InverseGaussian,
-    ];
+    pub const ALL: [Model; 5] =
+        [Model::Exponential, Model::Gamma, Model::Weibull, Model::Lognormal, Model::InverseGaussian];
 
     /// The contract name.
     pub fn name(self) -> &'static str {
@@ -78,10 +73,7 @@ impl Model {
             Model::InverseGaussian => inverse_gaussian::fit(s)?,
         };
         if !params[..self.n_params()].iter().all(|p| p.is_finite()) {
-            return Err(Error::Undefined(format!(
-                "the {} fit did not converge to finite parameters",
-                self.name()
-            )));
+            return Err(Error::Undefined(format!("the {} fit did not converge to finite parameters", self.name())));
         }
         Ok(Fitted { model: self, params })
     }
@@ -127,14 +119,7 @@ impl Sample {
             sum_ln2 += l * l;
             sum_inv += 1.0 / x;
         }
-        Ok(Sample {
-            complete,
-            censored,
-            sum_x,
-            sum_ln,
-            sum_ln2,
-            sum_inv,
-        })
+        Ok(Sample { complete, censored, sum_x, sum_ln, sum_ln2, sum_inv })
     }
 
     /// Number of complete intervals.
@@ -284,7 +269,8 @@ pub fn ln_norm_cdf(z: f64) -> f64 {
         (0.5 * statrs::function::erf::erfc(-z / std::f64::consts::SQRT_2)).ln()
     } else {
         let z2 = z * z;
-        -0.5 * z2 - (-z).ln() - 0.5 * (2.0 * std::f64::consts::PI).ln() + (1.0 - 1.0 / z2 + 3.0 / (z2 * z2) - 15.0 / (z2 * z2 * z2)).ln()
+        -0.5 * z2 - (-z).ln() - 0.5 * (2.0 * std::f64::consts::PI).ln()
+            + (1.0 - 1.0 / z2 + 3.0 / (z2 * z2) - 15.0 / (z2 * z2 * z2)).ln()
     }
 }
 
@@ -304,7 +290,9 @@ pub fn trigamma(mut x: f64) -> f64 {
     }
     let r = 1.0 / x;
     let r2 = r * r;
-    acc + r + 0.5 * r2 + r * r2 * (1.0 / 6.0 - r2 * (1.0 / 30.0 - r2 * (1.0 / 42.0 - r2 * (1.0 / 30.0 - r2 * 5.0 / 66.0))))
+    acc + r
+        + 0.5 * r2
+        + r * r2 * (1.0 / 6.0 - r2 * (1.0 / 30.0 - r2 * (1.0 / 42.0 - r2 * (1.0 / 30.0 - r2 * 5.0 / 66.0))))
 }
 
 /// Maximise a two-parameter log-likelihood by Nelder–Mead from a starting point, in the caller's

@@ -57,32 +57,16 @@ fn censored_fits_match_scipy_censored_data() {
     let cases: [(Model, [f64; 2], f64); 4] = [
         (Model::Gamma, [1.561896073060736, 0.2341222725969747], 0.3103828496011789),
         (Model::Weibull, [1.2752641243758458, 0.3939405111020822], 0.19106836855123976),
-        (
-            Model::Lognormal,
-            [0.2611321828924681f64.ln(), 0.911544659929137],
-            0.5534137311603189,
-        ),
-        (
-            Model::InverseGaussian,
-            [1.2293995276872993 * 0.3172945569160554, 0.3172945569160554],
-            0.5921685641871592,
-        ),
+        (Model::Lognormal, [0.2611321828924681f64.ln(), 0.911544659929137], 0.5534137311603189),
+        (Model::InverseGaussian, [1.2293995276872993 * 0.3172945569160554, 0.3172945569160554], 0.5921685641871592),
     ];
     for (m, p, ll) in cases {
         let at_scipy = Fitted { model: m, params: p };
-        assert!(
-            (at_scipy.loglik(&s) - ll).abs() < 1e-9,
-            "{m:?}: loglik {} vs SciPy {ll}",
-            at_scipy.loglik(&s)
-        );
+        assert!((at_scipy.loglik(&s) - ll).abs() < 1e-9, "{m:?}: loglik {} vs SciPy {ll}", at_scipy.loglik(&s));
         let f = m.fit(&s).unwrap();
         assert!(f.loglik(&s) >= ll - 1e-9, "{m:?}");
         for i in 0..2 {
-            assert!(
-                (f.params[i] - p[i]).abs() < 2e-3 * (1.0 + p[i].abs()),
-                "{m:?}: {:?} vs {p:?}",
-                f.params
-            );
+            assert!((f.params[i] - p[i]).abs() < 2e-3 * (1.0 + p[i].abs()), "{m:?}: {:?} vs {p:?}", f.params);
         }
     }
 }
@@ -101,44 +85,25 @@ fn censored_exponential_closed_form() {
 #[test]
 fn distribution_functions_match_scipy() {
     // SciPy 1.17.1: stats.gamma.sf(0.9, 2.5, scale=0.3) = 0.30621891841327875, logpdf = -0.4327916331448185
-    let g = Fitted {
-        model: Model::Gamma,
-        params: [2.5, 0.3],
-    };
+    let g = Fitted { model: Model::Gamma, params: [2.5, 0.3] };
     assert!(rel(g.sf(0.9), 0.30621891841327875) < 1e-10);
     assert!(rel(g.cdf(0.9), 0.6937810815867212) < 1e-10);
     assert!((g.ln_pdf(0.9) - -0.4327916331448185).abs() < 1e-10);
     // SciPy 1.17.1: stats.invgauss.cdf(0.4, 0.25, scale=2.0) = 0.4123089560093359 (mean 0.5, shape 2);
     // stats.invgauss.sf(3.0, 0.25, scale=2.0) = 5.973104804749245e-06; logpdf(0.4, ...) = 0.7020711548865325
-    let ig = Fitted {
-        model: Model::InverseGaussian,
-        params: [0.5, 2.0],
-    };
+    let ig = Fitted { model: Model::InverseGaussian, params: [0.5, 2.0] };
     assert!(rel(ig.cdf(0.4), 0.4123089560093359) < 1e-9);
     assert!(rel(ig.sf(3.0), 5.973104804749245e-06) < 1e-6, "{}", ig.sf(3.0));
     assert!((ig.ln_pdf(0.4) - 0.7020711548865325).abs() < 1e-10);
     // SciPy 1.17.1: stats.weibull_min.sf(0.5, 1.7, scale=0.3) = 0.09226380730605935
-    let w = Fitted {
-        model: Model::Weibull,
-        params: [1.7, 0.3],
-    };
+    let w = Fitted { model: Model::Weibull, params: [1.7, 0.3] };
     assert!(rel(w.sf(0.5), 0.09226380730605935) < 1e-12);
     // SciPy 1.17.1: stats.lognorm.sf(0.5, 0.8, scale=exp(-1.2)) = 0.2631820398565644
-    let l = Fitted {
-        model: Model::Lognormal,
-        params: [-1.2, 0.8],
-    };
+    let l = Fitted { model: Model::Lognormal, params: [-1.2, 0.8] };
     assert!(rel(l.sf(0.5), 0.2631820398565644) < 1e-10);
     // Hazard = f/S everywhere; constant for the exponential.
     assert!(rel(w.hazard(0.2), w.pdf(0.2) / w.sf(0.2)) < 1e-12);
-    assert_eq!(
-        Fitted {
-            model: Model::Exponential,
-            params: [4.0, f64::NAN]
-        }
-        .hazard(3.0),
-        4.0
-    );
+    assert_eq!(Fitted { model: Model::Exponential, params: [4.0, f64::NAN] }.hazard(3.0), 4.0);
 }
 
 #[test]
@@ -146,10 +111,7 @@ fn exponential_reference_probabilities() {
     // Commonly stated figures: reversals roughly every 0.25 Myr, the last about 0.77 Myr ago.
     // Under a Poisson process P(no reversal for 0.77 Myr) = e^(−3.08) ≈ 0.046 and
     // P(reversal within 0.1 Myr | any elapsed time) = 1 − e^(−0.4) ≈ 0.330.
-    let e = Fitted {
-        model: Model::Exponential,
-        params: [4.0, f64::NAN],
-    };
+    let e = Fitted { model: Model::Exponential, params: [4.0, f64::NAN] };
     assert!((e.sf(0.77) - (-3.08f64).exp()).abs() < 1e-15);
     assert!((e.sf(0.77) - 0.046).abs() < 5e-4);
     let within = 1.0 - e.sf(0.77 + 0.1) / e.sf(0.77);
@@ -172,26 +134,11 @@ fn simulated_samples_recover_their_parameters() {
     // 300 intervals from each model, fitted back: parameters within ~4 standard errors (loose
     // bounds chosen from the asymptotic variances; common practice for recovery checks).
     let truth = [
-        Fitted {
-            model: Model::Exponential,
-            params: [4.0, f64::NAN],
-        },
-        Fitted {
-            model: Model::Gamma,
-            params: [2.0, 0.125],
-        },
-        Fitted {
-            model: Model::Weibull,
-            params: [1.5, 0.3],
-        },
-        Fitted {
-            model: Model::Lognormal,
-            params: [-1.6, 0.7],
-        },
-        Fitted {
-            model: Model::InverseGaussian,
-            params: [0.25, 0.6],
-        },
+        Fitted { model: Model::Exponential, params: [4.0, f64::NAN] },
+        Fitted { model: Model::Gamma, params: [2.0, 0.125] },
+        Fitted { model: Model::Weibull, params: [1.5, 0.3] },
+        Fitted { model: Model::Lognormal, params: [-1.6, 0.7] },
+        Fitted { model: Model::InverseGaussian, params: [0.25, 0.6] },
     ];
     for (i, t) in truth.iter().enumerate() {
         let xs = MonteCarlo::new(7, 300).run("sim", i as u64, |rng, _| t.sample(rng));

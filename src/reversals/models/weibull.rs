@@ -46,8 +46,9 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     }
     // Start: the shape whose ln-spread is π/(k√6) (Gumbel moments), common practice.
     let start = std::f64::consts::PI / (spread * 6f64.sqrt());
-    let k = newton_bisect(profile, 1e-3, 1e3, start, 1e-13)
-        .ok_or_else(|| Error::Undefined("the Weibull shape has no finite maximum-likelihood value for these intervals".into()))?;
+    let k = newton_bisect(profile, 1e-3, 1e3, start, 1e-13).ok_or_else(|| {
+        Error::Undefined("the Weibull shape has no finite maximum-likelihood value for these intervals".into())
+    })?;
     let (s0, _, _) = sums(k);
     let ln_lambda_y = (s0.ln() + k * top - r.ln()) / k;
     Ok([k, g * ln_lambda_y.exp()])
