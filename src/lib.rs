@@ -74,6 +74,7 @@
 
 pub mod demag;
 pub mod error;
+pub mod field;
 pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
