@@ -73,6 +73,7 @@
 #![warn(missing_docs)]
 
 pub mod demag;
+pub mod dirstats;
 pub mod error;
 pub mod field;
 pub mod fieldtests;
