@@ -8,6 +8,7 @@ mod correlate;
 mod demo;
 mod dipole;
 mod expected;
+mod field;
 mod hazard;
 mod intervals;
 mod io;
@@ -86,6 +87,8 @@ enum Verb {
     Hazard(hazard::HazardArgs),
     /// Reversal rate through time, Laplace trend test and clustering test.
     Rate(rate::RateArgs),
+    /// The present field from a spherical-harmonic model (default the bundled IGRF-14): series, a point, context.
+    Field(field::FieldArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -164,6 +167,7 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Intervals(a) => intervals::run(a, ctx),
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
+        Verb::Field(a) => field::run(a, ctx),
     };
     report.map(Output::Report)
 }
