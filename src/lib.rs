@@ -80,6 +80,7 @@
 pub mod demag;
 pub mod dirstats;
 pub mod error;
+pub mod field;
 pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
