@@ -13,13 +13,16 @@ mod hazard;
 mod intervals;
 mod io;
 mod mean;
+mod mean_ellipse;
 mod output;
 mod poles;
 mod progress;
+mod psv;
 mod rate;
 mod section;
 mod simulate;
 mod test;
+mod unflatten;
 
 use clap::{Args, Parser, Subcommand};
 #[allow(unused_imports)]
@@ -89,6 +92,10 @@ enum Verb {
     Rate(rate::RateArgs),
     /// The present field from a spherical-harmonic model (default the bundled IGRF-14): series, a point, context.
     Field(field::FieldArgs),
+    /// Inclination-shallowing correction of sedimentary directions (elongation/inclination, or a given factor).
+    Unflatten(unflatten::UnflattenArgs),
+    /// VGP scatter per group against paleolatitude, with S(λ)² = a² + (bλ)² fitted.
+    Psv(psv::PsvArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -168,6 +175,8 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
         Verb::Field(a) => field::run(a, ctx),
+        Verb::Unflatten(a) => unflatten::run(a, ctx),
+        Verb::Psv(a) => psv::run(a, ctx),
     };
     report.map(Output::Report)
 }
