@@ -73,12 +73,12 @@ impl SectionSettings {
         let cut = s.text("scatter_cutoff")?.map(str::to_string).unwrap_or(d.scatter_cutoff.clone());
         if parse_cutoff(&cut).is_none() {
             let line = s.values.get("scatter_cutoff").map_or(0, |v| v.line);
-            return Err(TableError {
-                file: s.source.clone(),
+            return Err(TableError::value(
+                s.source.as_str(),
                 line,
-                column: Some("scatter_cutoff".into()),
-                message: format!("'{cut}' is not \"none\", \"vandamme\" or an angle in (0, 180]"),
-            });
+                Some("scatter_cutoff"),
+                format!("'{cut}' is not \"none\", \"vandamme\" or an angle in (0, 180]"),
+            ));
         }
         let out = SectionSettings {
             seed: s.integer("seed", u64::MAX >> 11)?.unwrap_or(d.seed),
