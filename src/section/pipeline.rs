@@ -311,6 +311,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                 bedding: Some(s.bedding.unwrap_or(flat)),
                 kind: if f.kind == FitKind::Plane { DirectionKind::Plane } else { DirectionKind::Line },
                 group: Some(s.site.clone()),
+                path_end: if f.kind == FitKind::Plane { sp.steps.get(f.last).map(|st| st.direction) } else { None },
             }
         })
         .collect();
