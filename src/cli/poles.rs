@@ -10,7 +10,7 @@ use lodestone::poles::{
 };
 use lodestone::stats::confidence_cone;
 use lodestone::table::{read_sites, Table};
-use serde_json::json;
+use serde_json::{json, Value};
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -119,6 +119,9 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         }));
     }
 
+    if set.records.len() == 1 {
+        return one_site(&a, ctx, &fname, sites_sec, sites_json, averaged[0], missing_oval);
+    }
     let pp = paleopole(&averaged)?;
     let mut pole_sec = Section::new("Paleopole (Fisher mean of the VGPs)", &["n", "plat", "plon", "k", "a95"]);
     pole_sec.rows.push(vec![
@@ -236,6 +239,47 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
             "notes": notes,
         }),
         sections: vec![sites_sec, pole_sec, sc_sec],
+        csv_section: 0,
+        notes,
+    })
+}
+
+/// A table of one site: its VGP, dp/dm and paleolatitude, and a note why no paleopole or scatter.
+fn one_site(
+    a: &PolesArgs,
+    ctx: &mut Ctx,
+    fname: &str,
+    sites_sec: Section,
+    mut sites_json: Vec<Value>,
+    pole: lodestone::sphere::GeoPoint,
+    missing_oval: Vec<String>,
+) -> Result<Report> {
+    let mut notes = vec![format!(
+        "{fname} holds one site: its VGP is given, but a paleopole (a Fisher mean of VGPs) and the VGP scatter need at least two sites, so none is computed."
+    )];
+    notes.push("A VGP rests on a model: a geocentric dipole field at the site; one site records one moment of the field, not a time average.".into());
+    if !missing_oval.is_empty() {
+        notes.push("dp, dm and the paleolatitude range are empty: the site has no a95 (or n and k).".into());
+    }
+    for j in &mut sites_json {
+        j["kept"] = json!(true);
+    }
+    if let Some(path) = &a.plot {
+        let fig = PolePlot {
+            title: format!("VGP — {}", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()),
+            centre: pole,
+            vgps: vec![MappedVgp { pole, kept: true, flipped: false }],
+            mean: None,
+            cutoff: None,
+        };
+        super::write_figure(&fig, path, &ctx.inputs)?;
+    }
+    Ok(Report {
+        json: json!({
+            "file": fname, "northern": a.northern, "sites": sites_json,
+            "pole": Value::Null, "scatter": Value::Null, "notes": notes,
+        }),
+        sections: vec![sites_sec],
         csv_section: 0,
         notes,
     })
