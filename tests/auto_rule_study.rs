@@ -5,7 +5,9 @@
 //! Run with `cargo test --test auto_rule_study -- --nocapture` to see the table (BENCHMARKS.md
 //! records it).
 
-use lodestone::demag::{auto_line, fit_range, last_component, Anchor, AutoOutcome, AutoRule, FitKind, LastComponentRule};
+use lodestone::demag::{
+    auto_line, fit_range, last_component, Anchor, AutoOutcome, AutoRule, FitKind, LastComponentRule,
+};
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::simulate::{
     parse_rates, simulate_section, Overprint, SectionModel, SyntheticSpecimen, Treatment, Unblocking,
@@ -91,7 +93,13 @@ fn specimen_steps(s: &SyntheticSpecimen) -> SpecimenSteps {
         .steps
         .iter()
         .filter_map(|st| {
-            st.direction.map(|d| StepRecord { line: 0, step: st.step, direction: d, moment: st.moment, treatment: None })
+            st.direction.map(|d| StepRecord {
+                line: 0,
+                step: st.step,
+                direction: d,
+                moment: st.moment,
+                treatment: None,
+            })
         })
         .collect();
     SpecimenSteps { specimen: s.name.clone(), site: None, position: None, bedding: None, steps }
@@ -191,7 +199,13 @@ fn last_component_rule_on_synthetic_sections() {
             .collect();
         let pure_from = sc.model.overprint.unwrap().unblocking.high;
         let t = tally(&specimens, pure_from, &old);
-        println!("{}\n  {}\n  {}\n  {}", sc.name, line("longest", &t.old), line("last", &t.new), line("ideal", &t.ideal));
+        println!(
+            "{}\n  {}\n  {}\n  {}",
+            sc.name,
+            line("longest", &t.old),
+            line("last", &t.new),
+            line("ideal", &t.ideal)
+        );
         merge(&mut total.old, t.old);
         merge(&mut total.new, t.new);
         merge(&mut total.ideal, t.ideal);
@@ -217,7 +231,12 @@ fn last_component_rule_on_synthetic_sections() {
     assert!(quantile(&n, 0.95) <= 1.5 * quantile(&i, 0.95));
     assert!(fitted >= 0.95);
     let gap = |e: &Errors| (quantile(&e.normal, 0.5) - quantile(&e.reversed, 0.5)).abs();
-    assert!(gap(&total.new) <= gap(&total.ideal) + 0.5, "polarity gap {} against {}", gap(&total.new), gap(&total.ideal));
+    assert!(
+        gap(&total.new) <= gap(&total.ideal) + 0.5,
+        "polarity gap {} against {}",
+        gap(&total.new),
+        gap(&total.ideal)
+    );
     assert!(quantile(&n, 0.5) < quantile(&total.old.all(), 0.5));
 }
 

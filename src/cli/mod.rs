@@ -16,6 +16,7 @@ mod output;
 mod poles;
 mod progress;
 mod rate;
+mod review;
 mod section;
 mod simulate;
 mod test;
@@ -85,6 +86,8 @@ enum Verb {
     Hazard(hazard::HazardArgs),
     /// Reversal rate through time, Laplace trend test and clustering test.
     Rate(rate::RateArgs),
+    /// A local browser page to review and set each specimen's fit (saved to the folder's picks.csv).
+    Review(review::ReviewArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -163,6 +166,7 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Intervals(a) => intervals::run(a, ctx),
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
+        Verb::Review(a) => review::run(a, ctx),
     };
     report.map(Output::Report)
 }

@@ -36,7 +36,12 @@ impl LastComponentRule {
     /// Check the parameters (min_steps ≥ 3, 0 < alpha < 1, angles in [0, 90]).
     pub fn validate(&self) -> Result<()> {
         if self.min_steps < 3 {
-            return Err(Error::TooFew { what: "the last-component rule", needed: 3, got: self.min_steps, unit: "steps" });
+            return Err(Error::TooFew {
+                what: "the last-component rule",
+                needed: 3,
+                got: self.min_steps,
+                unit: "steps",
+            });
         }
         check_range("alpha", self.alpha, 1e-12, 0.5, "(0, 0.5]")?;
         check_range("max_mad", self.max_mad, 0.0, 90.0, "[0, 90]")?;
