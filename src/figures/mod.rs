@@ -2,6 +2,7 @@
 //! embedded font, so figures come out the same on a machine with no fonts installed.
 
 mod column;
+mod decay;
 mod equal_area;
 mod fold;
 mod hazard;
@@ -13,6 +14,7 @@ pub mod theme;
 mod vector_endpoint;
 
 pub use column::{ColumnFigure, ScalePanel};
+pub use decay::{draw_decay, label_order, place_labels};
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
 pub use fold::FoldPlot;
 pub use hazard::HazardFigure;
