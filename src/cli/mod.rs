@@ -8,18 +8,22 @@ mod correlate;
 mod demo;
 mod dipole;
 mod expected;
+mod field;
 mod hazard;
 mod intervals;
 mod io;
 mod mean;
+mod mean_ellipse;
 mod output;
 mod poles;
 mod progress;
+mod psv;
 mod rate;
 mod review;
 mod section;
 mod simulate;
 mod test;
+mod unflatten;
 
 use clap::{Args, Parser, Subcommand};
 #[allow(unused_imports)]
@@ -57,6 +61,7 @@ pub struct Cli {
 }
 
 #[derive(Debug, Subcommand)]
+#[allow(clippy::large_enum_variant, reason = "parsed once per run; boxing the arguments would buy nothing")]
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
@@ -88,6 +93,12 @@ enum Verb {
     Rate(rate::RateArgs),
     /// A local browser page to review and set each specimen's fit (saved to the folder's picks.csv).
     Review(review::ReviewArgs),
+    /// The present field from a spherical-harmonic model (default the bundled IGRF-14): series, a point, context.
+    Field(field::FieldArgs),
+    /// Inclination-shallowing correction of sedimentary directions (elongation/inclination, or a given factor).
+    Unflatten(unflatten::UnflattenArgs),
+    /// VGP scatter per group against paleolatitude, with S(λ)² = a² + (bλ)² fitted.
+    Psv(psv::PsvArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -167,6 +178,9 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
         Verb::Review(a) => review::run(a, ctx),
+        Verb::Field(a) => field::run(a, ctx),
+        Verb::Unflatten(a) => unflatten::run(a, ctx),
+        Verb::Psv(a) => psv::run(a, ctx),
     };
     report.map(Output::Report)
 }
