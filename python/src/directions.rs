@@ -8,6 +8,7 @@ use lodestone::table::{read_directions, GroupBy};
 use numpy::{PyArray1, PyReadonlyArray1};
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
+use rayon::prelude::*;
 
 /// Confidence level of the reported `a95` (as on the command line).
 const A95: f64 = 0.95;
@@ -48,6 +49,32 @@ fn stats_dict<'py>(py: Python<'py>, s: &FisherStats, at95: Option<f64>) -> PyRes
     Ok(d)
 }
 
+/// Directions are summed in chunks of this many, the chunk sums merged in order: the same result for
+/// any number of threads. Inputs of one chunk are summed on the calling thread with the GIL held
+/// (releasing it and waking the pool would cost more than the sum).
+const CHUNK: usize = 1 << 14;
+
+/// The sum of the unit vectors of `dec[range]`, `inc[range]`, each direction validated.
+fn chunk_sum(d: &[f64], i: &[f64], range: std::ops::Range<usize>) -> Outcome<FisherAccumulator> {
+    let mut acc = FisherAccumulator::default();
+    for k in range {
+        acc.push(direction_at(d, i, k)?.to_vector());
+    }
+    Ok(acc)
+}
+
+/// The accumulated vectors of all directions, in parallel chunks merged in order.
+fn accumulate(d: &[f64], i: &[f64]) -> Outcome<FisherAccumulator> {
+    let n = same_length(&[("dec", d), ("inc", i)])?;
+    let chunks: Vec<Outcome<FisherAccumulator>> =
+        (0..n.div_ceil(CHUNK)).into_par_iter().map(|c| chunk_sum(d, i, c * CHUNK..((c + 1) * CHUNK).min(n))).collect();
+    let mut acc = FisherAccumulator::default();
+    for c in chunks {
+        acc.merge(&c?);
+    }
+    Ok(acc)
+}
+
 /// Fisher (1953) mean of directions given as two arrays (see `lodestone.fisher_mean`).
 #[pyfunction]
 #[pyo3(signature = (dec, inc, confidence = 0.95))]
@@ -58,14 +85,14 @@ pub fn fisher_mean<'py>(
     confidence: f64,
 ) -> PyResult<Bound<'py, PyDict>> {
     let (d, i) = (slice(&dec, "dec")?, slice(&inc, "inc")?);
-    let (at, at95) = run_detached(py, None, || {
-        let n = same_length(&[("dec", d), ("inc", i)])?;
-        let mut acc = FisherAccumulator::default();
-        for k in 0..n {
-            acc.push(direction_at(d, i, k)?.to_vector());
-        }
+    let finish = |acc: FisherAccumulator| -> Outcome<(FisherStats, Option<f64>)> {
         Ok((acc.finish(confidence)?, acc.finish(A95)?.alpha))
-    })?;
+    };
+    let (at, at95) = if d.len() <= CHUNK {
+        same_length(&[("dec", d), ("inc", i)]).and_then(|n| chunk_sum(d, i, 0..n)).and_then(finish)?
+    } else {
+        run_detached(py, None, || finish(accumulate(d, i)?))?
+    };
     stats_dict(py, &at, at95)
 }
 
