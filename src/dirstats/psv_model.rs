@@ -116,7 +116,7 @@ fn scatter_of(sites: &[ScatterSite]) -> Option<f64> {
 }
 
 /// Random stream of the latitude-model bootstrap.
-const STREAM: u64 = 0x9_5E1A;
+const STREAM: u64 = 0x0009_5E1A;
 
 /// Seeded bootstrap of the latitude model: in every pseudo-sample each group's sites are drawn with
 /// replacement, its S_B recomputed (its paleolatitude kept), and the model refitted.
