@@ -73,7 +73,9 @@
 #![warn(missing_docs)]
 
 pub mod demag;
+pub mod dirstats;
 pub mod error;
+pub mod field;
 pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
