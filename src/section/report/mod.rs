@@ -95,7 +95,7 @@ fn material(h: &mut String, run: &SectionRun, inputs: &[(String, usize)]) {
     let s = &run.settings;
     let _ = writeln!(
         h,
-        "<section id=\"material\" class=\"part\"><h2>Material and parameters</h2>\n<p>Input files: {}.</p>",
+        "<section id=\"material\"><h2>Material and parameters</h2>\n<p>Input files: {}.</p>",
         inputs.iter().map(|(n, b)| format!("<code>{}</code> ({b} bytes)", escape(n))).collect::<Vec<_>>().join(", ")
     );
     let rows: [(&str, String); 10] = [
