@@ -37,6 +37,15 @@ pub struct MeanArgs {
     /// Write an equal-area figure (.svg or .png).
     #[arg(long)]
     pub plot: Option<PathBuf>,
+    /// Add an elliptical 95 % confidence region to each group: kent or bootstrap.
+    #[arg(long, value_enum)]
+    pub ellipse: Option<super::mean_ellipse::EllipseArg>,
+    /// With --ellipse bootstrap: draw Fisher pseudo-samples (parametric) instead of resampling the data.
+    #[arg(long, requires = "ellipse")]
+    pub parametric: bool,
+    /// With --ellipse bootstrap: the number of pseudo-samples.
+    #[arg(long, default_value_t = 1000)]
+    pub resamples: usize,
 }
 
 #[derive(Debug, Clone, Copy, clap::ValueEnum)]
@@ -65,7 +74,8 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     // Without a figure the table streams through per-group sums (memory does not grow with the row
     // count); the figure needs the points, and great circles need the whole group at once.
     let mut streamed = None;
-    if a.plot.is_none() {
+    let mut ellipses = None;
+    if a.plot.is_none() && a.ellipse.is_none() {
         let mut stream = TableStream::open(&a.file)?;
         let keep_lines = ctx.global.format == super::Format::Json;
         if let StreamedSums::Sums { group_column, groups, .. } = stream_group_sums(&mut stream, &by, frame, keep_lines)?
@@ -79,6 +89,9 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
             let table = Table::read(&a.file)?;
             let set = read_directions(&table, &by)?;
             let means = group_means(&set, frame, A95)?;
+            ellipses = a.ellipse.map(|kind| {
+                super::mean_ellipse::ellipses(kind, a.parametric, &set, &means, frame, &ctx.monte_carlo(a.resamples))
+            });
             if let Some(path) = &a.plot {
                 let fig = EqualAreaPlot {
                     title: format!(
@@ -107,7 +120,10 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
                         })
                         .collect(),
                 };
-                super::write_figure(&fig, path, &ctx.inputs)?;
+                match &ellipses {
+                    Some(e) => super::write_figure(&super::mean_ellipse::with_ellipses(fig, e), path, &ctx.inputs)?,
+                    None => super::write_figure(&fig, path, &ctx.inputs)?,
+                }
             }
             (Groups::Whole(means), set.group_column.clone())
         }
@@ -124,6 +140,9 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     if other {
         head.columns.push(format!("alpha{}", (a.confidence * 100.0).round()));
     }
+    if ellipses.is_some() {
+        head.columns.extend(super::mean_ellipse::COLUMNS.iter().map(|c| c.to_string()));
+    }
     Ok(Output::Streamed(Box::new(MeanOutput {
         head,
         file: a.file.display().to_string(),
@@ -132,6 +151,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
         confidence: a.confidence,
         other,
         groups,
+        ellipses,
     })))
 }
 
@@ -154,6 +174,8 @@ struct GroupView<'a> {
     planes: usize,
     undefined: Option<&'a str>,
     lines: Lines<'a>,
+    /// Position among the groups.
+    index: usize,
 }
 
 impl GroupView<'_> {
@@ -172,13 +194,16 @@ struct MeanOutput {
     /// A confidence level other than 0.95 was asked for: `alpha` is reported beside `a95`.
     other: bool,
     groups: Groups,
+    /// Elliptical regions per group, when asked for (`--ellipse`).
+    ellipses: Option<super::mean_ellipse::Ellipses>,
 }
 
 impl MeanOutput {
     fn views(&self) -> Box<dyn Iterator<Item = lodestone::error::Result<GroupView<'_>>> + '_> {
         match &self.groups {
-            Groups::Sums(s) => Box::new(s.iter().map(|g| {
+            Groups::Sums(s) => Box::new(s.iter().enumerate().map(|(index, g)| {
                 Ok(GroupView {
+                    index,
                     group: g.group,
                     stats: g.stats(A95)?,
                     planes: 0,
@@ -186,8 +211,9 @@ impl MeanOutput {
                     lines: Lines::Runs(g),
                 })
             })),
-            Groups::Whole(m) => Box::new(m.iter().map(|g| {
+            Groups::Whole(m) => Box::new(m.iter().enumerate().map(|(index, g)| {
                 Ok(GroupView {
+                    index,
                     group: g.group.as_deref(),
                     stats: g.stats.clone(),
                     planes: g.planes,
@@ -263,6 +289,9 @@ impl StreamedReport for MeanOutput {
                 // As in JSON: a value that is not finite is left empty.
                 row.push(Cell::opt(self.alpha(&g).filter(|x| x.is_finite()), 1));
             }
+            if let Some(e) = &self.ellipses {
+                row.extend(e.cells(g.index));
+            }
             f(&row)?;
         }
         Ok(())
@@ -270,7 +299,14 @@ impl StreamedReport for MeanOutput {
 
     fn each_note(&self, f: &mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()> {
         for g in self.views() {
-            group_notes(&g.map_err(std::io::Error::other)?, f)?;
+            let g = g.map_err(std::io::Error::other)?;
+            group_notes(&g, f)?;
+            if let Some(e) = &self.ellipses {
+                e.note(g.index, g.name(), f)?;
+            }
+        }
+        if let Some(e) = &self.ellipses {
+            f(&e.caution())?;
         }
         Ok(())
     }
@@ -284,6 +320,7 @@ impl StreamedReport for MeanOutput {
                 confidence: self.confidence,
                 groups: JsonGroups(self),
                 notes: JsonNotes(self),
+                ellipse_caution: self.ellipses.as_ref().map(|e| e.caution()),
             },
             out,
         )
@@ -299,6 +336,8 @@ struct MeanJson<'a> {
     confidence: f64,
     groups: JsonGroups<'a>,
     notes: JsonNotes<'a>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    ellipse_caution: Option<String>,
 }
 
 /// The `groups` array, serialised group by group.
@@ -333,6 +372,7 @@ impl Serialize for JsonGroups<'_> {
                 lines: JsonLines(&g.lines),
                 planes: g.planes,
                 alpha: self.0.other.then(|| jnum(self.0.alpha(g))),
+                ellipse: self.0.ellipses.as_ref().map(|e| e.json(g.index)),
             })
         })
     }
@@ -353,6 +393,8 @@ struct JsonGroup<'a> {
     planes: usize,
     #[serde(skip_serializing_if = "Option::is_none")]
     alpha: Option<Value>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    ellipse: Option<Value>,
 }
 
 /// A group's file lines, written from the runs without listing them first.
@@ -374,12 +416,16 @@ impl Serialize for JsonNotes<'_> {
     fn serialize<S: Serializer>(&self, ser: S) -> std::result::Result<S::Ok, S::Error> {
         seq_per_group(self.0, ser, |g, seq| {
             let mut err = None;
-            let _ = group_notes(g, &mut |n| {
+            let mut push = |n: &str| {
                 if err.is_none() {
                     err = seq.serialize_element(n).err();
                 }
                 Ok(())
-            });
+            };
+            let _ = group_notes(g, &mut push);
+            if let Some(e) = &self.0.ellipses {
+                let _ = e.note(g.index, g.name(), &mut push);
+            }
             err.map_or(Ok(()), Err)
         })
     }

@@ -8,17 +8,21 @@ mod correlate;
 mod demo;
 mod dipole;
 mod expected;
+mod field;
 mod hazard;
 mod intervals;
 mod io;
 mod mean;
+mod mean_ellipse;
 mod output;
 mod poles;
 mod progress;
+mod psv;
 mod rate;
 mod section;
 mod simulate;
 mod test;
+mod unflatten;
 
 use clap::{Args, Parser, Subcommand};
 #[allow(unused_imports)]
@@ -56,6 +60,7 @@ pub struct Cli {
 }
 
 #[derive(Debug, Subcommand)]
+#[allow(clippy::large_enum_variant, reason = "parsed once per run; boxing the arguments would buy nothing")]
 enum Verb {
     /// Fisher mean per site (or per --by column), with k, α95 and θ63.
     Mean(mean::MeanArgs),
@@ -85,6 +90,12 @@ enum Verb {
     Hazard(hazard::HazardArgs),
     /// Reversal rate through time, Laplace trend test and clustering test.
     Rate(rate::RateArgs),
+    /// The present field from a spherical-harmonic model (default the bundled IGRF-14): series, a point, context.
+    Field(field::FieldArgs),
+    /// Inclination-shallowing correction of sedimentary directions (elongation/inclination, or a given factor).
+    Unflatten(unflatten::UnflattenArgs),
+    /// VGP scatter per group against paleolatitude, with S(λ)² = a² + (bλ)² fitted.
+    Psv(psv::PsvArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -163,6 +174,9 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Intervals(a) => intervals::run(a, ctx),
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
+        Verb::Field(a) => field::run(a, ctx),
+        Verb::Unflatten(a) => unflatten::run(a, ctx),
+        Verb::Psv(a) => psv::run(a, ctx),
     };
     report.map(Output::Report)
 }

@@ -62,7 +62,7 @@ fn nearest_on_circle(pole: Vec3, m: Vec3) -> Option<Vec3> {
 /// McFadden, P. L. & McElhinny, M. W. (1988), The combined analysis of remagnetization circles and
 /// direct observations in palaeomagnetism, *Earth Planet. Sci. Lett.* 87, 161–172 (from memory).
 pub fn mixed_cone(n_eff: f64, r: f64, k: f64, confidence: f64) -> Option<f64> {
-    if !(n_eff > 1.0) || !(r > 0.0) || !(confidence > 0.0 && confidence < 1.0) {
+    if !(n_eff > 1.0 && r > 0.0 && confidence > 0.0 && confidence < 1.0) {
         return None;
     }
     if k.is_infinite() {

@@ -172,7 +172,7 @@ pub fn stream_group_sums<R: BufRead>(
                 Some(b) => sums.push(j, r.line, b.untilt(v))?,
                 None => {
                     sums.note_line(j, r.line)?;
-                    if missing_bedding.map_or(true, |(k, _)| j < k) {
+                    if missing_bedding.is_none_or(|(k, _)| j < k) {
                         missing_bedding = Some((j, r.line));
                     }
                 }
