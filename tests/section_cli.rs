@@ -154,69 +154,16 @@ fn same_inputs_give_byte_identical_outputs_on_any_thread_count() {
 }
 
 #[test]
-fn report_holds_every_figure_and_table_and_loads_in_a_browser_if_one_is_installed() {
+fn a_second_run_into_the_same_folder_is_refused_without_force() {
+    // The report itself is checked in tests/report_cli.rs.
     let d = tempfile::tempdir().unwrap();
     let out = d.path().join("demo-out");
     let o = cmd().args(["demo", "--out", out.to_str().unwrap(), "--quiet"]).output().unwrap();
     assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    let html = fs::read_to_string(out.join("report.html")).unwrap();
-    let files = all_files(&out);
-    let (mut n_tab, mut n_fig) = (0, 0);
-    for name in files.keys() {
-        if let Some(stem) = name.strip_prefix("tables/").and_then(|s| s.strip_suffix(".csv")) {
-            assert!(html.contains(&format!("id=\"table-{stem}\"")), "report lacks table {stem}");
-            n_tab += 1;
-        }
-        if let Some(stem) = name.strip_prefix("figures/").and_then(|s| s.strip_suffix(".svg")) {
-            assert!(html.contains(&format!("<figure id=\"fig-{stem}\">\n<svg")), "report lacks figure {stem}");
-            assert!(files.contains_key(&format!("figures/{stem}.png")));
-            n_fig += 1;
-        }
-    }
-    assert!(n_tab >= 10 && n_fig >= 4, "{n_tab} tables, {n_fig} figures");
-    // Self-contained: no scripts, no external resources.
-    for bad in ["<script", "src=\"http", "href=\"http", "<link", "@import"] {
-        assert!(!html.contains(bad), "report contains {bad}");
-    }
-    // The cautions travel into the report.
-    assert!(
-        html.contains("not proof of the correlation") && html.contains("not proof of when the rocks were magnetized")
-    );
-    assert!(
-        html.contains("not a forecast") && html.contains("id=\"table-hazard\""),
-        "the hazard stage and its caution are in the report"
-    );
-    // A refused second run into the same non-empty folder.
+    assert!(out.join("report.html").exists());
     let o = cmd().args(["demo", "--out", out.to_str().unwrap(), "--quiet"]).output().unwrap();
     assert_eq!(o.status.code(), Some(1));
     assert!(String::from_utf8_lossy(&o.stderr).contains("--force"));
-
-    // Headless browser load, when Debian's chromium is installed (never installed by the tests).
-    let browser = ["chromium", "chromium-browser"].into_iter().find(|b| {
-        std::process::Command::new("sh")
-            .args(["-c", &format!("command -v {b}")])
-            .output()
-            .map(|o| o.status.success())
-            .unwrap_or(false)
-    });
-    let Some(b) = browser else {
-        eprintln!("skipped the headless-browser load: no chromium on PATH");
-        return;
-    };
-    let shot = d.path().join("shot.png");
-    let o = std::process::Command::new(b)
-        .args([
-            "--headless",
-            "--no-sandbox",
-            "--disable-gpu",
-            &format!("--screenshot={}", shot.display()),
-            "--window-size=1200,3000",
-        ])
-        .arg(format!("file://{}", out.join("report.html").display()))
-        .output()
-        .unwrap();
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    assert!(fs::metadata(&shot).unwrap().len() > 10_000);
 }
 
 #[test]
@@ -272,8 +219,16 @@ fn stages_that_cannot_run_are_skipped_with_warnings_not_failures() {
     assert!(has("Fold test skipped"), "{warnings:?}");
     assert!(has("no timescale.csv"), "{warnings:?}");
     assert!(has("unknown key 'colour'"), "{warnings:?}");
-    let ran: Vec<bool> = j["stages"].as_array().unwrap().iter().map(|s| s["ran"].as_bool().unwrap()).collect();
-    assert!(ran[0] && ran[1] && !ran[ran.len() - 1], "{ran:?}");
+    let ran: Vec<(String, bool)> = j["stages"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|s| (s["name"].as_str().unwrap().to_string(), s["ran"].as_bool().unwrap()))
+        .collect();
+    let correlation = ran.iter().find(|(n, _)| n.starts_with("Correlation")).unwrap();
+    assert!(ran[0].1 && ran[1].1 && !correlation.1, "{ran:?}");
+    // The folder is synthetic (simulate wrote truth.json): the comparison stage runs without a time scale.
+    assert!(ran.iter().any(|(n, r)| n == "Comparison with the true model" && *r), "{ran:?}");
     assert!(out.join("tables/zones.csv").exists() && !out.join("tables/age-model.csv").exists());
     let html = fs::read_to_string(out.join("report.html")).unwrap();
     assert!(html.contains("Fold test skipped"));

@@ -11,6 +11,8 @@ const STEPS: &str = include_str!("../../records/demo/steps.csv");
 const SAMPLING: &str = include_str!("../../records/demo/sampling.csv");
 const TIMESCALE: &str = include_str!("../../records/demo/timescale.csv");
 const SETTINGS: &str = include_str!("../../records/demo/settings.toml");
+/// The model the demo was drawn from (compared with what the run recovers).
+const TRUTH: &str = include_str!("../../records/demo/truth.json");
 
 #[derive(Debug, Args)]
 pub struct DemoArgs {
@@ -35,7 +37,8 @@ pub fn demo_project() -> Project {
 }
 
 pub fn run(a: DemoArgs, ctx: &mut Ctx) -> Result<Report> {
-    let mut r = super::section::run_project(demo_project(), &a.out, a.force, ctx)?;
+    let mut r =
+        super::section::run_project(demo_project(), Some(ProjectFile::new("truth.json", TRUTH)), &a.out, a.force, ctx)?;
     r.notes.insert(0, "The demo section is invented: synthetic data drawn from a stated model (records/demo/README.md), not measurements.".into());
     Ok(r)
 }

@@ -4,8 +4,8 @@
 use super::{Cell, Ctx, Report, Section};
 use anyhow::{bail, Context, Result};
 use clap::Args;
-use lodestone::section::{run, Project, ProjectFile, SectionRun};
-use lodestone::simulate::{PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE};
+use lodestone::section::{run_with_truth, Project, ProjectFile, SectionRun};
+use lodestone::simulate::{PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE};
 use serde_json::json;
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
@@ -44,15 +44,22 @@ fn prepare_out(out: &Path, force: bool, ctx: &Ctx) -> Result<()> {
     Ok(())
 }
 
-/// Run the chain on a project and write its outputs; shared with `demo`.
-pub fn run_project(project: Project, out: &Path, force: bool, ctx: &mut Ctx) -> Result<Report> {
+/// Run the chain on a project (with its `truth.json`, if it is synthetic) and write its outputs;
+/// shared with `demo`.
+pub fn run_project(
+    project: Project,
+    truth: Option<ProjectFile>,
+    out: &Path,
+    force: bool,
+    ctx: &mut Ctx,
+) -> Result<Report> {
     let show = !ctx.global.quiet && std::io::stderr().is_terminal();
     let mut on_stage = |name: &str| {
         if show {
             eprintln!("section: {name} …");
         }
     };
-    let res = run(&project, &ctx.progress, &mut on_stage)?;
+    let res = run_with_truth(&project, truth.as_ref(), &ctx.progress, &mut on_stage)?;
     prepare_out(out, force, ctx)?;
     let files = res.files();
     for f in &files {
@@ -115,9 +122,10 @@ pub fn run_cli(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
         timescale: read_file(&a.dir, TIMESCALE_FILE, false, ctx)?,
         settings: read_file(&a.dir, SETTINGS_FILE, false, ctx)?,
     };
+    let truth = read_file(&a.dir, TRUTH_FILE, false, ctx)?;
     let out = a.out.clone().unwrap_or_else(|| {
         let parent = a.dir.parent().map(Path::to_path_buf).unwrap_or_default();
         parent.join(format!("{title}-report"))
     });
-    run_project(project, &out, a.force, ctx)
+    run_project(project, truth, &out, a.force, ctx)
 }

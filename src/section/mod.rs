@@ -13,15 +13,16 @@
 
 mod auto;
 mod pipeline;
-mod report_html;
+mod report;
 mod reversal_stats;
 mod settings;
 mod tables;
+mod truth;
 
 pub use auto::{automatic_fit, last_rule, rule_text};
-pub use pipeline::{run, Stage, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
-pub use report_html::report_html;
-pub use reversal_stats::HAZARD_HORIZON;
+pub use pipeline::{run, run_with_truth, Stage, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
+pub use report::report_html;
+pub use reversal_stats::{HAZARD_HORIZON, LEVEL, RATE_WINDOW};
 pub use settings::{SectionSettings, KNOWN_KEYS};
 pub use tables::CsvTable;
 
@@ -112,11 +113,31 @@ pub struct Headline {
     pub ties: Vec<[f64; 2]>,
     /// Score of the best and second-best correlation.
     pub scores: Vec<f64>,
+    /// Latitude and longitude of the first site of the sampling table (degrees), if any.
+    pub locality: Option<[f64; 2]>,
+    /// Complete polarity intervals of the time scale fitted by the reversal statistics.
+    pub intervals: usize,
+    /// The open chron's length so far, Myr (the elapsed time of the hazard), if any.
+    pub open_chron: Option<f64>,
+}
+
+/// One specimen's measurements and what the component stage made of them (for the report's
+/// gallery).
+#[derive(Debug, Clone, PartialEq)]
+pub struct SpecimenRecord {
+    /// The steps as read.
+    pub steps: crate::table::SpecimenSteps,
+    /// The accepted fits (empty when the specimen was rejected).
+    pub fits: Vec<crate::demag::SpecimenFit>,
+    /// Why it was rejected, if it was (one reason per rejected pick or fit).
+    pub rejected: Vec<String>,
 }
 
 /// Everything a run produces.
 #[derive(Debug, Clone, PartialEq)]
 pub struct SectionRun {
+    /// Every specimen of the steps table, in the table's order.
+    pub specimens: Vec<SpecimenRecord>,
     /// Settings in force (defaults filled in).
     pub settings: SectionSettings,
     /// Tables, in report order.
@@ -155,3 +176,15 @@ impl SectionRun {
 
 #[cfg(test)]
 mod tests;
+
+impl SectionRun {
+    /// The table with this stem, if the run wrote one.
+    pub fn table(&self, stem: &str) -> Option<&CsvTable> {
+        self.tables.iter().find(|t| t.stem == stem)
+    }
+
+    /// The figure with this stem, if the run drew one.
+    pub fn figure(&self, stem: &str) -> Option<&FigureOutput> {
+        self.figures.iter().find(|f| f.stem == stem)
+    }
+}

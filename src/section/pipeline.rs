@@ -160,6 +160,20 @@ fn yn(b: bool) -> String {
 /// Only unreadable inputs are errors (each names the file, line and column); a stage that cannot run
 /// is skipped with a warning.
 pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str)) -> Result<SectionRun> {
+    run_with_truth(p, None, progress, on_stage)
+}
+
+/// [`run`], and where `truth` (the `truth.json` that `simulate section` writes beside a synthetic
+/// folder) is given, a last stage comparing what the run recovered with the true model.
+///
+/// # Errors
+/// As [`run`]; an unreadable `truth` is a warning, not an error.
+pub fn run_with_truth(
+    p: &Project,
+    truth: Option<&ProjectFile>,
+    progress: &dyn Progress,
+    on_stage: &mut dyn FnMut(&str),
+) -> Result<SectionRun> {
     let mut warnings: Vec<String> = Vec::new();
     let mut cautions: Vec<String> = Vec::new();
     let mut stages: Vec<Stage> = Vec::new();
@@ -208,6 +222,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     }
     head.specimens = set.specimens.len();
     head.sites = sites.len();
+    head.locality = sites.first().map(|s| [s.location.lat, s.location.lon]);
     let mc = MonteCarlo { seed: settings.seed, resamples: settings.resamples, progress };
     let col_name = axis.column();
 
@@ -945,7 +960,9 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     if let Some(tf) = &p.timescale {
         on_stage("reversal statistics");
         let ts = TimeScale::from_table(&parse(tf)?)?;
-        let r = super::reversal_stats::reversal_statistics(&tf.name, &ts);
+        let r = super::reversal_stats::reversal_statistics(&tf.name, &ts, &mc);
+        head.intervals = r.n_intervals;
+        head.open_chron = r.elapsed;
         warnings.extend(r.warnings);
         cautions.extend(r.cautions);
         tables.extend(r.tables);
@@ -964,7 +981,21 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     }
     tables.push(jt);
 
+    let specimens = set
+        .specimens
+        .into_iter()
+        .map(|sp| super::SpecimenRecord {
+            fits: fits.iter().filter(|f| f.specimen == sp.specimen).cloned().collect(),
+            rejected: rejected
+                .iter()
+                .filter(|r| r.what == "specimen" && r.name == sp.specimen)
+                .map(|r| r.reason.clone())
+                .collect(),
+            steps: sp,
+        })
+        .collect();
     let mut out = SectionRun {
+        specimens,
         settings,
         tables,
         figures,
@@ -975,6 +1006,10 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
         rejected,
         headline: head,
     };
+    if let Some(t) = truth {
+        on_stage("comparison with the true model");
+        super::truth::compare_with_truth(&mut out, t);
+    }
     on_stage("report");
     out.report = super::report_html(&out, &p.title, &project_files(p));
     Ok(out)

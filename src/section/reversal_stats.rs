@@ -1,15 +1,32 @@
 //! The reversal-statistics stage of a `section` run: renewal-model fits to the polarity intervals
-//! of the project's whole time scale (not of the section), with the open chron censored, and the
-//! hazard at the open chron's present length. The hazard cautions travel with the result.
+//! of the project's whole time scale (not of the section), with the open chron censored, their
+//! goodness of fit, the hazard at the open chron's present length with a bootstrap interval of the
+//! averaged probability, and the reversal rate through time with its trend and clustering tests.
+//! The hazard cautions travel with the result.
+//!
+//! The numbers are those of the `intervals`, `hazard` and `rate` verbs with their default options
+//! on the same file, seed and number of resamples (same Monte Carlo streams), so the report and the
+//! command line cannot disagree.
 
 use super::tables::{num, opt, CsvTable};
-use super::Stage;
-use crate::reversals::{fit_models, hazard_at, intervals, IntervalOptions, Model, CAUTIONS};
+use super::{FigureOutput, Stage};
+use crate::figures::{HazardFigure, IntervalFigure, RateFigure};
+use crate::montecarlo::MonteCarlo;
+use crate::reversals::{
+    averaged_interval, clustering_test, fit_models, goodness_of_fit, hazard_at, intervals, laplace_test, windowed_rate,
+    IntervalOptions, IntervalRecord, Model, RenewalFits, Sample, CAUTIONS,
+};
 use crate::table::TimeScale;
 
 /// Horizon of the reported P(reversal within the horizon | none so far), Myr (the `hazard` verb's
 /// default).
 pub const HAZARD_HORIZON: f64 = 0.1;
+/// Width of the rate windows, Myr (the `rate` verb's default); windows advance by a tenth of it.
+pub const RATE_WINDOW: f64 = 1.0;
+/// Confidence level of the hazard interval and the rate band (the verbs' default).
+pub const LEVEL: f64 = 0.95;
+/// Monte Carlo stream of the hazard bootstrap (the `hazard` verb's).
+const HAZARD_STREAM: u64 = 100;
 
 /// What the stage produced.
 pub(super) struct ReversalStats {
@@ -17,109 +34,220 @@ pub(super) struct ReversalStats {
     pub tables: Vec<CsvTable>,
     pub warnings: Vec<String>,
     pub cautions: Vec<String>,
-    pub figures: Vec<super::FigureOutput>,
+    pub figures: Vec<FigureOutput>,
+    /// Complete intervals fitted.
+    pub n_intervals: usize,
+    /// The open chron's length so far (the elapsed time of the hazard), Myr.
+    pub elapsed: Option<f64>,
+}
+
+impl ReversalStats {
+    fn add_figure(&mut self, fig: crate::error::Result<FigureOutput>) {
+        match fig {
+            Ok(f) => {
+                self.stage.figures.push(f.stem.clone());
+                self.figures.push(f);
+            }
+            Err(e) => self.warnings.push(format!("Figure not drawn: {e}.")),
+        }
+    }
+    fn add_table(&mut self, t: CsvTable) {
+        self.stage.tables.push(t.stem.clone());
+        self.tables.push(t);
+    }
 }
 
 fn params(f: &crate::reversals::Fitted) -> String {
     f.named_params().iter().map(|(k, v)| format!("{k}={}", num(*v, 4))).collect::<Vec<_>>().join(" ")
 }
 
-/// Fit the renewal models to the time scale's intervals and evaluate the hazard.
-pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
+/// Fit the renewal models to the time scale's intervals, test their fit, evaluate the hazard and
+/// the rate through time.
+pub(super) fn reversal_statistics(name: &str, ts: &TimeScale, mc: &MonteCarlo<'_>) -> ReversalStats {
     let mut stage = Stage::new("Reversal statistics of the time scale");
-    let mut out =
-        ReversalStats { stage: Stage::new(""), tables: vec![], warnings: vec![], cautions: vec![], figures: vec![] };
     stage.method = format!(
-        "Maximum-likelihood fits of five renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian) to the lengths of the polarity intervals of {name} over its whole span (adjacent chrons of one polarity joined; the open chron at the young end enters as a right-censored length; the oldest row enters as a second censored length unless the table states its old boundary is a reversal); Akaike weights compare the models. The hazard and P(reversal within {HAZARD_HORIZON} Myr | none so far) are evaluated at the open chron's present length. These statistics describe the time scale, not the sampled section."
+        "Maximum-likelihood fits of five renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian) to the lengths of the polarity intervals of {name} over its whole span (adjacent chrons of one polarity joined; the open chron at the young end enters as a right-censored length; the oldest row enters as a second censored length unless the table states its old boundary is a reversal); Akaike weights compare the models. Goodness of fit: Kolmogorov–Smirnov and Anderson–Darling statistics with parametric-bootstrap p-values that refit the model to each replicate ({} resamples, seed {}). The hazard and P(reversal within {HAZARD_HORIZON} Myr | none so far) are evaluated at the open chron's present length; the Akaike-weighted probability has a {:.0} % bootstrap percentile interval (intervals resampled, all models refitted). The rate through time counts reversals in {RATE_WINDOW} Myr windows every {} Myr with exact Poisson {:.0} % limits; the Laplace test looks for a trend and the mean of H for clustering. These statistics describe the time scale, not the sampled section.",
+        mc.resamples, mc.seed, LEVEL * 100.0, RATE_WINDOW / 10.0, LEVEL * 100.0
     );
-    let skip = |mut stage: Stage, why: String, mut out: ReversalStats| {
-        stage.ran = false;
-        stage.result = format!("Skipped: {why}.");
-        out.warnings.push(format!("Reversal statistics skipped: {why}."));
-        out.stage = stage;
-        out
+    let mut out = ReversalStats {
+        stage,
+        tables: vec![],
+        warnings: vec![],
+        cautions: vec![],
+        figures: vec![],
+        n_intervals: 0,
+        elapsed: None,
     };
     let opts = IntervalOptions::default();
-    let rec = match intervals(ts, &opts) {
-        Ok(r) => r,
-        Err(e) => return skip(stage, e.to_string(), out),
-    };
-    let sample = match rec.sample() {
-        Ok(s) => s,
-        Err(e) => return skip(stage, e.to_string(), out),
+    let (rec, sample) = match intervals(ts, &opts).and_then(|r| r.sample().map(|s| (r, s))) {
+        Ok(x) => x,
+        Err(e) => return skip(out, e.to_string()),
     };
     let fits = fit_models(&sample, &Model::ALL);
     if fits.fits.is_empty() {
-        return skip(stage, "no renewal model could be fitted".into(), out);
+        return skip(out, "no renewal model could be fitted".into());
     }
     for f in &fits.failures {
-        out.warnings.push(format!("Renewal fit failed: {f:?}."));
+        out.warnings.push(format!("Renewal fit failed: {}: {}.", f.model.name(), f.reason));
     }
+    out.n_intervals = sample.n();
+    out.elapsed = rec.censored;
+    renewal_table(&mut out, &fits, &sample, mc);
+    let best = fits.fits.iter().max_by(|a, b| a.weight.total_cmp(&b.weight)).expect("non-empty");
+    out.stage.result = format!(
+        "{} complete intervals between {:.3} and {:.3} Ma{}; highest Akaike weight: {} ({:.2}, mean interval {:.3} Myr).",
+        rec.complete.len(),
+        rec.from,
+        rec.to,
+        rec.censored.map_or(String::new(), |c| format!(", open chron {c:.3} Myr so far (censored)")),
+        best.fitted.model.name(),
+        best.weight,
+        best.fitted.mean()
+    );
+    if let Some(t) = fits.lr_test {
+        out.stage.result.push_str(&format!(
+            " Gamma against exponential (likelihood ratio): p = {:.3}; a constant rate is {}rejected at the 5 % level.",
+            t.p_value,
+            if t.p_value < 0.05 { "" } else { "not " }
+        ));
+    }
+    let fig = IntervalFigure::new(&sample, &fits, name);
+    out.add_figure(super::pipeline::draw(&fig, "intervals", "Lengths of the complete polarity intervals (empirical distribution) with the distribution functions of the fitted renewal models; the open chron's present length is marked.".into()));
+    match rec.censored {
+        Some(elapsed) => hazard(&mut out, &fits, &sample, elapsed, mc, name),
+        None => out.warnings.push("Hazard skipped: the time scale has no open chron at its young end.".into()),
+    }
+    rate(&mut out, &rec);
+    out
+}
+
+fn skip(mut out: ReversalStats, why: String) -> ReversalStats {
+    out.stage.ran = false;
+    out.stage.result = format!("Skipped: {why}.");
+    out.warnings.push(format!("Reversal statistics skipped: {why}."));
+    out
+}
+
+fn renewal_table(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, mc: &MonteCarlo<'_>) {
     let mut ft = CsvTable::new(
         "renewal-fits",
-        "Renewal models fitted to the time scale's polarity intervals",
-        &["model", "params", "mean_interval_myr", "loglik", "aic", "weight"],
+        "Renewal models fitted to the time scale's polarity intervals, with goodness of fit",
+        &["model", "params", "mean_interval_myr", "loglik", "aic", "bic", "weight", "ks_d", "ks_p", "ad", "ad_p"],
     );
-    for f in &fits.fits {
+    for (i, f) in fits.fits.iter().enumerate() {
+        let g = goodness_of_fit(&f.fitted, sample, mc, i as u64);
+        if let Err(e) = &g {
+            out.warnings.push(format!("{}: goodness of fit unavailable: {e}.", f.fitted.model.name()));
+        }
+        let g = g.ok();
         ft.push(vec![
             f.fitted.model.name().into(),
             params(&f.fitted),
             num(f.fitted.mean(), 4),
             num(f.loglik, 3),
             num(f.aic, 3),
+            num(f.bic, 3),
             num(f.weight, 3),
+            opt(g.map(|g| g.ks_d), 4),
+            opt(g.map(|g| g.ks_p), 3),
+            opt(g.map(|g| g.ad), 3),
+            opt(g.map(|g| g.ad_p), 3),
         ]);
     }
-    let best = fits.fits.iter().max_by(|a, b| a.weight.total_cmp(&b.weight)).expect("non-empty");
-    stage.result = format!(
-        "{} complete intervals between {:.3} and {:.3} Ma{}; highest Akaike weight: {} ({:.2}, mean interval {:.3} Myr).",
-        rec.complete.len(), rec.from, rec.to,
-        rec.censored.map_or(String::new(), |c| format!(", open chron {c:.3} Myr so far (censored)")),
-        best.fitted.model.name(), best.weight, best.fitted.mean());
-    stage.tables.push(ft.stem.clone());
-    out.tables.push(ft);
-    if let Some(elapsed) = rec.censored {
-        match hazard_at(&fits, &sample, elapsed, HAZARD_HORIZON) {
-            Ok(h) => {
-                let mut ht = CsvTable::new("hazard",
-                    &format!("Hazard at {elapsed:.3} Myr since the last reversal and P(reversal within {HAZARD_HORIZON} Myr | none so far): a statement about the fitted models, not a forecast"),
-                    &["model", "weight", "hazard_per_myr", "survival", "p_within"]);
-                for m in &h.models {
-                    ht.push(vec![
-                        m.fitted.model.name().into(),
-                        num(m.weight, 3),
-                        num(m.hazard, 3),
-                        num(m.survival, 4),
-                        opt(m.p_within, 4),
-                    ]);
-                }
-                ht.push(vec![
-                    "averaged (Akaike weights)".into(),
-                    num(1.0, 3),
-                    String::new(),
-                    String::new(),
-                    num(h.averaged, 4),
-                ]);
-                stage.result.push_str(&format!(
-                    " Under the fitted models, the Akaike-weighted P(reversal within {HAZARD_HORIZON} Myr | none in the last {elapsed:.3} Myr) is {:.3}; the elapsed length exceeds {:.0} % of the complete intervals.",
-                    h.averaged, h.percentile));
-                stage.tables.push(ht.stem.clone());
-                out.tables.push(ht);
-                out.cautions.extend(CAUTIONS.iter().map(|s| s.to_string()));
-                let fig = crate::figures::HazardFigure::new(&fits, elapsed, name);
-                match super::pipeline::draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")) {
-                    Ok(f) => {
-                        stage.figures.push(f.stem.clone());
-                        out.figures.push(f);
-                    }
-                    Err(e) => out.warnings.push(format!("Hazard figure not drawn: {e}.")),
-                }
-            }
-            Err(e) => out.warnings.push(format!("Hazard skipped: {e}.")),
-        }
-    } else {
-        out.warnings.push("Hazard skipped: the time scale has no open chron at its young end.".into());
+    out.add_table(ft);
+}
+
+fn hazard(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, elapsed: f64, mc: &MonteCarlo<'_>, name: &str) {
+    let mut h = match hazard_at(fits, sample, elapsed, HAZARD_HORIZON) {
+        Ok(h) => h,
+        Err(e) => return out.warnings.push(format!("Hazard skipped: {e}.")),
+    };
+    match averaged_interval(sample, &Model::ALL, elapsed, HAZARD_HORIZON, LEVEL, mc, HAZARD_STREAM) {
+        Ok(b) => h.interval = Some(b),
+        Err(e) => out.warnings.push(format!("No bootstrap interval for the averaged probability: {e}.")),
     }
-    out.stage = stage;
-    out
+    let mut ht = CsvTable::new(
+        "hazard",
+        &format!("Hazard at {elapsed:.3} Myr since the last reversal and P(reversal within {HAZARD_HORIZON} Myr | none so far): a statement about the fitted models, not a forecast"),
+        &["model", "weight", "hazard_per_myr", "survival", "p_within", "low", "high"],
+    );
+    for m in &h.models {
+        ht.push(vec![
+            m.fitted.model.name().into(),
+            num(m.weight, 3),
+            num(m.hazard, 3),
+            num(m.survival, 4),
+            opt(m.p_within, 4),
+            String::new(),
+            String::new(),
+        ]);
+    }
+    ht.push(vec![
+        "averaged (Akaike weights)".into(),
+        num(1.0, 3),
+        String::new(),
+        String::new(),
+        num(h.averaged, 4),
+        opt(h.interval.map(|b| b.low), 4),
+        opt(h.interval.map(|b| b.high), 4),
+    ]);
+    out.stage.result.push_str(&format!(
+        " Under the fitted models, the Akaike-weighted P(reversal within {HAZARD_HORIZON} Myr | none in the last {elapsed:.3} Myr) is {:.3}{}; the elapsed length exceeds {:.0} % of the complete intervals.",
+        h.averaged,
+        h.interval.map_or(String::new(), |b| format!(" ({:.0} % bootstrap interval {:.3}–{:.3})", b.level * 100.0, b.low, b.high)),
+        h.percentile
+    ));
+    out.add_table(ht);
+    out.cautions.extend(CAUTIONS.iter().map(|s| s.to_string()));
+    let fig = HazardFigure::new(fits, elapsed, name);
+    out.add_figure(super::pipeline::draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")));
+}
+
+fn rate(out: &mut ReversalStats, rec: &IntervalRecord) {
+    let points = match windowed_rate(&rec.reversals, rec.from, rec.to, RATE_WINDOW, RATE_WINDOW / 10.0, LEVEL) {
+        Ok(p) => p,
+        Err(e) => return out.warnings.push(format!("Rate through time skipped: {e}.")),
+    };
+    let mut rt = CsvTable::new(
+        "rate",
+        &format!("Reversal rate through time ({RATE_WINDOW} Myr windows, exact Poisson {:.0} % limits)", LEVEL * 100.0),
+        &["age", "rate", "low", "high", "count"],
+    );
+    for p in &points {
+        rt.push(vec![num(p.age, 3), num(p.rate, 3), num(p.low, 3), num(p.high, 3), p.count.to_string()]);
+    }
+    out.add_table(rt);
+    let mut tt =
+        CsvTable::new("rate-tests", "Trend and clustering of the reversals", &["test", "n", "statistic", "value", "p"]);
+    match laplace_test(&rec.reversals, rec.from, rec.to) {
+        Ok(l) => {
+            tt.push(vec!["laplace trend".into(), l.n.to_string(), "U".into(), num(l.u, 3), num(l.p_value, 4)]);
+            out.stage.result.push_str(&format!(" Laplace trend test: U = {:.2}, p = {:.3}.", l.u, l.p_value));
+        }
+        Err(e) => out.warnings.push(format!("Laplace trend test unavailable: {e}.")),
+    }
+    match clustering_test(&rec.reversals) {
+        Ok(c) => {
+            let n = c.h.len().to_string();
+            tt.push(vec![
+                "clustering (mean H)".into(),
+                n.clone(),
+                "mean_h".into(),
+                num(c.mean_h, 3),
+                num(c.p_value, 4),
+            ]);
+            tt.push(vec!["clustering (H uniform)".into(), n, "ks_d".into(), num(c.ks_d, 3), num(c.ks_p, 4)]);
+        }
+        Err(e) => out.warnings.push(format!("Clustering test unavailable: {e}.")),
+    }
+    if !tt.rows.is_empty() {
+        out.add_table(tt);
+    }
+    let fig = RateFigure {
+        title: "Reversal rate through time".into(),
+        points,
+        reversals: rec.reversals.clone(),
+        window: RATE_WINDOW,
+    };
+    out.add_figure(super::pipeline::draw(&fig, "rate", format!("Reversals per Myr in {RATE_WINDOW} Myr windows with the exact Poisson {:.0} % band; ticks mark the reversals.", LEVEL * 100.0)));
 }

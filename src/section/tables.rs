@@ -69,3 +69,20 @@ pub fn num(x: f64, d: usize) -> String {
 pub fn opt(x: Option<f64>, d: usize) -> String {
     x.map_or(String::new(), |v| num(v, d))
 }
+
+impl CsvTable {
+    /// Index of the column called `name`.
+    pub fn column(&self, name: &str) -> Option<usize> {
+        self.columns.iter().position(|c| c == name)
+    }
+
+    /// The cell of `row` in the column called `name` (`None` if either is missing).
+    pub fn cell<'a>(&'a self, row: &'a [String], name: &str) -> Option<&'a str> {
+        self.column(name).and_then(|i| row.get(i)).map(String::as_str)
+    }
+
+    /// The cell of `row` in the column called `name` as a number (`None` if missing or empty).
+    pub fn number(&self, row: &[String], name: &str) -> Option<f64> {
+        self.cell(row, name).and_then(|c| c.parse().ok())
+    }
+}

@@ -13,7 +13,7 @@ fn csv_quoting_and_numbers() {
 
 #[test]
 fn html_escapes_text() {
-    assert_eq!(report_html::escape("a<b & \"c\""), "a&lt;b &amp; &quot;c&quot;");
+    assert_eq!(report::escape("a<b & \"c\""), "a&lt;b &amp; &quot;c&quot;");
 }
 
 #[test]
@@ -43,7 +43,7 @@ fn exponential_fit_of_the_stage_is_the_censored_maximum_likelihood_rate() {
     let csv = "young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,1.0,N\n1.0,1.1,R\n1.1,1.5,N\n1.5,1.9,R\n";
     let ts =
         crate::table::TimeScale::from_table(&crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap()).unwrap();
-    let r = reversal_stats::reversal_statistics("ts.csv", &ts);
+    let r = reversal_stats::reversal_statistics("ts.csv", &ts, &crate::montecarlo::MonteCarlo::new(1, 50));
     assert!(r.stage.ran, "{:?}", r.warnings);
     let fits = &r.tables[0];
     let exp = fits.rows.iter().find(|row| row[0] == "exponential").unwrap();
