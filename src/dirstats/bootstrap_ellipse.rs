@@ -17,7 +17,7 @@ pub enum BootstrapKind {
 }
 
 /// Random stream of the bootstrap ellipse (separates it from other uses of the same seed).
-const STREAM: u64 = 0xE111_95E;
+const STREAM: u64 = 0x0E11_195E;
 
 /// Bootstrap confidence ellipse for the mean of `vectors`.
 ///
