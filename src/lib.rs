@@ -76,6 +76,10 @@
 //! - Butler, R. F. (1992), *Paleomagnetism: Magnetic Domains to Geologic Terranes*. Blackwell.
 //! - Fisher, N. I., Lewis, T. & Embleton, B. J. J. (1987), *Statistical Analysis of Spherical Data*. CUP.
 #![warn(missing_docs)]
+#![allow(
+    clippy::neg_cmp_op_on_partial_ord,
+    reason = "`!(x > a)` is written on purpose: it is true for NaN, so a NaN input is refused with the out-of-range values"
+)]
 
 pub mod demag;
 pub mod dirstats;
@@ -95,4 +99,4 @@ pub mod strat;
 pub mod table;
 pub mod tolerance;
 
-pub use error::{Error, Result, TableError};
+pub use error::{Error, Result, TableError, TableFault};

@@ -53,7 +53,7 @@ fn coarse_start(c: &Coefficients, which: DipPole) -> Vec3 {
 /// Newton steps on the sphere of surface normals: at the current point p with local north n̂ and east ê,
 /// the residual is the horizontal field (H·n̂, H·ê); its 2 × 2 Jacobian with respect to displacements
 /// along n̂ and ê is taken by central differences (10⁻⁶ rad); the step (capped at 0.1 rad) moves p in
-/// its tangent plane and back onto the sphere. Stops when a step is below 10⁻¹¹ rad (≈ 0.06 mm).
+/// its tangent plane and back onto the sphere. Stops when a step is below 10⁻¹¹ rad (≈ 0.06 mm) or H < 10⁻⁸ |Z|.
 /// The start is `start` (e.g. last epoch's pole) or the best cell of a 2° grid.
 ///
 /// # References
@@ -70,6 +70,16 @@ pub fn dip_pole(c: &Coefficients, which: DipPole, start: Option<GeoPoint>) -> Fi
             (h.dot(n), h.dot(e))
         };
         let (r1, r2) = res(p);
+        let (_, z) = horizontal(c, p);
+        let vertical = match which {
+            DipPole::Down => z > 0.0,
+            DipPole::Up => z < 0.0,
+        };
+        // Converged when the field is within 1e-8 rad of the vertical (some 0.1 m on the ground) (also where the pole guard of
+        // the synthesis stops the steps from shrinking, at a geographic pole).
+        if vertical && r1.hypot(r2) < 1e-8 * z.abs() {
+            return Ok(here);
+        }
         let (a1, a2) = res(p + n * EPS);
         let (b1, b2) = res(p - n * EPS);
         let (c1, c2) = res(p + e * EPS);
@@ -88,12 +98,7 @@ pub fn dip_pole(c: &Coefficients, which: DipPole, start: Option<GeoPoint>) -> Fi
         }
         p = (p + n * s1 + e * s2).normalized().expect("non-zero");
         if len < 1e-11 {
-            let (_, z) = horizontal(c, p);
-            let ok = match which {
-                DipPole::Down => z > 0.0,
-                DipPole::Up => z < 0.0,
-            };
-            if ok {
+            if vertical {
                 return Ok(GeoPoint::from_vector(p).expect("unit vector"));
             }
             break;

@@ -6,6 +6,7 @@
 //! here describes a model of the observed field; none of it is a forecast of a reversal.
 
 mod coefficients;
+mod context;
 mod dip;
 mod error;
 mod grid;
@@ -18,6 +19,7 @@ mod synthesis;
 mod tests;
 
 pub use coefficients::{index, Coefficients};
+pub use context::{field_context, FieldContext, PaleoRecord};
 pub use dip::{dip_pole, DipPole};
 pub use error::{FieldError, FieldResult};
 pub use grid::{intensity_grid, intensity_low, surface_intensity, IntensityGrid, IntensityLow, IntensityMinimum};
