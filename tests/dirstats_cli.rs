@@ -1,8 +1,6 @@
 //! Integration tests of `unflatten`, `psv` and `mean --ellipse` (assert_cmd), on the invented demo
-//! records `records/tarrow-redbeds.csv` and `records/psv-compilation.csv`.
-//!
-//! Whole outputs are compared with `tests/snapshots/dirstats/*`; regenerate them after a deliberate
-//! change with `UPDATE_SNAPSHOTS=1 cargo test --test dirstats_cli` and review the diff.
+//! records `records/tarrow-redbeds.csv` and `records/psv-compilation.csv`. Their whole outputs are
+//! snapshotted in `tests/snapshot_verbs.rs`.
 
 use assert_cmd::Command;
 use lodestone::dirstats::{apply_factor, Tk03};
@@ -35,18 +33,6 @@ fn ok(args: &[&str]) -> String {
     let out = cmd().current_dir(root()).args(args).output().unwrap();
     assert!(out.status.success(), "{args:?}: {}", String::from_utf8_lossy(&out.stderr));
     String::from_utf8(out.stdout).unwrap()
-}
-
-/// Compare a whole output with its snapshot file (or write it with UPDATE_SNAPSHOTS=1).
-fn snapshot(name: &str, got: &str) {
-    let path = root().join("tests/snapshots/dirstats").join(name);
-    if std::env::var_os("UPDATE_SNAPSHOTS").is_some() {
-        std::fs::create_dir_all(path.parent().unwrap()).unwrap();
-        std::fs::write(&path, got).unwrap();
-        return;
-    }
-    let want = std::fs::read_to_string(&path).unwrap_or_else(|_| panic!("missing snapshot {}", path.display()));
-    assert_eq!(got, want, "output differs from {}", path.display());
 }
 
 #[test]
@@ -116,16 +102,12 @@ fn unflatten_outputs() {
     let (lo, hi) = (v["f_low"].as_f64().unwrap(), v["f_high"].as_f64().unwrap());
     assert!(lo <= 0.65 && 0.65 <= hi, "[{lo}, {hi}]");
     assert!(v["inc_corrected"].as_f64().unwrap() > v["inc_observed"].as_f64().unwrap());
-    snapshot("unflatten.json", &json);
-    snapshot("unflatten.txt", &ok(&["unflatten", &redbeds(), "--resamples", "300"]));
-    snapshot("unflatten.csv", &ok(&["unflatten", &redbeds(), "--resamples", "300", "--format", "csv"]));
     // Thread count does not change the answer.
     assert_eq!(ok(&["unflatten", &redbeds(), "--resamples", "300", "--format", "json", "--threads", "1"]), json);
     let factor = ok(&["unflatten", &redbeds(), "--factor", "0.65", "--format", "json"]);
     let f: serde_json::Value = serde_json::from_str(&factor).unwrap();
     assert!(f["f_low"].is_null());
     assert!(f["notes"].as_array().unwrap().iter().any(|n| n.as_str().unwrap().contains("is an assumption")));
-    snapshot("unflatten_factor.txt", &ok(&["unflatten", &redbeds(), "--factor", "0.65"]));
 }
 
 #[test]
@@ -143,9 +125,6 @@ fn psv_outputs() {
     // Made with a = 13°, b = 0.22 (see make_demo_records).
     assert!(m["a_low"].as_f64().unwrap() <= 13.0 && 13.0 <= m["a_high"].as_f64().unwrap(), "{m}");
     assert!(m["b_low"].as_f64().unwrap() <= 0.22 && 0.22 <= m["b_high"].as_f64().unwrap(), "{m}");
-    snapshot("psv.json", &json);
-    snapshot("psv.txt", &ok(&["psv", &compilation(), "--by", "study", "--resamples", "200"]));
-    snapshot("psv.csv", &ok(&["psv", &compilation(), "--by", "study", "--resamples", "200", "--format", "csv"]));
 }
 
 fn figure_ok(args: &[&str], out: &Path) {
@@ -175,10 +154,8 @@ fn mean_with_ellipses() {
     }
     assert_eq!(e["method"], "kent");
     assert!(e["major"].as_f64().unwrap() >= e["minor"].as_f64().unwrap());
-    snapshot("mean_kent.json", &json);
-    snapshot("mean_kent.txt", &ok(&["mean", &redbeds(), "--ellipse", "kent"]));
     let b = ok(&["mean", &redbeds(), "--ellipse", "bootstrap", "--resamples", "300", "--format", "csv"]);
-    snapshot("mean_bootstrap.csv", &b);
+    assert!(b.lines().next().unwrap().ends_with("major,minor,major_dec,major_inc,minor_dec,minor_inc"), "{b}");
     let p =
         ok(&["mean", &redbeds(), "--ellipse", "bootstrap", "--parametric", "--resamples", "300", "--format", "json"]);
     let v: serde_json::Value = serde_json::from_str(&p).unwrap();

@@ -143,3 +143,28 @@ fn simulate_timescale() {
         &["simulate", "timescale", "--span", "3", "--model", "weibull", "--shape", "0.8", "--seed", "7"],
     );
 }
+
+const REDBEDS: &str = "records/tarrow-redbeds.csv";
+const COMPILATION: &str = "records/psv-compilation.csv";
+
+#[test]
+fn unflatten() {
+    every_format("unflatten-300", "tarrow-redbeds", &["unflatten", REDBEDS, "--resamples", "300"]);
+    every_format("unflatten-factor", "tarrow-redbeds", &["unflatten", REDBEDS, "--factor", "0.65"]);
+}
+
+#[test]
+fn psv() {
+    every_format("psv-study-200", "psv-compilation", &["psv", COMPILATION, "--by", "study", "--resamples", "200"]);
+}
+
+#[test]
+fn mean_ellipse() {
+    every_format("mean-kent", "tarrow-redbeds", &["mean", REDBEDS, "--ellipse", "kent"]);
+    every_format(
+        "mean-bootstrap-300",
+        "tarrow-redbeds",
+        &["mean", REDBEDS, "--ellipse", "bootstrap", "--resamples", "300"],
+    );
+    every_format("mean-kent-by-study", "psv-compilation", &["mean", COMPILATION, "--by", "study", "--ellipse", "kent"]);
+}

@@ -26,6 +26,8 @@ pub const COLUMNS: [&str; 6] = ["major", "minor", "major_dec", "major_inc", "min
 pub struct Ellipses {
     method: &'static str,
     per_group: Vec<Result<KentEllipse, String>>,
+    /// Per group: how many directions lie more than 90° from the mean (a second polarity).
+    opposed: Vec<usize>,
 }
 
 /// The unit vectors of a group in the chosen frame.
@@ -54,13 +56,18 @@ pub fn ellipses(
         (EllipseArg::Bootstrap, false) => "bootstrap",
         (EllipseArg::Bootstrap, true) => "bootstrap_parametric",
     };
+    let mut opposed = vec![0; means.len()];
     let per_group = means
         .iter()
-        .map(|g| {
+        .enumerate()
+        .map(|(i, g)| {
             if g.planes > 0 {
                 return Err("the group holds great circles; the ellipse needs lines only".to_string());
             }
             let v = group_vectors(set, g, frame);
+            if let Some(m) = g.stats.mean {
+                opposed[i] = v.iter().filter(|u| u.dot(m.to_vector()) < 0.0).count();
+            }
             let r = match kind {
                 EllipseArg::Kent => kent_ellipse(&v, v.len() as f64, 0.95),
                 EllipseArg::Bootstrap => {
@@ -71,7 +78,7 @@ pub fn ellipses(
             r.map_err(|e| e.to_string())
         })
         .collect();
-    Ellipses { method, per_group }
+    Ellipses { method, per_group, opposed }
 }
 
 /// The figure with each group's ellipse drawn about its mean.
@@ -130,6 +137,10 @@ impl Ellipses {
     ) -> std::io::Result<()> {
         match self.per_group.get(index) {
             Some(Err(why)) => f(&format!("{name}: no {} ellipse: {why}.", self.method)),
+            Some(Ok(_)) if self.opposed.get(index).is_some_and(|&k| k > 0) => f(&format!(
+                "{name}: {} direction(s) lie more than 90° from the mean (another polarity?); the ellipse assumes one unimodal set, so invert one polarity first or read it with care.",
+                self.opposed[index]
+            )),
             _ => Ok(()),
         }
     }

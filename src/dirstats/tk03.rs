@@ -65,7 +65,7 @@ impl Tk03 {
     pub fn sigma(&self, l: usize, m: usize) -> f64 {
         let lf = l as f64;
         let even = self.core_ratio.powf(2.0 * lf) * self.alpha * self.alpha / ((lf + 1.0) * (2.0 * lf + 1.0));
-        if (l - m) % 2 == 1 {
+        if !(l - m).is_multiple_of(2) {
             self.beta * even.sqrt()
         } else {
             even.sqrt()

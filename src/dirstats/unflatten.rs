@@ -203,6 +203,9 @@ fn refine(set: &[Prepared], orient: Vec3, mut lo: f64, mut hi: f64) -> (f64, f64
     best
 }
 
+/// One pseudo-sample's outcome: the crossing (f, inclination) if any, and its path when kept.
+type Draw = (Option<(f64, f64)>, Option<EiCurve>);
+
 /// The elongation/inclination correction with a bootstrap interval.
 ///
 /// # Units
@@ -239,7 +242,7 @@ pub fn unflatten_search(directions: &[Direction], mc: &MonteCarlo<'_>, paths_kep
     let set: Vec<Prepared> = directions.iter().map(prepare).collect();
     let (found, path) = search(&set, orient, true);
     let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("{n} directions are too many")))?;
-    let draws: Vec<(Option<(f64, f64)>, Option<EiCurve>)> = mc.run_with(
+    let draws: Vec<Draw> = mc.run_with(
         "unflatten bootstrap",
         STREAM,
         || (vec![0u32; n], Vec::with_capacity(n)),
