@@ -3,6 +3,8 @@
 
 mod column;
 mod equal_area;
+mod field_map;
+mod field_series;
 mod fold;
 mod hazard;
 mod intervals;
@@ -14,6 +16,8 @@ mod vector_endpoint;
 
 pub use column::{ColumnFigure, ScalePanel};
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
+pub use field_map::IntensityMap;
+pub use field_series::FieldSeriesFigure;
 pub use fold::FoldPlot;
 pub use hazard::HazardFigure;
 pub use intervals::{Curve, IntervalFigure};
