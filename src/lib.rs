@@ -65,14 +65,24 @@
 //! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
 //! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //! | whole chain on a project folder: tables, figures, HTML report | [`section::run`], [`section::SectionRun`] |
+//! | Kent (1982) elliptical confidence region; bootstrap ellipse (Tauxe et al. 1991) | [`dirstats::kent_ellipse`], [`dirstats::bootstrap_ellipse`] |
+//! | TK03 giant-Gaussian-process field model, simulated; Schmidt Legendre functions | [`dirstats::Tk03`], [`dirstats::schmidt_legendre`] |
+//! | elongation/inclination correction of shallowing (Tauxe & Kent 2004); a given factor (King 1955) | [`dirstats::unflatten_search`], [`dirstats::unflatten_factor`] |
+//! | VGP scatter against latitude, S(λ)² = a² + (bλ)² with bootstrap | [`dirstats::fit_latitude_model`], [`dirstats::latitude_model_bootstrap`] |
+//! | figures: elongation–inclination, S against latitude, ellipses on the net | [`figures::UnflattenFigure`], [`figures::LatitudeFigure`], [`figures::EllipseNet`] |
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
 //! - Butler, R. F. (1992), *Paleomagnetism: Magnetic Domains to Geologic Terranes*. Blackwell.
 //! - Fisher, N. I., Lewis, T. & Embleton, B. J. J. (1987), *Statistical Analysis of Spherical Data*. CUP.
 #![warn(missing_docs)]
+#![allow(
+    clippy::neg_cmp_op_on_partial_ord,
+    reason = "`!(x > a)` is written on purpose: it is true for NaN, so a NaN input is refused with the out-of-range values"
+)]
 
 pub mod demag;
+pub mod dirstats;
 pub mod error;
 pub mod field;
 pub mod fieldtests;
@@ -89,4 +99,4 @@ pub mod strat;
 pub mod table;
 pub mod tolerance;
 
-pub use error::{Error, Result, TableError};
+pub use error::{Error, Result, TableError, TableFault};

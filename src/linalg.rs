@@ -24,11 +24,7 @@ pub struct SymEigen {
 /// Golub & Van Loan (2013), *Matrix Computations*, 4th ed., §8.5 (the symmetric Jacobi method).
 pub fn sym_eigen(a: [[f64; 3]; 3]) -> SymEigen {
     let mut m = a;
-    for i in 0..3 {
-        for j in 0..i {
-            m[i][j] = m[j][i];
-        }
-    }
+    (m[1][0], m[2][0], m[2][1]) = (m[0][1], m[0][2], m[1][2]);
     let mut v = [[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]];
     for _sweep in 0..64 {
         let off = m[0][1].powi(2) + m[0][2].powi(2) + m[1][2].powi(2);
@@ -45,16 +41,14 @@ pub fn sym_eigen(a: [[f64; 3]; 3]) -> SymEigen {
             let t = if theta == 0.0 { 1.0 } else { t };
             let c = 1.0 / (t * t + 1.0).sqrt();
             let s = t * c;
-            for k in 0..3 {
-                let (mkp, mkq) = (m[k][p], m[k][q]);
-                m[k][p] = c * mkp - s * mkq;
-                m[k][q] = s * mkp + c * mkq;
+            for row in m.iter_mut() {
+                let (mkp, mkq) = (row[p], row[q]);
+                row[p] = c * mkp - s * mkq;
+                row[q] = s * mkp + c * mkq;
             }
-            for k in 0..3 {
-                let (mpk, mqk) = (m[p][k], m[q][k]);
-                m[p][k] = c * mpk - s * mqk;
-                m[q][k] = s * mpk + c * mqk;
-            }
+            let (rp, rq) = (m[p], m[q]);
+            m[p] = std::array::from_fn(|k| c * rp[k] - s * rq[k]);
+            m[q] = std::array::from_fn(|k| s * rp[k] + c * rq[k]);
             for row in v.iter_mut() {
                 let (vp, vq) = (row[p], row[q]);
                 row[p] = c * vp - s * vq;

@@ -1,4 +1,7 @@
 //! Helpers shared by the non-criterion comparison benches (`compare`, `compare_renewal`).
+//!
+//! Each bench compiles this module on its own and uses only part of it.
+#![allow(dead_code)]
 
 use std::hint::black_box;
 use std::time::Instant;

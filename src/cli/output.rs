@@ -253,11 +253,11 @@ fn write_text_table(s: &Section, rows: EachRow, out: &mut dyn Write) -> std::io:
             }
             let pad = width.get(i).copied().unwrap_or(0).saturating_sub(v.chars().count());
             if numeric.get(i).copied().unwrap_or(false) {
-                line.extend(std::iter::repeat(' ').take(pad));
+                line.extend(std::iter::repeat_n(' ', pad));
                 line.push_str(v);
             } else {
                 line.push_str(v);
-                line.extend(std::iter::repeat(' ').take(pad));
+                line.extend(std::iter::repeat_n(' ', pad));
             }
         }
         writeln!(out, "  {}", line.trim_end())

@@ -55,10 +55,10 @@ pub fn auto_line(sp: &SpecimenSteps, rule: &AutoRule) -> AutoOutcome {
                 continue;
             };
             let dang = f.dang.unwrap_or(f64::INFINITY);
-            if least_mad.map_or(true, |m| f.mad < m.0) {
+            if least_mad.is_none_or(|m| f.mad < m.0) {
                 least_mad = Some((f.mad, f.from, f.to));
             }
-            if f.mad <= rule.max_mad && least_dang.map_or(true, |m| dang < m.0) {
+            if f.mad <= rule.max_mad && least_dang.is_none_or(|m| dang < m.0) {
                 least_dang = Some((dang, f.from, f.to));
             }
             if f.mad > rule.max_mad || dang > rule.max_dang {

@@ -6,6 +6,9 @@ use crate::sphere::GeoPoint;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
+/// Draws one key symbol on an area at a pixel position.
+type KeySymbol<'a, DB> = dyn Fn(&DrawingArea<DB, Shift>, (i32, i32)) -> Result<(), String> + 'a;
+
 /// One VGP on the map.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct MappedVgp {
@@ -13,7 +16,7 @@ pub struct MappedVgp {
     pub pole: GeoPoint,
     /// Kept by the cutoff (false: drawn as a removed pole).
     pub kept: bool,
-    /// Mapped from the southern hemisphere to its antipode.
+    /// Replaced by its antipode to align its polarity with the others.
     pub flipped: bool,
 }
 
@@ -206,9 +209,7 @@ impl Figure for PolePlot {
         }
         // Key, drawn by hand.
         let mut y = 54;
-        let mut key = |draw: &dyn Fn(&DrawingArea<DB, Shift>, (i32, i32)) -> Result<(), String>,
-                       text: String|
-         -> Result<(), String> {
+        let mut key = |draw: &KeySymbol<'_, DB>, text: String| -> Result<(), String> {
             draw(&right, (16, y + 7))?;
             right.draw(&Text::new(text, (32, y), small.clone())).map_err(de)?;
             y += 22;

@@ -424,7 +424,7 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
             .map(|&s| {
                 let mut v = c_geo * (m_c * model.characteristic.remaining(s));
                 if let Some((ov, ub)) = o_vec {
-                    v = v + ov * ub.remaining(s);
+                    v += ov * ub.remaining(s);
                 }
                 let sd = model.noise * m_c;
                 let v = v + Vec3::new(gaussian(rng), gaussian(rng), gaussian(rng)) * sd;

@@ -112,9 +112,10 @@ impl FisherLanes {
                 *v = rng.next_u64();
             }
         }
-        for lane in 0..LANES {
-            if (0..4).all(|w| s[w][lane] == 0) {
-                s[0][lane] = 1; // xoshiro's one forbidden state
+        let stuck: [bool; LANES] = std::array::from_fn(|lane| s.iter().all(|word| word[lane] == 0));
+        for (first, stuck) in s[0].iter_mut().zip(stuck) {
+            if stuck {
+                *first = 1; // xoshiro's one forbidden state
             }
         }
         let (c, inv_kappa) = sampler.lane_constants();
@@ -129,6 +130,10 @@ impl FisherLanes {
 
     /// Next output of each lane's xoshiro256++ (Blackman & Vigna 2021).
     #[inline(always)]
+    #[allow(
+        clippy::needless_range_loop,
+        reason = "one index per lane across five arrays, in the form the compiler vectorizes"
+    )]
     fn next(&mut self) -> [u64; LANES] {
         let mut out = [0u64; LANES];
         for l in 0..LANES {

@@ -41,6 +41,7 @@
 //!   costs are broken as in that walk.
 //! - The passes at different r are independent; they run in parallel (rayon) and are merged in grid
 //!   order, and the rescoring keeps the order of the union.
+//!
 //! No setting trades accuracy for speed.
 //!
 //! # References

@@ -18,6 +18,7 @@ pub struct SimulateArgs {
 }
 
 #[derive(Debug, Subcommand)]
+#[allow(clippy::large_enum_variant, reason = "parsed once per run; boxing the arguments would buy nothing")]
 pub enum SimulateWhat {
     /// A polarity time scale from a renewal model of interval lengths (a timescale table).
     Timescale(TimescaleArgs),
