@@ -108,25 +108,20 @@ fn years_outside_the_model_and_latitudes_beyond_the_pole_exit_1() {
     cmd().args(["field", "series", "--from", "1890"]).assert().code(1).stderr(predicate::str::contains("1890"));
 }
 
-/// Whole-output snapshots (text tables, notes included). Regenerate by deleting the file and running
-/// the test once; review the difference before committing.
-fn snapshot(name: &str, args: &[&str]) {
-    let out = cmd().args(args).output().unwrap();
-    assert!(out.status.success());
-    let got = String::from_utf8(out.stdout).unwrap();
-    let path = std::path::Path::new("tests/snapshots").join(name);
-    match fs::read_to_string(&path) {
-        Ok(want) => assert_eq!(got, want, "snapshot {name} differs"),
-        Err(_) => {
-            fs::write(&path, &got).unwrap();
-            panic!("wrote the new snapshot {}; review it and run again", path.display());
-        }
-    }
-}
-
 #[test]
-fn snapshots_of_every_field_verb() {
-    snapshot("field_at.txt", &["field", "at", "--year", "2024.5", "--lat", "51.2", "--lon", "-3.4"]);
-    snapshot("field_series.txt", &["field", "series", "--from", "2015", "--to", "2030", "--every", "5"]);
-    snapshot("field_context.txt", &["field", "context", "--record", RECORD, "--timescale", TIMESCALE]);
+fn series_writes_its_figures_and_never_over_an_input() {
+    let d = tempfile::tempdir().unwrap();
+    let (plot, map) = (d.path().join("series.svg"), d.path().join("map.png"));
+    cmd()
+        .args(["field", "series", "--from", "2000", "--to", "2010", "--plot", plot.to_str().unwrap()])
+        .args(["--map", map.to_str().unwrap(), "--quiet"])
+        .assert()
+        .success();
+    let svg = fs::read_to_string(&plot).unwrap();
+    assert!(svg.starts_with("<svg") && svg.contains("not a forecast"));
+    assert!(fs::read(&map).unwrap().starts_with(b"\x89PNG"));
+    let model = d.path().join("m.svg");
+    fs::write(&model, "epoch,degree,order,g,h\n2000,1,0,-30000,0\n2000,1,1,-1500,4000\n").unwrap();
+    cmd().args(["field", "series", model.to_str().unwrap(), "--plot", model.to_str().unwrap()]).assert().code(1);
+    assert!(fs::read_to_string(&model).unwrap().starts_with("epoch"));
 }

@@ -168,3 +168,15 @@ fn mean_ellipse() {
     );
     every_format("mean-kent-by-study", "psv-compilation", &["mean", COMPILATION, "--by", "study", "--ellipse", "kent"]);
 }
+
+#[test]
+fn field() {
+    let record = "records/paleointensity/harrowmere-deep-vadm.csv";
+    every_format("field-at", "igrf14", &["field", "at", "--year", "2024.5", "--lat", "51.2", "--lon", "-3.4"]);
+    every_format("field-series", "igrf14", &["field", "series", "--from", "2015", "--to", "2030", "--every", "5"]);
+    every_format(
+        "field-context",
+        "harrowmere-deep-vadm",
+        &["field", "context", "--record", record, "--timescale", SCALE],
+    );
+}

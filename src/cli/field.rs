@@ -7,6 +7,8 @@ use lodestone::field::{
     field_at, field_context, field_series, EpochSummary, FieldModel, Frame, PaleoRecord, SeriesOptions, Site,
     DEFAULT_LOW_THRESHOLD,
 };
+use lodestone::field::{intensity_grid, intensity_low};
+use lodestone::figures::{FieldSeriesFigure, IntensityMap};
 use lodestone::table::{Table, TimeScale};
 use serde_json::json;
 use std::path::PathBuf;
@@ -47,6 +49,12 @@ pub struct SeriesArgs {
     /// Threshold of the surface-intensity low's area and minima, nT.
     #[arg(long, default_value_t = DEFAULT_LOW_THRESHOLD)]
     pub low_threshold: f64,
+    /// Time-series figure of moment, dip-pole speeds and the low (.svg or .png).
+    #[arg(long)]
+    pub plot: Option<PathBuf>,
+    /// Map of F at the reference sphere for the last year of the series, contours and the low marked.
+    #[arg(long)]
+    pub map: Option<PathBuf>,
 }
 
 #[derive(Debug, Args)]
@@ -151,8 +159,9 @@ fn series(a: SeriesArgs, ctx: &mut Ctx) -> Result<Report> {
     let opts = SeriesOptions::new(from, to, a.every, a.low_threshold)?;
     let rows = field_series(&model, &opts)?;
     let mut notes = vec![
-        format!("Dipole from g10, g11, h11 at the reference radius 6371.2 km; moment_change is its rate in % per century from the model's coefficient rates. Dip poles on the WGS84 surface (geodetic), where the horizontal field vanishes: dip_north where the field points down, dip_south where it points up."),
+        "Dipole from g10, g11, h11 at the reference radius 6371.2 km; moment_change is its rate in % per century from the model's coefficient rates. Dip poles on the WGS84 surface (geodetic), where the horizontal field vanishes: dip_north where the field points down, dip_south where it points up.".to_string(),
         format!("The surface-intensity low: the lowest total intensity on the sphere of radius 6371.2 km (geocentric latitude), refined from a 1° grid; low_area is the area below {} nT; low_cells counts the separate minima below it; low_speed and low_west_speed are the drift of the lowest point since the previous epoch (km/yr; positive west).", a.low_threshold),
+        "The model is linear in time between its epochs, so speeds between years of one interval are nearly constant and change in steps at the epochs.".to_string(),
     ];
     let last = *model.epochs.last().expect("an epoch");
     if to > last {
@@ -169,6 +178,20 @@ fn series(a: SeriesArgs, ctx: &mut Ctx) -> Result<Report> {
             sp.rows.push(vec![Cell::Int(k as i64 + 1), Cell::Num(*p, 1)]);
         }
         sections.push(sp);
+    }
+    if let Some(p) = &a.plot {
+        let title =
+            format!("The present field through time ({}): a description of a model, not a forecast", model.name);
+        super::write_figure(&FieldSeriesFigure { title, epochs: rows.clone() }, p, &ctx.inputs)?;
+    }
+    if let Some(p) = &a.map {
+        let year = rows.last().map_or(to, |r| r.year);
+        let c = model.at(year)?;
+        let grid = intensity_grid(&c, 2.0)?;
+        let low = intensity_low(&c, a.low_threshold, 1.0)?;
+        let title = format!("Total intensity at the reference sphere, {year} ({})", model.name);
+        let fig = IntensityMap { title, grid, interval: 4000.0, threshold: a.low_threshold, minima: low.minima };
+        super::write_figure(&fig, p, &ctx.inputs)?;
     }
     let json = json!({"model": model_json(&model), "low_threshold": a.low_threshold, "epochs": rows, "notes": notes});
     Ok(Report { json, sections, csv_section: 0, notes })

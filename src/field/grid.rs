@@ -98,6 +98,13 @@ pub fn intensity_grid(c: &Coefficients, step: f64) -> FieldResult<IntensityGrid>
     Ok(grid)
 }
 
+/// F grids of every epoch of a model (in parallel over the epochs; the result does not depend on the
+/// number of threads).
+pub fn epoch_grids(model: &super::model::FieldModel, step: f64) -> FieldResult<Vec<IntensityGrid>> {
+    use rayon::prelude::*;
+    model.sets.par_iter().map(|c| intensity_grid(c, step)).collect()
+}
+
 /// F at the reference sphere at a geocentric latitude and longitude (degrees).
 pub fn surface_intensity(c: &Coefficients, lat: f64, lon: f64) -> f64 {
     let (br, bt, bp) = spherical_components(c, REFERENCE_RADIUS_KM, (90.0 - lat).to_radians(), lon.to_radians());

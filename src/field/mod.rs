@@ -22,7 +22,9 @@ pub use coefficients::{index, Coefficients};
 pub use context::{field_context, FieldContext, PaleoRecord};
 pub use dip::{dip_pole, DipPole};
 pub use error::{FieldError, FieldResult};
-pub use grid::{intensity_grid, intensity_low, surface_intensity, IntensityGrid, IntensityLow, IntensityMinimum};
+pub use grid::{
+    epoch_grids, intensity_grid, intensity_low, surface_intensity, IntensityGrid, IntensityLow, IntensityMinimum,
+};
 pub use legendre::schmidt;
 pub use model::{FieldModel, IGRF14_TABLE, MAX_DEGREE, SV_YEARS};
 pub use series::{field_series, surface_distance_km, EpochSummary, SeriesOptions, DEFAULT_LOW_THRESHOLD};

@@ -119,9 +119,18 @@ pub fn field_series(model: &FieldModel, opts: &SeriesOptions) -> FieldResult<Vec
     for &y in [years[0], *years.last().expect("one year at least")].iter() {
         model.at(y)?;
     }
+    // The lows are independent of one another: computed in parallel (the result does not depend on the
+    // number of threads); the dip poles follow in order, each search started from the previous pole.
+    let lows: Vec<_> = {
+        use rayon::prelude::*;
+        years
+            .par_iter()
+            .map(|&y| model.at(y).and_then(|c| intensity_low(&c, opts.low_threshold, opts.grid_step)))
+            .collect::<FieldResult<_>>()?
+    };
     let mut out: Vec<EpochSummary> = Vec::with_capacity(years.len());
     let (mut north, mut south): (Option<GeoPoint>, Option<GeoPoint>) = (None, None);
-    for &year in &years {
+    for (&year, low) in years.iter().zip(lows) {
         let c = model.at(year)?;
         let rate = model.rate(year)?;
         let (g10, g11, h11) = c.dipole_terms();
@@ -134,7 +143,6 @@ pub fn field_series(model: &FieldModel, opts: &SeriesOptions) -> FieldResult<Vec
         let change = 1e4 * (g10 * r10 + g11 * r11 + h11 * s11) / (d.b0_nt * d.b0_nt);
         let dn = dip_pole(&c, DipPole::Down, north)?;
         let ds = dip_pole(&c, DipPole::Up, south)?;
-        let low = intensity_low(&c, opts.low_threshold, opts.grid_step)?;
         let prev = out.last();
         let lowp = GeoPoint { lat: low.minimum.lat, lon: low.minimum.lon };
         let speed =
