@@ -19,6 +19,7 @@ mod poles;
 mod progress;
 mod psv;
 mod rate;
+mod review;
 mod section;
 mod simulate;
 mod test;
@@ -92,6 +93,8 @@ enum Verb {
     Dipole(dipole::DipoleArgs),
     /// Direction expected at a site (or every site of a table) from a given pole.
     Expected(expected::ExpectedArgs),
+    /// A local browser page to review and set each specimen's fit (saved to the folder's picks.csv).
+    Review(review::ReviewArgs),
     /// The present field from a spherical-harmonic model (default the bundled IGRF-14): series, a point, context.
     Field(field::FieldArgs),
     /// Inclination-shallowing correction of sedimentary directions (elongation/inclination, or a given factor).
@@ -176,6 +179,7 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Intervals(a) => intervals::run(a, ctx),
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
+        Verb::Review(a) => review::run(a, ctx),
         Verb::Field(a) => field::run(a, ctx),
         Verb::Unflatten(a) => unflatten::run(a, ctx),
         Verb::Psv(a) => psv::run(a, ctx),

@@ -103,12 +103,12 @@ fn load(path: &Path) -> Result<DirectionSet> {
     let t = Table::read(path)?;
     let set = read_directions(&t, &GroupBy::None)?;
     if let Some(r) = set.records.iter().find(|r| r.kind == DirectionKind::Plane) {
-        return Err(TableError {
-            file: set.source.clone(),
-            line: r.line,
-            column: Some("kind".into()),
-            message: "is 'plane'; field tests take directions (kind = line) only".into(),
-        }
+        return Err(TableError::value(
+            set.source.as_str(),
+            r.line,
+            Some("kind"),
+            "is 'plane'; field tests take directions (kind = line) only",
+        )
         .into());
     }
     Ok(set)
@@ -119,12 +119,12 @@ fn bedding_of(set: &DirectionSet) -> Result<Vec<Bedding>> {
         .iter()
         .map(|r| {
             r.bedding.ok_or_else(|| {
-                TableError {
-                    file: set.source.clone(),
-                    line: r.line,
-                    column: Some("bed_dip".into()),
-                    message: "no bedding on this row; this test needs bed_dip_dir (or bed_strike) and bed_dip".into(),
-                }
+                TableError::value(
+                    set.source.as_str(),
+                    r.line,
+                    Some("bed_dip"),
+                    "no bedding on this row; this test needs bed_dip_dir (or bed_strike) and bed_dip",
+                )
                 .into()
             })
         })

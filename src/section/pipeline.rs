@@ -4,7 +4,7 @@
 use super::settings::SectionSettings;
 use super::tables::{num, opt, CsvTable};
 use super::{FigureOutput, Headline, Project, ProjectFile, Rejection, SectionRun};
-use crate::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind, SpecimenFit};
+use crate::demag::{fit_range, FitKind, SpecimenFit};
 use crate::error::{Error, Result};
 use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions};
 use crate::figures::{
@@ -218,38 +218,33 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     let reject_sp = |name: &str, reason: String, rejected: &mut Vec<Rejection>| {
         rejected.push(Rejection { what: "specimen".into(), name: name.into(), stage: "components".into(), reason });
     };
-    if let Some(pf) = &p.picks {
-        let pt = parse(pf)?;
-        let picks = read_picks(&pt, &set)?;
-        stage.method = format!(
-            "Principal-component fits (Kirschvink 1980) over the ranges chosen in {}: lines and planes, free or through the origin as each pick states. A line with MAD above {}° is rejected.",
-            pf.name, settings.max_mad);
-        for sp in &set.specimens {
-            let mine: Vec<_> = picks.iter().filter(|k| k.specimen == sp.specimen).collect();
-            if mine.is_empty() {
-                reject_sp(&sp.specimen, format!("no pick in {}", pf.name), &mut rejected);
-            }
-            for k in mine {
-                match fit_range(sp, k.from, k.to, k.kind, k.anchor) {
-                    Ok(f) => fits.push(f),
-                    Err(e) => reject_sp(&sp.specimen, format!("{} line {}: {e}", pf.name, k.line), &mut rejected),
-                }
+    let picks = match &p.picks {
+        Some(pf) => Some((pf, read_picks(&parse(pf)?, &set)?)),
+        None => None,
+    };
+    let mut grades: BTreeMap<String, &'static str> = BTreeMap::new();
+    stage.method = match &picks {
+        Some((pf, _)) => format!(
+            "Principal-component fits (Kirschvink 1980) over the ranges chosen in {}: lines and planes, free or through the origin as each pick states; a specimen without a pick is fitted by the automatic rule: {}. A line with MAD above {}° is rejected.",
+            pf.name, super::rule_text(&settings), settings.max_mad),
+        None => format!("No picks table: each specimen's characteristic component was chosen automatically by {}.", super::rule_text(&settings)),
+    };
+    for sp in &set.specimens {
+        let mine: Vec<_> = picks.iter().flat_map(|(_, ps)| ps.iter().filter(|k| k.specimen == sp.specimen)).collect();
+        for k in &mine {
+            let name = &picks.as_ref().expect("a pick comes from a table").0.name;
+            match fit_range(sp, k.from, k.to, k.kind, k.anchor) {
+                Ok(f) => fits.push(f),
+                Err(e) => reject_sp(&sp.specimen, format!("{name} line {}: {e}", k.line), &mut rejected),
             }
         }
-    } else {
-        let rule = AutoRule {
-            min_steps: settings.min_steps,
-            max_mad: settings.max_mad,
-            max_dang: settings.max_dang,
-            anchor: Anchor::Free,
-        };
-        stage.method = format!(
-            "No picks table: each specimen's characteristic line was chosen automatically as the longest run of at least {} consecutive steps whose free principal-component line (Kirschvink 1980) has MAD ≤ {}° and DANG ≤ {}° (ties: smaller MAD, then the earlier run).",
-            rule.min_steps, rule.max_mad, rule.max_dang);
-        for sp in &set.specimens {
-            match auto_line(sp, &rule) {
-                AutoOutcome::Fitted(f) => fits.push(f),
-                AutoOutcome::Unfitted(why) => reject_sp(&sp.specimen, why, &mut rejected),
+        if mine.is_empty() {
+            match super::automatic_fit(sp, &settings) {
+                Ok(c) => {
+                    grades.insert(sp.specimen.clone(), c.grade.as_str());
+                    fits.push(c.fit)
+                }
+                Err(why) => reject_sp(&sp.specimen, why, &mut rejected),
             }
         }
     }
@@ -262,7 +257,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     let mut ft = CsvTable::new(
         "components",
         "Characteristic components per specimen (geographic coordinates)",
-        &["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"],
+        &["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang", "grade"],
     );
     for f in &fits {
         let sp = set.get(&f.specimen).expect("fitted specimen exists");
@@ -278,6 +273,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
             num(f.direction.inc, 2),
             num(f.mad, 2),
             opt(f.dang, 2),
+            grades.get(&f.specimen).map_or("pick", |g| g).to_string(),
         ]);
     }
     let mut fitted: Vec<&str> = fits.iter().map(|f| f.specimen.as_str()).collect();

@@ -69,19 +69,17 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
             let v = r.direction.to_vector();
             vectors.push(match frame {
                 Frame::Geo => v,
-                Frame::Tilt => {
-                    match r.bedding {
-                        Some(b) => b.untilt(v),
-                        None => return Err(Error::Table(crate::error::TableError {
-                            file: set.source.clone(),
-                            line: r.line,
-                            column: Some("bed_dip".into()),
-                            message:
-                                "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip"
-                                    .into(),
-                        })),
+                Frame::Tilt => match r.bedding {
+                    Some(b) => b.untilt(v),
+                    None => {
+                        return Err(Error::Table(crate::error::TableError::value(
+                            set.source.as_str(),
+                            r.line,
+                            Some("bed_dip"),
+                            "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip",
+                        )))
                     }
-                }
+                },
             });
         }
         let planes = is_plane.iter().filter(|p| **p).count();
