@@ -91,7 +91,7 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
             let dir = |v: &crate::sphere::Vec3| crate::sphere::Direction::from_vector(*v).expect("unit vector");
             let lines: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| !**p).map(|(v, _)| dir(v)).collect();
             let poles: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| **p).map(|(v, _)| dir(v)).collect();
-            let ends: Vec<_> = ends.iter().map(|e| e.and_then(|v| crate::sphere::Direction::from_vector(v))).collect();
+            let ends: Vec<_> = ends.iter().map(|e| e.and_then(crate::sphere::Direction::from_vector)).collect();
             match super::mixed_mean_with_paths(&lines, &poles, &ends, confidence) {
                 Ok(m) => {
                     sense = m.sense;
