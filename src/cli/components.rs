@@ -188,10 +188,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         for sp in &set.specimens {
             match fit_range(sp, from, to, kind, anchor) {
                 Ok(f) => fits.push(f),
-                Err(e) => unfitted.push((
-                    sp.specimen.clone(),
-                    e.to_string().trim_start_matches(&format!("specimen {}: ", sp.specimen)).to_string(),
-                )),
+                Err(e) => unfitted.push((sp.specimen.clone(), e.detail().to_string())),
             }
         }
     }

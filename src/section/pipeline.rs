@@ -12,7 +12,7 @@ use crate::figures::{
 };
 use crate::montecarlo::{MonteCarlo, Progress};
 use crate::poles::{
-    bootstrap_scatter, northern, paleopole, pole_oval, vgp, vgp_scatter, within_site_sw, ScatterSite, WithinSite,
+    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp, vgp_scatter, within_site_sw, ScatterSite, WithinSite,
 };
 use crate::simulate::Settings;
 use crate::sphere::{Bedding, Direction, GeoPoint};
@@ -307,6 +307,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                 bedding: Some(s.bedding.unwrap_or(flat)),
                 kind: if f.kind == FitKind::Plane { DirectionKind::Plane } else { DirectionKind::Line },
                 group: Some(s.site.clone()),
+                path_end: if f.kind == FitKind::Plane { sp.steps.get(f.last).map(|st| st.direction) } else { None },
             }
         })
         .collect();
@@ -563,7 +564,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     on_stage("poles");
     let mut stage = Stage::new("Virtual geomagnetic poles, paleopole and scatter");
     stage.method = format!(
-        "VGP of each used site from its tilt-corrected mean (geocentric axial dipole); dp, dm from α95. Paleopole: Fisher mean of the VGPs after mapping southern VGPs to their antipodes. VGP scatter S_B about the mean pole with cutoff '{}', corrected for within-site scatter where every site has n ≥ 2 and k (McElhinny & McFadden 1997), with a {} % bootstrap interval over sites ({} resamples, seed {}).",
+        "VGP of each used site from its tilt-corrected mean (geocentric axial dipole); dp, dm from α95. Paleopole: Fisher mean of the VGPs after aligning their polarity by the principal axis of the VGPs (each VGP more than 90° from its northern end replaced by its antipode). VGP scatter S_B about the mean pole with cutoff '{}', corrected for within-site scatter where every site has n ≥ 2 and k (McElhinny & McFadden 1997), with a {} % bootstrap interval over sites ({} resamples, seed {}).",
         settings.scatter_cutoff, settings.confidence * 100.0, settings.resamples, settings.seed);
     let mut vt = CsvTable::new(
         "vgps",
@@ -589,8 +590,12 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
         stage.tables.push(vt.stem.clone());
         tables.push(vt);
     }
-    let aligned: Vec<(GeoPoint, bool)> =
-        used.iter().map(|u| northern(GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP"))).collect();
+    // Polarity aligned by the principal axis of the VGPs (not by hemisphere: see poles::align_polarity).
+    let raw: Vec<GeoPoint> = used.iter().map(|u| GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP")).collect();
+    let aligned: Vec<(GeoPoint, bool)> = match align_polarity(&raw) {
+        Ok(a) => a.poles.into_iter().zip(a.flipped).collect(),
+        Err(_) => Vec::new(),
+    };
     if used.len() >= 2 {
         match paleopole(&aligned.iter().map(|a| a.0).collect::<Vec<_>>()) {
             Ok(pp) => {
@@ -683,7 +688,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                     mean: Some((pp.pole, pp.a95)),
                     cutoff: None,
                 };
-                figures.push(draw(&fig, "vgps", "VGPs of the used sites (southern VGPs mapped to their antipodes) on an azimuthal equal-area map centred on the paleopole, with its A95 circle.".into())?);
+                figures.push(draw(&fig, "vgps", "VGPs of the used sites (polarity aligned by their principal axis) on an azimuthal equal-area map centred on the paleopole, with its A95 circle.".into())?);
                 stage.figures.push("vgps".into());
                 cautions.push(POLE_CAUTION.into());
             }

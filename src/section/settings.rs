@@ -1,6 +1,6 @@
 //! Settings of a `section` run, read from the project's `settings.toml` with defaults.
 
-use crate::error::TableError;
+use crate::error::{TableError, TableFault};
 use crate::poles::Cutoff;
 use crate::simulate::Settings;
 
@@ -82,12 +82,12 @@ impl SectionSettings {
         let cut = s.text("scatter_cutoff")?.map(str::to_string).unwrap_or(d.scatter_cutoff.clone());
         if parse_cutoff(&cut).is_none() {
             let line = s.values.get("scatter_cutoff").map_or(0, |v| v.line);
-            return Err(TableError {
-                file: s.source.clone(),
+            return Err(TableError::value(
+                s.source.as_str(),
                 line,
-                column: Some("scatter_cutoff".into()),
-                message: format!("'{cut}' is not \"none\", \"vandamme\" or an angle in (0, 180]"),
-            });
+                Some("scatter_cutoff"),
+                format!("'{cut}' is not \"none\", \"vandamme\" or an angle in (0, 180]"),
+            ));
         }
         let out = SectionSettings {
             seed: s.integer("seed", u64::MAX >> 11)?.unwrap_or(d.seed),
@@ -107,6 +107,7 @@ impl SectionSettings {
         if !matches!(out.auto_rule.as_str(), "last" | "longest") {
             let line = s.values.get("auto_rule").map_or(0, |v| v.line);
             return Err(TableError {
+                kind: TableFault::Value,
                 file: s.source.clone(),
                 line,
                 column: Some("auto_rule".into()),
