@@ -39,7 +39,9 @@
 //! | sites table (site means) | [`table::read_sites`] |
 //! | map of VGPs and paleopole | [`figures::PolePlot`] |
 //! | principal-component lines and planes, MAD, DANG (Kirschvink 1980) | [`demag::fit_line`], [`demag::fit_plane`], [`demag::fit_range`] |
-//! | automatic choice of a specimen's line segment | [`demag::auto_line`], [`demag::AutoRule`] |
+//! | automatic choice of a specimen's line segment (longest straight run) | [`demag::auto_line`], [`demag::AutoRule`] |
+//! | the last (characteristic) component: F-test growth, great-circle fallback, grades | [`demag::last_component`], [`demag::LastComponentRule`] |
+//! | moment-decay panel, labels that never overlap | [`figures::draw_decay`], [`figures::place_labels`] |
 //! | steps and picks tables (stepwise demagnetization) | [`table::read_steps`], [`table::read_picks`] |
 //! | combined mean of lines and great circles (McFadden & McElhinny 1988) | [`stats::mixed_mean`] |
 //! | vector-endpoint diagram of a specimen | [`figures::VectorEndpointPlot`] |

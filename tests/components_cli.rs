@@ -80,9 +80,15 @@ fn auto_picks_and_planes() {
     let d = tempfile::tempdir().unwrap();
     let f = write(&d, "steps.csv", &steps_csv());
     let v = run_json(&["components", f.to_str().unwrap(), "--auto", "--format", "json"]);
-    // The overprint is gone at 20 mT: the longest straight run toward the origin is 20–80.
+    // The overprint is gone at 20 mT: the last component, grown down from 80, stops at 20 (the step
+    // below departs from the line), and so does the earlier longest-run rule.
     assert_eq!(v["fits"][0]["from"], 20.0);
     assert_eq!(v["fits"][0]["to"], 80.0);
+    assert_eq!(v["rule"]["rule"], "last");
+    assert_eq!(v["rule"]["max_mad"], 15.0);
+    assert!(v["fits"][0]["grade"].is_string() && v["fits"][0]["reason"].is_string());
+    let v = run_json(&["components", f.to_str().unwrap(), "--auto", "--rule", "longest", "--format", "json"]);
+    assert_eq!((v["fits"][0]["from"].as_f64(), v["fits"][0]["to"].as_f64()), (Some(20.0), Some(80.0)));
     assert_eq!(v["rule"]["max_mad"], 5.0);
     // Picks: a plane for A1 over the whole path (pole ⟂ both components), an anchored line for A2;
     // a specimen without a pick is listed, not dropped.

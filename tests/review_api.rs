@@ -225,3 +225,17 @@ fn saving_is_atomic_and_keeps_one_backup() {
     assert_eq!(sg["source"], "auto");
     assert!(!std::fs::read_to_string(&picks).unwrap().contains("SG002-2"));
 }
+
+#[test]
+fn effect_of_the_picks_on_site_means_and_field_tests() {
+    let s = start();
+    let before = listing(s.dir.path());
+    let (st, body) = call(&s, "GET", "/api/effect", "");
+    assert_eq!(st, 200, "{body}");
+    let v = json(&body);
+    let names: Vec<&str> = v["stages"].as_array().unwrap().iter().map(|x| x["name"].as_str().unwrap()).collect();
+    assert_eq!(names, ["Characteristic components", "Site means", "Field tests"]);
+    let tests = v["stages"][2]["result"].as_str().unwrap();
+    assert!(tests.contains("Reversal test"), "{tests}");
+    assert_eq!(listing(s.dir.path()), before, "the re-run writes nothing");
+}

@@ -44,9 +44,9 @@ pub struct ComponentsArgs {
     /// Automatic rule: fewest consecutive steps in a segment.
     #[arg(long, default_value_t = 3, requires = "auto")]
     pub min_steps: usize,
-    /// Automatic rule: largest accepted MAD, degrees.
-    #[arg(long, default_value_t = 5.0, requires = "auto")]
-    pub max_mad: f64,
+    /// Automatic rule: largest accepted MAD, degrees (default 15 for `--rule last`, 5 for `--rule longest`).
+    #[arg(long, requires = "auto")]
+    pub max_mad: Option<f64>,
     /// Automatic rule: largest accepted DANG, degrees.
     #[arg(long, default_value_t = 10.0, requires = "auto")]
     pub max_dang: f64,
@@ -105,7 +105,8 @@ fn unit_of(sp: &SpecimenSteps) -> &'static str {
 }
 
 pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
-    if a.auto && (a.min_steps < 2 || !(a.max_mad >= 0.0) || !(a.max_dang >= 0.0)) {
+    let max_mad = a.max_mad.unwrap_or(if a.rule == RuleArg::Last { 15.0 } else { 5.0 });
+    if a.auto && (a.min_steps < 2 || !(max_mad >= 0.0) || !(a.max_dang >= 0.0)) {
         bail!("--min-steps must be at least 2 and --max-mad, --max-dang non-negative");
     }
     ctx.inputs.add(&a.steps);
@@ -140,7 +141,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         let rule = LastComponentRule {
             min_steps: a.min_steps,
             alpha: a.alpha,
-            max_mad: a.max_mad,
+            max_mad,
             max_dang: a.max_dang,
             anchor,
             planes: true,
@@ -162,7 +163,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         }
     } else if a.auto {
         method = "auto";
-        let rule = AutoRule { min_steps: a.min_steps, max_mad: a.max_mad, max_dang: a.max_dang, anchor };
+        let rule = AutoRule { min_steps: a.min_steps, max_mad, max_dang: a.max_dang, anchor };
         notes.push(format!(
             "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
              among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",

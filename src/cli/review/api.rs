@@ -4,7 +4,7 @@
 
 use anyhow::{Context, Result};
 use lodestone::demag::{fit_range, Anchor, FitKind, SpecimenFit};
-use lodestone::section::{automatic_fit, rule_text, SectionSettings};
+use lodestone::section::{automatic_fit, rule_text, Project, ProjectFile, SectionSettings};
 use lodestone::simulate::{Settings, PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE};
 use lodestone::table::{read_picks, read_steps, SpecimenSteps, StepSet, Table};
 use serde_json::{json, Value};
@@ -122,6 +122,10 @@ impl State {
         let spec_of = |rest: &str| percent_decode(rest);
         match (method, path) {
             ("GET", "/api/specimens") => Reply::json(200, &self.specimens()),
+            ("GET", "/api/effect") => match self.effect() {
+                Ok(v) => Reply::json(200, &v),
+                Err(e) => Reply::error(500, format!("{e:#}")),
+            },
             ("POST", "/api/fit") => match self.parse_fit(body, None) {
                 Ok((_, f)) => Reply::json(200, &fit_json(&f)),
                 Err(e) => Reply::error(400, e),
@@ -155,6 +159,36 @@ impl State {
             (_, p) if p.starts_with("/api/") => Reply::error(404, format!("no {method} {p}")),
             _ => Reply::error(404, "not found"),
         }
+    }
+
+    /// The site means and field tests with the current picks (and the automatic rule for the
+    /// rest): the `section` chain run in memory without the time scale (no correlation), nothing
+    /// written.
+    fn effect(&self) -> Result<Value> {
+        let file = |name: &str| -> Result<Option<ProjectFile>> {
+            let p = self.dir.join(name);
+            Ok(if p.is_file() {
+                Some(ProjectFile::new(name, std::fs::read(&p).with_context(|| format!("cannot read {}", p.display()))?))
+            } else {
+                None
+            })
+        };
+        let project = Project {
+            title: "review".into(),
+            steps: file(STEPS_FILE)?.context("steps.csv is gone")?,
+            sampling: file(SAMPLING_FILE)?.context("sampling.csv is gone")?,
+            picks: (!self.picks.is_empty()).then(|| ProjectFile::new(PICKS_FILE, picks_csv(&self.picks))),
+            timescale: None,
+            settings: file(SETTINGS_FILE)?,
+        };
+        let run = lodestone::section::run(&project, &lodestone::montecarlo::Silent, &mut |_| {})?;
+        let stages: Vec<Value> = run
+            .stages
+            .iter()
+            .filter(|s| ["Characteristic components", "Site means", "Field tests"].contains(&s.name.as_str()))
+            .map(|s| json!({"name": s.name, "ran": s.ran, "result": s.result}))
+            .collect();
+        Ok(json!({"stages": stages, "cautions": run.cautions.iter().take(1).collect::<Vec<_>>()}))
     }
 
     fn specimen_after_delete(&self, sp: &SpecimenSteps) -> Value {
