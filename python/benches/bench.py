@@ -20,6 +20,7 @@ import time
 import timeit
 
 import numpy as np
+import pandas as pd
 
 import lodestone
 
@@ -72,8 +73,7 @@ def main():
     t_np = median_time(lambda: numpy_fisher(big_dec, big_inc), args.repeats)
     print(f"fisher_mean 1e6: lodestone {t_ours * 1e3:.1f} ms, NumPy {t_np * 1e3:.1f} ms, ratio {t_np / t_ours:.2f}x")
 
-    t = np.genfromtxt(ROOT / "records" / "velmora-directions.csv", delimiter=",", names=True, comments="#",
-                      dtype=None, encoding="utf-8")
+    t = pd.read_csv(ROOT / "records" / "velmora-directions.csv", comment="#")
     t_py = median_time(lambda: lodestone.reversal_test(t["dec"], t["inc"], resamples=10000), args.repeats)
     with tempfile.TemporaryDirectory() as tmp:
         path = pathlib.Path(tmp) / "d.csv"

@@ -85,7 +85,7 @@ def fisher_mean(dec: ArrayLike, inc: ArrayLike, confidence: float = 0.95) -> Fis
     Butler, R. F. (1992), Paleomagnetism, §6.2.
     """
     d = _native.fisher_mean(_array(dec, "dec"), _array(inc, "inc"), float(confidence))
-    return FisherMean(**d)
+    return FisherMean._from(d)
 
 
 def group_means(table: TableLike, by: Optional[str] = "site", frame: str = "geo") -> pd.DataFrame:
@@ -123,15 +123,15 @@ def vgp(lat: ArrayLike, lon: ArrayLike, dec: ArrayLike, inc: ArrayLike, a95: Opt
     args = [np.asarray(x, dtype=np.float64) for x in (lat, lon, dec, inc)]
     if a95 is not None:
         args.append(np.asarray(a95, dtype=np.float64))
+    shapes = {a.shape for a in args}
     try:
-        shaped = np.broadcast_arrays(*args)
+        shape = shapes.pop() if len(shapes) == 1 else np.broadcast_shapes(*shapes)
     except ValueError as e:
         raise LodestoneError(f"the arrays do not broadcast together: {e}") from None
-    shape = shaped[0].shape
-    flat = [np.ascontiguousarray(a.reshape(-1)) for a in shaped]
+    flat = [np.ascontiguousarray(a if a.shape == shape else np.broadcast_to(a, shape)).reshape(-1) for a in args]
     d = _native.vgp(*flat[:4], flat[4] if a95 is not None else None)
     out = {k: (v.reshape(shape) if shape else float(v[0])) for k, v in d.items()}
-    return VGP(**out)
+    return VGP._from(out)
 
 
 def fit_components(steps: TableLike, picks: Optional[TableLike] = None, auto: bool = True) -> pd.DataFrame:
@@ -176,7 +176,7 @@ def reversal_test(
     Tauxe, L., Kylstra, N. & Constable, C. (1991), J. Geophys. Res. 96, 11723–11740.
     """
     d = _native.reversal_test(_array(dec, "dec"), _array(inc, "inc"), int(seed), int(resamples), threads)
-    return ReversalTest(**d)
+    return ReversalTest._from(d)
 
 
 def fold_test(table: TableLike, seed: int = 1, resamples: int = 1000, threads: Optional[int] = None) -> FoldTest:
@@ -193,7 +193,7 @@ def fold_test(table: TableLike, seed: int = 1, resamples: int = 1000, threads: O
     References: Tauxe, L. & Watson, G. S. (1994), Earth Planet. Sci. Lett. 122, 331–341;
     McElhinny, M. W. (1964), Geophys. J. R. astr. Soc. 8, 338–340.
     """
-    return FoldTest(**_native.fold_test(_source(table), int(seed), int(resamples), threads))
+    return FoldTest._from(_native.fold_test(_source(table), int(seed), int(resamples), threads))
 
 
 def _model_rows(models: Sequence[dict], keys: Sequence[str]) -> pd.DataFrame:

@@ -27,6 +27,14 @@ def _plain(value: Any) -> Any:
 class _Result:
     """Common behaviour: ``to_dict()`` and a short ``repr``."""
 
+    @classmethod
+    def _from(cls, values: Dict[str, Any]):
+        """An instance from the extension's dict, without the frozen dataclass's slow ``__init__``
+        (fields with defaults fall back to the class attribute)."""
+        obj = object.__new__(cls)
+        obj.__dict__.update(values)
+        return obj
+
     def to_dict(self) -> Dict[str, Any]:
         """Every attribute as plain Python values (lists for arrays, None for undefined values)."""
         return {f.name: _plain(getattr(self, f.name)) for f in dataclasses.fields(self)}  # type: ignore[arg-type]
