@@ -29,6 +29,9 @@ from . import _native
 from ._native import LodestoneError
 from ._results import FisherMean, FoldTest, ReversalTest, VGP
 
+# Errors that do not come from a table have no file, line or column.
+LodestoneError.file = LodestoneError.line = LodestoneError.column = None
+
 __all__ = [
     "LodestoneError",
     "FisherMean",

@@ -73,8 +73,9 @@ def test_reversal_test_is_seeded_and_independent_of_threads():
 def test_reversal_test_bad_input_raises():
     with pytest.raises(lodestone.LodestoneError, match="at least 100"):
         lodestone.reversal_test([1.0, 2.0], [3.0, 4.0], resamples=10)
-    with pytest.raises(lodestone.LodestoneError, match="values"):
+    with pytest.raises(lodestone.LodestoneError, match="values") as e:
         lodestone.reversal_test([1.0, 2.0, 3.0], [3.0, 4.0])
+    assert (e.value.file, e.value.line, e.value.column) == (None, None, None)
     with pytest.raises(lodestone.LodestoneError, match="inclination"):
         lodestone.reversal_test([1.0, 2.0], [3.0, -91.0])
     with pytest.raises(lodestone.LodestoneError, match="threads"):
