@@ -12,6 +12,8 @@ use thiserror::Error;
 #[derive(Debug, Clone, PartialEq, Error)]
 #[error("{file}:{line}: {}{message}", column.as_ref().map(|c| format!("column '{c}': ")).unwrap_or_default())]
 pub struct TableError {
+    /// What kind of fault it is; decisions go by this, never by the message's wording.
+    pub kind: TableFault,
     /// File name as the user gave it.
     pub file: String,
     /// 1-based line number in the file (the header is line 1 unless comment lines precede it).
@@ -20,6 +22,54 @@ pub struct TableError {
     pub column: Option<String>,
     /// What was found and what was expected.
     pub message: String,
+}
+
+impl TableError {
+    /// A fault of `kind` in `file` at `line`, optionally naming a column.
+    pub fn new(
+        kind: TableFault,
+        file: impl Into<String>,
+        line: usize,
+        column: Option<&str>,
+        message: impl Into<String>,
+    ) -> Self {
+        TableError { kind, file: file.into(), line, column: column.map(str::to_string), message: message.into() }
+    }
+
+    /// A fault of a value (a cell, or the content of a row) in `file` at `line`.
+    pub fn value(file: impl Into<String>, line: usize, column: Option<&str>, message: impl Into<String>) -> Self {
+        Self::new(TableFault::Value, file, line, column, message)
+    }
+}
+
+/// The kinds of [`TableError`]. A reader reports the faults of a file's text and layout before the faults of
+/// its values, whichever comes first in the file ([`TableFault::is_layout`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum TableFault {
+    /// The file could not be read (an I/O error).
+    Read,
+    /// The bytes are not UTF-8 text.
+    Encoding,
+    /// The CSV layer cannot parse the text.
+    Syntax,
+    /// The header row is malformed: an empty or repeated column name.
+    Header,
+    /// A data row has another number of cells than the header.
+    CellCount,
+    /// The table has no header row, or no data rows.
+    Empty,
+    /// A required column is absent.
+    MissingColumn,
+    /// A cell's value, or the content of a row or setting, is invalid.
+    Value,
+}
+
+impl TableFault {
+    /// True for a fault of the file's text or layout (reading, UTF-8, CSV, header, cell count), which the
+    /// whole-table reader finds before any fault of a value.
+    pub fn is_layout(self) -> bool {
+        matches!(self, Self::Read | Self::Encoding | Self::Syntax | Self::Header | Self::CellCount)
+    }
 }
 
 /// Everything that can go wrong in a lodestone computation.
@@ -53,9 +103,27 @@ pub enum Error {
     /// The data do not define the requested quantity (e.g. the mean of an antipodal pair).
     #[error("{0}")]
     Undefined(String),
+    /// A computation on one specimen failed: names the specimen and keeps the cause's kind.
+    #[error("specimen {specimen}: {cause}")]
+    Specimen {
+        /// The specimen's name.
+        specimen: String,
+        /// What went wrong.
+        cause: Box<Error>,
+    },
     /// Any other invalid input, described in words.
     #[error("{0}")]
     Invalid(String),
+}
+
+impl Error {
+    /// The error itself, or for an error about one specimen its cause (the specimen being known).
+    pub fn detail(&self) -> &Error {
+        match self {
+            Error::Specimen { cause, .. } => cause,
+            e => e,
+        }
+    }
 }
 
 /// Result alias used throughout the library.

@@ -99,4 +99,4 @@ pub mod strat;
 pub mod table;
 pub mod tolerance;
 
-pub use error::{Error, Result, TableError};
+pub use error::{Error, Result, TableError, TableFault};

@@ -9,7 +9,7 @@ use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
 use lodestone::stats::{
-    group_means, stream_group_sums, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums,
+    group_means, stream_group_sums, CircleSense, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums,
 };
 use lodestone::table::{read_directions, GroupBy, Table, TableStream};
 use serde::ser::{Error as _, SerializeSeq, Serializer};
@@ -173,6 +173,7 @@ struct GroupView<'a> {
     stats: FisherStats,
     planes: usize,
     undefined: Option<&'a str>,
+    sense: Option<lodestone::stats::CircleSense>,
     lines: Lines<'a>,
     /// Position among the groups.
     index: usize,
@@ -208,6 +209,7 @@ impl MeanOutput {
                     stats: g.stats(A95)?,
                     planes: 0,
                     undefined: None,
+                    sense: None,
                     lines: Lines::Runs(g),
                 })
             })),
@@ -218,6 +220,7 @@ impl MeanOutput {
                     stats: g.stats.clone(),
                     planes: g.planes,
                     undefined: g.undefined.as_deref(),
+                    sense: g.sense,
                     lines: Lines::Listed(&g.lines),
                 })
             })),
@@ -250,12 +253,21 @@ fn group_notes(g: &GroupView, f: &mut dyn FnMut(&str) -> std::io::Result<()>) ->
             "{name}: {} line(s) and {} great circle(s) combined (McFadden & McElhinny 1988); n counts both, k and a95 use N' = M + N/2.",
             s.n - g.planes, g.planes))?;
     }
+    match g.sense {
+        Some(CircleSense::FromPaths { toward, away }) => f(&format!(
+            "{name}: great circles only; the sense of the mean follows the demagnetization paths ({toward} move toward it, {away} away)."))?,
+        Some(CircleSense::Undetermined) => f(&format!(
+            "{name}: great circles only fix an axis, not its sense; nothing in the data decides it, so the lower-hemisphere end is given and the opposite sense is equally possible."))?,
+        None => {}
+    }
     if g.undefined.is_some() {
         // Already explained by the note above.
     } else if s.n == 1 {
         f(&format!("{name}: one direction only; k, a95 and theta63 need at least two directions."))?;
     } else if s.mean.is_none() {
         f(&format!("{name}: the resultant vanishes (R ≈ 0): the directions cancel out and have no mean."))?;
+    } else if s.k.is_none() && g.planes > 0 {
+        f(&format!("{name}: two great circles and no line always meet, so their scatter is undefined; k, a95 and theta63 are empty."))?;
     } else if s.k.is_some_and(|k| k.is_infinite()) {
         f(&format!("{name}: all directions are identical; k is infinite and the cone has zero width."))?;
     } else if s.alpha.is_none() {

@@ -6,7 +6,7 @@ use clap::Args;
 use lodestone::dirstats::{fit_latitude_model, group_paleolatitude, latitude_model_bootstrap, LatitudeGroup};
 use lodestone::figures::{LatitudeFigure, LatitudePoint};
 use lodestone::poles::{
-    northern, precision_from_a95, vgp, vgp_scatter, within_site_sw, Cutoff, ScatterSite, WithinSite,
+    align_polarity, precision_from_a95, vgp, vgp_scatter, within_site_sw, Cutoff, ScatterSite, WithinSite,
 };
 use lodestone::sphere::GeoPoint;
 use lodestone::table::{read_sites, SiteRecord, Table};
@@ -31,8 +31,8 @@ pub struct PsvArgs {
     pub plot: Option<PathBuf>,
 }
 
-/// A site's polarity-aligned VGP and its within-site dispersion (when n and k, or n and a95, are given).
-fn scatter_site(r: &SiteRecord) -> Result<(ScatterSite, bool)> {
+/// A site's VGP (as computed; polarity is aligned per group in `gather`) and its within-site dispersion (when n and k, or n and a95, are given).
+fn scatter_site(r: &SiteRecord) -> Result<ScatterSite> {
     let v = vgp(r.location, r.direction);
     let k = match (r.k, r.n, r.a95) {
         (Some(k), _, _) => Some(k),
@@ -43,8 +43,7 @@ fn scatter_site(r: &SiteRecord) -> Result<(ScatterSite, bool)> {
         (Some(n), Some(k)) => Some(WithinSite { n, sw: within_site_sw(k, v.paleolat) }),
         _ => None,
     };
-    let (pole, flipped) = northern(v.pole);
-    Ok((ScatterSite { pole, within }, flipped))
+    Ok(ScatterSite { pole: v.pole, within })
 }
 
 /// One group before the fit: its name, sites and locations in file order.
@@ -65,8 +64,7 @@ fn gather(file: &std::path::Path, by: &str) -> Result<(Vec<Gathered>, usize)> {
         if name.is_empty() {
             bail!("{}:{}: column '{by}': is empty; expected a group name", file.display(), r.line);
         }
-        let (site, f) = scatter_site(r)?;
-        flipped += usize::from(f);
+        let site = scatter_site(r)?;
         let at = match groups.iter().position(|g| g.name == name) {
             Some(i) => i,
             None => {
@@ -76,6 +74,16 @@ fn gather(file: &std::path::Path, by: &str) -> Result<(Vec<Gathered>, usize)> {
         };
         groups[at].sites.push(site);
         groups[at].locations.push(r.location);
+    }
+    // Polarity aligned per group by the principal axis of its VGPs (not by hemisphere, which splits a
+    // group whose mean pole lies at low latitude).
+    for g in &mut groups {
+        let poles: Vec<GeoPoint> = g.sites.iter().map(|s| s.pole).collect();
+        let a = align_polarity(&poles)?;
+        for (s, (p, f)) in g.sites.iter_mut().zip(a.poles.into_iter().zip(a.flipped)) {
+            s.pole = p;
+            flipped += usize::from(f);
+        }
     }
     Ok((groups, flipped))
 }
@@ -155,7 +163,7 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
     ]);
     if flipped > 0 {
         notes.push(format!(
-            "{flipped} VGP(s) in the southern hemisphere were mapped to their antipodes (scatter of one polarity)."
+            "{flipped} VGP(s) more than 90° from the principal axis of their group's VGPs were mapped to their antipodes (scatter of one polarity)."
         ));
     }
     if groups.len() < 4 {

@@ -49,13 +49,13 @@ pub struct SpecimenFit {
 pub fn fit_range(sp: &SpecimenSteps, from: f64, to: f64, kind: FitKind, anchor: Anchor) -> Result<SpecimenFit> {
     let idx = steps_in_range(sp, from, to);
     if idx.len() < kind.min_steps() {
-        return Err(Error::Invalid(format!(
-            "specimen {}: the range {from} to {to} holds {} step(s); a {} needs at least {}",
-            sp.specimen,
+        let cause = Error::Invalid(format!(
+            "the range {from} to {to} holds {} step(s); a {} needs at least {}",
             idx.len(),
             kind.as_str(),
             kind.min_steps()
-        )));
+        ));
+        return Err(Error::Specimen { specimen: sp.specimen.clone(), cause: Box::new(cause) });
     }
     let (first, last) = (idx[0], idx[idx.len() - 1]);
     fit_indices(sp, first, last, kind, anchor)
@@ -70,7 +70,7 @@ pub(crate) fn fit_indices(
     anchor: Anchor,
 ) -> Result<SpecimenFit> {
     let pts: Vec<_> = sp.steps[first..=last].iter().map(|s| s.vector()).collect();
-    let wrap = |e: Error| Error::Invalid(format!("specimen {}: {e}", sp.specimen));
+    let wrap = |e: Error| Error::Specimen { specimen: sp.specimen.clone(), cause: Box::new(e) };
     let (direction, mad, dang) = match kind {
         FitKind::Line => {
             let f = fit_line(&pts, anchor).map_err(wrap)?;

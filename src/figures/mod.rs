@@ -2,6 +2,7 @@
 //! embedded font, so figures come out the same on a machine with no fonts installed.
 
 mod column;
+mod decay;
 mod ellipse_net;
 mod equal_area;
 mod fold;
@@ -16,6 +17,7 @@ mod unflatten;
 mod vector_endpoint;
 
 pub use column::{ColumnFigure, ScalePanel};
+pub use decay::{draw_decay, label_order, place_labels};
 pub use ellipse_net::EllipseNet;
 pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, NetGroup};
 pub use fold::FoldPlot;

@@ -11,12 +11,14 @@
 //! Each stage cites its method in the module that implements it ([`crate::demag`],
 //! [`crate::stats`], [`crate::fieldtests`], [`crate::poles`], [`crate::strat`]).
 
+mod auto;
 mod pipeline;
 mod report_html;
 mod reversal_stats;
 mod settings;
 mod tables;
 
+pub use auto::{automatic_fit, last_rule, rule_text};
 pub use pipeline::{run, Stage, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
 pub use report_html::report_html;
 pub use reversal_stats::HAZARD_HORIZON;

@@ -75,12 +75,7 @@ impl Settings {
         let mut values = BTreeMap::new();
         for (i, raw) in text.lines().enumerate() {
             let line = i + 1;
-            let err = |col: Option<&str>, m: String| TableError {
-                file: name.into(),
-                line,
-                column: col.map(String::from),
-                message: m,
-            };
+            let err = |col: Option<&str>, m: String| TableError::value(name, line, col, m);
             let body = strip_comment(raw).trim();
             if body.is_empty() {
                 continue;
@@ -119,7 +114,7 @@ impl Settings {
     }
 
     fn err(&self, key: &str, s: &Setting, m: String) -> TableError {
-        TableError { file: self.source.clone(), line: s.line, column: Some(key.into()), message: m }
+        TableError::value(self.source.as_str(), s.line, Some(key), m)
     }
 
     /// A number in `[lo, hi]`, if set.

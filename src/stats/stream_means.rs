@@ -185,12 +185,12 @@ pub fn stream_group_sums<R: BufRead>(
     }
     // As the whole-table path: the first group (in order of appearance) with a row lacking bedding.
     if let Some((_, line)) = missing_bedding {
-        return Err(Error::Table(TableError {
-            file: stream.file_name().to_string(),
+        return Err(Error::Table(TableError::value(
+            stream.file_name(),
             line,
-            column: Some("bed_dip".into()),
-            message: "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip".into(),
-        }));
+            Some("bed_dip"),
+            "no bedding on this row; the tilt frame needs bed_dip_dir (or bed_strike) and bed_dip",
+        )));
     }
     Ok(StreamedSums::Sums { group_column: cols.group_column, rows: stream.rows_read(), groups: sums })
 }
@@ -198,7 +198,7 @@ pub fn stream_group_sums<R: BufRead>(
 impl From<StreamedGroup> for GroupMean {
     fn from(g: StreamedGroup) -> GroupMean {
         let lines = g.lines().collect();
-        GroupMean { group: g.group, lines, stats: g.stats, planes: 0, undefined: None }
+        GroupMean { group: g.group, lines, stats: g.stats, planes: 0, undefined: None, sense: None }
     }
 }
 

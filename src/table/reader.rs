@@ -4,7 +4,7 @@
 //! comments, header names matched case-insensitively with surrounding blanks trimmed, CRLF accepted,
 //! extra columns ignored. Every error names `FILE:LINE` and, where it concerns a cell, the column.
 
-use crate::error::TableError;
+use crate::error::{TableError, TableFault};
 use std::path::Path;
 
 /// One data row with the line it came from.
@@ -33,22 +33,18 @@ impl Table {
     /// Read and parse a file. The file name in messages is the path as given.
     pub fn read(path: &Path) -> Result<Table, TableError> {
         let name = path.display().to_string();
-        let bytes = std::fs::read(path).map_err(|e| TableError {
-            file: name.clone(),
-            line: 0,
-            column: None,
-            message: format!("cannot read: {e}"),
-        })?;
+        let bytes = std::fs::read(path)
+            .map_err(|e| TableError::new(TableFault::Read, name.clone(), 0, None, format!("cannot read: {e}")))?;
         Table::parse(&name, &bytes)
     }
 
     /// Parse table text.
     pub fn parse(name: &str, bytes: &[u8]) -> Result<Table, TableError> {
-        let err = |line: usize, msg: String| TableError { file: name.to_string(), line, column: None, message: msg };
+        let err = |kind: TableFault, line: usize, msg: String| TableError::new(kind, name, line, None, msg);
         let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
         let text = std::str::from_utf8(bytes).map_err(|e| {
             let line = bytes[..e.valid_up_to()].iter().filter(|&&b| b == b'\n').count() + 1;
-            err(line, "the file is not valid UTF-8 text".into())
+            err(TableFault::Encoding, line, "the file is not valid UTF-8 text".into())
         })?;
         // Comment lines are blanked (keeping their line breaks) so that line numbers stay true, and the
         // csv crate's own comment handling (which loses count of lines) is not used.
@@ -85,7 +81,7 @@ impl Table {
         loop {
             let more = rdr.read_record(&mut rec).map_err(|e| {
                 let line = e.position().map(|p| line_of(p.byte())).unwrap_or(0);
-                err(line, format!("unreadable CSV: {e}"))
+                err(TableFault::Syntax, line, format!("unreadable CSV: {e}"))
             })?;
             if !more {
                 break;
@@ -110,7 +106,11 @@ impl Table {
             }
         }
         let Some((header_line, headers)) = headers else {
-            return Err(err(1, "the file is empty: expected a header row naming the columns".into()));
+            return Err(err(
+                TableFault::Empty,
+                1,
+                "the file is empty: expected a header row naming the columns".into(),
+            ));
         };
         Ok(Table { name: name.to_string(), header_line, headers, rows })
     }
@@ -133,7 +133,13 @@ impl Table {
     /// Error unless the table has at least one data row.
     pub fn require_rows(&self) -> Result<(), TableError> {
         if self.rows.is_empty() {
-            Err(self.error(self.header_line, None, "the table has a header but no data rows"))
+            Err(Columns::fault(
+                self,
+                TableFault::Empty,
+                self.header_line,
+                None,
+                "the table has a header but no data rows",
+            ))
         } else {
             Ok(())
         }
@@ -184,20 +190,22 @@ pub(crate) fn check_header<'a>(
     let h: Vec<String> = cells.map(|c| c.trim().to_lowercase()).collect();
     for (i, a) in h.iter().enumerate() {
         if a.is_empty() {
-            return Err(TableError {
-                file: file.to_string(),
+            return Err(TableError::new(
+                TableFault::Header,
+                file,
                 line,
-                column: None,
-                message: format!("header cell {} is empty", i + 1),
-            });
+                None,
+                format!("header cell {} is empty", i + 1),
+            ));
         }
         if h[..i].contains(a) {
-            return Err(TableError {
-                file: file.to_string(),
+            return Err(TableError::new(
+                TableFault::Header,
+                file,
                 line,
-                column: Some(a.clone()),
-                message: "the column appears twice in the header".into(),
-            });
+                Some(a),
+                "the column appears twice in the header",
+            ));
         }
     }
     Ok(h)
@@ -219,12 +227,13 @@ pub(crate) fn check_cell_count<'a>(
         }
     }
     if found < expected || extra {
-        return Err(TableError {
-            file: file.to_string(),
+        return Err(TableError::new(
+            TableFault::CellCount,
+            file,
             line,
-            column: None,
-            message: format!("expected {expected} cells as in the header, found {found}"),
-        });
+            None,
+            format!("expected {expected} cells as in the header, found {found}"),
+        ));
     }
     Ok(())
 }
@@ -264,22 +273,24 @@ pub trait Columns {
 
     /// Index of a required column, or an error naming the header line and the column.
     fn require(&self, name: &str) -> Result<usize, TableError> {
-        self.col(name).ok_or_else(|| TableError {
-            file: self.file_name().to_string(),
-            line: self.header_line(),
-            column: Some(name.to_string()),
-            message: format!("required column is missing (header has: {})", self.header_names().join(", ")),
+        self.col(name).ok_or_else(|| {
+            self.fault(
+                TableFault::MissingColumn,
+                self.header_line(),
+                Some(name),
+                format!("required column is missing (header has: {})", self.header_names().join(", ")),
+            )
         })
     }
 
     /// An error at `line`, optionally naming a column.
     fn error(&self, line: usize, column: Option<&str>, message: impl Into<String>) -> TableError {
-        TableError {
-            file: self.file_name().to_string(),
-            line,
-            column: column.map(str::to_string),
-            message: message.into(),
-        }
+        self.fault(TableFault::Value, line, column, message)
+    }
+
+    /// A fault of `kind` at `line`, optionally naming a column.
+    fn fault(&self, kind: TableFault, line: usize, column: Option<&str>, message: impl Into<String>) -> TableError {
+        TableError::new(kind, self.file_name(), line, column, message)
     }
 
     /// An optional text cell: `None` when the column is absent or the cell empty.

@@ -12,7 +12,7 @@
 //! rest of the file for faults of higher rank.
 
 use super::reader::{check_cell_count, check_header, Cells, Columns};
-use crate::error::TableError;
+use crate::error::{TableError, TableFault};
 use std::collections::VecDeque;
 use std::io::{BufRead, Read};
 
@@ -189,12 +189,8 @@ impl TableStream<std::io::BufReader<std::fs::File>> {
     /// Open a file; the file name in messages is the path as given. The header is read at once.
     pub fn open(path: &std::path::Path) -> Result<Self, TableError> {
         let name = path.display().to_string();
-        let f = std::fs::File::open(path).map_err(|e| TableError {
-            file: name.clone(),
-            line: 0,
-            column: None,
-            message: format!("cannot read: {e}"),
-        })?;
+        let f = std::fs::File::open(path)
+            .map_err(|e| TableError::new(TableFault::Read, name.clone(), 0, None, format!("cannot read: {e}")))?;
         TableStream::new(&name, std::io::BufReader::with_capacity(1 << 16, f))
     }
 }
@@ -241,17 +237,17 @@ impl<R: BufRead> TableStream<R> {
         loop {
             let more = self.reader.read_byte_record(&mut self.row.record);
             if let Some(line) = self.reader.get_ref().bad_utf8 {
-                return Err(self.error(line, None, "the file is not valid UTF-8 text"));
+                return Err(self.fault(TableFault::Encoding, line, None, "the file is not valid UTF-8 text"));
             }
             if let Some(e) = &self.reader.get_ref().io_error {
-                return Err(self.error(0, None, format!("cannot read: {e}")));
+                return Err(self.fault(TableFault::Read, 0, None, format!("cannot read: {e}")));
             }
             let more = match more {
                 Ok(m) => m,
                 Err(e) => {
                     let pos = e.position().map(|p| p.byte()).unwrap_or(0);
                     let line = self.reader.get_mut().line_of(pos);
-                    return Err(self.error(line, None, format!("unreadable CSV: {e}")));
+                    return Err(self.fault(TableFault::Syntax, line, None, format!("unreadable CSV: {e}")));
                 }
             };
             if !more {
@@ -261,7 +257,7 @@ impl<R: BufRead> TableStream<R> {
             let end = self.reader.position().byte().saturating_sub(1);
             self.row.line = self.reader.get_mut().line_of(end);
             if !self.row.index() {
-                return Err(self.error(self.row.line, None, "the file is not valid UTF-8 text"));
+                return Err(self.fault(TableFault::Encoding, self.row.line, None, "the file is not valid UTF-8 text"));
             }
             if self.row.cells.iter().all(|&(a, b)| a == b) {
                 continue;
@@ -294,7 +290,7 @@ impl<R: BufRead> TableStream<R> {
     /// Error unless at least one data row has been read (call at the end).
     pub fn require_rows(&self) -> Result<(), TableError> {
         if self.rows == 0 {
-            Err(self.error(self.header_line, None, "the table has a header but no data rows"))
+            Err(self.fault(TableFault::Empty, self.header_line, None, "the table has a header but no data rows"))
         } else {
             Ok(())
         }
@@ -310,10 +306,8 @@ impl<R: BufRead> TableStream<R> {
             match self.next_row() {
                 Ok(true) => {}
                 Ok(false) => break,
-                Err(e) if e.message == "the file is not valid UTF-8 text" || e.message.starts_with("cannot read") => {
-                    return e
-                }
-                Err(e) if e.message.starts_with("unreadable CSV") => {
+                Err(e) if matches!(e.kind, TableFault::Encoding | TableFault::Read) => return e,
+                Err(e) if e.kind == TableFault::Syntax => {
                     // The parser cannot go on; only a UTF-8 fault further on could still outrank it.
                     first_layout.get_or_insert(e);
                     return self.utf8_in_rest().unwrap_or_else(|| first_layout.expect("set"));
@@ -330,19 +324,14 @@ impl<R: BufRead> TableStream<R> {
         let mut sink = [0u8; 4096];
         let f = self.reader.get_mut();
         while f.bad_utf8.is_none() && f.read(&mut sink).map(|n| n > 0).unwrap_or(false) {}
-        f.bad_utf8.map(|l| self.error(l, None, "the file is not valid UTF-8 text"))
+        f.bad_utf8.map(|l| self.fault(TableFault::Encoding, l, None, "the file is not valid UTF-8 text"))
     }
 }
 
 /// True for a fault of the file's text or layout (UTF-8, CSV, header, cell count), which the
 /// whole-table reader finds before any fault of a value.
 pub fn is_layout_fault(e: &TableError) -> bool {
-    e.message.contains(" cells as in the header, found ")
-        || e.message.starts_with("header cell")
-        || e.message.starts_with("unreadable CSV")
-        || e.message.starts_with("cannot read")
-        || e.message == "the column appears twice in the header"
-        || e.message == "the file is not valid UTF-8 text"
+    e.kind.is_layout()
 }
 
 impl<R: BufRead> Columns for TableStream<R> {
