@@ -1,6 +1,6 @@
 //! Settings of a `section` run, read from the project's `settings.toml` with defaults.
 
-use crate::error::TableError;
+use crate::error::{TableError, TableFault};
 use crate::poles::Cutoff;
 use crate::simulate::Settings;
 
@@ -107,6 +107,7 @@ impl SectionSettings {
         if !matches!(out.auto_rule.as_str(), "last" | "longest") {
             let line = s.values.get("auto_rule").map_or(0, |v| v.line);
             return Err(TableError {
+                kind: TableFault::Value,
                 file: s.source.clone(),
                 line,
                 column: Some("auto_rule".into()),
