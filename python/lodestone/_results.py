@@ -84,7 +84,9 @@ class VGP(_Result):
 class ReversalTest(_Result):
     """Reversal test: the two polarity modes compared after flipping the second.
 
-    ``gamma``/``gamma_c`` in degrees (McFadden & McElhinny 1990); ``classification`` one of
+    ``gamma``/``gamma_c`` in degrees (McFadden & McElhinny 1990; γc is the angle at which V_w reaches
+    its simulated critical value, valid for unequal precisions; ``gamma_c_common_k`` is the analytic
+    angle that assumes one precision, for comparison); ``classification`` one of
     ``A``, ``B``, ``C``, ``indeterminate`` or ``negative`` (γ > γc); ``v_w``/``v_crit`` Watson's
     V_w and its simulated critical value; ``passed`` follows the angle test. ``caution`` says what
     the result is and is not.
@@ -96,6 +98,7 @@ class ReversalTest(_Result):
     v_w: float
     v_crit: float
     passed: bool
+    gamma_c_common_k: float
     n1: int
     n2: int
     v_w_passed: bool
