@@ -12,6 +12,7 @@ Each figure is the median of several repeats (best-of inside timeit for the shor
 
 import argparse
 import json
+import os
 import pathlib
 import statistics
 import subprocess
@@ -20,6 +21,7 @@ import time
 import timeit
 
 import numpy as np
+import pandas as pd
 
 import lodestone
 
@@ -43,6 +45,27 @@ def median_time(f, repeats):
         t0 = time.perf_counter()
         f()
         times.append(time.perf_counter() - t0)
+    return statistics.median(times)
+
+
+def cpu_time(f, repeats):
+    """Median CPU time (user + system, every thread of this process) of f()."""
+    times = []
+    for _ in range(repeats):
+        t0 = time.process_time()
+        f()
+        times.append(time.process_time() - t0)
+    return statistics.median(times)
+
+
+def child_cpu_time(cmd, repeats):
+    """Median CPU time (user + system) of a child process running cmd."""
+    times = []
+    for _ in range(repeats):
+        p = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+        _, status, usage = os.wait4(p.pid, 0)
+        assert status == 0
+        times.append(usage.ru_utime + usage.ru_stime)
     return statistics.median(times)
 
 
@@ -71,9 +94,11 @@ def main():
     t_ours = median_time(lambda: lodestone.fisher_mean(big_dec, big_inc), args.repeats)
     t_np = median_time(lambda: numpy_fisher(big_dec, big_inc), args.repeats)
     print(f"fisher_mean 1e6: lodestone {t_ours * 1e3:.1f} ms, NumPy {t_np * 1e3:.1f} ms, ratio {t_np / t_ours:.2f}x")
+    c_ours = cpu_time(lambda: lodestone.fisher_mean(big_dec, big_inc), args.repeats)
+    c_np = cpu_time(lambda: numpy_fisher(big_dec, big_inc), args.repeats)
+    print(f"  CPU time: lodestone {c_ours * 1e3:.1f} ms, NumPy {c_np * 1e3:.1f} ms, ratio {c_np / c_ours:.2f}x")
 
-    t = np.genfromtxt(ROOT / "records" / "velmora-directions.csv", delimiter=",", names=True, comments="#",
-                      dtype=None, encoding="utf-8")
+    t = pd.read_csv(ROOT / "records" / "velmora-directions.csv", comment="#")
     t_py = median_time(lambda: lodestone.reversal_test(t["dec"], t["inc"], resamples=10000), args.repeats)
     with tempfile.TemporaryDirectory() as tmp:
         path = pathlib.Path(tmp) / "d.csv"
@@ -85,8 +110,12 @@ def main():
         t_cli = median_time(lambda: subprocess.run(cmd, capture_output=True, check=True), args.repeats)
         t_start = median_time(lambda: subprocess.run([args.bin, "--version"], capture_output=True, check=True),
                               args.repeats)
+        c_py = cpu_time(lambda: lodestone.reversal_test(t["dec"], t["inc"], resamples=10000), args.repeats)
+        c_cli = child_cpu_time(cmd, args.repeats)
+        c_start = child_cpu_time([args.bin, "--version"], args.repeats)
     print(f"reversal test, 10 000 resamples: Python {t_py * 1e3:.1f} ms, binary {t_cli * 1e3:.1f} ms "
           f"(process start {t_start * 1e3:.1f} ms), Python/binary {t_py / t_cli:.3f}")
+    print(f"  CPU time: Python {c_py * 1e3:.1f} ms, binary {c_cli * 1e3:.1f} ms (process start {c_start * 1e3:.1f} ms)")
 
 
 if __name__ == "__main__":

@@ -18,9 +18,10 @@ out = pathlib.Path(sys.argv[1] if len(sys.argv) > 1 else "lodestone-demo-python"
 fits = lodestone.fit_components(DEMO / "steps.csv")
 print(f"{len(fits)} specimens fitted, {len(fits.attrs['unfitted'])} left unfitted")
 
-# 2. Site means of the fitted directions, with each site's bedding from the sampling table.
+# 2. Site means of the fitted directions (great circles, kind = plane, combined with the lines), with
+#    each site's bedding from the sampling table.
 sampling = pd.read_csv(DEMO / "sampling.csv", comment="#")
-dirs = fits[["specimen", "site", "dec", "inc"]].merge(sampling[["site", "bed_dip_dir", "bed_dip"]], on="site")
+dirs = fits[["specimen", "site", "dec", "inc", "kind"]].merge(sampling[["site", "bed_dip_dir", "bed_dip"]], on="site")
 means = lodestone.group_means(dirs, by="site", frame="tilt")
 print(means.head())
 

@@ -29,6 +29,9 @@ from . import _native
 from ._native import LodestoneError
 from ._results import FisherMean, FoldTest, ReversalTest, VGP
 
+# Errors that do not come from a table have no file, line or column.
+LodestoneError.file = LodestoneError.line = LodestoneError.column = None
+
 __all__ = [
     "LodestoneError",
     "FisherMean",
@@ -85,7 +88,7 @@ def fisher_mean(dec: ArrayLike, inc: ArrayLike, confidence: float = 0.95) -> Fis
     Butler, R. F. (1992), Paleomagnetism, §6.2.
     """
     d = _native.fisher_mean(_array(dec, "dec"), _array(inc, "inc"), float(confidence))
-    return FisherMean(**d)
+    return FisherMean._from(d)
 
 
 def group_means(table: TableLike, by: Optional[str] = "site", frame: str = "geo") -> pd.DataFrame:
@@ -123,38 +126,46 @@ def vgp(lat: ArrayLike, lon: ArrayLike, dec: ArrayLike, inc: ArrayLike, a95: Opt
     args = [np.asarray(x, dtype=np.float64) for x in (lat, lon, dec, inc)]
     if a95 is not None:
         args.append(np.asarray(a95, dtype=np.float64))
+    shapes = {a.shape for a in args}
     try:
-        shaped = np.broadcast_arrays(*args)
+        shape = shapes.pop() if len(shapes) == 1 else np.broadcast_shapes(*shapes)
     except ValueError as e:
         raise LodestoneError(f"the arrays do not broadcast together: {e}") from None
-    shape = shaped[0].shape
-    flat = [np.ascontiguousarray(a.reshape(-1)) for a in shaped]
+    flat = [np.ascontiguousarray(a if a.shape == shape else np.broadcast_to(a, shape)).reshape(-1) for a in args]
     d = _native.vgp(*flat[:4], flat[4] if a95 is not None else None)
     out = {k: (v.reshape(shape) if shape else float(v[0])) for k, v in d.items()}
-    return VGP(**out)
+    return VGP._from(out)
 
 
-def fit_components(steps: TableLike, picks: Optional[TableLike] = None, auto: bool = True) -> pd.DataFrame:
+def fit_components(
+    steps: TableLike, picks: Optional[TableLike] = None, auto: bool = True, rule: str = "last"
+) -> pd.DataFrame:
     """Principal-component fits per specimen: the columns of ``components --format csv``.
 
     ``steps`` is a stepwise-demagnetization table (``specimen, step, dec, inc, moment``, optional
     ``treatment``, ``site``, ``height``/``depth``, bedding). With ``picks`` (``specimen, from, to``,
-    optional ``kind``, ``anchor``) each specimen is fitted over its chosen range; otherwise, with
-    ``auto=True``, the automatic rule of the command line chooses each specimen's line segment
-    (longest run of at least 3 steps with MAD ≤ 5° and DANG ≤ 10°). A free line points from the
-    last step used toward the first (the component removed).
+    optional ``kind``, ``anchor``) each specimen is fitted over its chosen range. Otherwise, with
+    ``auto=True``, an automatic rule with the command line's defaults chooses each fit:
+    ``rule="last"`` (as ``components --auto``) grows a line down from the last steps while each
+    lower step lies on it within the noise (F-test at α = 0.05; MAD ≤ 5°, DANG ≤ 10°), else fits a
+    great circle, and grades each fit A, B or C (column ``grade``; the reasons in
+    ``df.attrs["reasons"]``); ``rule="longest"`` (as ``--rule longest``) takes the longest run of at
+    least 3 steps with MAD ≤ 5° and DANG ≤ 10°. A free line points from the last step used toward
+    the first (the component removed).
 
     Returns a DataFrame (degrees for dec, inc, mad, dang); specimens without a fit are listed in
-    ``df.attrs["unfitted"]`` with the reason.
+    ``df.attrs["unfitted"]`` with the reason. Check automatic choices on the specimens' figures.
 
     References: Kirschvink, J. L. (1980), The least-squares line and plane and the analysis of
     palaeomagnetic data, Geophys. J. R. astr. Soc. 62, 699–718.
     """
-    d = _native.fit_components(_source(steps), None if picks is None else _source(picks), bool(auto))
+    d = _native.fit_components(_source(steps), None if picks is None else _source(picks), bool(auto), rule)
     df = pd.DataFrame(d["fits"], columns=d["columns"])
     for c in ("dang",) + tuple(c for c in ("height", "depth", "bed_dip_dir", "bed_dip") if c in df.columns):
         df[c] = df[c].astype(float)
     df.attrs["unfitted"] = [{"specimen": s, "reason": r} for s, r in d["unfitted"]]
+    if "grade" in df.columns:
+        df.attrs["reasons"] = {f["specimen"]: f["reason"] for f in d["fits"]}
     return df
 
 
@@ -176,7 +187,7 @@ def reversal_test(
     Tauxe, L., Kylstra, N. & Constable, C. (1991), J. Geophys. Res. 96, 11723–11740.
     """
     d = _native.reversal_test(_array(dec, "dec"), _array(inc, "inc"), int(seed), int(resamples), threads)
-    return ReversalTest(**d)
+    return ReversalTest._from(d)
 
 
 def fold_test(table: TableLike, seed: int = 1, resamples: int = 1000, threads: Optional[int] = None) -> FoldTest:
@@ -193,7 +204,7 @@ def fold_test(table: TableLike, seed: int = 1, resamples: int = 1000, threads: O
     References: Tauxe, L. & Watson, G. S. (1994), Earth Planet. Sci. Lett. 122, 331–341;
     McElhinny, M. W. (1964), Geophys. J. R. astr. Soc. 8, 338–340.
     """
-    return FoldTest(**_native.fold_test(_source(table), int(seed), int(resamples), threads))
+    return FoldTest._from(_native.fold_test(_source(table), int(seed), int(resamples), threads))
 
 
 def _model_rows(models: Sequence[dict], keys: Sequence[str]) -> pd.DataFrame:
@@ -212,27 +223,31 @@ def fit_renewal(
     old: Optional[float] = None,
     min_length: float = 0.0,
     censor: bool = True,
+    old_edge: Optional[str] = None,
 ) -> pd.DataFrame:
     """Renewal-model fits to the polarity intervals of a time scale (maximum likelihood).
 
     ``timescale`` has ``young``, ``old`` (Ma) and ``polarity`` (``N``/``R``). The window
     [``young``, ``old``] Ma defaults to the whole scale; chrons shorter than ``min_length`` Myr are
     merged into their neighbours; the open chron at the present enters as a right-censored length
-    unless ``censor=False``.
+    unless ``censor=False``. ``old_edge`` says how to read the interval at the old end (``"complete"``,
+    ``"censored"`` or ``"left-out"``; default as on the command line: complete when the table's
+    ``old_edge`` column says the oldest row ends at a reversal, else censored).
 
     Returns a DataFrame, one row per model (``exponential``, ``gamma``, ``weibull``, ``lognormal``,
     ``inverse_gaussian``): the parameters (``rate`` per Myr; ``shape``, ``scale`` Myr; ``mu``,
     ``sigma`` of ln Myr; ``mean`` Myr; NaN where a model has no such parameter), ``loglik``,
     ``aic``, ``bic``, ``weight`` (Akaike weight) and ``mean_interval`` (Myr). ``df.attrs`` holds
-    ``n_intervals``, ``censored`` (Myr or None), ``lr_statistic`` and ``lr_p_value`` (gamma against
-    exponential) and ``failures``.
+    ``n_intervals``, ``censored`` and ``censored_old`` (Myr or None), ``lr_statistic`` and
+    ``lr_p_value`` (gamma against exponential), ``failures`` and the complete lengths.
 
     References: Cox, A. (1968), J. Geophys. Res. 73, 3247–3260; Akaike, H. (1974), IEEE Trans.
     Autom. Control 19, 716–723; Burnham & Anderson (2002), Model Selection and Multimodel Inference.
     """
-    d = _native.fit_renewal(_source(timescale), young, old, float(min_length), bool(censor))
+    d = _native.fit_renewal(_source(timescale), young, old, float(min_length), bool(censor), old_edge)
     df = _model_rows(d["models"], ["loglik", "aic", "bic", "weight", "mean_interval"])
-    for k in ("n_intervals", "censored", "lr_statistic", "lr_p_value", "failures", "complete"):
+    keys = ("n_intervals", "censored", "censored_old", "old_edge", "lr_statistic", "lr_p_value", "failures", "complete")
+    for k in keys:
         df.attrs[k] = d[k]
     return df
 
@@ -245,6 +260,7 @@ def hazard(
     old: Optional[float] = None,
     min_length: float = 0.0,
     censor: bool = True,
+    old_edge: Optional[str] = None,
     seed: int = 1,
     resamples: int = 1000,
     level: float = 0.95,
@@ -265,12 +281,12 @@ def hazard(
     References: Cox, D. R. (1962), Renewal Theory, ch. 1; Burnham & Anderson (2002), §4.3.
     """
     d = _native.hazard(
-        _source(timescale), elapsed, float(horizon), young, old, float(min_length), bool(censor),
+        _source(timescale), elapsed, float(horizon), young, old, float(min_length), bool(censor), old_edge,
         int(seed), int(resamples), float(level), threads,
     )
     df = _model_rows(d["models"], ["weight", "hazard", "survival", "p_within", "cdf"])
     df.attrs["averaged"] = {k: d[k] for k in ("averaged", "low", "high", "level")}
-    for k in ("elapsed", "horizon", "percentile", "n_intervals", "censored", "cautions"):
+    for k in ("elapsed", "horizon", "percentile", "n_intervals", "censored", "censored_old", "cautions"):
         df.attrs[k] = d[k]
     return df
 

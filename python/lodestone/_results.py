@@ -27,6 +27,14 @@ def _plain(value: Any) -> Any:
 class _Result:
     """Common behaviour: ``to_dict()`` and a short ``repr``."""
 
+    @classmethod
+    def _from(cls, values: Dict[str, Any]):
+        """An instance from the extension's dict, without the frozen dataclass's slow ``__init__``
+        (fields with defaults fall back to the class attribute)."""
+        obj = object.__new__(cls)
+        obj.__dict__.update(values)
+        return obj
+
     def to_dict(self) -> Dict[str, Any]:
         """Every attribute as plain Python values (lists for arrays, None for undefined values)."""
         return {f.name: _plain(getattr(self, f.name)) for f in dataclasses.fields(self)}  # type: ignore[arg-type]
@@ -76,7 +84,9 @@ class VGP(_Result):
 class ReversalTest(_Result):
     """Reversal test: the two polarity modes compared after flipping the second.
 
-    ``gamma``/``gamma_c`` in degrees (McFadden & McElhinny 1990); ``classification`` one of
+    ``gamma``/``gamma_c`` in degrees (McFadden & McElhinny 1990; γc is the angle at which V_w reaches
+    its simulated critical value, valid for unequal precisions; ``gamma_c_common_k`` is the analytic
+    angle that assumes one precision, for comparison); ``classification`` one of
     ``A``, ``B``, ``C``, ``indeterminate`` or ``negative`` (γ > γc); ``v_w``/``v_crit`` Watson's
     V_w and its simulated critical value; ``passed`` follows the angle test. ``caution`` says what
     the result is and is not.
@@ -88,6 +98,7 @@ class ReversalTest(_Result):
     v_w: float
     v_crit: float
     passed: bool
+    gamma_c_common_k: float
     n1: int
     n2: int
     v_w_passed: bool

@@ -1,13 +1,14 @@
 //! Principal-component fits per specimen from a steps table (picks or the automatic rule).
 
 use crate::{arg_error, run_detached, Outcome, Source};
-use lodestone::demag::{auto_line, fit_range, AutoOutcome, AutoRule, SpecimenFit};
+use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule, SpecimenFit};
 use lodestone::table::{read_picks, read_steps, StepSet};
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 
-/// Fits and the specimens left unfitted (with the reason).
-type Fits = (Vec<SpecimenFit>, Vec<(String, String)>);
+/// Fits, the specimens left unfitted (with the reason), and the grade and reason of each automatic
+/// fit of the last-component rule.
+type Fits = (Vec<SpecimenFit>, Vec<(String, String)>, Vec<(String, &'static str, String)>);
 
 /// One fit per pick; a specimen without a pick is unfitted.
 fn by_picks(set: &StepSet, picks: &lodestone::table::Table) -> Outcome<Fits> {
@@ -25,11 +26,11 @@ fn by_picks(set: &StepSet, picks: &lodestone::table::Table) -> Outcome<Fits> {
         .filter(|sp| !chosen.iter().any(|p| p.specimen == sp.specimen))
         .map(|sp| (sp.specimen.clone(), "no pick".to_string()))
         .collect();
-    Ok((fits, unfitted))
+    Ok((fits, unfitted, Vec::new()))
 }
 
-/// The automatic rule with the command line's defaults, specimen by specimen.
-fn by_rule(set: &StepSet) -> Fits {
+/// The longest straight run heading for the origin (`components --auto --rule longest`, its defaults).
+fn by_longest_run(set: &StepSet) -> Fits {
     let rule = AutoRule::default();
     let (mut fits, mut unfitted) = (Vec::new(), Vec::new());
     for sp in &set.specimens {
@@ -38,28 +39,51 @@ fn by_rule(set: &StepSet) -> Fits {
             AutoOutcome::Unfitted(why) => unfitted.push((sp.specimen.clone(), why)),
         }
     }
-    (fits, unfitted)
+    (fits, unfitted, Vec::new())
+}
+
+/// The last-component rule with the command line's defaults (`components --auto`: MAD ≤ 5°, DANG ≤ 10°,
+/// α = 0.05, at least 3 steps, free lines, great circles allowed).
+fn by_last_component(set: &StepSet) -> Fits {
+    let rule = LastComponentRule { max_mad: 5.0, ..LastComponentRule::default() };
+    let (mut fits, mut unfitted, mut grades) = (Vec::new(), Vec::new(), Vec::new());
+    for sp in &set.specimens {
+        match last_component(sp, &rule) {
+            Ok(c) => {
+                grades.push((sp.specimen.clone(), c.grade.as_str(), c.reason));
+                fits.push(c.fit);
+            }
+            Err(why) => unfitted.push((sp.specimen.clone(), why)),
+        }
+    }
+    (fits, unfitted, grades)
 }
 
 /// Principal-component fits (see `lodestone.fit_components`): a dict with `fits` (rows in the
 /// columns of `components --format csv`), `unfitted` and `columns`.
 #[pyfunction]
-#[pyo3(signature = (steps, picks = None, auto = true))]
+#[pyo3(signature = (steps, picks = None, auto = true, rule = "last"))]
 pub fn fit_components<'py>(
     py: Python<'py>,
     steps: Source<'py>,
     picks: Option<Source<'py>>,
     auto: bool,
+    rule: &str,
 ) -> PyResult<Bound<'py, PyDict>> {
     if picks.is_none() && !auto {
         return Err(arg_error("give picks, or auto=True for the automatic rule"));
     }
+    let automatic: fn(&StepSet) -> Fits = match rule {
+        "last" => by_last_component,
+        "longest" => by_longest_run,
+        other => return Err(arg_error(format!("rule must be 'last' or 'longest', got '{other}'"))),
+    };
     let (si, pi) = (steps.input(), picks.as_ref().map(|p| p.input()));
-    let (set, (fits, unfitted)) = run_detached(py, None, || {
+    let (set, (fits, unfitted, grades)) = run_detached(py, None, || {
         let set = read_steps(&si.table()?)?;
         let fits = match &pi {
             Some(p) => by_picks(&set, &p.table()?)?,
-            None => by_rule(&set),
+            None => automatic(&set),
         };
         Ok((set, fits))
     })?;
@@ -67,6 +91,10 @@ pub fn fit_components<'py>(
     columns.extend(set.axis.map(|a| a.column()));
     if set.has_bedding {
         columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
+    }
+    let graded = pi.is_none() && rule == "last";
+    if graded {
+        columns.push("grade");
     }
     let rows = fits
         .iter()
@@ -91,6 +119,11 @@ pub fn fit_components<'py>(
                 d.set_item("bed_dip_dir", sp.bedding.map(|b| b.dip_dir))?;
                 d.set_item("bed_dip", sp.bedding.map(|b| b.dip))?;
                 d.set_item("overturned", if sp.bedding.is_some_and(|b| b.overturned) { "yes" } else { "no" })?;
+            }
+            if graded {
+                let g = grades.iter().find(|(s, _, _)| *s == f.specimen);
+                d.set_item("grade", g.map_or("", |(_, g, _)| g))?;
+                d.set_item("reason", g.map(|(_, _, why)| why.as_str()))?;
             }
             Ok(d)
         })

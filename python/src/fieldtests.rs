@@ -58,6 +58,7 @@ pub fn reversal_test<'py>(
     out.set_item("n2", c.n2)?;
     out.set_item("gamma", c.mm90.gamma)?;
     out.set_item("gamma_c", c.mm90.gamma_c)?;
+    out.set_item("gamma_c_common_k", c.mm90.gamma_c_common_k)?;
     out.set_item("classification", c.mm90.class.name())?;
     out.set_item("v_w", c.watson.v_w)?;
     out.set_item("v_crit", c.watson.v_crit)?;

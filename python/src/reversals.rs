@@ -1,8 +1,8 @@
 //! Reversal statistics of a time scale: renewal-model fits and the hazard.
 
-use crate::{invalid, run_detached, Outcome, Source};
+use crate::{arg_error, invalid, run_detached, Outcome, Source};
 use lodestone::montecarlo::MonteCarlo;
-use lodestone::reversals::{self, Fitted, IntervalOptions, IntervalRecord, Model, CAUTIONS};
+use lodestone::reversals::{self, EdgeReading, Fitted, IntervalOptions, IntervalRecord, Model, CAUTIONS};
 use lodestone::table::TimeScale;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
@@ -11,6 +11,27 @@ use pyo3::types::PyDict;
 fn load(input: &crate::Input<'_>, opt: &IntervalOptions) -> Outcome<IntervalRecord> {
     let ts = TimeScale::from_table(&input.table()?)?;
     Ok(reversals::intervals(&ts, opt)?)
+}
+
+/// The window options; `old_edge` as on the command line (`complete`, `censored`, `left-out`; None
+/// for the default rule).
+fn options(
+    young: Option<f64>,
+    old: Option<f64>,
+    min_length: f64,
+    censor: bool,
+    old_edge: Option<&str>,
+) -> PyResult<IntervalOptions> {
+    let old_edge = match old_edge {
+        None => None,
+        Some("complete") => Some(EdgeReading::Complete),
+        Some("censored") => Some(EdgeReading::Censored),
+        Some("left-out" | "left_out") => Some(EdgeReading::LeftOut),
+        Some(other) => {
+            return Err(arg_error(format!("old_edge must be 'complete', 'censored' or 'left-out', got '{other}'")))
+        }
+    };
+    Ok(IntervalOptions { from: young, to: old, min_length, censor, old_edge })
 }
 
 /// The parameters of a fit as a dict with the contract's names.
@@ -27,6 +48,8 @@ fn record_dict<'py>(py: Python<'py>, rec: &IntervalRecord) -> PyResult<Bound<'py
     let d = PyDict::new(py);
     d.set_item("n_intervals", rec.complete.len())?;
     d.set_item("censored", rec.censored)?;
+    d.set_item("censored_old", rec.censored_old)?;
+    d.set_item("old_edge", rec.old_reading.name())?;
     d.set_item("from", rec.from)?;
     d.set_item("to", rec.to)?;
     Ok(d)
@@ -34,7 +57,7 @@ fn record_dict<'py>(py: Python<'py>, rec: &IntervalRecord) -> PyResult<Bound<'py
 
 /// Renewal-model fits by maximum likelihood (see `lodestone.fit_renewal`).
 #[pyfunction]
-#[pyo3(signature = (timescale, young = None, old = None, min_length = 0.0, censor = true))]
+#[pyo3(signature = (timescale, young = None, old = None, min_length = 0.0, censor = true, old_edge = None))]
 pub fn fit_renewal<'py>(
     py: Python<'py>,
     timescale: Source<'py>,
@@ -42,9 +65,10 @@ pub fn fit_renewal<'py>(
     old: Option<f64>,
     min_length: f64,
     censor: bool,
+    old_edge: Option<&str>,
 ) -> PyResult<Bound<'py, PyDict>> {
     let input = timescale.input();
-    let opt = IntervalOptions { from: young, to: old, min_length, censor };
+    let opt = options(young, old, min_length, censor, old_edge)?;
     let (rec, fits) = run_detached(py, None, || {
         let rec = load(&input, &opt)?;
         let fits = reversals::fit_models(&rec.sample()?, &Model::ALL);
@@ -79,7 +103,7 @@ pub fn fit_renewal<'py>(
 /// `lodestone.hazard`); with `resamples > 0`, a bootstrap interval of the Akaike-weighted average.
 #[pyfunction]
 #[pyo3(signature = (timescale, elapsed = None, horizon = 0.1, young = None, old = None, min_length = 0.0,
-                    censor = true, seed = 1, resamples = 1000, level = 0.95, threads = None))]
+                    censor = true, old_edge = None, seed = 1, resamples = 1000, level = 0.95, threads = None))]
 #[allow(clippy::too_many_arguments)]
 pub fn hazard<'py>(
     py: Python<'py>,
@@ -90,13 +114,14 @@ pub fn hazard<'py>(
     old: Option<f64>,
     min_length: f64,
     censor: bool,
+    old_edge: Option<&str>,
     seed: u64,
     resamples: usize,
     level: f64,
     threads: Option<usize>,
 ) -> PyResult<Bound<'py, PyDict>> {
     let input = timescale.input();
-    let opt = IntervalOptions { from: young, to: old, min_length, censor };
+    let opt = options(young, old, min_length, censor, old_edge)?;
     let (rec, est) = run_detached(py, threads, || {
         let rec = load(&input, &opt)?;
         let elapsed = match (elapsed, &rec.open) {

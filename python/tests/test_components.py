@@ -29,10 +29,20 @@ def test_automatic_fits_match_the_command_line(cli):
     got = lodestone.fit_components(record(STEPS))
     want = cli("components", record(STEPS), "--auto")
     assert list(got.columns) == ["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc",
-                                 "mad", "dang", "height"]
+                                 "mad", "dang", "height", "grade"]
     compare(got, want["fits"])
+    assert list(got["grade"]) == [w["grade"] for w in want["fits"]]
+    assert got.attrs["reasons"] == {w["specimen"]: w["reason"] for w in want["fits"]}
     assert got.attrs["unfitted"] == want["unfitted"]
     np.testing.assert_allclose(got["height"], [w["height"] for w in want["fits"]])
+
+
+def test_longest_run_fits_match_the_command_line(cli):
+    got = lodestone.fit_components(record(STEPS), rule="longest")
+    want = cli("components", record(STEPS), "--auto", "--rule", "longest")
+    assert "grade" not in got.columns
+    compare(got, want["fits"])
+    assert got.attrs["unfitted"] == want["unfitted"]
 
 
 def test_picked_fits_match_the_command_line(cli, tmp_path):
@@ -53,7 +63,8 @@ def test_free_line_follows_the_principal_component_formulas():
     # the angle between the line and the centre of mass (common practice). The line points from the
     # last step used toward the first.
     steps = read_table(STEPS)
-    fits = lodestone.fit_components(steps)
+    fits = lodestone.fit_components(steps, rule="longest")
+    assert len(fits) == steps["specimen"].nunique() and set(fits["kind"]) == {"line"} and set(fits["anchor"]) == {"free"}
     for _, f in fits.iterrows():
         s = steps[(steps["specimen"] == f["specimen"]) & steps["step"].between(f["from"], f["to"])]
         d, i = np.radians(s["dec"].to_numpy()), np.radians(s["inc"].to_numpy())
@@ -76,6 +87,8 @@ def test_bad_steps_and_picks_raise():
     assert e.value.column == "moment"
     with pytest.raises(lodestone.LodestoneError, match="picks"):
         lodestone.fit_components(steps, auto=False)
+    with pytest.raises(lodestone.LodestoneError, match="rule"):
+        lodestone.fit_components(steps, rule="quickest")
     picks = pd.DataFrame({"specimen": ["no-such-specimen"], "from": [0.0], "to": [10.0]})
     with pytest.raises(lodestone.LodestoneError, match="no-such-specimen"):
         lodestone.fit_components(steps, picks=picks)

@@ -29,7 +29,7 @@ def test_reversal_test_matches_the_command_line(cli):
     t = read_table(DIRS)
     got = lodestone.reversal_test(t["dec"], t["inc"], seed=1, resamples=1000)
     want = cli("test", "reversal", record(DIRS), "--seed", 1, "--resamples", 1000)
-    for key in ("gamma", "gamma_c", "v_w", "v_crit"):
+    for key in ("gamma", "gamma_c", "gamma_c_common_k", "v_w", "v_crit"):
         assert getattr(got, key) == pytest.approx(want[key], rel=1e-12), key
     assert got.classification == want["class"]
     assert (got.passed, got.n1, got.n2) == (want["passed"], want["n1"], want["n2"])
@@ -51,11 +51,16 @@ def test_reversal_statistics_follow_the_published_formulas():
     n = len(a) + len(b)
     rc = ra + rb - stats.f.ppf(0.95, 2, 2 * (n - 2)) * (n - ra - rb) / (n - 2)
     gamma_c = math.degrees(math.acos((rc**2 - ra**2 - rb**2) / (2 * ra * rb)))
-    assert got.gamma_c == pytest.approx(gamma_c, rel=1e-9)
+    assert got.gamma_c_common_k == pytest.approx(gamma_c, rel=1e-9)
     # Watson (1983) V_w = 2(S_w − R_w), S_w = k₁R₁ + k₂R₂, R_w = |k₁X₁ + k₂X₂|, k = (N − 1)/(N − R).
     ka, kb = (len(a) - 1) / (len(a) - ra), (len(b) - 1) / (len(b) - rb)
     v_w = 2 * (ka * ra + kb * rb - np.linalg.norm(ka * xa + kb * xb))
     assert got.v_w == pytest.approx(v_w, rel=1e-9)
+    # γc is the angle at which V_w reaches V_crit with R and k held (McFadden & McElhinny 1990):
+    # R_w² = k₁²R₁² + k₂²R₂² + 2k₁k₂R₁R₂ cos γc with R_w = S_w − V_crit/2.
+    rw = ka * ra + kb * rb - got.v_crit / 2
+    cos_c = (rw**2 - (ka * ra) ** 2 - (kb * rb) ** 2) / (2 * ka * kb * ra * rb)
+    assert got.gamma_c == pytest.approx(math.degrees(math.acos(cos_c)), rel=1e-8)
     # The simulated critical value tends to the χ²₂ point for large N (Watson 1983); with 30
     # directions it lies above it, but not far.
     assert stats.chi2.ppf(0.95, 2) * 0.9 < got.v_crit < stats.chi2.ppf(0.95, 2) * 1.5
@@ -73,8 +78,9 @@ def test_reversal_test_is_seeded_and_independent_of_threads():
 def test_reversal_test_bad_input_raises():
     with pytest.raises(lodestone.LodestoneError, match="at least 100"):
         lodestone.reversal_test([1.0, 2.0], [3.0, 4.0], resamples=10)
-    with pytest.raises(lodestone.LodestoneError, match="values"):
+    with pytest.raises(lodestone.LodestoneError, match="values") as e:
         lodestone.reversal_test([1.0, 2.0, 3.0], [3.0, 4.0])
+    assert (e.value.file, e.value.line, e.value.column) == (None, None, None)
     with pytest.raises(lodestone.LodestoneError, match="inclination"):
         lodestone.reversal_test([1.0, 2.0], [3.0, -91.0])
     with pytest.raises(lodestone.LodestoneError, match="threads"):

@@ -32,9 +32,13 @@ def scipy_model(row):
 
 
 def censored_loglik(dist, complete, censored):
-    """ℓ = Σ ln f(xᵢ) + ln S(c): right censoring of the open chron (Lawless 2003, §2.2)."""
-    ll = np.sum(dist.logpdf(complete))
-    return ll + (dist.logsf(censored) if censored is not None else 0.0)
+    """ℓ = Σ ln f(xᵢ) + Σ ln S(cⱼ): right censoring of the open chron and of the oldest interval
+    (Lawless 2003, §2.2)."""
+    return np.sum(dist.logpdf(complete)) + sum(dist.logsf(c) for c in censored)
+
+
+def censored_lengths(df):
+    return [c for c in (df.attrs["censored"], df.attrs["censored_old"]) if c is not None]
 
 
 def test_fits_match_the_command_line(cli):
@@ -42,6 +46,7 @@ def test_fits_match_the_command_line(cli):
     want = cli("intervals", record(SCALE), "--resamples", 100)
     assert got.attrs["n_intervals"] == want["n_intervals"]
     assert got.attrs["censored"] == pytest.approx(want["censored"])
+    assert got.attrs["censored_old"] == pytest.approx(want["censored_old"])
     assert got.attrs["lr_p_value"] == pytest.approx(want["lr_test"]["p_value"], rel=1e-12)
     assert list(got["model"]) == [m["model"] for m in want["models"]]
     for (_, g), w in zip(got.iterrows(), want["models"]):
@@ -56,8 +61,8 @@ def test_fits_match_the_command_line(cli):
 
 def test_censored_logliks_and_criteria_agree_with_scipy():
     got = lodestone.fit_renewal(read_table(SCALE))
-    x, c = np.array(got.attrs["complete"]), got.attrs["censored"]
-    n_obs = len(x) + 1
+    x, c = np.array(got.attrs["complete"]), censored_lengths(got)
+    n_obs = len(x) + len(c)
     for _, row in got.iterrows():
         dist = scipy_model(row)
         assert row["loglik"] == pytest.approx(censored_loglik(dist, x, c), rel=1e-9, abs=1e-9), row["model"]
@@ -75,9 +80,11 @@ def test_censored_fits_are_maxima_of_the_scipy_likelihood():
     # Nelder–Mead on the scipy.stats censored log-likelihood, started at our estimate, finds nothing
     # better: the fits are maximum-likelihood estimates with the open chron censored.
     got = lodestone.fit_renewal(read_table(SCALE))
-    x, c = np.array(got.attrs["complete"]), got.attrs["censored"]
-    # Exponential with censoring: λ = n/(Σxᵢ + c) (Lawless 2003, §2.2; a closed form).
-    assert got.loc[got["model"] == "exponential", "rate"].item() == pytest.approx(len(x) / (x.sum() + c), rel=1e-12)
+    x, c = np.array(got.attrs["complete"]), censored_lengths(got)
+    assert len(c) == 2  # the open chron, and the oldest chron of a scale cut at an arbitrary age
+    # Exponential with censoring: λ = n/(Σxᵢ + Σcⱼ) (Lawless 2003, §2.2; a closed form).
+    assert got.loc[got["model"] == "exponential", "rate"].item() == pytest.approx(len(x) / (x.sum() + sum(c)),
+                                                                                 rel=1e-12)
     for _, row in got[got["model"] != "exponential"].iterrows():
         names = [p for p in PARAMS if not math.isnan(row[p])]
 
@@ -94,9 +101,9 @@ def test_censored_fits_are_maxima_of_the_scipy_likelihood():
 
 def test_uncensored_fits_agree_with_scipy_fit():
     # scipy.stats.<dist>.fit(x, floc=0) gives the maximum-likelihood estimates of complete samples.
-    got = lodestone.fit_renewal(record(SCALE), censor=False).set_index("model")
+    got = lodestone.fit_renewal(record(SCALE), censor=False, old_edge="left-out").set_index("model")
     x = np.array(got.attrs["complete"])
-    assert got.attrs["censored"] is None
+    assert got.attrs["censored"] is None and got.attrs["censored_old"] is None
     a, _, scale = stats.gamma.fit(x, floc=0)
     assert (got.loc["gamma", "shape"], got.loc["gamma", "scale"]) == pytest.approx((a, scale), rel=1e-4)
     c, _, scale = stats.weibull_min.fit(x, floc=0)
@@ -147,6 +154,8 @@ def test_renewal_bad_input_raises():
     gap.loc[5, "old"] = gap.loc[5, "old"] - 0.01
     with pytest.raises(lodestone.LodestoneError):
         lodestone.fit_renewal(gap)
+    with pytest.raises(lodestone.LodestoneError, match="old_edge"):
+        lodestone.fit_renewal(t, old_edge="sideways")
     with pytest.raises(lodestone.LodestoneError, match="horizon"):
         lodestone.hazard(t, horizon=-1.0, resamples=0)
     with pytest.raises(lodestone.LodestoneError, match="elapsed"):
