@@ -15,12 +15,14 @@ mod pipeline;
 mod report_html;
 mod reversal_stats;
 mod settings;
+mod stage;
 mod tables;
 
-pub use pipeline::{run, Stage, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
+pub use pipeline::{run, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
 pub use report_html::report_html;
 pub use reversal_stats::HAZARD_HORIZON;
 pub use settings::{SectionSettings, KNOWN_KEYS};
+pub use stage::Stage;
 pub use tables::CsvTable;
 
 /// One input file of a project folder: its name (as shown in messages) and its bytes.

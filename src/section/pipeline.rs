@@ -2,14 +2,13 @@
 //! parameters) and what it found (result), or why it was skipped.
 
 use super::settings::SectionSettings;
+use super::stage::{draw, Stage};
 use super::tables::{num, opt, CsvTable};
 use super::{FigureOutput, Headline, Project, ProjectFile, Rejection, SectionRun};
 use crate::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind, SpecimenFit};
 use crate::error::{Error, Result};
 use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions};
-use crate::figures::{
-    render, ColumnFigure, EqualAreaPlot, Figure, FigureFormat, FoldPlot, MappedVgp, NetGroup, PolePlot, ScalePanel,
-};
+use crate::figures::{ColumnFigure, EqualAreaPlot, FoldPlot, MappedVgp, NetGroup, PolePlot, ScalePanel};
 use crate::montecarlo::{MonteCarlo, Progress};
 use crate::poles::{
     bootstrap_scatter, northern, paleopole, pole_oval, vgp, vgp_scatter, within_site_sw, ScatterSite, WithinSite,
@@ -26,36 +25,6 @@ use crate::table::{
     TimeScale,
 };
 use std::collections::BTreeMap;
-
-/// One stage of the chain: what it did, what it found, or why it was skipped.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
-pub struct Stage {
-    /// Short name (a heading in the report).
-    pub name: String,
-    /// Whether it ran.
-    pub ran: bool,
-    /// What was done, with which parameters.
-    pub method: String,
-    /// What was found (or why the stage was skipped).
-    pub result: String,
-    /// Stems of the tables this stage wrote.
-    pub tables: Vec<String>,
-    /// Stems of the figures this stage drew.
-    pub figures: Vec<String>,
-}
-
-impl Stage {
-    pub(super) fn new(name: &str) -> Self {
-        Stage {
-            name: name.into(),
-            ran: true,
-            method: String::new(),
-            result: String::new(),
-            tables: vec![],
-            figures: vec![],
-        }
-    }
-}
 
 /// Caution carried with every field test.
 pub const FIELD_TEST_CAUTION: &str = "Field tests are statistical statements about a model of the directions \
@@ -136,13 +105,6 @@ fn read_sampling(f: &ProjectFile) -> Result<(StratAxis, Vec<SiteInfo>)> {
     let mut sites: Vec<SiteInfo> = out.into_iter().map(|(s, _)| s).collect();
     sites.sort_by(|a, b| a.position.total_cmp(&b.position));
     Ok((axis, sites))
-}
-
-pub(super) fn draw<F: Figure>(fig: &F, stem: &str, caption: String) -> Result<FigureOutput> {
-    let svg = String::from_utf8(render(fig, FigureFormat::Svg)?)
-        .map_err(|e| Error::Invalid(format!("figure {stem}: {e}")))?;
-    let png = render(fig, FigureFormat::Png)?;
-    Ok(FigureOutput { stem: stem.into(), caption, svg, png })
 }
 
 fn yn(b: bool) -> String {

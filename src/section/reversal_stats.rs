@@ -2,8 +2,8 @@
 //! of the project's whole time scale (not of the section), with the open chron censored, and the
 //! hazard at the open chron's present length. The hazard cautions travel with the result.
 
+use super::stage::{draw, Stage};
 use super::tables::{num, opt, CsvTable};
-use super::Stage;
 use crate::reversals::{fit_models, hazard_at, intervals, IntervalOptions, Model, CAUTIONS};
 use crate::table::TimeScale;
 
@@ -107,7 +107,7 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
                 out.tables.push(ht);
                 out.cautions.extend(CAUTIONS.iter().map(|s| s.to_string()));
                 let fig = crate::figures::HazardFigure::new(&fits, elapsed, name);
-                match super::pipeline::draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")) {
+                match draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")) {
                     Ok(f) => {
                         stage.figures.push(f.stem.clone());
                         out.figures.push(f);

@@ -1,6 +1,7 @@
 //! Age–position models and accumulation rates of a correlation candidate.
 
-use super::correlate::{Path, Problem, Reading};
+use super::correlate_options::Reading;
+use super::problem::{Path, Problem};
 use crate::table::StratAxis;
 
 /// Metres per Myr to cm per kyr: 1 m/Myr = 100 cm / 1000 kyr = 0.1 cm/kyr.
