@@ -65,6 +65,17 @@
 //! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
 //! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //! | whole chain on a project folder: tables, figures, HTML report | [`section::run`], [`section::SectionRun`] |
+//! | one stage of the chain as reported (what ran, what it found) | [`section::Stage`] |
+//! | correlation settings: penalties, rate spread, dated levels | [`strat::CorrelateOptions`], [`strat::DatedLevel`] |
+//! | errors: kinds with the offending value; kinds of table faults | [`Error`], [`TableError`], [`TableFault`] |
+//! | accumulation-rate units (cm/kyr ↔ m/Myr) | [`units::cm_per_kyr_to_m_per_myr`], [`units::m_per_myr_to_cm_per_kyr`] |
+//! | the number formatter of every table, CSV file and report | [`numbers::fixed`], [`numbers::push_csv`] |
+//!
+//! ## Where things go
+//! A computation lives in the module of its concept (the table above), with `# Units`, `# Formula` and
+//! `# References` and a test against an outside source. `table` reads tables into typed rows; the command layer
+//! (`src/cli/`, not part of the library) parses arguments, calls the library and writes a report; the
+//! whole-output snapshot tests (`tests/snapshot_*.rs`) pin every verb's output.
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -82,6 +93,7 @@ pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
+pub mod numbers;
 pub mod poles;
 pub mod reversals;
 pub mod section;
@@ -91,5 +103,6 @@ pub mod stats;
 pub mod strat;
 pub mod table;
 pub mod tolerance;
+pub mod units;
 
 pub use error::{Error, Result, TableError, TableFault};

@@ -43,10 +43,7 @@ impl Cell {
         use std::fmt::Write as _;
         match self {
             Cell::Text(s) => buf.push_str(s),
-            Cell::Num(x, _) if x.is_infinite() => buf.push_str(if *x > 0.0 { "inf" } else { "-inf" }),
-            Cell::Num(x, d) => {
-                let _ = write!(buf, "{x:.d$}", d = *d);
-            }
+            Cell::Num(x, d) => lodestone::numbers::push_fixed(buf, *x, *d),
             Cell::Int(i) => {
                 let _ = write!(buf, "{i}");
             }
@@ -55,19 +52,8 @@ impl Cell {
     }
     /// Append the CSV form to `buf`: numbers at full precision, empty for no value.
     fn push_csv(&self, buf: &mut String) {
-        use std::fmt::Write as _;
         match self {
-            Cell::Num(x, _) if x.is_finite() => {
-                // Ten decimals: more than any measurement carries, without floating-point noise.
-                let start = buf.len();
-                let _ = write!(buf, "{x:.10}");
-                let kept = buf[start..].trim_end_matches('0').trim_end_matches('.').len();
-                buf.truncate(start + kept);
-                if &buf[start..] == "-0" {
-                    buf.truncate(start);
-                    buf.push('0');
-                }
-            }
+            Cell::Num(x, _) => lodestone::numbers::push_csv(buf, *x),
             Cell::Empty => {}
             other => other.push_text(buf),
         }

@@ -3,7 +3,8 @@
 //! hazard at the open chron's present length. The hazard cautions travel with the result.
 
 use super::stage::{draw, Stage};
-use super::tables::{num, opt, CsvTable};
+use super::tables::CsvTable;
+use crate::numbers::{fixed, fixed_or_empty};
 use crate::reversals::{fit_models, hazard_at, intervals, IntervalOptions, Model, CAUTIONS};
 use crate::table::TimeScale;
 
@@ -21,7 +22,7 @@ pub(super) struct ReversalStats {
 }
 
 fn params(f: &crate::reversals::Fitted) -> String {
-    f.named_params().iter().map(|(k, v)| format!("{k}={}", num(*v, 4))).collect::<Vec<_>>().join(" ")
+    f.named_params().iter().map(|(k, v)| format!("{k}={}", fixed(*v, 4))).collect::<Vec<_>>().join(" ")
 }
 
 /// Fit the renewal models to the time scale's intervals and evaluate the hazard.
@@ -64,10 +65,10 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
         ft.push(vec![
             f.fitted.model.name().into(),
             params(&f.fitted),
-            num(f.fitted.mean(), 4),
-            num(f.loglik, 3),
-            num(f.aic, 3),
-            num(f.weight, 3),
+            fixed(f.fitted.mean(), 4),
+            fixed(f.loglik, 3),
+            fixed(f.aic, 3),
+            fixed(f.weight, 3),
         ]);
     }
     let best = fits.fits.iter().max_by(|a, b| a.weight.total_cmp(&b.weight)).expect("non-empty");
@@ -87,18 +88,18 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
                 for m in &h.models {
                     ht.push(vec![
                         m.fitted.model.name().into(),
-                        num(m.weight, 3),
-                        num(m.hazard, 3),
-                        num(m.survival, 4),
-                        opt(m.p_within, 4),
+                        fixed(m.weight, 3),
+                        fixed(m.hazard, 3),
+                        fixed(m.survival, 4),
+                        fixed_or_empty(m.p_within, 4),
                     ]);
                 }
                 ht.push(vec![
                     "averaged (Akaike weights)".into(),
-                    num(1.0, 3),
+                    fixed(1.0, 3),
                     String::new(),
                     String::new(),
-                    num(h.averaged, 4),
+                    fixed(h.averaged, 4),
                 ]);
                 stage.result.push_str(&format!(
                     " Under the fitted models, the Akaike-weighted P(reversal within {HAZARD_HORIZON} Myr | none in the last {elapsed:.3} Myr) is {:.3}; the elapsed length exceeds {:.0} % of the complete intervals.",

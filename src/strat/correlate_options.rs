@@ -3,7 +3,7 @@
 
 /// A dated bed: the age at a position must fall within the chrons the candidate assigns there.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
-pub struct Anchor {
+pub struct DatedLevel {
     /// Height or depth, m (same axis as the column).
     pub position: f64,
     /// Age, Ma.
@@ -26,7 +26,7 @@ pub struct CorrelateOptions {
     /// Number of ranked candidates to return (default 5).
     pub candidates: usize,
     /// Dated beds.
-    pub anchors: Vec<Anchor>,
+    pub anchors: Vec<DatedLevel>,
 }
 
 impl Default for CorrelateOptions {

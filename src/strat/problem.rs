@@ -4,7 +4,7 @@
 
 pub(super) mod kbest;
 
-use super::correlate_options::{Anchor, CorrelateOptions, Reading};
+use super::correlate_options::{CorrelateOptions, DatedLevel, Reading};
 use super::polarity::ZonePolarity;
 use super::zones::ZoneColumn;
 use crate::table::{Polarity, TimeScale};
@@ -38,7 +38,7 @@ pub(crate) struct Problem<'a> {
     pub spacing: f64,
     /// Prefix sums over chrons of (count, duration) for normal and reversed chrons.
     pre: [Vec<(usize, f64)>; 2],
-    anchors_up: Vec<(f64, Anchor)>,
+    anchors_up: Vec<(f64, DatedLevel)>,
     /// Precomputed run geometry (see [`RunTables`]).
     tab: RunTables,
     /// Polarity of each chron (a compact copy for the inner loops).
