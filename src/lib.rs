@@ -65,6 +65,11 @@
 //! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
 //! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
 //! | whole chain on a project folder: tables, figures, HTML report | [`section::run`], [`section::SectionRun`] |
+//! | Kent (1982) elliptical confidence region; bootstrap ellipse (Tauxe et al. 1991) | [`dirstats::kent_ellipse`], [`dirstats::bootstrap_ellipse`] |
+//! | TK03 giant-Gaussian-process field model, simulated; Schmidt Legendre functions | [`dirstats::Tk03`], [`dirstats::schmidt_legendre`] |
+//! | elongation/inclination correction of shallowing (Tauxe & Kent 2004); a given factor (King 1955) | [`dirstats::unflatten_search`], [`dirstats::unflatten_factor`] |
+//! | VGP scatter against latitude, S(λ)² = a² + (bλ)² with bootstrap | [`dirstats::fit_latitude_model`], [`dirstats::latitude_model_bootstrap`] |
+//! | figures: elongation–inclination, S against latitude, ellipses on the net | [`figures::UnflattenFigure`], [`figures::LatitudeFigure`], [`figures::EllipseNet`] |
 //! | one stage of the chain as reported (what ran, what it found) | [`section::Stage`] |
 //! | correlation settings: penalties, rate spread, dated levels | [`strat::CorrelateOptions`], [`strat::DatedLevel`] |
 //! | errors: kinds with the offending value; kinds of table faults | [`Error`], [`TableError`], [`TableFault`] |
@@ -88,7 +93,9 @@
 )]
 
 pub mod demag;
+pub mod dirstats;
 pub mod error;
+pub mod field;
 pub mod fieldtests;
 pub mod figures;
 pub mod linalg;

@@ -18,3 +18,7 @@ pub const ANGLE_DEG: f64 = 1e-9;
 
 /// Default relative tolerance for derived quantities in tests.
 pub const RELATIVE: f64 = 1e-12;
+
+/// Two bootstrap bounds of a unit-vector component closer than this count as touching (overlapping):
+/// bounds computed from identical sets can differ in the last bits through summation order.
+pub const BOUND_OVERLAP: f64 = 1e-12;

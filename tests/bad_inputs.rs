@@ -487,12 +487,6 @@ fn catalogue() -> Vec<Case> {
             expect: Failed { says: "cutoff" },
         },
         Case {
-            name: "poles: a single site has no paleopole",
-            files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\n")],
-            args: &["poles", "s.csv"],
-            expect: Failed { says: "at least 2" },
-        },
-        Case {
             name: "expected: bad latitude in sites table",
             files: &[("s.csv", b"site,lat,lon,dec,inc\nA,40,250,10,55\nB,x,250,10,55\n")],
             args: EXPECTED,

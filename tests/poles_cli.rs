@@ -115,11 +115,6 @@ fn bad_input_is_refused_with_file_line_and_column() {
         .stderr(predicate::str::contains("oval.csv:3: column 'a95'"));
     let f = write(&d, "one.csv", "site,lat,lon,dec,inc\nA,10,0,0,20\n");
     cmd()
-        .args(["poles", f.to_str().unwrap()])
-        .assert()
-        .code(1)
-        .stderr(predicate::str::contains("paleopole").and(predicate::str::contains("at least 2 sites, got 1")));
-    cmd()
         .args(["poles", f.to_str().unwrap(), "--cutoff", "sideways"])
         .assert()
         .code(1)
@@ -176,4 +171,20 @@ fn expected_direction_round_trips_the_vgp() {
     let b = &t["sites"][1];
     assert!((b["rotation"].as_f64().unwrap() + 5.0).abs() < 1e-9);
     assert!((b["flattening"].as_f64().unwrap() + 5.0).abs() < 1e-9);
+}
+
+#[test]
+fn one_site_gives_its_vgp_and_says_why_there_is_no_paleopole() {
+    // One axial-dipole site at 45N (tan I = 2 tan λ, common practice): VGP at the pole, paleolatitude
+    // 45°, dp = 7.5 and dm = 6√2.5 (Butler 1992, eqs. 7.5–7.6, by hand); no paleopole, no scatter.
+    let d = tempfile::tempdir().unwrap();
+    let f = write(&d, "one.csv", "site,lat,lon,dec,inc,n,k,a95\nA,45,-120,0,63.43494882292201,6,100,6\n");
+    let v = json(&["poles", f.to_str().unwrap(), "--resamples", "50"]);
+    let s = &v["sites"][0];
+    assert!((s["plat"].as_f64().unwrap() - 90.0).abs() < 1e-9);
+    assert!((s["paleolat"].as_f64().unwrap() - 45.0).abs() < 1e-9);
+    assert!((s["dp"].as_f64().unwrap() - 7.5).abs() < 1e-9);
+    assert!((s["dm"].as_f64().unwrap() - 6.0 * 2.5f64.sqrt()).abs() < 1e-9);
+    assert!(v["pole"].is_null() && v["scatter"].is_null());
+    assert!(v["notes"][0].as_str().unwrap().contains("one site"), "{}", v["notes"]);
 }

@@ -53,10 +53,13 @@ fn intervals_follow_the_contract_and_the_censored_closed_form() {
     let d = tempfile::tempdir().unwrap();
     let (f, len) = scale(&d, GAMMA2, 80, 21);
     let v = json(&["intervals", f.to_str().unwrap(), "--resamples", "50"]);
-    // 80 chrons: the open one is censored, the oldest ends with the table and is left out.
+    // 80 chrons: the open one is censored; the oldest ends with the table (an arbitrary age, nothing
+    // says it is a reversal), so it is censored too, as a second censored length.
     assert_eq!(v["n_intervals"], 78);
-    assert_eq!(v["left_out"], 1);
+    assert_eq!(v["left_out"], 0);
     assert!((v["censored"].as_f64().unwrap() - len[0]).abs() < 1e-9);
+    assert!((v["censored_old"].as_f64().unwrap() - len[79]).abs() < 1e-9);
+    assert_eq!(v["old_edge"], "censored");
     let models = v["models"].as_array().unwrap();
     let names: Vec<&str> = models.iter().map(|m| m["model"].as_str().unwrap()).collect();
     assert_eq!(names, ["exponential", "gamma", "weibull", "lognormal", "inverse_gaussian"]);
@@ -65,17 +68,23 @@ fn intervals_follow_the_contract_and_the_censored_closed_form() {
             assert!(m[k].is_number(), "{k} in {m}");
         }
     }
-    // Lawless (2003) §2.2: censored exponential rate = complete intervals / total time.
-    let total: f64 = len[..79].iter().sum();
+    // Lawless (2003) §2.2: censored exponential rate = complete intervals / total time (both
+    // censored lengths included).
+    let total: f64 = len[..80].iter().sum();
     assert!((models[0]["params"]["rate"].as_f64().unwrap() - 78.0 / total).abs() < 1e-9);
     assert!(models[1]["params"]["shape"].is_number() && models[3]["params"]["sigma"].is_number());
     assert!(models[4]["params"]["mean"].is_number() && models[4]["params"]["shape"].is_number());
     assert!(v["lr_test"]["p_value"].as_f64().unwrap() < 0.05, "gamma(2) intervals reject shape 1");
     // --no-censor: censored is null and the rate is n / Σ complete.
-    let v = json(&["intervals", f.to_str().unwrap(), "--resamples", "20", "--no-censor"]);
-    assert!(v["censored"].is_null());
+    // --no-censor with the oldest row left out: censored is null and the rate is n / Σ complete.
+    let v = json(&["intervals", f.to_str().unwrap(), "--resamples", "20", "--no-censor", "--old-edge", "left-out"]);
+    assert!(v["censored"].is_null() && v["censored_old"].is_null());
+    assert_eq!((v["left_out"].as_u64(), v["old_edge"].as_str()), (Some(1), Some("left-out")));
     let complete: f64 = len[1..79].iter().sum();
     assert!((v["models"][0]["params"]["rate"].as_f64().unwrap() - 78.0 / complete).abs() < 1e-9);
+    // --old-edge complete: 79 complete intervals.
+    let v = json(&["intervals", f.to_str().unwrap(), "--resamples", "20", "--old-edge", "complete"]);
+    assert_eq!(v["n_intervals"], 79);
 }
 
 #[test]

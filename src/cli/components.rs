@@ -3,7 +3,9 @@
 use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Context, Result};
 use clap::Args;
-use lodestone::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind, SpecimenFit};
+use lodestone::demag::{
+    auto_line, fit_range, last_component, Anchor, AutoOutcome, AutoRule, FitKind, LastComponentRule, SpecimenFit,
+};
 use lodestone::figures::VectorEndpointPlot;
 use lodestone::table::{read_picks, read_steps, SpecimenSteps, StepSet, Table, Treatment};
 use serde_json::json;
@@ -31,6 +33,14 @@ pub struct ComponentsArgs {
     /// Choose each specimen's line segment automatically (see --min-steps, --max-mad, --max-dang).
     #[arg(long, conflicts_with = "from")]
     pub auto: bool,
+    /// Automatic rule: `last` isolates the last component (a line grown down from the last steps
+    /// while each lower step fits within the noise, else a great circle); `longest` takes the
+    /// longest straight run heading for the origin (the earlier rule).
+    #[arg(long, value_enum, default_value_t = RuleArg::Last, requires = "auto")]
+    pub rule: RuleArg,
+    /// Automatic rule `last`: significance level of the test that a lower step departs from the line.
+    #[arg(long, default_value_t = 0.05, requires = "auto")]
+    pub alpha: f64,
     /// Automatic rule: fewest consecutive steps in a segment.
     #[arg(long, default_value_t = 3, requires = "auto")]
     pub min_steps: usize,
@@ -56,6 +66,12 @@ pub struct ComponentsArgs {
 pub enum KindArg {
     Line,
     Plane,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum RuleArg {
+    Last,
+    Longest,
 }
 
 #[derive(Debug, Clone, Copy, clap::ValueEnum)]
@@ -102,6 +118,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     let mut unfitted: Vec<(String, String)> = Vec::new();
     let mut notes = Vec::new();
     let mut rule_json = serde_json::Value::Null;
+    let mut grades: Vec<(String, &'static str, String)> = Vec::new();
     let method;
     if let Some(pp) = &a.picks {
         method = "picks";
@@ -118,6 +135,31 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
                 unfitted.push((sp.specimen.clone(), format!("no pick in {}", pp.display())));
             }
         }
+    } else if a.auto && a.rule == RuleArg::Last {
+        method = "auto";
+        let rule = LastComponentRule {
+            min_steps: a.min_steps,
+            alpha: a.alpha,
+            max_mad: a.max_mad,
+            max_dang: a.max_dang,
+            anchor,
+            planes: true,
+        };
+        rule.validate()?;
+        notes.push(format!(
+            "Automatic fits by the last-component rule: a {} line grown down from the last {} steps while each lower step lies on it within the noise (F-test at α = {}), accepted with MAD ≤ {}° and DANG ≤ {}°; otherwise a great circle through the origin (grade C). Check each choice on the figures (--plot).",
+            anchor.as_str(), rule.min_steps, rule.alpha, rule.max_mad, rule.max_dang));
+        rule_json = json!({"rule": "last", "min_steps": rule.min_steps, "alpha": rule.alpha, "max_mad": rule.max_mad,
+                           "max_dang": rule.max_dang, "anchor": anchor});
+        for sp in &set.specimens {
+            match last_component(sp, &rule) {
+                Ok(c) => {
+                    grades.push((sp.specimen.clone(), c.grade.as_str(), c.reason));
+                    fits.push(c.fit)
+                }
+                Err(why) => unfitted.push((sp.specimen.clone(), why)),
+            }
+        }
     } else if a.auto {
         method = "auto";
         let rule = AutoRule { min_steps: a.min_steps, max_mad: a.max_mad, max_dang: a.max_dang, anchor };
@@ -125,8 +167,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
             "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
              among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
             rule.min_steps, anchor.as_str(), rule.max_mad, rule.max_dang));
-        rule_json =
-            json!({"min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
+        rule_json = json!({"rule": "longest", "min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
         for sp in &set.specimens {
             match auto_line(sp, &rule) {
                 AutoOutcome::Fitted(f) => fits.push(f),
@@ -158,6 +199,10 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     if set.has_bedding {
         columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
     }
+    let graded = method == "auto" && a.rule == RuleArg::Last;
+    if graded {
+        columns.push("grade");
+    }
     let mut sec = Section::new(&format!("Principal components of {} ({} fits)", a.steps.display(), method), &columns);
     let mut fits_json = Vec::new();
     for f in &fits {
@@ -183,6 +228,10 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
             row.push(Cell::opt(sp.bedding.map(|b| b.dip), 1));
             row.push(Cell::Text(if sp.bedding.is_some_and(|b| b.overturned) { "yes" } else { "no" }.into()));
         }
+        if graded {
+            let g = grades.iter().find(|(s, _, _)| s == &f.specimen).map_or("", |(_, g, _)| g);
+            row.push(Cell::Text(g.into()));
+        }
         sec.rows.push(row);
         let mut j = json!({
             "specimen": f.specimen, "site": sp.site, "kind": f.kind, "anchor": f.anchor, "n_steps": f.n_steps,
@@ -190,6 +239,10 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         });
         if let Some(ax) = axis {
             j[ax.column()] = jnum(sp.position);
+        }
+        if let Some((_, g, why)) = grades.iter().find(|(s, _, _)| s == &f.specimen) {
+            j["grade"] = json!(g);
+            j["reason"] = json!(why);
         }
         fits_json.push(j);
     }

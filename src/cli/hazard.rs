@@ -106,7 +106,7 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Report> {
         json: json!({
             "file": a.window.timescale.display().to_string(),
             "elapsed": elapsed, "horizon": a.horizon,
-            "n_intervals": sample.n(), "censored": jnum(rec.censored),
+            "n_intervals": sample.n(), "censored": jnum(rec.censored), "censored_old": jnum(rec.censored_old),
             "models": models,
             "averaged": {
                 "p_within": est.averaged,

@@ -3,7 +3,7 @@
 use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::Result;
 use clap::Args;
-use lodestone::reversals::{self, goodness_of_fit, IntervalOptions, IntervalRecord, Model, RenewalFits};
+use lodestone::reversals::{self, goodness_of_fit, EdgeReading, IntervalOptions, IntervalRecord, Model, RenewalFits};
 use lodestone::table::{Table, TimeScale};
 use serde_json::{json, Map, Value};
 use std::path::{Path, PathBuf};
@@ -25,6 +25,22 @@ pub struct Window {
     /// Leave the open chron at the present out of the likelihoods instead of treating it as censored.
     #[arg(long)]
     pub no_censor: bool,
+    /// How to read the interval at the old end (the scale's oldest row, or a chron cut by --to).
+    /// Default: complete when the table's old_edge column says 'reversal' on the oldest row, else
+    /// censored.
+    #[arg(long, value_enum, value_name = "READING")]
+    pub old_edge: Option<OldEdgeArg>,
+}
+
+/// `--old-edge` values.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum OldEdgeArg {
+    /// A whole interval (its old boundary is a reversal).
+    Complete,
+    /// Right-censored: it lasted at least its length in the record.
+    Censored,
+    /// Left out of the likelihoods.
+    LeftOut,
 }
 
 impl Window {
@@ -32,8 +48,18 @@ impl Window {
     pub fn load(&self, ctx: &mut Ctx) -> Result<IntervalRecord> {
         ctx.inputs.add(&self.timescale);
         let ts = TimeScale::from_table(&Table::read(&self.timescale)?)?;
-        let opt =
-            IntervalOptions { from: self.from, to: self.to, min_length: self.min_length, censor: !self.no_censor };
+        let old_edge = self.old_edge.map(|e| match e {
+            OldEdgeArg::Complete => EdgeReading::Complete,
+            OldEdgeArg::Censored => EdgeReading::Censored,
+            OldEdgeArg::LeftOut => EdgeReading::LeftOut,
+        });
+        let opt = IntervalOptions {
+            from: self.from,
+            to: self.to,
+            min_length: self.min_length,
+            censor: !self.no_censor,
+            old_edge,
+        };
         Ok(reversals::intervals(&ts, &opt)?)
     }
 }
@@ -71,6 +97,21 @@ pub fn record_notes(rec: &IntervalRecord, file: &Path) -> Vec<String> {
             o.duration()
         )),
         _ => {}
+    }
+    if let Some(c) = &rec.young_cut {
+        n.push(match rec.censored {
+            Some(l) => format!("The chron cut by the window's young edge ({l:.4} Myr inside the window) enters the likelihoods as a right-censored length."),
+            None => format!("The chron cut by the window's young edge ({:.4} Myr inside) is left out (--no-censor).", c.duration()),
+        });
+    }
+    if let Some(o) = &rec.old_end {
+        let what =
+            if rec.old_end_cut_by_window { "the chron cut by the window's old edge" } else { "the scale's oldest row" };
+        n.push(match rec.old_reading {
+            EdgeReading::Complete => format!("The interval at the old end ({what}, {:.4} Myr) is read as complete (--old-edge complete, or the table states its old boundary is a reversal).", o.duration()),
+            EdgeReading::Censored => format!("The interval at the old end ({what}, {:.4} Myr) enters the likelihoods as a second right-censored length: it lasted at least that long (--old-edge to change).", o.duration()),
+            EdgeReading::LeftOut => format!("The interval at the old end ({what}, {:.4} Myr) is left out (--old-edge left-out).", o.duration()),
+        });
     }
     n
 }
@@ -169,6 +210,7 @@ pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Report> {
             "from": rec.from, "to": rec.to,
             "n_intervals": sample.n(),
             "censored": jnum(rec.censored),
+            "censored_old": jnum(rec.censored_old), "old_edge": rec.old_reading.name(),
             "merged_short": rec.merged_short, "joined": rec.joined, "left_out": rec.left_out,
             "mean_complete": sample.complete.iter().sum::<f64>() / sample.n() as f64,
             "models": models,

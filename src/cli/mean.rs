@@ -10,7 +10,7 @@ use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
 use lodestone::stats::{
-    group_means, stream_group_sums, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums,
+    group_means, stream_group_sums, CircleSense, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums,
 };
 use lodestone::table::{read_directions, GroupBy, Table, TableStream};
 use serde::ser::{Error as _, SerializeSeq, Serializer};
@@ -38,6 +38,15 @@ pub struct MeanArgs {
     /// Write an equal-area figure (.svg or .png).
     #[arg(long)]
     pub plot: Option<PathBuf>,
+    /// Add an elliptical 95 % confidence region to each group: kent or bootstrap.
+    #[arg(long, value_enum)]
+    pub ellipse: Option<super::mean_ellipse::EllipseArg>,
+    /// With --ellipse bootstrap: draw Fisher pseudo-samples (parametric) instead of resampling the data.
+    #[arg(long, requires = "ellipse")]
+    pub parametric: bool,
+    /// With --ellipse bootstrap: the number of pseudo-samples.
+    #[arg(long, default_value_t = 1000)]
+    pub resamples: usize,
 }
 
 /// Confidence level of the reported α95 (and of the `alpha` the library gives).
@@ -57,7 +66,8 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     // Without a figure the table streams through per-group sums (memory does not grow with the row
     // count); the figure needs the points, and great circles need the whole group at once.
     let mut streamed = None;
-    if a.plot.is_none() {
+    let mut ellipses = None;
+    if a.plot.is_none() && a.ellipse.is_none() {
         let mut stream = TableStream::open(&a.file)?;
         let keep_lines = ctx.global.format == super::Format::Json;
         if let StreamedSums::Sums { group_column, groups, .. } = stream_group_sums(&mut stream, &by, frame, keep_lines)?
@@ -71,6 +81,9 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
             let table = Table::read(&a.file)?;
             let set = read_directions(&table, &by)?;
             let means = group_means(&set, frame, A95)?;
+            ellipses = a.ellipse.map(|kind| {
+                super::mean_ellipse::ellipses(kind, a.parametric, &set, &means, frame, &ctx.monte_carlo(a.resamples))
+            });
             if let Some(path) = &a.plot {
                 let fig = EqualAreaPlot {
                     title: format!(
@@ -99,7 +112,10 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
                         })
                         .collect(),
                 };
-                super::write_figure(&fig, path, &ctx.inputs)?;
+                match &ellipses {
+                    Some(e) => super::write_figure(&super::mean_ellipse::with_ellipses(fig, e), path, &ctx.inputs)?,
+                    None => super::write_figure(&fig, path, &ctx.inputs)?,
+                }
             }
             (Groups::Whole(means), set.group_column.clone())
         }
@@ -112,6 +128,9 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     if other {
         head.columns.push(format!("alpha{}", (a.confidence * 100.0).round()));
     }
+    if ellipses.is_some() {
+        head.columns.extend(super::mean_ellipse::COLUMNS.iter().map(|c| c.to_string()));
+    }
     Ok(Output::Streamed(Box::new(MeanOutput {
         head,
         file: a.file.display().to_string(),
@@ -120,6 +139,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
         confidence: a.confidence,
         other,
         groups,
+        ellipses,
     })))
 }
 
@@ -141,7 +161,10 @@ struct GroupView<'a> {
     stats: FisherStats,
     planes: usize,
     undefined: Option<&'a str>,
+    sense: Option<lodestone::stats::CircleSense>,
     lines: Lines<'a>,
+    /// Position among the groups.
+    index: usize,
 }
 
 impl GroupView<'_> {
@@ -160,26 +183,32 @@ struct MeanOutput {
     /// A confidence level other than 0.95 was asked for: `alpha` is reported beside `a95`.
     other: bool,
     groups: Groups,
+    /// Elliptical regions per group, when asked for (`--ellipse`).
+    ellipses: Option<super::mean_ellipse::Ellipses>,
 }
 
 impl MeanOutput {
     fn views(&self) -> Box<dyn Iterator<Item = lodestone::error::Result<GroupView<'_>>> + '_> {
         match &self.groups {
-            Groups::Sums(s) => Box::new(s.iter().map(|g| {
+            Groups::Sums(s) => Box::new(s.iter().enumerate().map(|(index, g)| {
                 Ok(GroupView {
+                    index,
                     group: g.group,
                     stats: g.stats(A95)?,
                     planes: 0,
                     undefined: None,
+                    sense: None,
                     lines: Lines::Runs(g),
                 })
             })),
-            Groups::Whole(m) => Box::new(m.iter().map(|g| {
+            Groups::Whole(m) => Box::new(m.iter().enumerate().map(|(index, g)| {
                 Ok(GroupView {
+                    index,
                     group: g.group.as_deref(),
                     stats: g.stats.clone(),
                     planes: g.planes,
                     undefined: g.undefined.as_deref(),
+                    sense: g.sense,
                     lines: Lines::Listed(&g.lines),
                 })
             })),
@@ -212,12 +241,21 @@ fn group_notes(g: &GroupView, f: &mut dyn FnMut(&str) -> std::io::Result<()>) ->
             "{name}: {} line(s) and {} great circle(s) combined (McFadden & McElhinny 1988); n counts both, k and a95 use N' = M + N/2.",
             s.n - g.planes, g.planes))?;
     }
+    match g.sense {
+        Some(CircleSense::FromPaths { toward, away }) => f(&format!(
+            "{name}: great circles only; the sense of the mean follows the demagnetization paths ({toward} move toward it, {away} away)."))?,
+        Some(CircleSense::Undetermined) => f(&format!(
+            "{name}: great circles only fix an axis, not its sense; nothing in the data decides it, so the lower-hemisphere end is given and the opposite sense is equally possible."))?,
+        None => {}
+    }
     if g.undefined.is_some() {
         // Already explained by the note above.
     } else if s.n == 1 {
         f(&format!("{name}: one direction only; k, a95 and theta63 need at least two directions."))?;
     } else if s.mean.is_none() {
         f(&format!("{name}: the resultant vanishes (R ≈ 0): the directions cancel out and have no mean."))?;
+    } else if s.k.is_none() && g.planes > 0 {
+        f(&format!("{name}: two great circles and no line always meet, so their scatter is undefined; k, a95 and theta63 are empty."))?;
     } else if s.k.is_some_and(|k| k.is_infinite()) {
         f(&format!("{name}: all directions are identical; k is infinite and the cone has zero width."))?;
     } else if s.alpha.is_none() {
@@ -251,6 +289,9 @@ impl StreamedReport for MeanOutput {
                 // As in JSON: a value that is not finite is left empty.
                 row.push(Cell::opt(self.alpha(&g).filter(|x| x.is_finite()), 1));
             }
+            if let Some(e) = &self.ellipses {
+                row.extend(e.cells(g.index));
+            }
             f(&row)?;
         }
         Ok(())
@@ -258,7 +299,14 @@ impl StreamedReport for MeanOutput {
 
     fn each_note(&self, f: &mut dyn FnMut(&str) -> std::io::Result<()>) -> std::io::Result<()> {
         for g in self.views() {
-            group_notes(&g.map_err(std::io::Error::other)?, f)?;
+            let g = g.map_err(std::io::Error::other)?;
+            group_notes(&g, f)?;
+            if let Some(e) = &self.ellipses {
+                e.note(g.index, g.name(), f)?;
+            }
+        }
+        if let Some(e) = &self.ellipses {
+            f(&e.caution())?;
         }
         Ok(())
     }
@@ -272,6 +320,7 @@ impl StreamedReport for MeanOutput {
                 confidence: self.confidence,
                 groups: JsonGroups(self),
                 notes: JsonNotes(self),
+                ellipse_caution: self.ellipses.as_ref().map(|e| e.caution()),
             },
             out,
         )
@@ -287,6 +336,8 @@ struct MeanJson<'a> {
     confidence: f64,
     groups: JsonGroups<'a>,
     notes: JsonNotes<'a>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    ellipse_caution: Option<String>,
 }
 
 /// The `groups` array, serialised group by group.
@@ -321,6 +372,7 @@ impl Serialize for JsonGroups<'_> {
                 lines: JsonLines(&g.lines),
                 planes: g.planes,
                 alpha: self.0.other.then(|| jnum(self.0.alpha(g))),
+                ellipse: self.0.ellipses.as_ref().map(|e| e.json(g.index)),
             })
         })
     }
@@ -341,6 +393,8 @@ struct JsonGroup<'a> {
     planes: usize,
     #[serde(skip_serializing_if = "Option::is_none")]
     alpha: Option<Value>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    ellipse: Option<Value>,
 }
 
 /// A group's file lines, written from the runs without listing them first.
@@ -362,12 +416,16 @@ impl Serialize for JsonNotes<'_> {
     fn serialize<S: Serializer>(&self, ser: S) -> std::result::Result<S::Ok, S::Error> {
         seq_per_group(self.0, ser, |g, seq| {
             let mut err = None;
-            let _ = group_notes(g, &mut |n| {
+            let mut push = |n: &str| {
                 if err.is_none() {
                     err = seq.serialize_element(n).err();
                 }
                 Ok(())
-            });
+            };
+            let _ = group_notes(g, &mut push);
+            if let Some(e) = &self.0.ellipses {
+                let _ = e.note(g.index, g.name(), &mut push);
+            }
             err.map_or(Ok(()), Err)
         })
     }

@@ -9,17 +9,22 @@ mod correlate;
 mod demo;
 mod dipole;
 mod expected;
+mod field;
 mod hazard;
 mod intervals;
 mod io;
 mod mean;
+mod mean_ellipse;
 mod output;
 mod poles;
 mod progress;
+mod psv;
 mod rate;
+mod review;
 mod section;
 mod simulate;
 mod test;
+mod unflatten;
 
 use clap::{Args, Parser, Subcommand};
 #[allow(unused_imports)]
@@ -33,16 +38,16 @@ pub use output::{write_json, write_output, Output, StreamedReport};
 #[derive(Debug, Clone, Args)]
 pub struct Global {
     /// Output format: table (for people), csv (the main table), json (everything).
-    #[arg(long, global = true, value_enum, default_value_t = Format::Table)]
+    #[arg(long, global = true, help_heading = "Global options", value_enum, default_value_t = Format::Table)]
     pub format: Format,
     /// Seed of every random result; the same seed gives the same answer on any number of threads.
-    #[arg(long, global = true, default_value_t = lodestone::montecarlo::DEFAULT_SEED)]
+    #[arg(long, global = true, help_heading = "Global options", default_value_t = lodestone::montecarlo::DEFAULT_SEED)]
     pub seed: u64,
     /// Worker threads for Monte Carlo work (default: all cores). Results do not depend on it.
-    #[arg(long, global = true)]
+    #[arg(long, global = true, help_heading = "Global options")]
     pub threads: Option<usize>,
     /// No progress bars.
-    #[arg(long, global = true)]
+    #[arg(long, global = true, help_heading = "Global options")]
     pub quiet: bool,
 }
 
@@ -59,34 +64,44 @@ pub struct Cli {
 #[derive(Debug, Subcommand)]
 #[allow(clippy::large_enum_variant, reason = "parsed once per run; boxing the arguments would buy nothing")]
 enum Verb {
-    /// Fisher mean per site (or per --by column), with k, α95 and θ63.
-    Mean(mean::MeanArgs),
-    /// Virtual geomagnetic pole per site, paleopole (K, A95) and VGP scatter S_B.
-    Poles(poles::PolesArgs),
-    /// Dipole moments: VADM, VDM, or moment, tilt and pole of Gauss coefficients.
-    Dipole(dipole::DipoleArgs),
-    /// Direction expected at a site (or every site of a table) from a given pole.
-    Expected(expected::ExpectedArgs),
+    // In the order of the job: components → means → field tests → poles → column → correlation →
+    // reversal statistics → simulation → the whole chain; the tools beside the chain come last.
     /// Principal-component lines and planes per specimen from stepwise demagnetization (MAD, DANG).
     Components(components::ComponentsArgs),
+    /// Fisher mean per site (or per --by column), with k, α95 and θ63.
+    Mean(mean::MeanArgs),
+    /// Field tests: reversal, common-mean, fold, random.
+    Test(test::TestArgs),
+    /// Virtual geomagnetic pole per site, paleopole (K, A95) and VGP scatter S_B.
+    Poles(poles::PolesArgs),
     /// Polarity of each level from its VGP latitude, and the magnetozones with boundary intervals.
     Column(column::ColumnArgs),
     /// Rank correlations of a polarity column with a time scale; ties, age model, accumulation rates.
     Correlate(correlate::CorrelateArgs),
-    /// Synthetic time scales and synthetic sampled sections (project folders) from a stated model.
-    Simulate(simulate::SimulateArgs),
-    /// Field tests: reversal, common-mean, fold, random.
-    Test(test::TestArgs),
-    /// The whole chain on a project folder: tables, figures and an HTML report.
-    Section(section::SectionArgs),
-    /// Run `section` on the embedded invented demo section.
-    Demo(demo::DemoArgs),
     /// Renewal-model fits (exponential, gamma, Weibull, lognormal, inverse Gaussian) to polarity intervals.
     Intervals(intervals::IntervalsArgs),
     /// Hazard and P(reversal within a horizon | none so far) from the fitted models (not a forecast).
     Hazard(hazard::HazardArgs),
     /// Reversal rate through time, Laplace trend test and clustering test.
     Rate(rate::RateArgs),
+    /// Synthetic time scales and synthetic sampled sections (project folders) from a stated model.
+    Simulate(simulate::SimulateArgs),
+    /// The whole chain on a project folder: tables, figures and an HTML report.
+    Section(section::SectionArgs),
+    /// Run `section` on the embedded invented demo section.
+    Demo(demo::DemoArgs),
+    /// Dipole moments: VADM, VDM, or moment, tilt and pole of Gauss coefficients.
+    Dipole(dipole::DipoleArgs),
+    /// Direction expected at a site (or every site of a table) from a given pole.
+    Expected(expected::ExpectedArgs),
+    /// A local browser page to review and set each specimen's fit (saved to the folder's picks.csv).
+    Review(review::ReviewArgs),
+    /// The present field from a spherical-harmonic model (default the bundled IGRF-14): series, a point, context.
+    Field(field::FieldArgs),
+    /// Inclination-shallowing correction of sedimentary directions (elongation/inclination, or a given factor).
+    Unflatten(unflatten::UnflattenArgs),
+    /// VGP scatter per group against paleolatitude, with S(λ)² = a² + (bλ)² fitted.
+    Psv(psv::PsvArgs),
 }
 
 /// Shared context for a verb: global options, progress sink, and the input paths.
@@ -165,6 +180,10 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Intervals(a) => intervals::run(a, ctx),
         Verb::Hazard(a) => hazard::run(a, ctx),
         Verb::Rate(a) => rate::run(a, ctx),
+        Verb::Review(a) => review::run(a, ctx),
+        Verb::Field(a) => field::run(a, ctx),
+        Verb::Unflatten(a) => unflatten::run(a, ctx),
+        Verb::Psv(a) => psv::run(a, ctx),
     };
     report.map(Output::Report)
 }

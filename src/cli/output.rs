@@ -341,11 +341,15 @@ mod tests {
                 assert_eq!((o1, e1), (o2, e2), "{format:?}");
             }
         }
-        // Width from every row (including the later `inf`), `-0` written as 0 in CSV, no blank line
+        // Width from every row (including the later `inf`), a negative zero written without its sign (0.000 in
+        // text, 0 in CSV), no blank line
         // without notes.
         let (mut o, mut e) = (Vec::new(), Vec::new());
         write_output(&Output::Streamed(Box::new(Produced(r.clone()))), Format::Table, &mut o, &mut e).unwrap();
-        assert_eq!(String::from_utf8(o).unwrap(), "t\n  name       x\n  a       1.23\n  bb         -\n  c        inf\n  dd    -0.000\n  e          7\n\none\ntwo\n");
+        assert_eq!(
+            String::from_utf8(o).unwrap(),
+            "t\n  name      x\n  a      1.23\n  bb        -\n  c       inf\n  dd    0.000\n  e         7\n\none\ntwo\n"
+        );
         let (mut o, mut e) = (Vec::new(), Vec::new());
         write_output(&Output::Streamed(Box::new(Produced(r))), Format::Csv, &mut o, &mut e).unwrap();
         assert_eq!(String::from_utf8(o).unwrap(), "name,x\na,1.23456\nbb,\nc,inf\ndd,0\ne,7\n");

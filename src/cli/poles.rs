@@ -5,12 +5,12 @@ use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
 use lodestone::poles::{
-    bootstrap_scatter, northern, paleolatitude_range, paleopole, pole_oval, precision_from_a95, vgp, vgp_scatter,
+    align_polarity, bootstrap_scatter, paleolatitude_range, paleopole, pole_oval, precision_from_a95, vgp, vgp_scatter,
     within_site_sw, Cutoff, ScatterSite, WithinSite,
 };
 use lodestone::stats::confidence_cone;
 use lodestone::table::{read_sites, Table};
-use serde_json::json;
+use serde_json::{json, Value};
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -20,7 +20,7 @@ pub struct PolesArgs {
     /// Cutoff before the scatter: none, 45 (fixed angle about the mean pole; any angle is accepted) or vandamme.
     #[arg(long, default_value = "none")]
     pub cutoff: String,
-    /// Map VGPs of the southern hemisphere to their antipodes before averaging.
+    /// Align VGPs to one polarity before averaging (by their principal axis; see the notes).
     #[arg(long)]
     pub northern: bool,
     /// Require dp and dm for every site: a site without a95 (or n and k) is an error.
@@ -54,11 +54,13 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         &["site", "lat", "lon", "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "paleolat_low", "paleolat_high"],
     );
     let mut sites_json = Vec::new();
+    let raw: Vec<_> = set.records.iter().map(|r| vgp(r.location, r.direction).pole).collect();
+    let alignment = align_polarity(&raw)?;
     let mut averaged = Vec::new();
     let mut scatter_sites = Vec::new();
     let mut flipped_flags = Vec::new();
     let (mut n_south, mut missing_oval, mut missing_within) = (0usize, Vec::new(), 0usize);
-    for r in &set.records {
+    for (i, r) in set.records.iter().enumerate() {
         let v = vgp(r.location, r.direction);
         // α95 as given, else from n and k through Fisher's cone.
         let a95 = r.a95.or_else(|| match (r.n, r.k) {
@@ -73,10 +75,10 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         }
         let oval = a95.map(|x| pole_oval(v.colatitude, x)).transpose()?;
         let range = a95.map(|x| paleolatitude_range(r.direction.inc, x)).transpose()?;
-        if v.pole.lat < 0.0 {
+        let (aligned, flipped) = (alignment.poles[i], alignment.flipped[i]);
+        if flipped {
             n_south += 1;
         }
-        let (aligned, flipped) = northern(v.pole);
         averaged.push(if a.northern { aligned } else { v.pole });
         flipped_flags.push(a.northern && flipped);
         // Within-site dispersion needs n and k (k from a95 when only a95 is given).
@@ -117,6 +119,9 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         }));
     }
 
+    if set.records.len() == 1 {
+        return one_site(&a, ctx, &fname, sites_sec, sites_json, averaged[0], missing_oval);
+    }
     let pp = paleopole(&averaged)?;
     let mut pole_sec = Section::new("Paleopole (Fisher mean of the VGPs)", &["n", "plat", "plon", "k", "a95"]);
     pole_sec.rows.push(vec![
@@ -155,11 +160,12 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         j["kept"] = json!(keep);
     }
 
+    let axis = format!("{:.1}°, {:.1}°E", alignment.axis.lat, alignment.axis.lon);
     if n_south > 0 {
         notes.push(if a.northern {
-            format!("{n_south} VGP(s) in the southern hemisphere were mapped to their antipodes before averaging (--northern).")
+            format!("{n_south} VGP(s) lie more than 90° from the northern end of the VGPs' principal axis ({axis}) and were mapped to their antipodes before averaging (--northern).")
         } else {
-            format!("{n_south} VGP(s) lie in the southern hemisphere (reversed polarity, reported as computed); add --northern to average all VGPs in one polarity.")
+            format!("{n_south} VGP(s) lie more than 90° from the northern end of the VGPs' principal axis ({axis}): the opposite polarity, reported as computed; add --northern to average all VGPs in one polarity.")
         });
     }
     if !a.northern && n_south > 0 && n_south < set.records.len() {
@@ -174,7 +180,7 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         ));
     }
     notes.push(format!(
-        "Scatter: VGPs in the southern hemisphere are mapped to the north for the scatter; cutoff {cut_name} removed {} of {} site(s){}.",
+        "Scatter: polarity is aligned by the VGPs' principal axis (each VGP more than 90° from its northern end is replaced by its antipode), which holds for a mean pole at any latitude; cutoff {cut_name} removed {} of {} site(s){}.",
         sc.n_removed,
         set.records.len(),
         if removed.is_empty() { String::new() } else { format!(" ({})", removed.join(", ")) }
@@ -233,6 +239,47 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
             "notes": notes,
         }),
         sections: vec![sites_sec, pole_sec, sc_sec],
+        csv_section: 0,
+        notes,
+    })
+}
+
+/// A table of one site: its VGP, dp/dm and paleolatitude, and a note why no paleopole or scatter.
+fn one_site(
+    a: &PolesArgs,
+    ctx: &mut Ctx,
+    fname: &str,
+    sites_sec: Section,
+    mut sites_json: Vec<Value>,
+    pole: lodestone::sphere::GeoPoint,
+    missing_oval: Vec<String>,
+) -> Result<Report> {
+    let mut notes = vec![format!(
+        "{fname} holds one site: its VGP is given, but a paleopole (a Fisher mean of VGPs) and the VGP scatter need at least two sites, so none is computed."
+    )];
+    notes.push("A VGP rests on a model: a geocentric dipole field at the site; one site records one moment of the field, not a time average.".into());
+    if !missing_oval.is_empty() {
+        notes.push("dp, dm and the paleolatitude range are empty: the site has no a95 (or n and k).".into());
+    }
+    for j in &mut sites_json {
+        j["kept"] = json!(true);
+    }
+    if let Some(path) = &a.plot {
+        let fig = PolePlot {
+            title: format!("VGP — {}", a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()),
+            centre: pole,
+            vgps: vec![MappedVgp { pole, kept: true, flipped: false }],
+            mean: None,
+            cutoff: None,
+        };
+        super::write_figure(&fig, path, &ctx.inputs)?;
+    }
+    Ok(Report {
+        json: json!({
+            "file": fname, "northern": a.northern, "sites": sites_json,
+            "pole": Value::Null, "scatter": Value::Null, "notes": notes,
+        }),
+        sections: vec![sites_sec],
         csv_section: 0,
         notes,
     })

@@ -180,6 +180,7 @@ fn comparison_output(c: &MeanComparison, what: &str, title: &str) -> (Section, V
     let j = json!({
         "n1": c.n1, "n2": c.n2,
         "gamma": c.mm90.gamma, "gamma_c": c.mm90.gamma_c, "class": c.mm90.class.name(),
+        "gamma_c_common_k": c.mm90.gamma_c_common_k,
         "v_w": c.watson.v_w, "v_crit": c.watson.v_crit, "v_w_passed": c.watson.passed,
         "bootstrap": {
             "passed": b.passed, "overlap": b.overlap, "resamples": b.resamples,
@@ -206,7 +207,7 @@ fn comparison_output(c: &MeanComparison, what: &str, title: &str) -> (Section, V
         notes.push("Watson's V_w and the bootstrap give the same outcome.".into());
     } else {
         notes.push(format!(
-            "The approaches disagree (angle test {}, V_w {}, bootstrap {}); `passed` follows the angle test, which assumes a common precision k1 = {:.0}, k2 = {:.0}.",
+            "The approaches disagree (angle test {}, V_w {}, bootstrap {}); `passed` follows the angle test (k1 = {:.0}, k2 = {:.0}).",
             yes_no(c.mm90.passed, "pass", "fail"),
             yes_no(c.watson.passed, "pass", "fail"),
             yes_no(c.bootstrap.passed, "pass", "fail"),
@@ -214,6 +215,10 @@ fn comparison_output(c: &MeanComparison, what: &str, title: &str) -> (Section, V
             c.k2
         ));
     }
+    notes.push(format!(
+        "gamma_c is the angle at which V_w reaches its simulated critical value (McFadden & McElhinny 1990), valid for unequal precisions; the common-precision angle would be {:.1}°.",
+        c.mm90.gamma_c_common_k
+    ));
     if c.mm90.class == fieldtests::Mm90Class::Indeterminate {
         notes.push("gamma_c exceeds 20°: the data are too few or too scattered for the test to discriminate.".into());
     }

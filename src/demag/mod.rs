@@ -2,10 +2,12 @@
 //! steps, and an automatic, reproducible choice of the line segment.
 
 mod auto;
+mod last_component;
 mod pca;
 mod ranges;
 
 pub use auto::{auto_line, AutoOutcome, AutoRule};
+pub use last_component::{last_component, AutoChoice, Grade, LastComponentRule, LastOutcome};
 pub use pca::{fit_line, fit_plane, Anchor, FitKind, LineFit, PlaneFit};
 pub use ranges::{fit_range, steps_in_range, SpecimenFit};
 

@@ -95,7 +95,8 @@ fn bounds(pairs: &[(Option<Vec3>, Option<Vec3>)], confidence: f64) -> [Component
 /// # Formula
 /// For each resample b: m_b = Σ u*ᵢ / |Σ u*ᵢ|. The interval of component c is the
 /// ((1 − confidence)/2, (1 + confidence)/2) quantile pair (type 7). The means are distinguishable when
-/// the intervals of at least one component do not overlap.
+/// the intervals of at least one component do not overlap; bounds within
+/// [`crate::tolerance::BOUND_OVERLAP`] of each other count as overlapping.
 ///
 /// # References
 /// Tauxe, L., Kylstra, N. & Constable, C. (1991), Bootstrap statistics for paleomagnetic data,
@@ -117,7 +118,8 @@ pub fn bootstrap_overlap(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f6
         ));
     }
     let [set1, set2] = bounds(&pairs, confidence);
-    let overlap = [0, 1, 2].map(|c| set1.low[c] <= set2.high[c] && set2.low[c] <= set1.high[c]);
+    let eps = crate::tolerance::BOUND_OVERLAP;
+    let overlap = [0, 1, 2].map(|c| set1.low[c] <= set2.high[c] + eps && set2.low[c] <= set1.high[c] + eps);
     Ok(BootstrapOverlap { set1, set2, overlap, confidence, resamples: na.min(nb), passed: overlap.iter().all(|&o| o) })
 }
 
@@ -144,5 +146,18 @@ mod tests {
         for c in 0..3 {
             assert!(near.set1.low[c] <= near.set1.high[c]);
         }
+    }
+
+    #[test]
+    fn identical_antipodal_sets_overlap() {
+        // Five copies of one direction against seven copies of its antipode, flipped: the two sets are
+        // the same direction exactly, so every resampled mean is that direction and each bound has
+        // zero width. Summing 5 and 7 copies rounds differently in the last bit; the test must still
+        // call the bounds overlapping (a regression: it used to report the identical means as distinct).
+        let u = Direction { dec: 17.0, inc: 33.0 }.to_vector();
+        let a = vec![u; 5];
+        let b: Vec<Vec3> = vec![-u; 7].into_iter().map(|v| -v).collect();
+        let t = bootstrap_overlap(&a, &b, &MonteCarlo::new(1, 100), 0.95).unwrap();
+        assert!(t.passed, "{t:?}");
     }
 }

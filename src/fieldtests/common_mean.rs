@@ -58,8 +58,13 @@ impl Mm90Class {
 pub struct Mm90 {
     /// Angle between the two means γ, degrees.
     pub gamma: f64,
-    /// Critical angle γc at the chosen confidence, degrees (180 when any angle is acceptable).
+    /// Critical angle γc at the chosen confidence, degrees (180 when any angle is acceptable): the
+    /// angle at which Watson's V_w reaches its simulated critical value ([`watson_critical_angle`]).
+    /// It holds whether or not the two sets share a precision.
     pub gamma_c: f64,
+    /// The analytic critical angle that assumes one precision for both sets
+    /// ([`mm90_critical_angle`]), reported for comparison; it is too small when the precisions differ.
+    pub gamma_c_common_k: f64,
     /// Quality class.
     pub class: Mm90Class,
     /// γ ≤ γc.
@@ -67,6 +72,9 @@ pub struct Mm90 {
 }
 
 /// Critical angle between two mean directions that share a precision parameter.
+///
+/// Valid only when both sets share one precision k; [`compare_means`] classifies with
+/// [`watson_critical_angle`] instead and reports this angle beside it.
 ///
 /// # Units
 /// Degrees. `confidence` is a probability, e.g. 0.95.
@@ -77,6 +85,10 @@ pub struct Mm90 {
 /// m(p^(−1/m) − 1), so the largest acceptable resultant is R_c = R₁ + R₂ − (N − R₁ − R₂)(p^(−1/(N−2)) − 1),
 /// p = 1 − confidence, and since R² = R₁² + R₂² + 2R₁R₂ cos γ:
 /// cos γc = (R_c² − R₁² − R₂²)/(2 R₁ R₂). When R_c ≤ |R₁ − R₂| every angle is acceptable (γc = 180°).
+///
+/// This is the exact quantile of the F statistic. McFadden & McElhinny (1990) print an approximate
+/// closed form for the same angle; the two differ by a few hundredths of a degree near the class
+/// limits, so a value read from the paper's formula may fall on the other side of a limit.
 ///
 /// # References
 /// McFadden, P. L. & Lowes, F. J. (1981), The discrimination of mean directions drawn from Fisher
@@ -108,6 +120,48 @@ pub fn mm90_critical_angle(n1: usize, r1: f64, n2: usize, r2: f64, confidence: f
     Ok(c.clamp(-1.0, 1.0).acos().to_degrees())
 }
 
+/// Critical angle from a critical value of Watson's V_w: the angle γ between the two means at which
+/// V_w, with the sets' resultants and precisions held fixed, equals `v_crit`.
+///
+/// # Units
+/// Degrees. `k1`, `k2` are precisions, `r1`, `r2` resultant lengths, `v_crit` is dimensionless.
+///
+/// # Formula
+/// V_w = 2(S_w − R_w), S_w = k₁R₁ + k₂R₂, R_w² = (k₁R₁)² + (k₂R₂)² + 2k₁R₁k₂R₂ cos γ. The critical
+/// R_wc = S_w − V_crit/2 gives cos γc = (R_wc² − (k₁R₁)² − (k₂R₂)²)/(2 k₁R₁ k₂R₂); γc = 180° when
+/// R_wc ≤ |k₁R₁ − k₂R₂| (every angle acceptable), 0° when V_crit ≤ 0. Since R_w falls as γ grows,
+/// γ > γc exactly when V_w > V_crit.
+///
+/// # References
+/// McFadden, P. L. & McElhinny, M. W. (1990), Classification of the reversal test in palaeomagnetism,
+/// *Geophys. J. Int.* 103, 725–729 (the critical angle from the simulated critical value of V_w, for
+/// sets of different precision); Watson (1983) for V_w.
+pub fn watson_critical_angle(k1: f64, r1: f64, k2: f64, r2: f64, v_crit: f64) -> f64 {
+    let (a, b) = (k1 * r1, k2 * r2);
+    if v_crit <= 0.0 {
+        return 0.0;
+    }
+    let rwc = a + b - v_crit / 2.0;
+    if rwc <= (a - b).abs() {
+        return 180.0;
+    }
+    let c = (rwc * rwc - a * a - b * b) / (2.0 * a * b);
+    c.clamp(-1.0, 1.0).acos().to_degrees()
+}
+
+/// The angle test of two sets from their resultants and an already simulated V_w: γ, the critical
+/// angle from V_crit ([`watson_critical_angle`]) and the class; the common-precision angle beside it.
+pub fn mm90_test(a: &[Vec3], b: &[Vec3], watson: &WatsonV) -> Result<Mm90> {
+    let (sa, sb) = (resultant(a), resultant(b));
+    let (r1, r2) = (sa.norm(), sb.norm());
+    let gamma = angle_between(sa, sb);
+    let gamma_c_common_k = mm90_critical_angle(a.len(), r1, b.len(), r2, watson.confidence)?;
+    let (k1, k2) = (super::capped_k(a.len(), r1), super::capped_k(b.len(), r2));
+    let gamma_c = watson_critical_angle(k1, r1, k2, r2, watson.v_crit);
+    let class = Mm90Class::classify(gamma, gamma_c);
+    Ok(Mm90 { gamma, gamma_c, gamma_c_common_k, class, passed: class != Mm90Class::Negative })
+}
+
 /// The full comparison of two sets of directions.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct MeanComparison {
@@ -133,7 +187,8 @@ pub struct MeanComparison {
     pub watson: WatsonV,
     /// Bootstrap overlap of the mean components.
     pub bootstrap: BootstrapOverlap,
-    /// Overall result: the McFadden & McElhinny test (γ ≤ γc). The other two are reported beside it.
+    /// Overall result: the angle test, γ ≤ γc with γc from the simulated V_w. The other two are
+    /// reported beside it.
     pub passed: bool,
 }
 
@@ -149,8 +204,10 @@ impl MeanComparison {
 /// `mc.resamples` sets both the bootstrap size and the number of simulated pairs for V_w.
 ///
 /// # Formula
-/// γ = angle between the two resultant vectors; γc from [`mm90_critical_angle`]; V_w from
-/// [`super::watson_v`]; bootstrap from [`super::bootstrap_overlap`].
+/// γ = angle between the two resultant vectors; V_w and its simulated critical value from
+/// [`super::watson_v`] (the simulation uses each set's own N and k); γc from that critical value
+/// ([`watson_critical_angle`]), so the class holds for unequal precisions; bootstrap from
+/// [`super::bootstrap_overlap`].
 ///
 /// # References
 /// McFadden & McElhinny (1990); Watson (1983); Tauxe, Kylstra & Constable (1991).
@@ -170,11 +227,8 @@ pub fn compare_means(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -
         (Some(m1), Some(m2)) if r1 > 1e-9 * nf(a.len()) && r2 > 1e-9 * nf(b.len()) => (m1, m2),
         _ => return Err(Error::Undefined("a set has no mean direction: its directions cancel out (R ≈ 0)".into())),
     };
-    let gamma = angle_between(sa, sb);
-    let gamma_c = mm90_critical_angle(a.len(), r1, b.len(), r2, confidence)?;
-    let class = Mm90Class::classify(gamma, gamma_c);
-    let mm90 = Mm90 { gamma, gamma_c, class, passed: gamma <= gamma_c };
     let watson = watson_v(a, b, mc, confidence)?;
+    let mm90 = mm90_test(a, b, &watson)?;
     let bootstrap = bootstrap_overlap(a, b, mc, confidence)?;
     Ok(MeanComparison {
         n1: a.len(),
@@ -195,6 +249,38 @@ pub fn compare_means(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::stats::FisherSampler;
+
+    /// Share of simulated pairs with identical true means that the angle test rejects at 95 %:
+    /// (with γc from the simulated V_w, with the common-precision γc).
+    fn false_rejections(n1: usize, k1: f64, n2: usize, k2: f64, trials: usize, seed: u64) -> (f64, f64) {
+        let mean = Direction { dec: 30.0, inc: 55.0 };
+        let (s1, s2) = (FisherSampler::new(mean, k1).unwrap(), FisherSampler::new(mean, k2).unwrap());
+        let outcomes = MonteCarlo::new(seed, trials).run("size study", 0x5157, |rng, t| {
+            let a: Vec<Vec3> = (0..n1).map(|_| s1.sample(rng)).collect();
+            let b: Vec<Vec3> = (0..n2).map(|_| s2.sample(rng)).collect();
+            let w = watson_v(&a, &b, &MonteCarlo::new(seed ^ (t as u64 + 1) << 20, 400), 0.95).unwrap();
+            let m = mm90_test(&a, &b, &w).unwrap();
+            (!m.passed, m.gamma > m.gamma_c_common_k)
+        });
+        let share = |f: fn(&(bool, bool)) -> bool| outcomes.iter().filter(|o| f(o)).count() as f64 / trials as f64;
+        (share(|o| o.0), share(|o| o.1))
+    }
+
+    #[test]
+    fn false_rejection_rate_is_five_percent_for_equal_and_unequal_precisions() {
+        // Seeded simulation study of the test's size: pairs of Fisher sets with one true mean, 1500
+        // pairs each, V_crit from 400 simulations. A 95 % test should reject 5 % of them; the binomial
+        // standard error at 1500 pairs is 0.56 %, so the band 5 ± 2 % is about ±3.5σ. The first two
+        // pairs share a precision; the last two are the very unequal cases where the common-precision
+        // angle rejects far too often (it is printed for the record, not asserted).
+        let pairs = [(15, 30.0, 15, 30.0), (8, 10.0, 12, 10.0), (20, 100.0, 5, 5.0), (30, 60.0, 10, 20.0)];
+        for (i, &(n1, k1, n2, k2)) in pairs.iter().enumerate() {
+            let (rate, common_k) = false_rejections(n1, k1, n2, k2, 1500, 40 + i as u64);
+            println!("{n1}@{k1} vs {n2}@{k2}: rejects {rate:.3} (common-k angle {common_k:.3})");
+            assert!((0.03..=0.07).contains(&rate), "{n1}@{k1} vs {n2}@{k2}: rejects {rate}");
+        }
+    }
 
     #[test]
     fn critical_angle_matches_the_f_quantile_route() {
@@ -210,6 +296,25 @@ mod tests {
             let got = mm90_critical_angle(n1, r1, n2, r2, 0.95).unwrap();
             assert!((got - want).abs() < 1e-9, "{n1} {r1} {n2} {r2}: {got} vs {want}");
         }
+    }
+
+    #[test]
+    fn watson_angle_puts_v_w_at_its_critical_value() {
+        // Two pairs of directions ±θ about two means γc apart: at that angle the V_w of the sets,
+        // computed from the vectors by watson_v_statistic, must equal the V_crit that gave γc (the
+        // defining property, from V_w = 2(S_w − R_w), Watson 1983).
+        let pair = |dec: f64, th: f64| -> Vec<Vec3> {
+            vec![Direction::new(dec + th, 0.0).unwrap().to_vector(), Direction::new(dec - th, 0.0).unwrap().to_vector()]
+        };
+        let (ra, rb) = (2.0 * 4f64.to_radians().cos(), 2.0 * 9f64.to_radians().cos());
+        let (ka, kb) = (1.0 / (2.0 - ra), 1.0 / (2.0 - rb));
+        for v_crit in [0.5, 3.0, 7.5] {
+            let gc = watson_critical_angle(ka, ra, kb, rb, v_crit);
+            let v = super::super::watson_v_statistic(&pair(0.0, 4.0), &pair(gc, 9.0));
+            assert!((v - v_crit).abs() < 1e-7 * v_crit, "V_crit {v_crit}: γc {gc}, V_w {v}");
+        }
+        assert_eq!(watson_critical_angle(ka, ra, kb, rb, 0.0), 0.0);
+        assert_eq!(watson_critical_angle(ka, ra, kb, rb, 1e9), 180.0);
     }
 
     #[test]

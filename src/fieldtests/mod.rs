@@ -16,7 +16,9 @@ mod untilt_curves;
 mod watson_v;
 
 pub use bootstrap_means::{bootstrap_overlap, BootstrapOverlap, ComponentBounds};
-pub use common_mean::{compare_means, mm90_critical_angle, MeanComparison, Mm90, Mm90Class};
+pub use common_mean::{
+    compare_means, mm90_critical_angle, mm90_test, watson_critical_angle, MeanComparison, Mm90, Mm90Class,
+};
 pub use fold::{bedding_spread, fold_test, precision_ratio, FoldOptions, FoldTest, FoldVerdict, PrecisionRatio};
 pub use randomness::{isotropic_resultant_cdf, randomness_test, watson_r0, R0Route, RandomnessTest};
 pub use reversal::{reversal_test, split_modes, PolaritySplit, ReversalTest};

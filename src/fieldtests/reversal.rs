@@ -4,7 +4,7 @@ use super::common_mean::{compare_means, MeanComparison};
 use crate::error::{Error, Result};
 use crate::montecarlo::MonteCarlo;
 use crate::sphere::{Direction, Vec3};
-use crate::stats::principal_axes;
+use crate::stats::principal_axis_signed;
 
 /// How the directions were split into two polarity modes.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -30,17 +30,7 @@ pub fn split_modes(v: &[Vec3]) -> Result<PolaritySplit> {
     if v.is_empty() {
         return Err(Error::TooFew { what: "a polarity split", needed: 1, got: 0, unit: "directions" });
     }
-    let mut axis = principal_axes(v).vectors[0];
-    let flip = if axis.z.abs() > 1e-12 {
-        axis.z < 0.0
-    } else if axis.x.abs() > 1e-12 {
-        axis.x < 0.0
-    } else {
-        axis.y < 0.0
-    };
-    if flip {
-        axis = -axis;
-    }
+    let axis = principal_axis_signed(v);
     let (mut mode1, mut mode2) = (Vec::new(), Vec::new());
     for (i, u) in v.iter().enumerate() {
         if u.dot(axis) >= 0.0 {

@@ -16,7 +16,7 @@ pub struct MappedVgp {
     pub pole: GeoPoint,
     /// Kept by the cutoff (false: drawn as a removed pole).
     pub kept: bool,
-    /// Mapped from the southern hemisphere to its antipode.
+    /// Replaced by its antipode to align its polarity with the others.
     pub flipped: bool,
 }
 

@@ -1,5 +1,6 @@
 //! The vector-endpoint diagram of one specimen (horizontal and vertical projections of the
-//! remanence vector on shared axes) beside an equal-area plot of the step directions.
+//! remanence vector on shared axes) beside an equal-area plot of the step directions and the
+//! moment's decay.
 
 use super::equal_area::{draw_net, project, small_circle};
 use super::render::{de, Figure};
@@ -16,7 +17,8 @@ use plotters::prelude::*;
 /// projection (North, Up) as ochre open squares, each path joined in step order and labelled with
 /// the step values; fitted lines are drawn in rust over both projections. Right, the step
 /// directions on an equal-area net (filled: down, open: up), fitted lines as a rust diamond and
-/// fitted planes as their great circle.
+/// fitted planes as their great circle. Far right, the moment's decay (|M|/|M₀| against step) with
+/// the fitted ranges shaded. Step labels are placed so that they never overlap.
 #[derive(Debug, Clone, PartialEq)]
 pub struct VectorEndpointPlot {
     /// Specimen name (title).
@@ -110,8 +112,8 @@ impl VectorEndpointPlot {
             }
         }
         let small = (theme::FONT, 11).into_font().color(&theme::INK);
-        let every = self.steps.len().div_ceil(14).max(1);
-        for (i, (step, v)) in self.steps.iter().enumerate() {
+        let mut label_at = Vec::new();
+        for (_, v) in self.steps.iter() {
             let [hp, vp] = endpoint_projections(*v);
             let (ph, pv) = (px(hp), px(vp));
             area.draw(&Circle::new(ph, 4, hcol.filled())).map_err(de)?;
@@ -119,8 +121,16 @@ impl VectorEndpointPlot {
                 .map_err(de)?;
             area.draw(&Rectangle::new([(pv.0 - 4, pv.1 - 4), (pv.0 + 4, pv.1 + 4)], vcol.stroke_width(2)))
                 .map_err(de)?;
-            if i % every == 0 || i + 1 == self.steps.len() {
-                area.draw(&Text::new(format_step(*step), (ph.0 + 6, ph.1 - 14), small.clone())).map_err(de)?;
+            label_at.push(ph);
+        }
+        // Step labels beside the horizontal projection, never overlapping (some are left out when
+        // the steps crowd).
+        let texts: Vec<String> = self.steps.iter().map(|s| format_step(s.0)).collect();
+        let order = super::label_order(texts.len());
+        for (i, at) in super::place_labels(&label_at, &texts, 11, (w as i32, h as i32), &order).into_iter().enumerate()
+        {
+            if let Some(at) = at {
+                area.draw(&Text::new(texts[i].clone(), at, small.clone())).map_err(de)?;
             }
         }
         // A scale bar of one round length, labelled to its right.
@@ -163,7 +173,7 @@ fn sig(x: f64) -> String {
 
 impl Figure for VectorEndpointPlot {
     fn size(&self) -> (u32, u32) {
-        (1120, 620)
+        (1500, 620)
     }
     fn draw<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), String> {
         root.fill(&theme::PAPER).map_err(de)?;
@@ -175,8 +185,10 @@ impl Figure for VectorEndpointPlot {
         ))
         .map_err(de)?;
         let body = root.margin(36, 70, 0, 0);
-        let (left, right) = body.split_horizontally(600);
+        let (left, rest) = body.split_horizontally(600);
+        let (right, decay) = rest.split_horizontally(480);
         self.draw_endpoints(&left)?;
+        super::draw_decay(&decay, &self.steps, &self.fits, &self.unit, format_step)?;
         let nc = draw_net(&right)?;
         let dirs: Vec<Direction> = self.steps.iter().filter_map(|(_, v)| Direction::from_vector(*v)).collect();
         let path: Vec<(i32, i32)> = dirs.iter().map(|d| nc.px(project(*d))).collect();

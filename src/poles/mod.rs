@@ -3,6 +3,7 @@
 mod vgp;
 
 pub use vgp::{colatitude_from_inclination, dipole_inclination, expected_direction, vgp, Vgp};
+mod align;
 mod dipole;
 mod oval;
 mod paleopole;
@@ -10,6 +11,7 @@ mod scatter;
 #[cfg(test)]
 mod tests;
 
+pub use align::{align_polarity, PolarityAlignment};
 pub use dipole::{gauss_dipole, vadm, vdm, GaussDipole, EARTH_RADIUS_M, IGRF_REFERENCE_RADIUS_M, MU0};
 pub use oval::{expected_oval, paleolatitude_range, pole_oval, vgp_oval, ExpectedOval, PaleolatitudeRange, PoleOval};
 pub use paleopole::{northern, paleopole, Paleopole};

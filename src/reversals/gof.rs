@@ -87,7 +87,7 @@ pub fn null_statistics(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64)
         let mut xs = std::mem::take(&mut buf.xs);
         xs.clear();
         xs.extend((0..n).map(|_| f.sample(rng)));
-        let rs = Sample::new(xs, s.censored).ok()?;
+        let rs = s.replicate(xs).ok()?;
         let st = f.model.fit(&rs).ok().map(|rf| statistics(&rs, &rf, &mut buf.cdf));
         buf.xs = rs.complete;
         let st = st?;

@@ -152,7 +152,7 @@ pub fn averaged_interval(
     let mut vals: Vec<f64> = mc
         .run("hazard bootstrap", stream, |rng, _| {
             let xs: Vec<f64> = (0..n).map(|_| s.complete[rng.random_range(0..n)]).collect();
-            let rs = Sample::new(xs, s.censored).ok()?;
+            let rs = s.replicate(xs).ok()?;
             averaged_p(&fit_models(&rs, models), elapsed, horizon)
         })
         .into_iter()

@@ -28,6 +28,30 @@ impl Interval {
     }
 }
 
+/// How the interval at the old end of the record is read.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum EdgeReading {
+    /// A whole interval: its old boundary is a reversal (a reference scale listing whole chrons).
+    Complete,
+    /// Right-censored: it lasted at least its length in the record (a table or window cut at an
+    /// arbitrary age).
+    Censored,
+    /// Left out of the likelihoods.
+    LeftOut,
+}
+
+impl EdgeReading {
+    /// The name used in output: `complete`, `censored` or `left-out`.
+    pub fn name(self) -> &'static str {
+        match self {
+            EdgeReading::Complete => "complete",
+            EdgeReading::Censored => "censored",
+            EdgeReading::LeftOut => "left-out",
+        }
+    }
+}
+
 /// How to cut intervals from a time scale.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct IntervalOptions {
@@ -37,13 +61,19 @@ pub struct IntervalOptions {
     pub to: Option<f64>,
     /// Chrons shorter than this (Myr) are merged into their neighbours; 0 keeps all.
     pub min_length: f64,
-    /// Whether the open chron at the present enters as a right-censored length.
+    /// Whether the open chron at the present (or the chron cut by the window's young edge) enters as
+    /// a right-censored length.
     pub censor: bool,
+    /// How to read the interval at the old end. `None`: the default rule — the scale's oldest row is
+    /// complete when the table states that its old boundary is a reversal
+    /// ([`TimeScale::oldest_is_reversal`]), censored otherwise; a chron cut by the window's old edge
+    /// is censored. `Complete` applies to the scale's oldest row only.
+    pub old_edge: Option<EdgeReading>,
 }
 
 impl Default for IntervalOptions {
     fn default() -> Self {
-        IntervalOptions { from: None, to: None, min_length: 0.0, censor: true }
+        IntervalOptions { from: None, to: None, min_length: 0.0, censor: true, old_edge: None }
     }
 }
 
@@ -58,13 +88,26 @@ pub struct IntervalRecord {
     pub complete: Vec<Interval>,
     /// The open chron at the present (young boundary at 0 Ma), when it lies in the window.
     pub open: Option<Interval>,
-    /// Its length as a right-censored observation; `None` when censoring is off or there is no open chron.
+    /// The chron cut by the window's young edge (its part inside the window), when the window starts
+    /// after the present.
+    pub young_cut: Option<Interval>,
+    /// The length of the open chron, or of the part of `young_cut` inside the window, as a
+    /// right-censored observation; `None` when censoring is off or there is neither.
     pub censored: Option<f64>,
+    /// The interval at the old end of the window (clipped to it) when its old boundary is the end of
+    /// the scale or the window's old edge; `None` when the window ends at a reversal inside the scale.
+    pub old_end: Option<Interval>,
+    /// How `old_end` was read.
+    pub old_reading: EdgeReading,
+    /// `old_end` is a chron cut by the window's old edge (not the scale's oldest row).
+    pub old_end_cut_by_window: bool,
+    /// Its length as a second right-censored observation, when read as censored.
+    pub censored_old: Option<f64>,
     /// Short chrons merged into their neighbours by `min_length`.
     pub merged_short: usize,
     /// Adjacent chrons of the same polarity joined into one interval.
     pub joined: usize,
-    /// Intervals cut by the window edges or by the old end of the scale, left out (true length unknown).
+    /// Intervals cut by the window edges or by the old end of the scale and left out of the likelihoods.
     pub left_out: usize,
     /// Ages of the reversals (interval boundaries) strictly inside the window, youngest first, Ma.
     pub reversals: Vec<f64>,
@@ -73,7 +116,8 @@ pub struct IntervalRecord {
 impl IntervalRecord {
     /// The interval lengths as a [`Sample`] for fitting.
     pub fn sample(&self) -> Result<Sample> {
-        Sample::new(self.complete.iter().map(Interval::duration).collect(), self.censored)
+        Sample::new(self.complete.iter().map(Interval::duration).collect(), self.censored)?
+            .with_old_censored(self.censored_old)
     }
 }
 
@@ -82,9 +126,13 @@ impl IntervalRecord {
 /// Steps: (1) adjacent chrons of the same polarity are joined; (2) while some interval other than the
 /// open one is shorter than `min_length`, the shortest is removed and merged with its neighbours
 /// (which share a polarity, so the three become one interval); (3) intervals lying wholly in the
-/// window are complete, the interval whose young boundary is the present (0 Ma) is the open chron,
-/// and intervals cut by a window edge are left out. The oldest interval of the scale ends where the
-/// table ends, which need not be a reversal, so its length is unknown and it is left out too.
+/// window are complete, the interval whose young boundary is the present (0 Ma) is the open chron
+/// (right-censored unless `censor` is off), and so is the part of a chron cut by the window's young
+/// edge. The interval at the old end — the scale's oldest row, whose old boundary need not be a
+/// reversal, or a chron cut by the window's old edge — is read by `old_edge` (see
+/// [`IntervalOptions`]): complete, right-censored (a second censored length), or left out. Reading
+/// an edge interval as censored keeps the information that it lasted at least that long; leaving it
+/// out drops a long interval and biases the rate upward.
 ///
 /// # References
 /// Cox, A. (1968), Lengths of geomagnetic polarity intervals. *J. Geophys. Res.* 73, 3247–3260
@@ -156,29 +204,66 @@ pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord
         }
     }
     let scale_end = ts.old();
+    let scale_reading = if ts.oldest_is_reversal { EdgeReading::Complete } else { EdgeReading::Censored };
     let mut rec = IntervalRecord {
         from,
         to,
         complete: vec![],
         open: None,
+        young_cut: None,
         censored: None,
+        old_end: None,
+        old_reading: opt.old_edge.unwrap_or(EdgeReading::Censored),
+        old_end_cut_by_window: false,
+        censored_old: None,
         merged_short,
         joined,
         left_out: 0,
         reversals: vec![],
     };
     for iv in &list {
-        let inside = iv.young >= from - AGE_TOLERANCE && iv.old <= to + AGE_TOLERANCE;
-        if inside && is_open(iv) {
-            rec.open = Some(iv.clone());
-        } else if inside && iv.old < scale_end - AGE_TOLERANCE {
-            rec.complete.push(iv.clone());
-        } else if iv.old > from && iv.young < to {
-            rec.left_out += 1;
+        if !(iv.old > from + AGE_TOLERANCE && iv.young < to - AGE_TOLERANCE) {
+            continue; // outside the window
         }
-    }
-    if opt.censor {
-        rec.censored = rec.open.as_ref().map(Interval::duration);
+        let starts_inside = iv.young >= from - AGE_TOLERANCE;
+        let ends_inside = iv.old <= to + AGE_TOLERANCE;
+        let clipped = Interval { young: iv.young.max(from), old: iv.old.min(to), ..iv.clone() };
+        if is_open(iv) || !starts_inside {
+            // The young end of the record: the open chron, or a chron cut by the window's young edge.
+            if starts_inside {
+                rec.open = Some(clipped.clone());
+            } else {
+                rec.young_cut = Some(clipped.clone());
+            }
+            if opt.censor {
+                rec.censored = Some(clipped.duration());
+            } else {
+                rec.left_out += usize::from(rec.young_cut.is_some());
+            }
+        } else if ends_inside && iv.old < scale_end - AGE_TOLERANCE {
+            rec.complete.push(iv.clone());
+        } else {
+            // The old end: the scale's oldest row (ends_inside) or a chron cut by the window's old edge.
+            let reading = match (opt.old_edge, ends_inside) {
+                (Some(EdgeReading::Complete), false) => {
+                    return Err(Error::Invalid(format!(
+                    "the window's old edge at {to} Ma cuts the chron from {} to {} Ma: it cannot be read as complete",
+                    iv.young, iv.old
+                )))
+                }
+                (Some(r), _) => r,
+                (None, true) => scale_reading,
+                (None, false) => EdgeReading::Censored,
+            };
+            rec.old_reading = reading;
+            rec.old_end_cut_by_window = !ends_inside;
+            match reading {
+                EdgeReading::Complete => rec.complete.push(iv.clone()),
+                EdgeReading::Censored => rec.censored_old = Some(clipped.duration()),
+                EdgeReading::LeftOut => rec.left_out += 1,
+            }
+            rec.old_end = Some(clipped);
+        }
     }
     rec.reversals =
         list.windows(2).map(|w| w[0].old).filter(|&a| a > from + AGE_TOLERANCE && a < to - AGE_TOLERANCE).collect();
@@ -205,13 +290,40 @@ mod tests {
         assert_eq!(r.open.as_ref().unwrap().duration(), 0.7);
         assert_eq!(r.censored, Some(0.7));
         let d: Vec<f64> = r.complete.iter().map(|i| (i.duration() * 1e9).round() / 1e9).collect();
-        // The oldest interval (2.0–2.6 Ma) ends with the table, not necessarily at a reversal: left out.
+        // The oldest interval (2.0–2.6 Ma) ends with the table, not necessarily at a reversal: by
+        // default it is right-censored (it lasted at least 0.6 Myr), a second censored length.
         assert_eq!(d, vec![0.3, 0.02, 0.48, 0.5]);
-        assert_eq!(r.left_out, 1);
+        assert_eq!((r.left_out, r.old_reading), (0, EdgeReading::Censored));
+        assert!((r.censored_old.unwrap() - 0.6).abs() < 1e-12);
+        assert_eq!(r.sample().unwrap().n_obs(), 6);
         assert_eq!(r.reversals.len(), 5);
         let no = intervals(&ts(SCALE), &IntervalOptions { censor: false, ..Default::default() }).unwrap();
         assert_eq!(no.censored, None);
         assert_eq!(no.complete.len(), 4);
+    }
+
+    #[test]
+    fn the_oldest_row_is_read_as_stated() {
+        // Stated reversal on the oldest row (column old_edge): a whole interval by default.
+        let with_column = |last: &str| {
+            let mut rows: Vec<String> = SCALE.lines().map(|l| format!("{l},")).collect();
+            rows[0] = rows[0].replace("name,", "name,old_edge");
+            let end = rows.len() - 1;
+            rows[end].push_str(last);
+            rows.join("\n") + "\n"
+        };
+        let stated = with_column("reversal");
+        let r = intervals(&ts(&stated), &IntervalOptions::default()).unwrap();
+        assert_eq!((r.complete.len(), r.censored_old, r.old_reading), (5, None, EdgeReading::Complete));
+        // The option overrides the table either way.
+        let opt = |e| IntervalOptions { old_edge: Some(e), ..Default::default() };
+        let r = intervals(&ts(&stated), &opt(EdgeReading::LeftOut)).unwrap();
+        assert_eq!((r.complete.len(), r.left_out, r.censored_old), (4, 1, None));
+        let r = intervals(&ts(SCALE), &opt(EdgeReading::Complete)).unwrap();
+        assert_eq!(r.complete.len(), 5);
+        // 'cut' anywhere but the oldest row is refused.
+        let bad = with_column("").replace("1.0,R,b,", "1.0,R,b,cut");
+        assert!(TimeScale::from_table(&Table::parse("ts.csv", bad.as_bytes()).unwrap()).is_err());
     }
 
     #[test]
@@ -223,17 +335,27 @@ mod tests {
         assert_eq!(r.complete[0].names, vec!["b", "ev", "c"]);
         assert_eq!(r.complete.len(), 2);
         // Total time is conserved (complete + open chron + the oldest, left-out interval of 0.6 Myr).
-        let total: f64 = r.complete.iter().map(Interval::duration).sum::<f64>() + r.censored.unwrap() + 0.6;
+        let total: f64 =
+            r.complete.iter().map(Interval::duration).sum::<f64>() + r.censored.unwrap() + r.censored_old.unwrap();
         assert!((total - 2.6).abs() < 1e-12);
     }
 
     #[test]
-    fn window_leaves_out_cut_intervals() {
+    fn window_edges_censor_cut_intervals() {
         let r =
             intervals(&ts(SCALE), &IntervalOptions { from: Some(0.8), to: Some(2.0), ..Default::default() }).unwrap();
-        assert!(r.open.is_none() && r.censored.is_none());
-        assert_eq!(r.left_out, 1); // the reversed interval 0.7–1.0 is cut at 0.8
-        assert_eq!(r.complete.len(), 3);
+        // The reversed interval 0.7–1.0 is cut at 0.8: its 0.2 Myr inside the window are censored.
+        assert!(r.open.is_none() && (r.censored.unwrap() - 0.2).abs() < 1e-12);
+        assert_eq!(r.young_cut.as_ref().unwrap().young, 0.8);
+        assert_eq!((r.left_out, r.complete.len(), r.old_end.clone(), r.censored_old), (0, 3, None, None));
+        // A window ending inside a chron (1.2 Ma, inside 1.02–1.5) censors its part at the old end;
+        // that chron cannot be read as complete.
+        let w = |e| IntervalOptions { from: Some(0.8), to: Some(1.2), old_edge: e, ..Default::default() };
+        let r = intervals(&ts(SCALE), &w(None)).unwrap();
+        assert!((r.censored_old.unwrap() - 0.18).abs() < 1e-12, "{r:?}");
+        assert!(intervals(&ts(SCALE), &w(Some(EdgeReading::Complete))).is_err());
+        let r = intervals(&ts(SCALE), &IntervalOptions { censor: false, ..w(Some(EdgeReading::LeftOut)) }).unwrap();
+        assert_eq!((r.left_out, r.censored, r.censored_old), (2, None, None));
         assert!(
             intervals(&ts(SCALE), &IntervalOptions { from: Some(3.0), to: Some(2.0), ..Default::default() }).is_err()
         );

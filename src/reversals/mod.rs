@@ -15,7 +15,7 @@ pub mod renewal;
 
 pub use gof::{goodness_of_fit, GoodnessOfFit};
 pub use hazard::{averaged_interval, hazard_at, p_within, HazardEstimate, ModelHazard, CAUTIONS};
-pub use intervals::{intervals, Interval, IntervalOptions, IntervalRecord};
+pub use intervals::{intervals, EdgeReading, Interval, IntervalOptions, IntervalRecord};
 pub use models::{Fitted, Model, Sample};
 pub use rate::{clustering_test, laplace_test, windowed_rate, ClusteringTest, LaplaceTest, RatePoint};
 pub use renewal::{fit_models, lr_test, LrTest, ModelFit, RenewalFits};

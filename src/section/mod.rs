@@ -11,6 +11,7 @@
 //! Each stage cites its method in the module that implements it ([`crate::demag`],
 //! [`crate::stats`], [`crate::fieldtests`], [`crate::poles`], [`crate::strat`]).
 
+mod auto;
 mod pipeline;
 mod report_html;
 mod reversal_stats;
@@ -18,6 +19,7 @@ mod settings;
 mod stage;
 mod tables;
 
+pub use auto::{automatic_fit, last_rule, rule_text};
 pub use pipeline::{run, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
 pub use report_html::report_html;
 pub use reversal_stats::HAZARD_HORIZON;

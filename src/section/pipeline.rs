@@ -5,14 +5,14 @@ use super::settings::SectionSettings;
 use super::stage::{draw, Stage};
 use super::tables::CsvTable;
 use super::{FigureOutput, Headline, Project, ProjectFile, Rejection, SectionRun};
-use crate::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind, SpecimenFit};
+use crate::demag::{fit_range, FitKind, SpecimenFit};
 use crate::error::{Error, Result};
 use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions};
 use crate::figures::{ColumnFigure, EqualAreaPlot, FoldPlot, MappedVgp, NetGroup, PolePlot, ScalePanel};
 use crate::montecarlo::{MonteCarlo, Progress};
 use crate::numbers::{fixed, fixed_or_empty};
 use crate::poles::{
-    bootstrap_scatter, northern, paleopole, pole_oval, vgp, vgp_scatter, within_site_sw, ScatterSite, WithinSite,
+    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp, vgp_scatter, within_site_sw, ScatterSite, WithinSite,
 };
 use crate::simulate::Settings;
 use crate::sphere::{Bedding, Direction, GeoPoint};
@@ -181,38 +181,33 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     let reject_sp = |name: &str, reason: String, rejected: &mut Vec<Rejection>| {
         rejected.push(Rejection { what: "specimen".into(), name: name.into(), stage: "components".into(), reason });
     };
-    if let Some(pf) = &p.picks {
-        let pt = parse(pf)?;
-        let picks = read_picks(&pt, &set)?;
-        stage.method = format!(
-            "Principal-component fits (Kirschvink 1980) over the ranges chosen in {}: lines and planes, free or through the origin as each pick states. A line with MAD above {}° is rejected.",
-            pf.name, settings.max_mad);
-        for sp in &set.specimens {
-            let mine: Vec<_> = picks.iter().filter(|k| k.specimen == sp.specimen).collect();
-            if mine.is_empty() {
-                reject_sp(&sp.specimen, format!("no pick in {}", pf.name), &mut rejected);
-            }
-            for k in mine {
-                match fit_range(sp, k.from, k.to, k.kind, k.anchor) {
-                    Ok(f) => fits.push(f),
-                    Err(e) => reject_sp(&sp.specimen, format!("{} line {}: {e}", pf.name, k.line), &mut rejected),
-                }
+    let picks = match &p.picks {
+        Some(pf) => Some((pf, read_picks(&parse(pf)?, &set)?)),
+        None => None,
+    };
+    let mut grades: BTreeMap<String, &'static str> = BTreeMap::new();
+    stage.method = match &picks {
+        Some((pf, _)) => format!(
+            "Principal-component fits (Kirschvink 1980) over the ranges chosen in {}: lines and planes, free or through the origin as each pick states; a specimen without a pick is fitted by the automatic rule: {}. A line with MAD above {}° is rejected.",
+            pf.name, super::rule_text(&settings), settings.max_mad),
+        None => format!("No picks table: each specimen's characteristic component was chosen automatically by {}.", super::rule_text(&settings)),
+    };
+    for sp in &set.specimens {
+        let mine: Vec<_> = picks.iter().flat_map(|(_, ps)| ps.iter().filter(|k| k.specimen == sp.specimen)).collect();
+        for k in &mine {
+            let name = &picks.as_ref().expect("a pick comes from a table").0.name;
+            match fit_range(sp, k.from, k.to, k.kind, k.anchor) {
+                Ok(f) => fits.push(f),
+                Err(e) => reject_sp(&sp.specimen, format!("{name} line {}: {e}", k.line), &mut rejected),
             }
         }
-    } else {
-        let rule = AutoRule {
-            min_steps: settings.min_steps,
-            max_mad: settings.max_mad,
-            max_dang: settings.max_dang,
-            anchor: Anchor::Free,
-        };
-        stage.method = format!(
-            "No picks table: each specimen's characteristic line was chosen automatically as the longest run of at least {} consecutive steps whose free principal-component line (Kirschvink 1980) has MAD ≤ {}° and DANG ≤ {}° (ties: smaller MAD, then the earlier run).",
-            rule.min_steps, rule.max_mad, rule.max_dang);
-        for sp in &set.specimens {
-            match auto_line(sp, &rule) {
-                AutoOutcome::Fitted(f) => fits.push(f),
-                AutoOutcome::Unfitted(why) => reject_sp(&sp.specimen, why, &mut rejected),
+        if mine.is_empty() {
+            match super::automatic_fit(sp, &settings) {
+                Ok(c) => {
+                    grades.insert(sp.specimen.clone(), c.grade.as_str());
+                    fits.push(c.fit)
+                }
+                Err(why) => reject_sp(&sp.specimen, why, &mut rejected),
             }
         }
     }
@@ -225,7 +220,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     let mut ft = CsvTable::new(
         "components",
         "Characteristic components per specimen (geographic coordinates)",
-        &["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"],
+        &["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang", "grade"],
     );
     for f in &fits {
         let sp = set.get(&f.specimen).expect("fitted specimen exists");
@@ -241,6 +236,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
             fixed(f.direction.inc, 2),
             fixed(f.mad, 2),
             fixed_or_empty(f.dang, 2),
+            grades.get(&f.specimen).map_or("pick", |g| g).to_string(),
         ]);
     }
     let mut fitted: Vec<&str> = fits.iter().map(|f| f.specimen.as_str()).collect();
@@ -274,6 +270,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                 bedding: Some(s.bedding.unwrap_or(flat)),
                 kind: if f.kind == FitKind::Plane { DirectionKind::Plane } else { DirectionKind::Line },
                 group: Some(s.site.clone()),
+                path_end: if f.kind == FitKind::Plane { sp.steps.get(f.last).map(|st| st.direction) } else { None },
             }
         })
         .collect();
@@ -530,7 +527,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
     on_stage("poles");
     let mut stage = Stage::new("Virtual geomagnetic poles, paleopole and scatter");
     stage.method = format!(
-        "VGP of each used site from its tilt-corrected mean (geocentric axial dipole); dp, dm from α95. Paleopole: Fisher mean of the VGPs after mapping southern VGPs to their antipodes. VGP scatter S_B about the mean pole with cutoff '{}', corrected for within-site scatter where every site has n ≥ 2 and k (McElhinny & McFadden 1997), with a {} % bootstrap interval over sites ({} resamples, seed {}).",
+        "VGP of each used site from its tilt-corrected mean (geocentric axial dipole); dp, dm from α95. Paleopole: Fisher mean of the VGPs after aligning their polarity by the principal axis of the VGPs (each VGP more than 90° from its northern end replaced by its antipode). VGP scatter S_B about the mean pole with cutoff '{}', corrected for within-site scatter where every site has n ≥ 2 and k (McElhinny & McFadden 1997), with a {} % bootstrap interval over sites ({} resamples, seed {}).",
         settings.scatter_cutoff, settings.confidence * 100.0, settings.resamples, settings.seed);
     let mut vt = CsvTable::new(
         "vgps",
@@ -556,8 +553,12 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
         stage.tables.push(vt.stem.clone());
         tables.push(vt);
     }
-    let aligned: Vec<(GeoPoint, bool)> =
-        used.iter().map(|u| northern(GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP"))).collect();
+    // Polarity aligned by the principal axis of the VGPs (not by hemisphere: see poles::align_polarity).
+    let raw: Vec<GeoPoint> = used.iter().map(|u| GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP")).collect();
+    let aligned: Vec<(GeoPoint, bool)> = match align_polarity(&raw) {
+        Ok(a) => a.poles.into_iter().zip(a.flipped).collect(),
+        Err(_) => Vec::new(),
+    };
     if used.len() >= 2 {
         match paleopole(&aligned.iter().map(|a| a.0).collect::<Vec<_>>()) {
             Ok(pp) => {
@@ -650,7 +651,7 @@ pub fn run(p: &Project, progress: &dyn Progress, on_stage: &mut dyn FnMut(&str))
                     mean: Some((pp.pole, pp.a95)),
                     cutoff: None,
                 };
-                figures.push(draw(&fig, "vgps", "VGPs of the used sites (southern VGPs mapped to their antipodes) on an azimuthal equal-area map centred on the paleopole, with its A95 circle.".into())?);
+                figures.push(draw(&fig, "vgps", "VGPs of the used sites (polarity aligned by their principal axis) on an azimuthal equal-area map centred on the paleopole, with its A95 circle.".into())?);
                 stage.figures.push("vgps".into());
                 cautions.push(POLE_CAUTION.into());
             }

@@ -75,7 +75,7 @@ pub fn report_html(run: &SectionRun, title: &str, inputs: &[(String, usize)]) ->
         let _ = writeln!(h, "<li><code>{}</code> ({bytes} bytes)</li>", escape(name));
     }
     let _ = writeln!(h, "</ul>\n<table id=\"settings\"><caption>Settings in force (from settings.toml, defaults otherwise)</caption><tr><th>key</th><th>value</th></tr>");
-    let rows: [(&str, String); 10] = [
+    let rows: [(&str, String); 12] = [
         ("seed", s.seed.to_string()),
         ("confidence", s.confidence.to_string()),
         ("resamples", s.resamples.to_string()),
@@ -86,6 +86,8 @@ pub fn report_html(run: &SectionRun, title: &str, inputs: &[(String, usize)]) ->
         ("min_steps", s.min_steps.to_string()),
         ("max_site_a95", s.max_site_a95.to_string()),
         ("scatter_cutoff", s.scatter_cutoff.clone()),
+        ("auto_rule", s.auto_rule.clone()),
+        ("alpha", s.alpha.to_string()),
     ];
     for (k, v) in rows {
         let _ = writeln!(h, "<tr><td class=\"t\">{k}</td><td>{}</td></tr>", escape(&v));

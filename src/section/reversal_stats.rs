@@ -31,7 +31,7 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
     let mut out =
         ReversalStats { stage: Stage::new(""), tables: vec![], warnings: vec![], cautions: vec![], figures: vec![] };
     stage.method = format!(
-        "Maximum-likelihood fits of five renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian) to the lengths of the polarity intervals of {name} over its whole span (adjacent chrons of one polarity joined; the open chron at the young end enters as a right-censored length; the interval cut by the old end is left out); Akaike weights compare the models. The hazard and P(reversal within {HAZARD_HORIZON} Myr | none so far) are evaluated at the open chron's present length. These statistics describe the time scale, not the sampled section."
+        "Maximum-likelihood fits of five renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian) to the lengths of the polarity intervals of {name} over its whole span (adjacent chrons of one polarity joined; the open chron at the young end enters as a right-censored length; the oldest row enters as a second censored length unless the table states its old boundary is a reversal); Akaike weights compare the models. The hazard and P(reversal within {HAZARD_HORIZON} Myr | none so far) are evaluated at the open chron's present length. These statistics describe the time scale, not the sampled section."
     );
     let skip = |mut stage: Stage, why: String, mut out: ReversalStats| {
         stage.ran = false;
@@ -40,7 +40,7 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale) -> ReversalStats {
         out.stage = stage;
         out
     };
-    let opts = IntervalOptions { from: None, to: None, min_length: 0.0, censor: true };
+    let opts = IntervalOptions::default();
     let rec = match intervals(ts, &opts) {
         Ok(r) => r,
         Err(e) => return skip(stage, e.to_string(), out),

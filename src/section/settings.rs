@@ -5,7 +5,7 @@ use crate::poles::Cutoff;
 use crate::simulate::Settings;
 
 /// Keys `section` reads from `settings.toml`; any other key is reported as a warning.
-pub const KNOWN_KEYS: [&str; 11] = [
+pub const KNOWN_KEYS: [&str; 13] = [
     "seed",
     "confidence",
     "resamples",
@@ -17,6 +17,8 @@ pub const KNOWN_KEYS: [&str; 11] = [
     "max_site_a95",
     "scatter_cutoff",
     "title",
+    "auto_rule",
+    "alpha",
 ];
 
 /// Settings in force for a run.
@@ -45,6 +47,11 @@ pub struct SectionSettings {
     pub scatter_cutoff: String,
     /// Title of the report (default: the project's name).
     pub title: Option<String>,
+    /// Automatic rule without picks: `last` (the last component, default) or `longest` (the longest
+    /// straight run, the earlier rule).
+    pub auto_rule: String,
+    /// Significance level of the last-component rule's break test (default 0.05).
+    pub alpha: f64,
 }
 
 impl Default for SectionSettings {
@@ -61,6 +68,8 @@ impl Default for SectionSettings {
             max_site_a95: 30.0,
             scatter_cutoff: "none".into(),
             title: None,
+            auto_rule: "last".into(),
+            alpha: 0.05,
         }
     }
 }
@@ -92,7 +101,18 @@ impl SectionSettings {
             max_site_a95: s.number("max_site_a95", 0.0, 180.0)?.unwrap_or(d.max_site_a95),
             scatter_cutoff: cut,
             title: s.text("title")?.map(str::to_string),
+            auto_rule: s.text("auto_rule")?.map_or(d.auto_rule.clone(), str::to_string),
+            alpha: s.number("alpha", 1e-6, 0.5)?.unwrap_or(d.alpha),
         };
+        if !matches!(out.auto_rule.as_str(), "last" | "longest") {
+            let line = s.values.get("auto_rule").map_or(0, |v| v.line);
+            return Err(TableError::value(
+                s.source.as_str(),
+                line,
+                Some("auto_rule"),
+                format!("'{}' is not \"last\" or \"longest\"", out.auto_rule),
+            ));
+        }
         let unknown = s.unknown_keys(&KNOWN_KEYS).into_iter().map(str::to_string).collect();
         Ok((out, unknown))
     }

@@ -35,9 +35,10 @@ fn missing_site_in_sampling_is_an_error_naming_the_line() {
 
 #[test]
 fn exponential_fit_of_the_stage_is_the_censored_maximum_likelihood_rate() {
-    // Time scale: open chron 0.3 Myr, complete intervals 0.2, 0.5, 0.1, 0.4, then the oldest chron cut
-    // by the end of the table (left out). For right-censored exponential data the maximum-likelihood
-    // rate is (number of complete intervals) / (total exposure including the censored length)
+    // Time scale: open chron 0.3 Myr, complete intervals 0.2, 0.5, 0.1, 0.4, then the oldest chron
+    // (0.4 Myr) cut by the end of the table: a second censored length. For right-censored exponential
+    // data the maximum-likelihood rate is (number of complete intervals) / (total exposure including
+    // the censored lengths)
     // (Lawless, Statistical Models and Methods for Lifetime Data, 2nd ed. 2003, §2.2; common practice).
     let csv = "young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,1.0,N\n1.0,1.1,R\n1.1,1.5,N\n1.5,1.9,R\n";
     let ts =
@@ -46,7 +47,7 @@ fn exponential_fit_of_the_stage_is_the_censored_maximum_likelihood_rate() {
     assert!(r.stage.ran, "{:?}", r.warnings);
     let fits = &r.tables[0];
     let exp = fits.rows.iter().find(|row| row[0] == "exponential").unwrap();
-    let expected = 4.0 / (0.2 + 0.5 + 0.1 + 0.4 + 0.3);
+    let expected = 4.0 / (0.2 + 0.5 + 0.1 + 0.4 + 0.3 + 0.4);
     assert_eq!(exp[1], format!("rate={:.4}", expected), "{exp:?}");
     // The hazard cautions travel with the stage.
     assert!(r.cautions.iter().any(|c| c.contains("not a forecast")));

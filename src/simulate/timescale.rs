@@ -318,5 +318,9 @@ pub fn simulate_timescale(m: &TimeScaleModel, seed: u64) -> Result<TimeScale> {
             c
         })
         .collect();
-    Ok(TimeScale { source: format!("synthetic {} time scale (seed {seed})", m.model.name()), chrons })
+    Ok(TimeScale {
+        source: format!("synthetic {} time scale (seed {seed})", m.model.name()),
+        chrons,
+        oldest_is_reversal: false,
+    })
 }

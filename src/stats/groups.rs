@@ -39,6 +39,8 @@ pub struct GroupMean {
     /// Why a group with planes has no combined mean (e.g. a single great circle and no line), when it
     /// has none; its statistics are then empty (`mean`, `k`, `alpha`, `theta63` all `None`).
     pub undefined: Option<String>,
+    /// For a group of great circles only: how the sense of its mean was chosen.
+    pub sense: Option<super::CircleSense>,
 }
 
 /// Fisher mean per group, groups in order of first appearance.
@@ -63,9 +65,17 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
     for (group, idx) in order.into_iter().zip(members) {
         let mut vectors = Vec::with_capacity(idx.len());
         let mut is_plane = Vec::with_capacity(idx.len());
+        let mut ends = Vec::new();
         for &i in &idx {
             is_plane.push(set.records[i].kind == crate::table::DirectionKind::Plane);
             let r = &set.records[i];
+            if r.kind == crate::table::DirectionKind::Plane {
+                let end = r.path_end.map(|d| d.to_vector());
+                ends.push(match (frame, r.bedding) {
+                    (Frame::Tilt, Some(b)) => end.map(|e| b.untilt(e)),
+                    _ => end,
+                });
+            }
             let v = r.direction.to_vector();
             vectors.push(match frame {
                 Frame::Geo => v,
@@ -84,14 +94,19 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
         }
         let planes = is_plane.iter().filter(|p| **p).count();
         let mut undefined = None;
+        let mut sense = None;
         let stats = if planes == 0 {
             fisher_from_vectors(vectors, confidence)?
         } else {
             let dir = |v: &crate::sphere::Vec3| crate::sphere::Direction::from_vector(*v).expect("unit vector");
             let lines: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| !**p).map(|(v, _)| dir(v)).collect();
             let poles: Vec<_> = vectors.iter().zip(&is_plane).filter(|(_, p)| **p).map(|(v, _)| dir(v)).collect();
-            match super::mixed_mean(&lines, &poles, confidence) {
-                Ok(m) => m.as_fisher(),
+            let ends: Vec<_> = ends.iter().map(|e| e.and_then(crate::sphere::Direction::from_vector)).collect();
+            match super::mixed_mean_with_paths(&lines, &poles, &ends, confidence) {
+                Ok(m) => {
+                    sense = m.sense;
+                    m.as_fisher()
+                }
                 Err(Error::OutOfRange { .. }) => {
                     return Err(Error::OutOfRange { name: "confidence", value: confidence, range: "(0, 1)" })
                 }
@@ -108,6 +123,7 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
             stats,
             planes,
             undefined,
+            sense,
         });
     }
     Ok(out)

@@ -18,8 +18,9 @@ pub struct MixedStats {
     pub mean: Direction,
     /// Length of the resultant of the lines and the points chosen on the circles.
     pub r: f64,
-    /// Precision estimate k (infinite when all vectors coincide).
-    pub k: Precision,
+    /// Precision estimate k (infinite when all vectors coincide); `None` when it is undefined: two
+    /// great circles and no line always meet, so their R = 2 says nothing about dispersion.
+    pub k: Option<Precision>,
     /// Cone half-angle at the requested confidence, degrees (`None` when undefined).
     pub alpha: Option<f64>,
     /// The confidence level used for `alpha`.
@@ -28,20 +29,39 @@ pub struct MixedStats {
     pub circle_points: Vec<Direction>,
     /// Iterations used.
     pub iterations: usize,
+    /// How the sense of the mean was chosen when there are no lines (`None` when lines fix it).
+    pub sense: Option<CircleSense>,
+}
+
+/// How the sense of a mean of great circles only was chosen: the circles fix an axis, not which end
+/// of it the remanence points to.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "snake_case", tag = "rule")]
+pub enum CircleSense {
+    /// From the demagnetization paths: `toward` circles move toward the chosen end, `away` toward the
+    /// other (the majority decides).
+    FromPaths {
+        /// Circles whose path moves toward the chosen end.
+        toward: usize,
+        /// Circles whose path moves toward the opposite end.
+        away: usize,
+    },
+    /// Nothing decides (no path directions, or a tie): the lower-hemisphere end is given, and the
+    /// opposite sense is equally possible.
+    Undetermined,
 }
 
 impl MixedStats {
     /// The same numbers in the shape of [`FisherStats`] (n = M + N; θ63 = 81/√k).
     pub fn as_fisher(&self) -> FisherStats {
-        let k = self.k.0;
         FisherStats {
             n: self.n_lines + self.n_planes,
             mean: Some(self.mean),
             r: self.r,
-            k: Some(self.k),
+            k: self.k,
             alpha: self.alpha,
             confidence: self.confidence,
-            theta63: Some(if k.is_infinite() { 0.0 } else { 81.0 / k.sqrt() }),
+            theta63: self.k.map(|k| if k.is_infinite() { 0.0 } else { 81.0 / k.0.sqrt() }),
         }
     }
 }
@@ -77,7 +97,38 @@ pub fn mixed_cone(n_eff: f64, r: f64, k: f64, confidence: f64) -> Option<f64> {
     }
 }
 
+/// Which end of the axis `m` the demagnetization paths move toward. `paths[i]` is the last step used
+/// on circle i, with its pole signed so that the path turns anticlockwise about it (as
+/// [`crate::demag::PlaneFit`] gives it). On circle i the path moves along pᵢ × x; it moves toward m
+/// when (pᵢ × xᵢ)·m > 0, i.e. m lies ahead of the last step within half a turn.
+fn circle_sense(poles: &[Vec3], paths: &[Option<Vec3>], m: Vec3) -> (Vec3, CircleSense) {
+    let (mut toward, mut away) = (0usize, 0usize);
+    for (p, x) in poles.iter().zip(paths) {
+        let Some(x) = x else { continue };
+        let s = p.cross(*x).dot(m);
+        if s > 1e-12 {
+            toward += 1;
+        } else if s < -1e-12 {
+            away += 1;
+        }
+    }
+    match toward.cmp(&away) {
+        std::cmp::Ordering::Greater => (m, CircleSense::FromPaths { toward, away }),
+        std::cmp::Ordering::Less => (-m, CircleSense::FromPaths { toward: away, away: toward }),
+        std::cmp::Ordering::Equal => (m, CircleSense::Undetermined),
+    }
+}
+
 /// Combined mean of M directions and N great circles (given by their poles).
+///
+/// See [`mixed_mean_with_paths`]; here no circle carries the direction of its demagnetization path,
+/// so a mean of circles only has an undetermined sense.
+pub fn mixed_mean(lines: &[Direction], planes: &[Direction], confidence: f64) -> Result<MixedStats> {
+    mixed_mean_with_paths(lines, planes, &vec![None; planes.len()], confidence)
+}
+
+/// Combined mean of M directions and N great circles (given by their poles), each circle optionally
+/// with the last demagnetization step used in its fit (`paths`, one entry per plane).
 ///
 /// # Units
 /// Directions and poles in degrees; `confidence` a probability (0.95 for α95).
@@ -88,13 +139,29 @@ pub fn mixed_cone(n_eff: f64, r: f64, k: f64, confidence: f64) -> Option<f64> {
 /// hemisphere). Repeat until the mean moves less than 1e-12 rad: for each circle take the point xᵢ
 /// nearest the current mean, then mean = (Σ lines + Σ xᵢ)/R.
 /// k = (2M + N − 2)/(2(M + N − R)); the cone from [`mixed_cone`]. With N = 0 this is the Fisher
-/// mean, k = (M − 1)/(M − R) and α95 of Fisher (1953) exactly (tested).
+/// mean, k = (M − 1)/(M − R) and α95 of Fisher (1953) exactly (tested). With M = 0 and N = 2, k, the
+/// cone and θ63 are undefined (`None`): two circles always meet, so R = 2 whatever the scatter.
+///
+/// # Sense of a mean of circles only
+/// Circles fix an axis, not its sense. The sense is taken from the paths: each circle whose last step
+/// is given votes for the end of the axis its path moves toward (see `circle_sense`); the majority
+/// decides and the count is reported. With no votes or a tie the lower-hemisphere end is given and
+/// [`CircleSense::Undetermined`] says so. The path rule is the common practice of following the
+/// demagnetization trend toward the stable endpoint (Halls 1976; McFadden & McElhinny 1988).
 ///
 /// # References
 /// McFadden & McElhinny (1988), eqs. for k and α95 (from memory, checked in the tests against the
 /// Fisher limit and against a brute-force minimisation).
-pub fn mixed_mean(lines: &[Direction], planes: &[Direction], confidence: f64) -> Result<MixedStats> {
+pub fn mixed_mean_with_paths(
+    lines: &[Direction],
+    planes: &[Direction],
+    paths: &[Option<Direction>],
+    confidence: f64,
+) -> Result<MixedStats> {
     check_range("confidence", confidence, 1e-12, 1.0 - 1e-12, "(0, 1)")?;
+    if paths.len() != planes.len() {
+        return Err(Error::Invalid(format!("{} path ends for {} great circles", paths.len(), planes.len())));
+    }
     let (m, n) = (lines.len(), planes.len());
     if m + n < 2 || (m == 0 && n < 2) {
         return Err(Error::TooFew {
@@ -123,13 +190,16 @@ pub fn mixed_mean(lines: &[Direction], planes: &[Direction], confidence: f64) ->
                     .into(),
             ));
         }
-        let v = e.vectors[2];
-        if v.z < 0.0 {
-            -v
-        } else {
-            v
-        }
+        e.vectors[2]
     };
+    let mut sense = None;
+    if m == 0 {
+        let down = if mean.z < 0.0 { -mean } else { mean };
+        let ends: Vec<Option<Vec3>> = paths.iter().map(|d| d.map(|d| d.to_vector())).collect();
+        let (chosen, rule) = circle_sense(&pv, &ends, down);
+        mean = chosen;
+        sense = Some(rule);
+    }
     let mut points = vec![Vec3::ZERO; n];
     let mut iterations = 0;
     let mut sum = line_sum;
@@ -158,20 +228,26 @@ pub fn mixed_mean(lines: &[Direction], planes: &[Direction], confidence: f64) ->
     let r = sum.norm().min((m + n) as f64);
     let total = (m + n) as f64;
     let nr = total - r;
-    let k =
-        if nr <= tolerance::IDENTICAL * total { f64::INFINITY } else { (2.0 * m as f64 + n as f64 - 2.0) / (2.0 * nr) };
-    let alpha = mixed_cone(n_eff, r, k, confidence);
+    let k = if m == 0 && n == 2 {
+        None
+    } else if nr <= tolerance::IDENTICAL * total {
+        Some(f64::INFINITY)
+    } else {
+        Some((2.0 * m as f64 + n as f64 - 2.0) / (2.0 * nr))
+    };
+    let alpha = k.and_then(|k| mixed_cone(n_eff, r, k, confidence));
     Ok(MixedStats {
         n_lines: m,
         n_planes: n,
         n_eff,
         mean: Direction::from_vector(mean).expect("unit"),
         r,
-        k: Precision(k),
+        k: k.map(Precision),
         alpha,
         confidence,
         circle_points: points.into_iter().map(|x| Direction::from_vector(x).expect("unit")).collect(),
         iterations,
+        sense,
     })
 }
 
@@ -195,7 +271,7 @@ mod tests {
         assert_abs_diff_eq!(m.mean.dec, 10.22770404794826, epsilon = 1e-9);
         assert_abs_diff_eq!(m.mean.inc, 47.316300335867986, epsilon = 1e-9);
         assert_abs_diff_eq!(m.r, f.r, epsilon = 1e-12);
-        assert_abs_diff_eq!(m.k.0, f.k.unwrap().0, epsilon = 1e-9);
+        assert_abs_diff_eq!(m.k.unwrap().0, f.k.unwrap().0, epsilon = 1e-9);
         assert_abs_diff_eq!(m.alpha.unwrap(), f.alpha.unwrap(), epsilon = 1e-9);
         assert_abs_diff_eq!(m.as_fisher().theta63.unwrap(), f.theta63.unwrap(), epsilon = 1e-9);
         // The cone formula alone, at another level, also reduces to Fisher's (N' = M).
@@ -219,7 +295,7 @@ mod tests {
         assert_abs_diff_eq!(m.r, 6.913500479025619, epsilon = 1e-9);
         // k and α95 by the McFadden & McElhinny (1988) expressions, evaluated by hand here.
         let k = (2.0 * 4.0 + 3.0 - 2.0) / (2.0 * (7.0 - m.r));
-        assert_abs_diff_eq!(m.k.0, k, epsilon = 1e-9);
+        assert_abs_diff_eq!(m.k.unwrap().0, k, epsilon = 1e-9);
         let ne = 5.5;
         let ca = 1.0 - ((ne - 1.0) / (k * m.r)) * (20f64.powf(1.0 / (ne - 1.0)) - 1.0);
         assert_abs_diff_eq!(m.alpha.unwrap(), ca.acos().to_degrees(), epsilon = 1e-9);
@@ -236,6 +312,12 @@ mod tests {
         let m = mixed_mean(&[], &dirs(&[(90.0, 0.0), (0.0, 0.0)]), 0.95).unwrap();
         assert_abs_diff_eq!(m.mean.inc, 90.0, epsilon = 1e-9);
         assert_abs_diff_eq!(m.r, 2.0, epsilon = 1e-12);
+        // Two circles always meet (R = 2 exactly), so their dispersion is undefined, not zero: k, the
+        // cone and θ63 are empty (McFadden & McElhinny 1988 need N' > 1 independent constraints; two
+        // circles give exactly one point).
+        assert_eq!((m.k, m.alpha, m.as_fisher().theta63), (None, None, None));
+        // No path direction was given: the sense is reported as undetermined.
+        assert_eq!(m.sense, Some(CircleSense::Undetermined));
         // Too few, identical poles, one plane only: errors, not panics.
         assert!(mixed_mean(&[], &dirs(&[(90.0, 0.0)]), 0.95).is_err());
         assert!(mixed_mean(&[], &dirs(&[(90.0, 0.0), (90.0, 0.0)]), 0.95).is_err());
@@ -243,7 +325,40 @@ mod tests {
         // A line on the circle: the mean is the line, R = 2, k infinite, cone zero.
         let m = mixed_mean(&dirs(&[(0.0, 30.0)]), &dirs(&[(90.0, 0.0)]), 0.95).unwrap();
         assert_abs_diff_eq!(m.mean.inc, 30.0, epsilon = 1e-9);
-        assert!(m.k.is_infinite());
+        assert!(m.k.unwrap().is_infinite());
         assert_eq!(m.alpha, Some(0.0));
+    }
+
+    #[test]
+    fn a_mean_of_circles_only_takes_its_sense_from_the_paths() {
+        // Three circles through the axis 'up' (inc −90°, a reversed site) with poles east, north and
+        // north-east. Each path ends 30° short of the upward end of its circle and moves toward it:
+        // circle pole p, last step x; the path moves along p × x (anticlockwise about p).
+        let poles =
+            [Vec3::new(0.0, 1.0, 0.0), Vec3::new(1.0, 0.0, 0.0), Vec3::new(1.0, 1.0, 0.0).normalized().unwrap()];
+        let up = Vec3::new(0.0, 0.0, -1.0);
+        let paths: Vec<Option<Direction>> = poles
+            .iter()
+            .map(|p| {
+                // A point 30° from 'up' on the circle, on the side from which p × x turns toward 'up'.
+                let t = p.cross(up); // horizontal, on the circle
+                let (c, s) = (30f64.to_radians().cos(), 30f64.to_radians().sin());
+                let a = up * c + t * s;
+                let b = up * c - t * s;
+                let x = if p.cross(a).dot(up) > 0.0 { a } else { b };
+                Some(Direction::from_vector(x).unwrap())
+            })
+            .collect();
+        let pd: Vec<Direction> = poles.iter().map(|p| Direction::from_vector(*p).unwrap()).collect();
+        let m = mixed_mean_with_paths(&[], &pd, &paths, 0.95).unwrap();
+        assert_abs_diff_eq!(m.mean.inc, -90.0, epsilon = 1e-9);
+        assert_eq!(m.sense, Some(CircleSense::FromPaths { toward: 3, away: 0 }));
+        // Without the paths the same circles give the lower-hemisphere end and say it is undetermined.
+        let m = mixed_mean(&[], &pd, 0.95).unwrap();
+        assert_abs_diff_eq!(m.mean.inc, 90.0, epsilon = 1e-9);
+        assert_eq!(m.sense, Some(CircleSense::Undetermined));
+        // With one line the line fixes the sense and no rule is reported.
+        let m = mixed_mean(&[Direction::new(0.0, -85.0).unwrap()], &pd, 0.95).unwrap();
+        assert!(m.mean.inc < -80.0 && m.sense.is_none());
     }
 }

@@ -26,3 +26,22 @@ pub fn orientation_matrix(vectors: &[Vec3]) -> [[f64; 3]; 3] {
 pub fn principal_axes(vectors: &[Vec3]) -> SymEigen {
     sym_eigen(orientation_matrix(vectors))
 }
+
+/// The principal axis (largest eigenvalue) of a set of unit vectors, at its end with z > 0 (or, if it
+/// lies in the x–y plane, x > 0, then y > 0). For directions (z down) that is the downward end; for
+/// geographic points (z north) the northern end.
+pub fn principal_axis_signed(vectors: &[Vec3]) -> Vec3 {
+    let axis = principal_axes(vectors).vectors[0];
+    let flip = if axis.z.abs() > 1e-12 {
+        axis.z < 0.0
+    } else if axis.x.abs() > 1e-12 {
+        axis.x < 0.0
+    } else {
+        axis.y < 0.0
+    };
+    if flip {
+        -axis
+    } else {
+        axis
+    }
+}

@@ -189,7 +189,7 @@ pub fn stream_group_sums<R: BufRead>(
 impl From<StreamedGroup> for GroupMean {
     fn from(g: StreamedGroup) -> GroupMean {
         let lines = g.lines().collect();
-        GroupMean { group: g.group, lines, stats: g.stats, planes: 0, undefined: None }
+        GroupMean { group: g.group, lines, stats: g.stats, planes: 0, undefined: None, sense: None }
     }
 }
 

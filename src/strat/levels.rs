@@ -78,8 +78,16 @@ pub fn read_levels(t: &Table, opts: LevelOptions) -> Result<LevelSet, TableError
     for (i, row) in t.rows.iter().enumerate() {
         raw.push((t.number(row, pos_col)?, i));
     }
-    let in_order = raw.windows(2).all(|w| w[0].0 <= w[1].0) || raw.windows(2).all(|w| w[0].0 >= w[1].0);
-    if !in_order {
+    let ascending = raw.windows(2).all(|w| w[0].0 <= w[1].0);
+    let descending = raw.windows(2).all(|w| w[0].0 >= w[1].0);
+    if descending && !ascending {
+        notes.push(format!(
+            "{}: rows run in decreasing {}; levels were sorted into increasing {}.",
+            t.name,
+            axis.column(),
+            axis.column()
+        ));
+    } else if !ascending {
         notes.push(format!(
             "{}: rows are not in stratigraphic order; levels were sorted by {}.",
             t.name,
@@ -246,6 +254,18 @@ mod tests {
         assert_eq!(l.levels[1].n, 3);
         assert!(l.levels[1].vgp_lat > 80.0 && l.levels[1].a95.is_some());
         assert!(l.notes[0].contains("sorted"), "{:?}", l.notes);
+    }
+
+    #[test]
+    fn a_descending_table_is_sorted_with_a_note() {
+        // The README promises a note whenever rows are re-sorted; a table written top down (strictly
+        // decreasing height) is re-sorted too, so it must say so. A table already in increasing order
+        // needs no note.
+        let l = parse("vgp_lat,height\n80,3\n-70,2\n60,1\n").unwrap();
+        assert_eq!(l.levels.iter().map(|v| v.position).collect::<Vec<_>>(), vec![1.0, 2.0, 3.0]);
+        assert_eq!(l.notes.len(), 1, "{:?}", l.notes);
+        assert!(l.notes[0].contains("decreasing height") && l.notes[0].contains("sorted"), "{:?}", l.notes);
+        assert!(parse("vgp_lat,height\n60,1\n-70,2\n80,3\n").unwrap().notes.is_empty());
     }
 
     #[test]

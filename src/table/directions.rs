@@ -58,6 +58,10 @@ pub struct DirectionRecord {
     pub kind: DirectionKind,
     /// Grouping key for means (the `--by` column, default `site`).
     pub group: Option<String>,
+    /// For a plane: the last demagnetization step used in its fit (geographic coordinates), whose
+    /// pole is then signed so that the path turns anticlockwise about it. It tells which way the path
+    /// moves along the circle (see [`crate::stats::mixed_mean_with_paths`]); `None` when unknown.
+    pub path_end: Option<Direction>,
 }
 
 /// A whole directions table.
@@ -177,6 +181,7 @@ pub fn read_directions(t: &Table, group_by: &GroupBy) -> Result<DirectionSet, Ta
             bedding: r.bedding,
             kind: r.kind,
             group: r.group.map(str::to_string),
+            path_end: None,
         });
     }
     Ok(DirectionSet { source: t.name.clone(), axis: cols.axis.map(|a| a.0), group_column: cols.group_column, records })

@@ -63,13 +63,18 @@ pub struct TimeScale {
     pub source: String,
     /// Chrons, youngest first.
     pub chrons: Vec<Chron>,
+    /// The table states that the old boundary of its oldest row is a reversal (optional column
+    /// `old_edge` = `reversal` on that row), so the oldest row is a whole interval; otherwise the table
+    /// may be cut at an arbitrary age (`old_edge` = `cut`, or empty).
+    pub oldest_is_reversal: bool,
 }
 
 /// Boundaries closer than this (Myr) are treated as touching.
 pub const AGE_TOLERANCE: f64 = 1e-9;
 
 impl TimeScale {
-    /// Read and validate a timescale table (`young`, `old`, `polarity`; optional `name`).
+    /// Read and validate a timescale table (`young`, `old`, `polarity`; optional `name`, and
+    /// `old_edge` = `reversal` or `cut`, read on the oldest row: see [`TimeScale::oldest_is_reversal`]).
     ///
     /// Refused: negative ages, `old ≤ young` (zero-length or inverted chrons), unknown polarity codes,
     /// and, once sorted by age, gaps or overlaps between neighbours (the message names both lines).
@@ -78,6 +83,8 @@ impl TimeScale {
         t.require_rows()?;
         let (y, o, p) = (t.require("young")?, t.require("old")?, t.require("polarity")?);
         let name = t.col("name");
+        let edge = t.col("old_edge");
+        let mut edges = Vec::with_capacity(t.rows.len());
         let mut chrons = Vec::with_capacity(t.rows.len());
         for row in &t.rows {
             let young = t.number(row, y)?;
@@ -107,6 +114,11 @@ impl TimeScale {
                     ))
                 }
             };
+            let e = t.opt_text(row, edge).map(|s| s.to_lowercase());
+            if let Some(other) = e.as_deref().filter(|s| *s != "reversal" && *s != "cut") {
+                return Err(t.error(row.line, Some("old_edge"), format!("'{other}' is not 'reversal' or 'cut'")));
+            }
+            edges.push((row.line, e));
             chrons.push(Chron { name: t.opt_text(row, name), young, old, polarity, line: row.line });
         }
         chrons.sort_by(|a, b| a.young.total_cmp(&b.young));
@@ -124,7 +136,16 @@ impl TimeScale {
                 ));
             }
         }
-        Ok(TimeScale { source: t.name.clone(), chrons })
+        let oldest = chrons.last().map(|c| c.line);
+        if let Some((line, _)) = edges.iter().find(|(l, e)| e.as_deref() == Some("cut") && Some(*l) != oldest) {
+            return Err(t.error(
+                *line,
+                Some("old_edge"),
+                "only the oldest row can end in a cut; chrons must tile time",
+            ));
+        }
+        let oldest_is_reversal = edges.iter().any(|(l, e)| Some(*l) == oldest && e.as_deref() == Some("reversal"));
+        Ok(TimeScale { source: t.name.clone(), chrons, oldest_is_reversal })
     }
 
     /// Age of the youngest boundary, Ma.

@@ -15,7 +15,7 @@ use crate::montecarlo::McRng;
 use rand::RngExt;
 
 pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
-    let total = s.sum_x + s.censored.unwrap_or(0.0);
+    let total = s.sum_x + s.censored_lengths().sum::<f64>();
     Ok([s.n() as f64 / total, f64::NAN])
 }
 

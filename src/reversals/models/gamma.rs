@@ -41,11 +41,14 @@ pub(super) fn fit_complete(s: &Sample) -> Result<[f64; 2]> {
 
 pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     let start = fit_complete(s)?;
-    let Some(c) = s.censored else { return Ok(start) };
+    if s.censored_lengths().next().is_none() {
+        return Ok(start);
+    }
     let n = s.n() as f64;
     let ll = |la: f64, lt: f64| {
         let (a, t) = (la.exp(), lt.exp());
-        (a - 1.0) * s.sum_ln - s.sum_x / t - n * (a * lt + ln_gamma(a)) + ln_sf(&[a, t], c)
+        (a - 1.0) * s.sum_ln - s.sum_x / t - n * (a * lt + ln_gamma(a))
+            + s.censored_lengths().map(|c| ln_sf(&[a, t], c)).sum::<f64>()
     };
     let m = maximise2(ll, [start[0].ln(), start[1].ln()], "gamma")?;
     Ok([m[0].exp(), m[1].exp()])

@@ -27,10 +27,12 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
         return Err(Error::Undefined("the inverse Gaussian fit needs intervals of different lengths".into()));
     }
     let start = [mu, 1.0 / inv];
-    let Some(c) = s.censored else { return Ok(start) };
+    if s.censored_lengths().next().is_none() {
+        return Ok(start);
+    }
     let ll = |lm: f64, ll: f64| {
         let p = [lm.exp(), ll.exp()];
-        loglik_complete(&p, s) + ln_sf(&p, c)
+        loglik_complete(&p, s) + s.censored_lengths().map(|c| ln_sf(&p, c)).sum::<f64>()
     };
     let m = maximise2(ll, [start[0].ln(), start[1].ln()], "inverse Gaussian")?;
     Ok([m[0].exp(), m[1].exp()])

@@ -23,8 +23,13 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
         return Err(Error::Undefined("the lognormal fit needs intervals of different lengths".into()));
     }
     let start = [mu, var.sqrt()];
-    let Some(c) = s.censored else { return Ok(start) };
-    let ll = |m: f64, ls: f64| loglik_complete(&[m, ls.exp()], s) + ln_sf(&[m, ls.exp()], c);
+    if s.censored_lengths().next().is_none() {
+        return Ok(start);
+    }
+    let ll = |m: f64, ls: f64| {
+        let p = [m, ls.exp()];
+        loglik_complete(&p, s) + s.censored_lengths().map(|c| ln_sf(&p, c)).sum::<f64>()
+    };
     let m = maximise2(ll, [start[0], start[1].ln()], "lognormal")?;
     Ok([m[0], m[1].exp()])
 }

@@ -88,8 +88,12 @@ impl Model {
 pub struct Sample {
     /// Complete interval lengths, sorted ascending.
     pub complete: Vec<f64>,
-    /// The right-censored length (the open chron), if it enters the likelihood.
+    /// The right-censored length at the young end (the open chron, or a chron cut by the window's
+    /// young edge), if it enters the likelihood.
     pub censored: Option<f64>,
+    /// A second right-censored length, at the old end (the oldest row of a table cut at an
+    /// arbitrary age, or a chron cut by the window's old edge); set by [`Sample::with_old_censored`].
+    pub censored_old: Option<f64>,
     pub(crate) sum_x: f64,
     pub(crate) sum_ln: f64,
     pub(crate) sum_ln2: f64,
@@ -119,7 +123,26 @@ impl Sample {
             sum_ln2 += l * l;
             sum_inv += 1.0 / x;
         }
-        Ok(Sample { complete, censored, sum_x, sum_ln, sum_ln2, sum_inv })
+        Ok(Sample { complete, censored, censored_old: None, sum_x, sum_ln, sum_ln2, sum_inv })
+    }
+
+    /// The same sample with a second right-censored length at the old end (`None` removes it).
+    pub fn with_old_censored(mut self, c: Option<f64>) -> Result<Sample> {
+        if let Some(x) = c.filter(|x| !(x.is_finite() && *x > 0.0)) {
+            return Err(Error::Invalid(format!("interval length {x} is not a positive number of Myr")));
+        }
+        self.censored_old = c;
+        Ok(self)
+    }
+
+    /// The right-censored lengths (young end first), each entering the likelihood through ln S.
+    pub fn censored_lengths(&self) -> impl Iterator<Item = f64> + '_ {
+        self.censored.iter().chain(self.censored_old.iter()).copied()
+    }
+
+    /// A replicate of this sample with other complete lengths and the same censored lengths.
+    pub fn replicate(&self, complete: Vec<f64>) -> Result<Sample> {
+        Sample::new(complete, self.censored)?.with_old_censored(self.censored_old)
     }
 
     /// Number of complete intervals.
@@ -129,7 +152,7 @@ impl Sample {
 
     /// Number of observations (complete plus censored), used as the sample size of BIC.
     pub fn n_obs(&self) -> usize {
-        self.complete.len() + usize::from(self.censored.is_some())
+        self.complete.len() + self.censored_lengths().count()
     }
 }
 
@@ -220,7 +243,7 @@ impl Fitted {
         (self.ln_pdf(x) - self.ln_sf(x)).exp()
     }
 
-    /// Log-likelihood of a sample, with the censored length entering through ln S.
+    /// Log-likelihood of a sample, with each censored length entering through ln S.
     pub fn loglik(&self, s: &Sample) -> f64 {
         let complete = match self.model {
             Model::Exponential => exponential::loglik_complete(&self.params, s),
@@ -229,7 +252,7 @@ impl Fitted {
             Model::Lognormal => lognormal::loglik_complete(&self.params, s),
             Model::InverseGaussian => inverse_gaussian::loglik_complete(&self.params, s),
         };
-        complete + s.censored.map_or(0.0, |c| self.ln_sf(c))
+        complete + s.censored_lengths().map(|c| self.ln_sf(c)).sum::<f64>()
     }
 
     /// One random interval length from the model.

@@ -21,7 +21,7 @@ use rand::RngExt;
 pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     let r = s.n() as f64;
     let g = (s.sum_ln / r).exp();
-    let ly: Vec<f64> = s.complete.iter().chain(s.censored.iter()).map(|x| (x / g).ln()).collect();
+    let ly: Vec<f64> = s.complete.iter().copied().chain(s.censored_lengths()).map(|x| (x / g).ln()).collect();
     let mean_lc = ly[..s.n()].iter().sum::<f64>() / r;
     let top = ly.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     // Σ w, Σ w ln y, Σ w ln² y with w = exp(k (ln y − top)).

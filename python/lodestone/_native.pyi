@@ -1,0 +1,37 @@
+"""Type stubs of the extension module; the documented API is in lodestone/__init__.py."""
+
+from os import PathLike
+from typing import Any, Dict, List, Optional, Tuple, Union
+
+import numpy as np
+import numpy.typing as npt
+
+Source = Union[str, "PathLike[str]", Tuple[str, bytes]]
+F64 = npt.NDArray[np.float64]
+
+class LodestoneError(ValueError):
+    file: str
+    line: int
+    column: Optional[str]
+
+def fisher_mean(dec: F64, inc: F64, confidence: float = 0.95) -> Dict[str, Any]: ...
+def vgp(lat: F64, lon: F64, dec: F64, inc: F64, a95: Optional[F64] = None) -> Dict[str, F64]: ...
+def group_means(table: Source, by: Optional[str], frame: str) -> List[Dict[str, Any]]: ...
+def fit_components(steps: Source, picks: Optional[Source] = None, auto: bool = True) -> Dict[str, Any]: ...
+def reversal_test(
+    dec: F64, inc: F64, seed: int = 1, resamples: int = 1000, threads: Optional[int] = None
+) -> Dict[str, Any]: ...
+def fold_test(table: Source, seed: int = 1, resamples: int = 1000, threads: Optional[int] = None) -> Dict[str, Any]: ...
+def fit_renewal(
+    timescale: Source, young: Optional[float] = None, old: Optional[float] = None, min_length: float = 0.0,
+    censor: bool = True,
+) -> Dict[str, Any]: ...
+def hazard(
+    timescale: Source, elapsed: Optional[float] = None, horizon: float = 0.1, young: Optional[float] = None,
+    old: Optional[float] = None, min_length: float = 0.0, censor: bool = True, seed: int = 1,
+    resamples: int = 1000, level: float = 0.95, threads: Optional[int] = None,
+) -> Dict[str, Any]: ...
+def run_section(
+    folder: Union[str, "PathLike[str]"], out: Optional[Union[str, "PathLike[str]"]] = None, force: bool = False,
+    threads: Optional[int] = None,
+) -> "PathLike[str]": ...

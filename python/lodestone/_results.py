@@ -1,0 +1,128 @@
+"""Result objects of the lodestone package: named attributes and ``to_dict()``."""
+
+from __future__ import annotations
+
+import dataclasses
+from typing import Any, Dict, Optional
+
+import numpy as np
+
+#: The caution that goes with every field test.
+FIELD_TEST_CAUTION = (
+    "A statistical statement about a model of these directions (Fisher distributions or bootstrap "
+    "resampling), not proof of when the rocks were magnetized; local practice and the published "
+    "literature decide."
+)
+
+
+def _plain(value: Any) -> Any:
+    """A value as plain Python: arrays become lists, NumPy scalars become Python numbers."""
+    if isinstance(value, np.ndarray):
+        return value.tolist()
+    if isinstance(value, np.generic):
+        return value.item()
+    return value
+
+
+class _Result:
+    """Common behaviour: ``to_dict()`` and a short ``repr``."""
+
+    def to_dict(self) -> Dict[str, Any]:
+        """Every attribute as plain Python values (lists for arrays, None for undefined values)."""
+        return {f.name: _plain(getattr(self, f.name)) for f in dataclasses.fields(self)}  # type: ignore[arg-type]
+
+
+@dataclasses.dataclass(frozen=True)
+class FisherMean(_Result):
+    """Fisher (1953) mean of a set of directions.
+
+    Units: degrees for ``dec``, ``inc``, ``a95``, ``alpha`` and ``theta63``; ``r`` in units of
+    direction count; ``k`` dimensionless (``inf`` when all directions are identical).
+
+    ``dec``/``inc`` are None when the resultant vanishes (R ≈ 0); ``k``, ``a95`` and ``theta63``
+    are None for a single direction; ``a95`` is None when the cone is undefined (very scattered
+    sets). ``a95`` is always at 95 %; ``alpha`` is the cone at ``confidence``.
+    """
+
+    dec: Optional[float]
+    inc: Optional[float]
+    n: int
+    r: float
+    k: Optional[float]
+    a95: Optional[float]
+    theta63: Optional[float]
+    alpha: Optional[float]
+    confidence: float
+
+
+@dataclasses.dataclass(frozen=True)
+class VGP(_Result):
+    """Virtual geomagnetic poles (arrays in the broadcast shape of the inputs, floats for scalars).
+
+    Units: degrees. ``plat``/``plon`` the pole (longitude in [0, 360)); ``dp``/``dm`` the semi-axes
+    of the confidence oval (NaN where no a95 was given); ``paleolat`` the site's paleolatitude
+    (negative for a reversed direction); ``colatitude`` the magnetic colatitude p.
+    """
+
+    plat: Any
+    plon: Any
+    dp: Any
+    dm: Any
+    paleolat: Any
+    colatitude: Any
+
+
+@dataclasses.dataclass(frozen=True)
+class ReversalTest(_Result):
+    """Reversal test: the two polarity modes compared after flipping the second.
+
+    ``gamma``/``gamma_c`` in degrees (McFadden & McElhinny 1990); ``classification`` one of
+    ``A``, ``B``, ``C``, ``indeterminate`` or ``negative`` (γ > γc); ``v_w``/``v_crit`` Watson's
+    V_w and its simulated critical value; ``passed`` follows the angle test. ``caution`` says what
+    the result is and is not.
+    """
+
+    gamma: float
+    gamma_c: float
+    classification: str
+    v_w: float
+    v_crit: float
+    passed: bool
+    n1: int
+    n2: int
+    v_w_passed: bool
+    bootstrap_passed: bool
+    mean1_dec: float
+    mean1_inc: float
+    mean2_dec: float
+    mean2_inc: float
+    k1: float
+    k2: float
+    seed: int
+    resamples: int
+    caution: str = FIELD_TEST_CAUTION
+
+
+@dataclasses.dataclass(frozen=True)
+class FoldTest(_Result):
+    """Bootstrap fold test (percent untilting) with the classic precision ratio beside it.
+
+    ``best_untilt``, ``ci_low``, ``ci_high`` in percent of the full bedding correction; ``verdict``
+    one of ``pre-folding``, ``syn-folding``, ``post-folding``, ``inconclusive``. ``k_ratio`` is
+    k_tilt/k_geo against ``f_crit`` (for comparison only: both k come from the same directions).
+    """
+
+    best_untilt: float
+    ci_low: float
+    ci_high: float
+    verdict: str
+    n: int
+    k_geo: float
+    k_tilt: float
+    k_ratio: float
+    f_crit: float
+    at_edge: float
+    bedding_spread: float
+    seed: int
+    resamples: int
+    caution: str = FIELD_TEST_CAUTION
