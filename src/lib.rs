@@ -72,6 +72,17 @@
 //! | elongation/inclination correction of shallowing (Tauxe & Kent 2004); a given factor (King 1955) | [`dirstats::unflatten_search`], [`dirstats::unflatten_factor`] |
 //! | VGP scatter against latitude, S(λ)² = a² + (bλ)² with bootstrap | [`dirstats::fit_latitude_model`], [`dirstats::latitude_model_bootstrap`] |
 //! | figures: elongation–inclination, S against latitude, ellipses on the net | [`figures::UnflattenFigure`], [`figures::LatitudeFigure`], [`figures::EllipseNet`] |
+//! | one stage of the chain as reported (what ran, what it found) | [`section::Stage`] |
+//! | correlation settings: penalties, rate spread, dated levels | [`strat::CorrelateOptions`], [`strat::DatedLevel`] |
+//! | errors: kinds with the offending value; kinds of table faults | [`Error`], [`TableError`], [`TableFault`] |
+//! | accumulation-rate units (cm/kyr ↔ m/Myr) | [`units::cm_per_kyr_to_m_per_myr`], [`units::m_per_myr_to_cm_per_kyr`] |
+//! | the number formatter of every table, CSV file and report | [`numbers::fixed`], [`numbers::push_csv`] |
+//!
+//! ## Where things go
+//! A computation lives in the module of its concept (the table above), with `# Units`, `# Formula` and
+//! `# References` and a test against an outside source. `table` reads tables into typed rows; the command layer
+//! (`src/cli/`, not part of the library) parses arguments, calls the library and writes a report; the
+//! whole-output snapshot tests (`tests/snapshot_*.rs`) pin every verb's output.
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -91,6 +102,7 @@ pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
 pub mod montecarlo;
+pub mod numbers;
 pub mod poles;
 pub mod reversals;
 pub mod section;
@@ -100,5 +112,6 @@ pub mod stats;
 pub mod strat;
 pub mod table;
 pub mod tolerance;
+pub mod units;
 
 pub use error::{Error, Result, TableError, TableFault};

@@ -5,7 +5,7 @@ use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::figures::{ColumnFigure, ScalePanel};
 use lodestone::strat::{
-    comparison_sentence, correlate, read_levels, read_zones, zone_levels, Anchor, CorrelateOptions, LevelOptions,
+    comparison_sentence, correlate, read_levels, read_zones, zone_levels, CorrelateOptions, DatedLevel, LevelOptions,
 };
 use lodestone::table::{Table, TimeScale};
 use serde_json::json;
@@ -46,7 +46,7 @@ pub struct CorrelateArgs {
     pub plot: Option<PathBuf>,
 }
 
-fn parse_anchor(s: &str) -> Result<Anchor> {
+fn parse_anchor(s: &str) -> Result<DatedLevel> {
     let parts: Vec<&str> = s.split(':').collect();
     let num = |x: &str, what: &str| -> Result<f64> {
         let v: f64 = x.trim().parse().with_context(|| format!("--anchor {s}: {what} '{x}' is not a number"))?;
@@ -56,8 +56,10 @@ fn parse_anchor(s: &str) -> Result<Anchor> {
         Ok(v)
     };
     let a = match parts.as_slice() {
-        [p, a] => Anchor { position: num(p, "position")?, age: num(a, "age")?, uncertainty: 0.0 },
-        [p, a, e] => Anchor { position: num(p, "position")?, age: num(a, "age")?, uncertainty: num(e, "uncertainty")? },
+        [p, a] => DatedLevel { position: num(p, "position")?, age: num(a, "age")?, uncertainty: 0.0 },
+        [p, a, e] => {
+            DatedLevel { position: num(p, "position")?, age: num(a, "age")?, uncertainty: num(e, "uncertainty")? }
+        }
         _ => bail!("--anchor {s}: expected POSITION:AGE or POSITION:AGE:UNCERTAINTY"),
     };
     if a.age < 0.0 || a.uncertainty < 0.0 {

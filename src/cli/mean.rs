@@ -4,6 +4,7 @@
 //! group as it is computed ([`StreamedReport`]): memory holds a few dozen bytes per group and nothing per
 //! row (with `--format json`, also the runs of adjacent file lines of each group).
 
+use super::args::FrameArg;
 use super::{jnum, Cell, Ctx, Output, Section, StreamedReport};
 use anyhow::Result;
 use clap::Args;
@@ -48,12 +49,6 @@ pub struct MeanArgs {
     pub resamples: usize,
 }
 
-#[derive(Debug, Clone, Copy, clap::ValueEnum)]
-pub enum FrameArg {
-    Geo,
-    Tilt,
-}
-
 /// Confidence level of the reported α95 (and of the `alpha` the library gives).
 const A95: f64 = 0.95;
 
@@ -67,10 +62,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
         (None, true) => GroupBy::None,
         (None, false) => GroupBy::Default,
     };
-    let frame = match a.frame {
-        FrameArg::Geo => Frame::Geo,
-        FrameArg::Tilt => Frame::Tilt,
-    };
+    let frame = Frame::from(a.frame);
     // Without a figure the table streams through per-group sums (memory does not grow with the row
     // count); the figure needs the points, and great circles need the whole group at once.
     let mut streamed = None;
@@ -97,7 +89,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
                     title: format!(
                         "{} — {} coordinates",
                         a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
-                        if frame == Frame::Geo { "geographic" } else { "tilt-corrected" }
+                        frame.label()
                     ),
                     cone_label: "α95".into(),
                     groups: means
@@ -130,11 +122,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
     };
     let other = (a.confidence - 0.95).abs() > 1e-12;
     let mut head = Section::new(
-        &format!(
-            "Fisher means ({} coordinates) of {}",
-            if frame == Frame::Geo { "geographic" } else { "tilt-corrected" },
-            a.file.display()
-        ),
+        &format!("Fisher means ({} coordinates) of {}", frame.label(), a.file.display()),
         &["group", "n", "dec", "inc", "r", "k", "a95", "theta63"],
     );
     if other {

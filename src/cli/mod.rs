@@ -2,6 +2,7 @@
 //!
 //! Exit codes: 0 success · 1 bad data or failed computation (message on stderr) · 2 bad command line.
 
+mod args;
 mod column;
 mod components;
 mod correlate;

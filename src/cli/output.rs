@@ -43,10 +43,7 @@ impl Cell {
         use std::fmt::Write as _;
         match self {
             Cell::Text(s) => buf.push_str(s),
-            Cell::Num(x, _) if x.is_infinite() => buf.push_str(if *x > 0.0 { "inf" } else { "-inf" }),
-            Cell::Num(x, d) => {
-                let _ = write!(buf, "{x:.d$}", d = *d);
-            }
+            Cell::Num(x, d) => lodestone::numbers::push_fixed(buf, *x, *d),
             Cell::Int(i) => {
                 let _ = write!(buf, "{i}");
             }
@@ -55,19 +52,8 @@ impl Cell {
     }
     /// Append the CSV form to `buf`: numbers at full precision, empty for no value.
     fn push_csv(&self, buf: &mut String) {
-        use std::fmt::Write as _;
         match self {
-            Cell::Num(x, _) if x.is_finite() => {
-                // Ten decimals: more than any measurement carries, without floating-point noise.
-                let start = buf.len();
-                let _ = write!(buf, "{x:.10}");
-                let kept = buf[start..].trim_end_matches('0').trim_end_matches('.').len();
-                buf.truncate(start + kept);
-                if &buf[start..] == "-0" {
-                    buf.truncate(start);
-                    buf.push('0');
-                }
-            }
+            Cell::Num(x, _) => lodestone::numbers::push_csv(buf, *x),
             Cell::Empty => {}
             other => other.push_text(buf),
         }
@@ -355,11 +341,15 @@ mod tests {
                 assert_eq!((o1, e1), (o2, e2), "{format:?}");
             }
         }
-        // Width from every row (including the later `inf`), `-0` written as 0 in CSV, no blank line
+        // Width from every row (including the later `inf`), a negative zero written without its sign (0.000 in
+        // text, 0 in CSV), no blank line
         // without notes.
         let (mut o, mut e) = (Vec::new(), Vec::new());
         write_output(&Output::Streamed(Box::new(Produced(r.clone()))), Format::Table, &mut o, &mut e).unwrap();
-        assert_eq!(String::from_utf8(o).unwrap(), "t\n  name       x\n  a       1.23\n  bb         -\n  c        inf\n  dd    -0.000\n  e          7\n\none\ntwo\n");
+        assert_eq!(
+            String::from_utf8(o).unwrap(),
+            "t\n  name      x\n  a      1.23\n  bb        -\n  c       inf\n  dd    0.000\n  e         7\n\none\ntwo\n"
+        );
         let (mut o, mut e) = (Vec::new(), Vec::new());
         write_output(&Output::Streamed(Box::new(Produced(r))), Format::Csv, &mut o, &mut e).unwrap();
         assert_eq!(String::from_utf8(o).unwrap(), "name,x\na,1.23456\nbb,\nc,inf\ndd,0\ne,7\n");

@@ -1,10 +1,12 @@
 //! `lodestone test …`: field tests (reversal, fold, randomness, common mean).
 
+use super::args::FrameArg;
 use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::Result;
 use clap::{Args, Subcommand};
 use lodestone::fieldtests::{self, FoldOptions, MeanComparison};
 use lodestone::sphere::{Bedding, Vec3};
+use lodestone::stats::Frame;
 use lodestone::table::{read_directions, DirectionKind, DirectionSet, GroupBy, Table};
 use lodestone::TableError;
 use serde_json::{json, Value};
@@ -33,14 +35,6 @@ pub enum TestKind {
     Fold(FoldArgs),
     /// Are the directions random? (Watson 1956, as in conglomerate tests)
     Random(RandomArgs),
-}
-
-#[derive(Debug, Clone, Copy, clap::ValueEnum, PartialEq, Eq)]
-pub enum FrameArg {
-    /// In situ (geographic) directions.
-    Geo,
-    /// Bedding-corrected directions (needs bedding columns).
-    Tilt,
 }
 
 #[derive(Debug, Args)]
@@ -136,13 +130,6 @@ fn vectors(set: &DirectionSet, frame: FrameArg) -> Result<Vec<Vec3>> {
     match frame {
         FrameArg::Geo => Ok(geo.collect()),
         FrameArg::Tilt => Ok(geo.zip(bedding_of(set)?).map(|(u, b)| b.untilt(u)).collect()),
-    }
-}
-
-fn frame_name(f: FrameArg) -> &'static str {
-    match f {
-        FrameArg::Geo => "geographic",
-        FrameArg::Tilt => "tilt-corrected",
     }
 }
 
@@ -249,7 +236,7 @@ fn reversal(a: OneFile, ctx: &mut Ctx) -> Result<Report> {
     let (sec, mut j, mut notes) = comparison_output(
         c,
         "The two polarity modes",
-        &format!("Reversal test of {} ({} coordinates)", a.file.display(), frame_name(a.frame)),
+        &format!("Reversal test of {} ({} coordinates)", a.file.display(), Frame::from(a.frame).label()),
     );
     let mut modes = Section::new("Polarity modes (split on the principal axis)", &["mode", "n", "dec", "inc", "k"]);
     modes.rows.push(vec![
@@ -291,7 +278,12 @@ fn common_mean(a: TwoFiles, ctx: &mut Ctx) -> Result<Report> {
     let (sec, j, mut notes) = comparison_output(
         &c,
         "The two mean directions",
-        &format!("Common-mean test of {} and {} ({} coordinates)", a.a.display(), a.b.display(), frame_name(a.frame)),
+        &format!(
+            "Common-mean test of {} and {} ({} coordinates)",
+            a.a.display(),
+            a.b.display(),
+            Frame::from(a.frame).label()
+        ),
     );
     let mut means = Section::new("Means", &["file", "n", "dec", "inc", "k"]);
     for (p, n, m, k) in [(&a.a, c.n1, c.mean1, c.k1), (&a.b, c.n2, c.mean2, c.k2)] {
@@ -317,7 +309,7 @@ fn finish(
     ctx: &Ctx,
 ) -> Result<Report> {
     j["file"] = json!(file);
-    j["frame"] = json!(frame_name(frame));
+    j["frame"] = json!(Frame::from(frame).label());
     j["confidence"] = json!(CONFIDENCE);
     j["seed"] = json!(ctx.global.seed);
     j["resamples"] = json!(resamples);
@@ -408,7 +400,7 @@ fn random(a: RandomArgs, ctx: &mut Ctx) -> Result<Report> {
     let v = vectors(&set, a.frame)?;
     let t = fieldtests::randomness_test(&v, CONFIDENCE)?;
     let mut sec = Section::new(
-        &format!("Randomness test of {} ({} coordinates)", a.file.display(), frame_name(a.frame)),
+        &format!("Randomness test of {} ({} coordinates)", a.file.display(), Frame::from(a.frame).label()),
         &["n", "r", "r0", "p_value", "random"],
     );
     sec.rows.push(vec![
@@ -427,7 +419,7 @@ fn random(a: RandomArgs, ctx: &mut Ctx) -> Result<Report> {
         CAUTION.into(),
     ];
     let j = json!({
-        "file": a.file.display().to_string(), "frame": frame_name(a.frame),
+        "file": a.file.display().to_string(), "frame": Frame::from(a.frame).label(),
         "n": t.n, "r": t.r, "r0": t.r0, "p_value": t.p_value, "random": t.random,
         "confidence": t.confidence, "route": t.route, "notes": notes,
     });

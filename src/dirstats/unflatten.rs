@@ -59,6 +59,9 @@ pub fn unflatten_factor(directions: &[Direction], f: f64) -> Result<FactorResult
 }
 
 /// A path of the elongation/inclination method: for each f tried, the inclination of V₁ and the
+/// What one bootstrap replicate of the unflattening search gives back (see its use below).
+type BootstrapDraw = (Option<(f64, f64)>, Option<EiCurve>);
+
 /// meridional elongation.
 #[derive(Debug, Clone, PartialEq, Default, serde::Serialize)]
 pub struct EiCurve {
@@ -203,9 +206,6 @@ fn refine(set: &[Prepared], orient: Vec3, mut lo: f64, mut hi: f64) -> (f64, f64
     best
 }
 
-/// One pseudo-sample's outcome: the crossing (f, inclination) if any, and its path when kept.
-type Draw = (Option<(f64, f64)>, Option<EiCurve>);
-
 /// The elongation/inclination correction with a bootstrap interval.
 ///
 /// # Units
@@ -242,7 +242,7 @@ pub fn unflatten_search(directions: &[Direction], mc: &MonteCarlo<'_>, paths_kep
     let set: Vec<Prepared> = directions.iter().map(prepare).collect();
     let (found, path) = search(&set, orient, true);
     let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("{n} directions are too many")))?;
-    let draws: Vec<Draw> = mc.run_with(
+    let draws: Vec<BootstrapDraw> = mc.run_with(
         "unflatten bootstrap",
         STREAM,
         || (vec![0u32; n], Vec::with_capacity(n)),

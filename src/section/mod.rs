@@ -16,14 +16,16 @@ mod pipeline;
 mod report;
 mod reversal_stats;
 mod settings;
+mod stage;
 mod tables;
 mod truth;
 
 pub use auto::{automatic_fit, last_rule, rule_text};
-pub use pipeline::{run, run_with_truth, Stage, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
+pub use pipeline::{run, run_with_truth, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
 pub use report::report_html;
 pub use reversal_stats::{HAZARD_HORIZON, LEVEL, RATE_WINDOW};
 pub use settings::{SectionSettings, KNOWN_KEYS};
+pub use stage::Stage;
 pub use tables::CsvTable;
 
 /// One input file of a project folder: its name (as shown in messages) and its bytes.

@@ -2,15 +2,15 @@
 //! parameters) and what it found (result), or why it was skipped.
 
 use super::settings::SectionSettings;
-use super::tables::{num, opt, CsvTable};
+use super::stage::{draw, Stage};
+use super::tables::CsvTable;
 use super::{FigureOutput, Headline, Project, ProjectFile, Rejection, SectionRun};
 use crate::demag::{fit_range, FitKind, SpecimenFit};
 use crate::error::{Error, Result};
 use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions};
-use crate::figures::{
-    render, ColumnFigure, EqualAreaPlot, Figure, FigureFormat, FoldPlot, MappedVgp, NetGroup, PolePlot, ScalePanel,
-};
+use crate::figures::{ColumnFigure, EqualAreaPlot, FoldPlot, MappedVgp, NetGroup, PolePlot, ScalePanel};
 use crate::montecarlo::{MonteCarlo, Progress};
+use crate::numbers::{fixed, fixed_or_empty};
 use crate::poles::{
     align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp, vgp_scatter, within_site_sw, ScatterSite, WithinSite,
 };
@@ -26,36 +26,6 @@ use crate::table::{
     TimeScale,
 };
 use std::collections::BTreeMap;
-
-/// One stage of the chain: what it did, what it found, or why it was skipped.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
-pub struct Stage {
-    /// Short name (a heading in the report).
-    pub name: String,
-    /// Whether it ran.
-    pub ran: bool,
-    /// What was done, with which parameters.
-    pub method: String,
-    /// What was found (or why the stage was skipped).
-    pub result: String,
-    /// Stems of the tables this stage wrote.
-    pub tables: Vec<String>,
-    /// Stems of the figures this stage drew.
-    pub figures: Vec<String>,
-}
-
-impl Stage {
-    pub(super) fn new(name: &str) -> Self {
-        Stage {
-            name: name.into(),
-            ran: true,
-            method: String::new(),
-            result: String::new(),
-            tables: vec![],
-            figures: vec![],
-        }
-    }
-}
 
 /// Caution carried with every field test.
 pub const FIELD_TEST_CAUTION: &str = "Field tests are statistical statements about a model of the directions \
@@ -136,13 +106,6 @@ fn read_sampling(f: &ProjectFile) -> Result<(StratAxis, Vec<SiteInfo>)> {
     let mut sites: Vec<SiteInfo> = out.into_iter().map(|(s, _)| s).collect();
     sites.sort_by(|a, b| a.position.total_cmp(&b.position));
     Ok((axis, sites))
-}
-
-pub(super) fn draw<F: Figure>(fig: &F, stem: &str, caption: String) -> Result<FigureOutput> {
-    let svg = String::from_utf8(render(fig, FigureFormat::Svg)?)
-        .map_err(|e| Error::Invalid(format!("figure {stem}: {e}")))?;
-    let png = render(fig, FigureFormat::Png)?;
-    Ok(FigureOutput { stem: stem.into(), caption, svg, png })
 }
 
 fn yn(b: bool) -> String {
@@ -282,12 +245,12 @@ pub fn run_with_truth(
             f.kind.as_str().into(),
             f.anchor.as_str().into(),
             f.n_steps.to_string(),
-            num(f.from, 1),
-            num(f.to, 1),
-            num(f.direction.dec, 2),
-            num(f.direction.inc, 2),
-            num(f.mad, 2),
-            opt(f.dang, 2),
+            fixed(f.from, 1),
+            fixed(f.to, 1),
+            fixed(f.direction.dec, 2),
+            fixed(f.direction.inc, 2),
+            fixed(f.mad, 2),
+            fixed_or_empty(f.dang, 2),
             grades.get(&f.specimen).map_or("pick", |g| g).to_string(),
         ]);
     }
@@ -363,7 +326,7 @@ pub fn run_with_truth(
             reject("no specimen with an accepted component".into(), &mut rejected);
             mt.push(vec![
                 s.site.clone(),
-                num(s.position, 3),
+                fixed(s.position, 3),
                 "0".into(),
                 "0".into(),
                 "".into(),
@@ -404,17 +367,17 @@ pub fn run_with_truth(
         };
         mt.push(vec![
             s.site.clone(),
-            num(s.position, 3),
+            fixed(s.position, 3),
             g.stats.n.to_string(),
             g.planes.to_string(),
-            opt(g.stats.mean.map(|m| m.dec), 1),
-            opt(g.stats.mean.map(|m| m.inc), 1),
-            opt(k(g), 1),
-            opt(g.stats.alpha, 1),
-            opt(t.stats.mean.map(|m| m.dec), 1),
-            opt(t.stats.mean.map(|m| m.inc), 1),
-            opt(k(t), 1),
-            opt(t.stats.alpha, 1),
+            fixed_or_empty(g.stats.mean.map(|m| m.dec), 1),
+            fixed_or_empty(g.stats.mean.map(|m| m.inc), 1),
+            fixed_or_empty(k(g), 1),
+            fixed_or_empty(g.stats.alpha, 1),
+            fixed_or_empty(t.stats.mean.map(|m| m.dec), 1),
+            fixed_or_empty(t.stats.mean.map(|m| m.inc), 1),
+            fixed_or_empty(k(t), 1),
+            fixed_or_empty(t.stats.alpha, 1),
             yn(ok),
         ]);
         if ok {
@@ -494,15 +457,15 @@ pub fn run_with_truth(
                 tt.push(vec![
                     "reversal".into(),
                     "gamma (deg)".into(),
-                    num(c.mm90.gamma, 2),
-                    num(c.mm90.gamma_c, 2),
+                    fixed(c.mm90.gamma, 2),
+                    fixed(c.mm90.gamma_c, 2),
                     format!("class {}", c.mm90.class.name()),
                 ]);
                 tt.push(vec![
                     "reversal".into(),
                     "V_w".into(),
-                    num(c.watson.v_w, 2),
-                    num(c.watson.v_crit, 2),
+                    fixed(c.watson.v_w, 2),
+                    fixed(c.watson.v_crit, 2),
                     if c.watson.passed { "pass".into() } else { "fail".into() },
                 ]);
                 tt.push(vec![
@@ -540,15 +503,15 @@ pub fn run_with_truth(
                 tt.push(vec![
                     "fold".into(),
                     "best untilting (%)".into(),
-                    num(t.best_untilt, 0),
+                    fixed(t.best_untilt, 0),
                     format!("{:.0} to {:.0}", t.ci_low, t.ci_high),
                     t.verdict.name().into(),
                 ]);
                 tt.push(vec![
                     "fold".into(),
                     "k_tilt / k_geo".into(),
-                    num(t.classic.ratio, 2),
-                    num(t.classic.f_crit, 2),
+                    fixed(t.classic.ratio, 2),
+                    fixed(t.classic.f_crit, 2),
                     "comparison only".into(),
                 ]);
                 results.push(format!("Fold test: best untilting {:.0} % (95 % interval {:.0} to {:.0} %): {}. Bedding attitudes differ by up to {:.0}°.",
@@ -590,14 +553,14 @@ pub fn run_with_truth(
         let oval = u.a95.map(|a| pole_oval(u.colat, a)).transpose().ok().flatten();
         vt.push(vec![
             sites[u.idx].site.clone(),
-            num(sites[u.idx].position, 3),
-            num(u.tilt.dec, 1),
-            num(u.tilt.inc, 1),
-            num(u.vgp_lat, 2),
-            num(u.vgp_lon, 2),
-            opt(oval.map(|o| o.dp), 1),
-            opt(oval.map(|o| o.dm), 1),
-            num(u.paleolat, 1),
+            fixed(sites[u.idx].position, 3),
+            fixed(u.tilt.dec, 1),
+            fixed(u.tilt.inc, 1),
+            fixed(u.vgp_lat, 2),
+            fixed(u.vgp_lon, 2),
+            fixed_or_empty(oval.map(|o| o.dp), 1),
+            fixed_or_empty(oval.map(|o| o.dm), 1),
+            fixed(u.paleolat, 1),
             u.polarity.code().into(),
         ]);
     }
@@ -647,10 +610,10 @@ pub fn run_with_truth(
                 );
                 let mut row = vec![
                     pp.n.to_string(),
-                    num(pp.pole.lat, 2),
-                    num(pp.pole.lon, 2),
-                    num(pp.k.0, 1),
-                    opt(pp.a95, 2),
+                    fixed(pp.pole.lat, 2),
+                    fixed(pp.pole.lon, 2),
+                    fixed(pp.k.0, 1),
+                    fixed_or_empty(pp.a95, 2),
                     settings.scatter_cutoff.clone(),
                 ];
                 let mut kept_flags = vec![true; used.len()];
@@ -665,15 +628,15 @@ pub fn run_with_truth(
                             warnings.push(format!("Scatter interval skipped: {e}."));
                         }
                         row.extend([
-                            opt(sc.s, 2),
-                            opt(lo, 2),
-                            opt(hi, 2),
-                            num(sc.s_total, 2),
+                            fixed_or_empty(sc.s, 2),
+                            fixed_or_empty(lo, 2),
+                            fixed_or_empty(hi, 2),
+                            fixed(sc.s_total, 2),
                             sc.n_used.to_string(),
                             sc.n_removed.to_string(),
                         ]);
                         stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {}° ({}–{}°, {} sites used, {} removed by the cutoff).",
-                            pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, opt(pp.a95, 1) + "°", opt(sc.s, 1), opt(lo, 1), opt(hi, 1), sc.n_used, sc.n_removed);
+                            pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(sc.s, 1), fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
                     }
                     Err(e) => {
                         row.extend(["".into(), "".into(), "".into(), "".into(), "".into(), "".into()]);
@@ -684,7 +647,7 @@ pub fn run_with_truth(
                             pp.pole.lat,
                             pp.pole.lon,
                             pp.k.0,
-                            opt(pp.a95, 1)
+                            fixed_or_empty(pp.a95, 1)
                         );
                     }
                 }
@@ -755,11 +718,11 @@ pub fn run_with_truth(
                 for ((u, l), pz) in used.iter().zip(&levels.levels).zip(&pol) {
                     lt.push(vec![
                         sites[u.idx].site.clone(),
-                        num(l.position, 3),
-                        num(l.vgp_lat, 2),
+                        fixed(l.position, 3),
+                        fixed(l.vgp_lat, 2),
                         pz.code().into(),
                         l.n.to_string(),
-                        opt(l.a95, 1),
+                        fixed_or_empty(l.a95, 1),
                     ]);
                 }
                 let mut zt =
@@ -770,12 +733,12 @@ pub fn run_with_truth(
                         z.polarity.code().into(),
                         z.n_levels.to_string(),
                         status_word(z).into(),
-                        num(z.base.mid, 3),
-                        num(z.base.low, 3),
-                        num(z.base.high, 3),
-                        num(z.top.mid, 3),
-                        num(z.top.low, 3),
-                        num(z.top.high, 3),
+                        fixed(z.base.mid, 3),
+                        fixed(z.base.low, 3),
+                        fixed(z.base.high, 3),
+                        fixed(z.top.mid, 3),
+                        fixed(z.top.low, 3),
+                        fixed(z.top.high, 3),
                         col_name.into(),
                     ]);
                 }
@@ -852,21 +815,21 @@ pub fn run_with_truth(
                         let am = &c.age_model;
                         ct.push(vec![
                             c.rank.to_string(),
-                            num(c.score, 3),
-                            num(c.mean_rate, 3),
+                            fixed(c.score, 3),
+                            fixed(c.mean_rate, 3),
                             c.ties.len().to_string(),
                             c.missing_chrons.to_string(),
                             c.skipped_zones.to_string(),
-                            opt(am.first().map(|a| a.age), 4),
-                            opt(am.last().map(|a| a.age), 4),
+                            fixed_or_empty(am.first().map(|a| a.age), 4),
+                            fixed_or_empty(am.last().map(|a| a.age), 4),
                         ]);
                         for t in &c.ties {
                             tt.push(vec![
                                 c.rank.to_string(),
-                                num(t.position, 3),
-                                num(t.low, 3),
-                                num(t.high, 3),
-                                num(t.age, 4),
+                                fixed(t.position, 3),
+                                fixed(t.low, 3),
+                                fixed(t.high, 3),
+                                fixed(t.age, 4),
                                 t.chron_above.clone(),
                                 t.chron_below.clone(),
                             ]);
@@ -882,8 +845,8 @@ pub fn run_with_truth(
                         let pos = sites[u.idx].position;
                         at.push(vec![
                             sites[u.idx].site.clone(),
-                            num(pos, 3),
-                            opt(best.age_at(pos, axis), 4),
+                            fixed(pos, 3),
+                            fixed_or_empty(best.age_at(pos, axis), 4),
                             u.polarity.code().into(),
                         ]);
                     }
@@ -894,11 +857,11 @@ pub fn run_with_truth(
                     );
                     for r in &best.runs {
                         rt.push(vec![
-                            num(r.top, 3),
-                            num(r.base, 3),
-                            num(r.age_young, 4),
-                            num(r.age_old, 4),
-                            opt(r.rate, 3),
+                            fixed(r.top, 3),
+                            fixed(r.base, 3),
+                            fixed(r.age_young, 4),
+                            fixed(r.age_old, 4),
+                            fixed_or_empty(r.rate, 3),
                             format!("{:?}", r.reading).to_lowercase(),
                             r.missing.join(" "),
                         ]);
@@ -907,7 +870,7 @@ pub fn run_with_truth(
                     head.scores = res.candidates.iter().take(2).map(|c| c.score).collect();
                     stage.result = format!("Best candidate: {} ties, mean accumulation rate {:.2} cm/kyr, {} chrons missing, level ages {}–{} Ma. {}",
                         best.ties.len(), best.mean_rate, best.missing_chrons,
-                        opt(best.age_model.first().map(|a| a.age), 3), opt(best.age_model.last().map(|a| a.age), 3), comparison_sentence(&res));
+                        fixed_or_empty(best.age_model.first().map(|a| a.age), 3), fixed_or_empty(best.age_model.last().map(|a| a.age), 3), comparison_sentence(&res));
                     let (y0, y1) = best
                         .age_model
                         .iter()

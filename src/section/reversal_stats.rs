@@ -8,10 +8,11 @@
 //! on the same file, seed and number of resamples (same Monte Carlo streams), so the report and the
 //! command line cannot disagree.
 
-use super::tables::{num, opt, CsvTable};
+use super::tables::CsvTable;
 use super::{FigureOutput, Stage};
 use crate::figures::{HazardFigure, IntervalFigure, RateFigure};
 use crate::montecarlo::MonteCarlo;
+use crate::numbers::{fixed, fixed_or_empty};
 use crate::reversals::{
     averaged_interval, clustering_test, fit_models, goodness_of_fit, hazard_at, intervals, laplace_test, windowed_rate,
     IntervalOptions, IntervalRecord, Model, RenewalFits, Sample, CAUTIONS,
@@ -58,7 +59,7 @@ impl ReversalStats {
 }
 
 fn params(f: &crate::reversals::Fitted) -> String {
-    f.named_params().iter().map(|(k, v)| format!("{k}={}", num(*v, 4))).collect::<Vec<_>>().join(" ")
+    f.named_params().iter().map(|(k, v)| format!("{k}={}", fixed(*v, 4))).collect::<Vec<_>>().join(" ")
 }
 
 /// Fit the renewal models to the time scale's intervals, test their fit, evaluate the hazard and
@@ -112,7 +113,7 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale, mc: &MonteCarlo<'_
         ));
     }
     let fig = IntervalFigure::new(&sample, &fits, name);
-    out.add_figure(super::pipeline::draw(&fig, "intervals", "Lengths of the complete polarity intervals (empirical distribution) with the distribution functions of the fitted renewal models; the open chron's present length is marked.".into()));
+    out.add_figure(super::stage::draw(&fig, "intervals", "Lengths of the complete polarity intervals (empirical distribution) with the distribution functions of the fitted renewal models; the open chron's present length is marked.".into()));
     match rec.censored {
         Some(elapsed) => hazard(&mut out, &fits, &sample, elapsed, mc, name),
         None => out.warnings.push("Hazard skipped: the time scale has no open chron at its young end.".into()),
@@ -143,15 +144,15 @@ fn renewal_table(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, m
         ft.push(vec![
             f.fitted.model.name().into(),
             params(&f.fitted),
-            num(f.fitted.mean(), 4),
-            num(f.loglik, 3),
-            num(f.aic, 3),
-            num(f.bic, 3),
-            num(f.weight, 3),
-            opt(g.map(|g| g.ks_d), 4),
-            opt(g.map(|g| g.ks_p), 3),
-            opt(g.map(|g| g.ad), 3),
-            opt(g.map(|g| g.ad_p), 3),
+            fixed(f.fitted.mean(), 4),
+            fixed(f.loglik, 3),
+            fixed(f.aic, 3),
+            fixed(f.bic, 3),
+            fixed(f.weight, 3),
+            fixed_or_empty(g.map(|g| g.ks_d), 4),
+            fixed_or_empty(g.map(|g| g.ks_p), 3),
+            fixed_or_empty(g.map(|g| g.ad), 3),
+            fixed_or_empty(g.map(|g| g.ad_p), 3),
         ]);
     }
     out.add_table(ft);
@@ -174,22 +175,22 @@ fn hazard(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, elapsed:
     for m in &h.models {
         ht.push(vec![
             m.fitted.model.name().into(),
-            num(m.weight, 3),
-            num(m.hazard, 3),
-            num(m.survival, 4),
-            opt(m.p_within, 4),
+            fixed(m.weight, 3),
+            fixed(m.hazard, 3),
+            fixed(m.survival, 4),
+            fixed_or_empty(m.p_within, 4),
             String::new(),
             String::new(),
         ]);
     }
     ht.push(vec![
         "averaged (Akaike weights)".into(),
-        num(1.0, 3),
+        fixed(1.0, 3),
         String::new(),
         String::new(),
-        num(h.averaged, 4),
-        opt(h.interval.map(|b| b.low), 4),
-        opt(h.interval.map(|b| b.high), 4),
+        fixed(h.averaged, 4),
+        fixed_or_empty(h.interval.map(|b| b.low), 4),
+        fixed_or_empty(h.interval.map(|b| b.high), 4),
     ]);
     out.stage.result.push_str(&format!(
         " Under the fitted models, the Akaike-weighted P(reversal within {HAZARD_HORIZON} Myr | none in the last {elapsed:.3} Myr) is {:.3}{}; the elapsed length exceeds {:.0} % of the complete intervals.",
@@ -200,7 +201,7 @@ fn hazard(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, elapsed:
     out.add_table(ht);
     out.cautions.extend(CAUTIONS.iter().map(|s| s.to_string()));
     let fig = HazardFigure::new(fits, elapsed, name);
-    out.add_figure(super::pipeline::draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")));
+    out.add_figure(super::stage::draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")));
 }
 
 fn rate(out: &mut ReversalStats, rec: &IntervalRecord) {
@@ -214,14 +215,14 @@ fn rate(out: &mut ReversalStats, rec: &IntervalRecord) {
         &["age", "rate", "low", "high", "count"],
     );
     for p in &points {
-        rt.push(vec![num(p.age, 3), num(p.rate, 3), num(p.low, 3), num(p.high, 3), p.count.to_string()]);
+        rt.push(vec![fixed(p.age, 3), fixed(p.rate, 3), fixed(p.low, 3), fixed(p.high, 3), p.count.to_string()]);
     }
     out.add_table(rt);
     let mut tt =
         CsvTable::new("rate-tests", "Trend and clustering of the reversals", &["test", "n", "statistic", "value", "p"]);
     match laplace_test(&rec.reversals, rec.from, rec.to) {
         Ok(l) => {
-            tt.push(vec!["laplace trend".into(), l.n.to_string(), "U".into(), num(l.u, 3), num(l.p_value, 4)]);
+            tt.push(vec!["laplace trend".into(), l.n.to_string(), "U".into(), fixed(l.u, 3), fixed(l.p_value, 4)]);
             out.stage.result.push_str(&format!(" Laplace trend test: U = {:.2}, p = {:.3}.", l.u, l.p_value));
         }
         Err(e) => out.warnings.push(format!("Laplace trend test unavailable: {e}.")),
@@ -233,10 +234,10 @@ fn rate(out: &mut ReversalStats, rec: &IntervalRecord) {
                 "clustering (mean H)".into(),
                 n.clone(),
                 "mean_h".into(),
-                num(c.mean_h, 3),
-                num(c.p_value, 4),
+                fixed(c.mean_h, 3),
+                fixed(c.p_value, 4),
             ]);
-            tt.push(vec!["clustering (H uniform)".into(), n, "ks_d".into(), num(c.ks_d, 3), num(c.ks_p, 4)]);
+            tt.push(vec!["clustering (H uniform)".into(), n, "ks_d".into(), fixed(c.ks_d, 3), fixed(c.ks_p, 4)]);
         }
         Err(e) => out.warnings.push(format!("Clustering test unavailable: {e}.")),
     }
@@ -249,5 +250,5 @@ fn rate(out: &mut ReversalStats, rec: &IntervalRecord) {
         reversals: rec.reversals.clone(),
         window: RATE_WINDOW,
     };
-    out.add_figure(super::pipeline::draw(&fig, "rate", format!("Reversals per Myr in {RATE_WINDOW} Myr windows with the exact Poisson {:.0} % band; ticks mark the reversals.", LEVEL * 100.0)));
+    out.add_figure(super::stage::draw(&fig, "rate", format!("Reversals per Myr in {RATE_WINDOW} Myr windows with the exact Poisson {:.0} % band; ticks mark the reversals.", LEVEL * 100.0)));
 }

@@ -1,6 +1,6 @@
 //! Settings of a `section` run, read from the project's `settings.toml` with defaults.
 
-use crate::error::{TableError, TableFault};
+use crate::error::TableError;
 use crate::poles::Cutoff;
 use crate::simulate::Settings;
 
@@ -106,13 +106,12 @@ impl SectionSettings {
         };
         if !matches!(out.auto_rule.as_str(), "last" | "longest") {
             let line = s.values.get("auto_rule").map_or(0, |v| v.line);
-            return Err(TableError {
-                kind: TableFault::Value,
-                file: s.source.clone(),
+            return Err(TableError::value(
+                s.source.as_str(),
                 line,
-                column: Some("auto_rule".into()),
-                message: format!("'{}' is not \"last\" or \"longest\"", out.auto_rule),
-            });
+                Some("auto_rule"),
+                format!("'{}' is not \"last\" or \"longest\"", out.auto_rule),
+            ));
         }
         let unknown = s.unknown_keys(&KNOWN_KEYS).into_iter().map(str::to_string).collect();
         Ok((out, unknown))

@@ -52,24 +52,6 @@ fn quote(c: &str) -> String {
     }
 }
 
-/// A number with fixed decimals (no negative zero); infinite values as `inf`.
-pub fn num(x: f64, d: usize) -> String {
-    if x.is_infinite() {
-        return if x > 0.0 { "inf".into() } else { "-inf".into() };
-    }
-    let s = format!("{x:.d$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
-        s[1..].to_string()
-    } else {
-        s
-    }
-}
-
-/// An optional number (empty cell for `None`).
-pub fn opt(x: Option<f64>, d: usize) -> String {
-    x.map_or(String::new(), |v| num(v, d))
-}
-
 impl CsvTable {
     /// Index of the column called `name`.
     pub fn column(&self, name: &str) -> Option<usize> {

@@ -6,7 +6,7 @@ use crate::montecarlo::Silent;
 #[test]
 fn csv_quoting_and_numbers() {
     let mut t = CsvTable::new("x", "X", &["a", "b"]);
-    t.push(vec!["p,q".into(), tables::num(-0.0001, 2)]);
+    t.push(vec!["p,q".into(), crate::numbers::fixed(-0.0001, 2)]);
     // RFC 4180 quoting (common practice): a cell with a comma is quoted.
     assert_eq!(t.to_csv(), "a,b\n\"p,q\",0.00\n");
 }

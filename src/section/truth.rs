@@ -8,8 +8,9 @@
 //! polarity against the true ones; each site's tilt-corrected mean against the true field direction
 //! at that level (the angle between them, and whether it lies inside the site's α95).
 
-use super::tables::{num, CsvTable};
+use super::tables::CsvTable;
 use super::{ProjectFile, SectionRun, Stage};
+use crate::numbers::fixed;
 use crate::sphere::Direction;
 use serde_json::Value;
 
@@ -115,18 +116,18 @@ fn compare_ties(run: &SectionRun, truth: &[(f64, f64)], axis: &str, results: &mu
                 }
                 let outcome = if inside { "tied in the right gap" } else { "tied in another gap" };
                 t.push(vec![
-                    num(age, 4),
-                    num(pos, 3),
-                    num(x[1], 3),
-                    num(x[2], 3),
-                    num(x[3], 3),
-                    num(x[1] - pos, 3),
+                    fixed(age, 4),
+                    fixed(pos, 3),
+                    fixed(x[1], 3),
+                    fixed(x[2], 3),
+                    fixed(x[3], 3),
+                    fixed(x[1] - pos, 3),
                     outcome.into(),
                 ]);
             }
             None => t.push(vec![
-                num(age, 4),
-                num(pos, 3),
+                fixed(age, 4),
+                fixed(pos, 3),
                 String::new(),
                 String::new(),
                 String::new(),
@@ -139,11 +140,11 @@ fn compare_ties(run: &SectionRun, truth: &[(f64, f64)], axis: &str, results: &mu
         tied.iter().filter(|x| !truth.iter().any(|(a, _)| (x[0] - a).abs() < SAME_AGE)).collect();
     for x in &false_ties {
         t.push(vec![
-            num(x[0], 4),
+            fixed(x[0], 4),
             String::new(),
-            num(x[1], 3),
-            num(x[2], 3),
-            num(x[3], 3),
+            fixed(x[1], 3),
+            fixed(x[2], 3),
+            fixed(x[3], 3),
             String::new(),
             "no true reversal at this age".into(),
         ]);
@@ -180,9 +181,9 @@ fn compare_levels(run: &SectionRun, truth: &[TrueLevel], results: &mut Vec<Strin
         agree += usize::from(ok);
         t.push(vec![
             site.into(),
-            num(tl.age, 4),
-            age.map_or(String::new(), |a| num(a, 4)),
-            err.map_or(String::new(), |e| num(e, 4)),
+            fixed(tl.age, 4),
+            age.map_or(String::new(), |a| fixed(a, 4)),
+            err.map_or(String::new(), |e| fixed(e, 4)),
             tl.polarity.clone(),
             pol.into(),
             if ok { "yes" } else { "no" }.into(),
@@ -222,12 +223,12 @@ fn compare_directions(run: &SectionRun, truth: &[TrueLevel], results: &mut Vec<S
         angles.push(angle);
         t.push(vec![
             site.into(),
-            num(f.dec, 1),
-            num(f.inc, 1),
-            num(d, 1),
-            num(i, 1),
-            num(angle, 1),
-            a95.map_or(String::new(), |a| num(a, 1)),
+            fixed(f.dec, 1),
+            fixed(f.inc, 1),
+            fixed(d, 1),
+            fixed(i, 1),
+            fixed(angle, 1),
+            a95.map_or(String::new(), |a| fixed(a, 1)),
             match ins {
                 Some(true) => "yes".into(),
                 Some(false) => "no".into(),

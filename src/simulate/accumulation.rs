@@ -1,6 +1,7 @@
 //! Accumulation-rate histories: piecewise-constant sediment accumulation, height ↔ age.
 
 use crate::error::{Error, Result};
+use crate::units::cm_per_kyr_to_m_per_myr;
 
 /// One segment of an accumulation history, read from the base of the section upward.
 ///
@@ -69,9 +70,6 @@ pub struct AccumulationHistory {
     pub spans: Vec<AccumulationSpan>,
 }
 
-/// Metres per Myr in one cm/kyr.
-pub const M_PER_MYR_PER_CM_PER_KYR: f64 = 10.0;
-
 impl AccumulationHistory {
     /// Resolve a rate history between `base_age` (oldest, bottom) and `top_age` (youngest, top).
     pub fn new(base_age: f64, top_age: f64, segments: &[RateSegment]) -> Result<Self> {
@@ -108,7 +106,7 @@ impl AccumulationHistory {
             if !(s.rate >= 0.0 && s.rate.is_finite()) {
                 return Err(Error::OutOfRange { name: "accumulation rate", value: s.rate, range: "[0, ∞) cm/kyr" });
             }
-            let top = h + s.rate * M_PER_MYR_PER_CM_PER_KYR * (old - young);
+            let top = h + cm_per_kyr_to_m_per_myr(s.rate) * (old - young);
             spans.push(AccumulationSpan { young, old, rate: s.rate, base: h, top });
             h = top;
             old = young;
@@ -137,7 +135,7 @@ impl AccumulationHistory {
         let age = age.clamp(self.top_age(), self.base_age());
         for s in &self.spans {
             if age >= s.young {
-                return s.base + s.rate * M_PER_MYR_PER_CM_PER_KYR * (s.old - age);
+                return s.base + cm_per_kyr_to_m_per_myr(s.rate) * (s.old - age);
             }
         }
         self.thickness()
@@ -150,7 +148,7 @@ impl AccumulationHistory {
         let h = height.clamp(0.0, self.thickness());
         for s in &self.spans {
             if s.rate > 0.0 && h <= s.top {
-                return s.old - (h - s.base) / (s.rate * M_PER_MYR_PER_CM_PER_KYR);
+                return s.old - (h - s.base) / cm_per_kyr_to_m_per_myr(s.rate);
             }
         }
         self.top_age()

@@ -10,7 +10,7 @@ mod project;
 mod section;
 mod timescale;
 
-pub use accumulation::{parse_rates, AccumulationHistory, AccumulationSpan, RateSegment, M_PER_MYR_PER_CM_PER_KYR};
+pub use accumulation::{parse_rates, AccumulationHistory, AccumulationSpan, RateSegment};
 pub use planning::{catch_probability, chron_thickness};
 pub use project::{
     sampling_csv, settings_text, steps_csv, timescale_csv, Setting, SettingValue, Settings, PICKS_FILE, SAMPLING_FILE,

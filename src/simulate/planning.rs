@@ -23,7 +23,7 @@ pub fn catch_probability(thickness: f64, spacing: f64, min_levels: usize) -> f64
 
 /// Thickness (m) of a chron of `length` Myr laid down at `rate` cm/kyr: 10 · rate · length.
 pub fn chron_thickness(length: f64, rate: f64) -> f64 {
-    super::M_PER_MYR_PER_CM_PER_KYR * rate * length
+    crate::units::cm_per_kyr_to_m_per_myr(rate) * length
 }
 
 #[cfg(test)]

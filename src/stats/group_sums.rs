@@ -2,12 +2,20 @@
 //! group whatever the number of rows.
 
 use super::fisher::{FisherAccumulator, FisherStats};
-use super::stream_means::LineRun;
 use crate::error::{Error, Result};
 use crate::sphere::Vec3;
 use std::collections::hash_map::RandomState;
 use std::collections::HashMap;
 use std::hash::BuildHasher;
+
+/// A run of consecutive file lines `first..=last` (a group's rows, compactly).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+pub struct LineRun {
+    /// First line of the run.
+    pub first: usize,
+    /// Last line of the run (inclusive).
+    pub last: usize,
+}
 
 /// "No entry" in the `u32` links below.
 const NONE: u32 = u32::MAX;

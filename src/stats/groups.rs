@@ -14,6 +14,16 @@ pub enum Frame {
     Tilt,
 }
 
+impl Frame {
+    /// The frame's name in sentences: `geographic` or `tilt-corrected`.
+    pub fn label(self) -> &'static str {
+        match self {
+            Frame::Geo => "geographic",
+            Frame::Tilt => "tilt-corrected",
+        }
+    }
+}
+
 /// The Fisher mean of one group.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct GroupMean {

@@ -2,20 +2,11 @@
 //! with the number of rows.
 
 use super::fisher::FisherStats;
-use super::group_sums::GroupSums;
+use super::group_sums::{GroupSums, LineRun};
 use super::groups::{Frame, GroupMean};
 use crate::error::{Error, Result, TableError};
 use crate::table::{Columns, DirectionColumns, DirectionKind, GroupBy, TableStream};
 use std::io::BufRead;
-
-/// A run of consecutive file lines `first..=last` (a group's rows, compactly).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
-pub struct LineRun {
-    /// First line of the run.
-    pub first: usize,
-    /// Last line of the run (inclusive).
-    pub last: usize,
-}
 
 /// The mean of one group from [`stream_group_means`].
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]

@@ -1,10 +1,9 @@
 //! Age–position models and accumulation rates of a correlation candidate.
 
-use super::correlate::{Path, Problem, Reading};
+use super::correlate_options::Reading;
+use super::problem::{Path, Problem};
 use crate::table::StratAxis;
-
-/// Metres per Myr to cm per kyr: 1 m/Myr = 100 cm / 1000 kyr = 0.1 cm/kyr.
-pub const M_PER_MYR_TO_CM_PER_KYR: f64 = 0.1;
+use crate::units::m_per_myr_to_cm_per_kyr;
 
 /// A tie point: a polarity boundary of the column matched to a chron boundary.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -151,7 +150,7 @@ pub(crate) fn build_candidate(pb: &Problem, p: &Path, rank: usize, score: f64, l
             (young, old, None)
         } else {
             let (young, old) = (ch[s - 1].old, ch[e].old);
-            (young, old, Some(t / (old - young - hiatus) * M_PER_MYR_TO_CM_PER_KYR))
+            (young, old, Some(m_per_myr_to_cm_per_kyr(t / (old - young - hiatus))))
         };
         runs.push(RunRate {
             top: down(u_hi),
@@ -172,7 +171,7 @@ pub(crate) fn build_candidate(pb: &Problem, p: &Path, rank: usize, score: f64, l
     Candidate {
         rank,
         score,
-        mean_rate: r * M_PER_MYR_TO_CM_PER_KYR,
+        mean_rate: m_per_myr_to_cm_per_kyr(r),
         rate_misfit: runs_cost.iter().map(|c| c.rate_term).sum(),
         missing_chrons: runs_cost.iter().map(|c| c.missing).sum(),
         skipped_zones: runs_cost.iter().map(|c| c.skipped).sum(),

@@ -5,12 +5,15 @@
 
 mod agemodel;
 mod correlate;
+mod correlate_options;
 mod levels;
 mod polarity;
+mod problem;
 mod zones;
 
-pub use agemodel::{AgePoint, Candidate, RunRate, Tie, M_PER_MYR_TO_CM_PER_KYR};
-pub use correlate::{comparison_sentence, correlate, Anchor, CorrelateOptions, Correlation, Reading};
+pub use agemodel::{AgePoint, Candidate, RunRate, Tie};
+pub use correlate::{comparison_sentence, correlate, Correlation};
+pub use correlate_options::{CorrelateOptions, DatedLevel, Reading};
 pub use levels::{read_levels, Level, LevelOptions, LevelSet};
 pub use polarity::{check_threshold, classify, ZonePolarity, DEFAULT_THRESHOLD};
 pub use zones::{build_zones, read_zones, status_word, Boundary, Magnetozone, ZoneColumn, ZONE_COLUMNS};

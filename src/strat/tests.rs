@@ -4,6 +4,7 @@
 use super::*;
 use crate::montecarlo::replicate_rng;
 use crate::table::{StratAxis, Table, TimeScale};
+use crate::units::m_per_myr_to_cm_per_kyr;
 use rand::RngExt;
 
 const SCALE: &str = include_str!("../../records/timescales/chrons-0-6ma.csv");
@@ -109,8 +110,8 @@ fn check_truth_ranks_first(ts: &TimeScale, s: &Synth, hiatus: &[(f64, f64)]) -> 
             .sum::<f64>()
             * (r.age_old - r.age_young)
             / steps as f64;
-        let true_rate = h_true / dur_true * M_PER_MYR_TO_CM_PER_KYR;
-        let bound = ((a.high - a.low) + (b.high - b.low)) / 2.0 / dur_true * M_PER_MYR_TO_CM_PER_KYR + 0.02 * true_rate;
+        let true_rate = m_per_myr_to_cm_per_kyr(h_true / dur_true);
+        let bound = m_per_myr_to_cm_per_kyr(((a.high - a.low) + (b.high - b.low)) / 2.0 / dur_true) + 0.02 * true_rate;
         assert!(
             (r.rate.unwrap() - true_rate).abs() <= bound,
             "run {}–{} m: rate {} vs true {true_rate} (bound {bound})",
@@ -167,7 +168,7 @@ fn an_anchor_excludes_candidates_that_contradict_it() {
     // Anchor a level near the middle of the section at its true age.
     let i = s.heights.len() / 2;
     let opts = CorrelateOptions {
-        anchors: vec![Anchor { position: s.heights[i], age: s.ages[i], uncertainty: 0.01 }],
+        anchors: vec![DatedLevel { position: s.heights[i], age: s.ages[i], uncertainty: 0.01 }],
         ..Default::default()
     };
     let res = correlate(&col, &ts, &opts).unwrap();
@@ -178,7 +179,7 @@ fn an_anchor_excludes_candidates_that_contradict_it() {
     }
     // An anchor at an impossible age removes every candidate.
     let opts = CorrelateOptions {
-        anchors: vec![Anchor { position: s.heights[i], age: 50.0, uncertainty: 0.0 }],
+        anchors: vec![DatedLevel { position: s.heights[i], age: 50.0, uncertainty: 0.0 }],
         ..Default::default()
     };
     assert!(correlate(&col, &ts, &opts).is_err());

@@ -11,6 +11,7 @@ use lodestone::simulate::{
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::{StratAxis, Table, TimeScale};
+use lodestone::units::cm_per_kyr_to_m_per_myr;
 use serde_json::json;
 use std::path::PathBuf;
 
@@ -314,8 +315,8 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     // sure only if that exceeds the spacing, and at least two only if it exceeds twice the spacing.
     notes.push(format!(
         "At the slowest rate ({min_rate} cm/kyr) chrons shorter than {:.4} Myr can fall between levels, and chrons shorter than {:.4} Myr hold fewer than two.",
-        model.spacing / (min_rate * 10.0),
-        2.0 * model.spacing / (min_rate * 10.0)
+        model.spacing / cm_per_kyr_to_m_per_myr(min_rate),
+        2.0 * model.spacing / cm_per_kyr_to_m_per_myr(min_rate)
     ));
     let max_rate = spans.iter().map(|s| s.rate).fold(0.0, f64::max);
     let mut plan = Section::new(

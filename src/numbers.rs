@@ -1,0 +1,80 @@
+//! The one number formatter of every text table, CSV file and report: fixed decimals for people, a
+//! trimmed full-precision form for CSV, `inf` for an infinite value (Fisher's k of identical
+//! directions), and never a negative zero.
+
+use std::fmt::Write as _;
+
+/// Append `x` with `decimals` fixed decimals to `buf`: `inf`/`-inf` for infinities, and a value that
+/// rounds to zero from below without its sign (`-0.00` is written `0.00`).
+pub fn push_fixed(buf: &mut String, x: f64, decimals: usize) {
+    if x.is_infinite() {
+        buf.push_str(if x > 0.0 { "inf" } else { "-inf" });
+        return;
+    }
+    let start = buf.len();
+    let _ = write!(buf, "{x:.decimals$}");
+    if buf[start..].starts_with('-') && buf[start + 1..].chars().all(|c| c == '0' || c == '.') {
+        buf.remove(start);
+    }
+}
+
+/// `x` with `decimals` fixed decimals, as [`push_fixed`] writes it.
+pub fn fixed(x: f64, decimals: usize) -> String {
+    let mut s = String::new();
+    push_fixed(&mut s, x, decimals);
+    s
+}
+
+/// An optional number as [`fixed`] writes it, or an empty string for `None`.
+pub fn fixed_or_empty(x: Option<f64>, decimals: usize) -> String {
+    x.map_or(String::new(), |v| fixed(v, decimals))
+}
+
+/// Append `x` for a CSV cell: ten decimals (more than any measurement carries, without floating-point
+/// noise) with trailing zeros and a bare point trimmed, `0` for a negative zero; infinities as in
+/// [`push_fixed`].
+pub fn push_csv(buf: &mut String, x: f64) {
+    if !x.is_finite() {
+        push_fixed(buf, x, 0);
+        return;
+    }
+    let start = buf.len();
+    let _ = write!(buf, "{x:.10}");
+    let kept = buf[start..].trim_end_matches('0').trim_end_matches('.').len();
+    buf.truncate(start + kept);
+    if &buf[start..] == "-0" {
+        buf.truncate(start);
+        buf.push('0');
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn fixed_decimals_without_negative_zero() {
+        assert_eq!(fixed(1.23456, 2), "1.23");
+        assert_eq!(fixed(-0.0001, 2), "0.00");
+        assert_eq!(fixed(-0.0, 1), "0.0");
+        assert_eq!(fixed(-0.006, 2), "-0.01");
+        assert_eq!(fixed(f64::INFINITY, 1), "inf");
+        assert_eq!(fixed(f64::NEG_INFINITY, 3), "-inf");
+        assert_eq!(fixed_or_empty(None, 2), "");
+        assert_eq!(fixed_or_empty(Some(2.5), 0), "2");
+    }
+
+    #[test]
+    fn csv_form_is_trimmed() {
+        let csv = |x: f64| {
+            let mut s = String::from("|");
+            push_csv(&mut s, x);
+            s
+        };
+        assert_eq!(csv(0.1), "|0.1");
+        assert_eq!(csv(2.0), "|2");
+        assert_eq!(csv(-1e-12), "|0");
+        assert_eq!(csv(1.0 / 3.0), "|0.3333333333");
+        assert_eq!(csv(f64::INFINITY), "|inf");
+    }
+}
