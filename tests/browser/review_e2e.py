@@ -5,7 +5,8 @@ WebDriver HTTP API (W3C WebDriver, https://www.w3.org/TR/webdriver2/) with the s
 It writes a synthetic project with 20 demagnetization steps per specimen (`lodestone simulate
 section`), serves it, loads the page, steps to another specimen with the keyboard, changes the
 range and the anchor, saves, and checks picks.csv. It also measures the refit round trip (choose a
-range -> new fit drawn) as the page reports it, and requires the median under 50 ms.
+range -> new fit drawn) as the page reports it and prints it: a measurement, not a pass/fail condition
+(performance targets live in BENCHMARKS.md).
 
 Usage: python3 tests/browser/review_e2e.py [path/to/lodestone]
 Needs Debian's chromium and chromium-driver (/usr/bin/chromium, /usr/bin/chromedriver).
@@ -173,7 +174,6 @@ def main():
         assert "steps 350–580" in shown and "n=9" in shown, shown
         print(f"review e2e: saved {name} 350–580 line origin; refit round trip over 20 steps: "
               f"median {statistics.median(timings):.1f} ms, max {max(timings):.1f} ms ({len(timings)} refits)")
-        assert statistics.median(timings) < 50.0, timings
     finally:
         if d is not None:
             d.quit()
