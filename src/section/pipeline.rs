@@ -635,8 +635,12 @@ pub fn run_with_truth(
                             sc.n_used.to_string(),
                             sc.n_removed.to_string(),
                         ]);
-                        stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {}° ({}–{}°, {} sites used, {} removed by the cutoff).",
-                            pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(sc.s, 1), fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
+                        let s_b = sc.s.map_or_else(
+                            || format!("undefined (the within-site scatter exceeds the total, {:.1}°)", sc.s_total),
+                            |s| format!("{s:.1}°"),
+                        );
+                        stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
+                            pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
                     }
                     Err(e) => {
                         row.extend(["".into(), "".into(), "".into(), "".into(), "".into(), "".into()]);

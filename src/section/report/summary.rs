@@ -55,6 +55,12 @@ fn pole(run: &SectionRun) -> Option<String> {
             run.settings.confidence * 100.0,
             escape(c("cutoff"))
         );
+    } else if !c("s_total").is_empty() {
+        let _ = write!(
+            s,
+            " VGP scatter S_B undefined: the within-site scatter exceeds the total VGP scatter ({}°).",
+            v("scatter-total", c("s_total"))
+        );
     }
     Some(s)
 }
