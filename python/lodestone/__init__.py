@@ -2,7 +2,8 @@
 
 The same library as the ``lodestone`` command line, at native speed: Fisher means, virtual
 geomagnetic poles, principal-component fits, field tests, renewal-model fits to polarity intervals
-and the hazard, and the whole chain on a project folder.
+and the hazard, the whole chain on a project folder, and the present field from a spherical-harmonic
+model (the bundled IGRF-14 or a model table).
 
 Conventions (as on the command line): angles in degrees; declination clockwise from north in
 [0, 360); inclination positive down in [-90, 90]; ages in Ma, durations in Myr. Arrays are NumPy
@@ -27,7 +28,7 @@ import pandas as pd
 
 from . import _native
 from ._native import LodestoneError
-from ._results import FisherMean, FoldTest, ReversalTest, VGP
+from ._results import FIELD_CAUTION, FieldElements, FisherMean, FoldTest, ReversalTest, VGP
 
 # Errors that do not come from a table have no file, line or column.
 LodestoneError.file = LodestoneError.line = LodestoneError.column = None
@@ -38,6 +39,7 @@ __all__ = [
     "VGP",
     "ReversalTest",
     "FoldTest",
+    "FieldElements",
     "fisher_mean",
     "group_means",
     "vgp",
@@ -47,6 +49,8 @@ __all__ = [
     "fit_renewal",
     "hazard",
     "run_section",
+    "field_at",
+    "field_series",
 ]
 
 #: A table: a path to a CSV file, or a DataFrame with the same columns.
@@ -306,3 +310,97 @@ def run_section(
     """
     return pathlib.Path(_native.run_section(os.fspath(folder), None if out is None else os.fspath(out), force, threads))
 
+
+
+#: Columns of ``field_series``, as in ``field series --format csv``.
+SERIES_COLUMNS = [
+    "year", "moment", "moment_change", "tilt", "pole_lat", "pole_lon",
+    "dip_north_lat", "dip_north_lon", "dip_north_speed", "dip_south_lat", "dip_south_lon", "dip_south_speed",
+    "low_f", "low_lat", "low_lon", "low_area", "low_cells", "low_speed", "low_west_speed",
+]
+
+
+def _model_path(model: Optional[Union[str, "os.PathLike[str]"]]) -> Optional[str]:
+    """A field-model table's path as text (None: the bundled IGRF-14)."""
+    if model is None:
+        return None
+    if isinstance(model, (str, os.PathLike)):
+        return os.fspath(model)
+    raise TypeError(f"a field model is a path to its table or None, not {type(model).__name__}")
+
+
+def field_at(
+    year: float,
+    lat: ArrayLike,
+    lon: ArrayLike,
+    altitude: ArrayLike = 0.0,
+    model: Optional[Union[str, "os.PathLike[str]"]] = None,
+    geocentric: bool = False,
+) -> FieldElements:
+    """The main field's elements X, Y, Z, H, F, D, I at points for one decimal year (as ``field at``).
+
+    ``lat``, ``lon`` (degrees, longitude east) and ``altitude`` (km) broadcast against each other
+    (NumPy rules); the result has their shape, or floats when all are scalars. By default the
+    latitude is geodetic and the altitude above the WGS84 ellipsoid; with ``geocentric=True`` the
+    latitude is geocentric and the altitude above the sphere of radius 6371.2 km. ``model`` is a
+    field-model table (``epoch, degree, order, g, h``) or None for the bundled IGRF-14. The model is
+    linear in time between its epochs and carried forward with its secular variation after the last
+    one (a short extrapolation, not a forecast); years outside it raise :class:`LodestoneError`.
+
+    Formula: B = −∇V with V = a Σ (a/r)^(n+1) Σ (g cos mφ + h sin mφ) P_n^m(cos θ), Schmidt
+    quasi-normalised, a = 6371.2 km; geodetic to geocentric on the WGS84 ellipsoid.
+
+    References: Langel (1987), §4.2; Alken et al. (2021), IGRF-13, Earth Planets Space 73:49, eq. 1;
+    NIMA TR8350.2 (2000), §4 (WGS84).
+    """
+    args = [np.asarray(x, dtype=np.float64) for x in (lat, lon, altitude)]
+    try:
+        shape = np.broadcast_shapes(*(a.shape for a in args))
+    except ValueError as e:
+        raise LodestoneError(f"the arrays do not broadcast together: {e}") from None
+    flat = [np.ascontiguousarray(np.broadcast_to(a, shape)).reshape(-1) for a in args]
+    d = _native.field_at(float(year), *flat, _model_path(model), bool(geocentric))
+    out = {k: (d[k].reshape(shape) if shape else float(d[k][0])) for k in ("x", "y", "z", "h", "f", "dec", "inc")}
+    out.update(year=float(year), frame=d["frame"], model=d["model"])
+    return FieldElements._from(out)
+
+
+def field_series(
+    start: Optional[float] = None,
+    end: Optional[float] = None,
+    every: float = 5.0,
+    low_threshold: float = 32000.0,
+    model: Optional[Union[str, "os.PathLike[str]"]] = None,
+) -> pd.DataFrame:
+    """The present field through time, one row per year: the columns of ``field series --format csv``.
+
+    Years from ``start`` to ``end`` (default the model's first and last epoch) every ``every`` years.
+    Per year: the dipole ``moment`` (A·m², from g10, g11, h11 at 6371.2 km), ``moment_change`` (% per
+    century, from the coefficient rates), ``tilt`` and the geomagnetic pole ``pole_lat``/``pole_lon``;
+    the dip poles (geodetic, where the horizontal field vanishes) and their speeds since the previous
+    year (km/yr; NaN for the first); the surface-intensity low on the sphere of radius 6371.2 km: its
+    lowest ``low_f`` (nT) and position, ``low_area`` (km² below ``low_threshold`` nT), ``low_cells``
+    (separate minima below it), and the drift of the lowest point (``low_speed``, and
+    ``low_west_speed`` positive to the west; km/yr). ``df.attrs["spectrum"]`` holds the
+    Lowes–Mauersberger power per degree (nT², degree 1 first) for each year; ``df.attrs["model"]``
+    the model's name and span; ``df.attrs["caution"]`` the caution below.
+
+    These numbers describe a model of the observed field, not a forecast of a reversal; local
+    practice and the published literature decide what they mean.
+
+    References: Lowes (1966), J. Geophys. Res. 71:2179 (the spectrum); Alken et al. (2021), IGRF-13.
+    """
+    d = _native.field_series(
+        None if start is None else float(start), None if end is None else float(end), float(every),
+        float(low_threshold), _model_path(model),
+    )
+    rows = d["epochs"]
+    df = pd.DataFrame([{k: r[k] for k in SERIES_COLUMNS} for r in rows], columns=SERIES_COLUMNS)
+    for k in ("dip_north_speed", "dip_south_speed", "low_speed", "low_west_speed"):
+        df[k] = df[k].astype(np.float64)
+    df["low_cells"] = df["low_cells"].astype(np.int64)
+    df.attrs["spectrum"] = {r["year"]: r["spectrum"] for r in rows}
+    df.attrs["model"] = d["model"]
+    df.attrs["low_threshold"] = float(low_threshold)
+    df.attrs["caution"] = FIELD_CAUTION
+    return df

@@ -38,3 +38,10 @@ def run_section(
     folder: Union[str, "PathLike[str]"], out: Optional[Union[str, "PathLike[str]"]] = None, force: bool = False,
     threads: Optional[int] = None,
 ) -> "PathLike[str]": ...
+def field_at(
+    year: float, lat: F64, lon: F64, altitude: F64, model: Optional[str] = None, geocentric: bool = False
+) -> Dict[str, Any]: ...
+def field_series(
+    start: Optional[float] = None, end: Optional[float] = None, every: float = 5.0, low_threshold: float = 32000.0,
+    model: Optional[str] = None,
+) -> Dict[str, Any]: ...

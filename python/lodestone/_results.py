@@ -15,6 +15,13 @@ FIELD_TEST_CAUTION = (
 )
 
 
+#: The caution that goes with every present-field result.
+FIELD_CAUTION = (
+    "These numbers describe a model of the observed field (smoothed to its highest degree); they are "
+    "not a forecast of a reversal. Local practice and the published literature decide what they mean."
+)
+
+
 def _plain(value: Any) -> Any:
     """A value as plain Python: arrays become lists, NumPy scalars become Python numbers."""
     if isinstance(value, np.ndarray):
@@ -137,3 +144,28 @@ class FoldTest(_Result):
     seed: int
     resamples: int
     caution: str = FIELD_TEST_CAUTION
+
+
+@dataclasses.dataclass(frozen=True)
+class FieldElements(_Result):
+    """The main field's elements at one or more points (arrays in the broadcast shape of ``lat``,
+    ``lon`` and ``altitude``; floats when all three are scalars).
+
+    Units: nT for ``x`` (north), ``y`` (east), ``z`` (down), ``h`` (horizontal) and ``f`` (total);
+    degrees for ``dec`` (clockwise from north, [0, 360)) and ``inc`` (positive down). ``year`` is the
+    decimal year; ``frame`` is ``"geodetic"`` (WGS84; X, Z along the ellipsoid's north and normal) or
+    ``"geocentric"`` (the sphere of radius 6371.2 km); ``model`` names the model and its span.
+    ``caution``: a model of the observed field, not a forecast.
+    """
+
+    x: Any
+    y: Any
+    z: Any
+    h: Any
+    f: Any
+    dec: Any
+    inc: Any
+    year: float
+    frame: str
+    model: Dict[str, Any]
+    caution: str = FIELD_CAUTION

@@ -14,7 +14,7 @@ use rayon::prelude::*;
 const A95: f64 = 0.95;
 
 /// A contiguous float64 array as a slice (the Python layer passes contiguous copies).
-fn slice<'a>(a: &'a PyReadonlyArray1<'_, f64>, name: &str) -> PyResult<&'a [f64]> {
+pub(crate) fn slice<'a>(a: &'a PyReadonlyArray1<'_, f64>, name: &str) -> PyResult<&'a [f64]> {
     Ok(a.as_slice().or_else(|_| invalid(format!("{name} must be a contiguous 1-D float64 array")))?)
 }
 

@@ -7,6 +7,7 @@
 
 mod components;
 mod directions;
+mod field;
 mod fieldtests;
 mod reversals;
 mod section;
@@ -137,5 +138,7 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(reversals::fit_renewal, m)?)?;
     m.add_function(wrap_pyfunction!(reversals::hazard, m)?)?;
     m.add_function(wrap_pyfunction!(section::run_section, m)?)?;
+    m.add_function(wrap_pyfunction!(field::field_at, m)?)?;
+    m.add_function(wrap_pyfunction!(field::field_series, m)?)?;
     Ok(())
 }
