@@ -3,6 +3,7 @@
 
 use super::render::{de, Figure};
 use super::theme;
+use super::theme::LegendStyle as _;
 use crate::field::{IntensityGrid, IntensityMinimum};
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -127,13 +128,6 @@ impl Figure for IntensityMap {
                 ))
                 .map_err(de)?;
         }
-        chart
-            .configure_series_labels()
-            .background_style(theme::PAPER.mix(0.9))
-            .border_style(theme::GUIDE)
-            .label_font((theme::FONT, 13).into_font().color(&theme::INK))
-            .position(SeriesLabelPosition::LowerLeft)
-            .draw()
-            .map_err(de)
+        chart.configure_series_labels().legend_style().position(SeriesLabelPosition::LowerLeft).draw().map_err(de)
     }
 }

@@ -3,6 +3,7 @@
 use super::intervals::axes;
 use super::render::{de, Figure};
 use super::theme;
+use super::theme::LegendStyle as _;
 use crate::dirstats::LatitudeFit;
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -77,13 +78,6 @@ impl Figure for LatitudeFigure {
         chart
             .draw_series(self.points.iter().map(|p| Text::new(p.label.clone(), (p.lat + 1.0, p.s), font.clone())))
             .map_err(de)?;
-        chart
-            .configure_series_labels()
-            .background_style(theme::PAPER.mix(0.9))
-            .border_style(theme::GUIDE)
-            .label_font((theme::FONT, 13).into_font().color(&theme::INK))
-            .position(SeriesLabelPosition::UpperLeft)
-            .draw()
-            .map_err(de)
+        chart.configure_series_labels().legend_style().position(SeriesLabelPosition::UpperLeft).draw().map_err(de)
     }
 }

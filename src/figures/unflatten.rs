@@ -4,6 +4,7 @@
 use super::intervals::axes;
 use super::render::{de, Figure};
 use super::theme;
+use super::theme::LegendStyle as _;
 use crate::dirstats::{tk03_curve, UnflattenResult};
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -56,14 +57,7 @@ impl UnflattenFigure {
             let e = tk03_curve(i);
             chart.draw_series(std::iter::once(Circle::new((i.abs(), e), 7, data.filled()))).map_err(de)?;
         }
-        chart
-            .configure_series_labels()
-            .background_style(theme::PAPER.mix(0.9))
-            .border_style(theme::GUIDE)
-            .label_font((theme::FONT, 13).into_font().color(&theme::INK))
-            .position(SeriesLabelPosition::UpperRight)
-            .draw()
-            .map_err(de)
+        chart.configure_series_labels().legend_style().position(SeriesLabelPosition::UpperRight).draw().map_err(de)
     }
 
     fn histogram<DB: DrawingBackend>(&self, area: &DrawingArea<DB, Shift>) -> Result<(), String> {
