@@ -17,15 +17,19 @@ mod report;
 mod reversal_stats;
 mod settings;
 mod stage;
+mod stages;
 mod tables;
 mod truth;
 
 pub use auto::{automatic_fit, last_rule, rule_text};
-pub use pipeline::{run, run_with_truth, CORRELATION_CAUTION, FIELD_TEST_CAUTION, POLE_CAUTION};
+pub use pipeline::{run, run_with_truth};
 pub use report::report_html;
 pub use reversal_stats::{HAZARD_HORIZON, LEVEL, RATE_WINDOW};
 pub use settings::{SectionSettings, KNOWN_KEYS};
 pub use stage::Stage;
+pub use stages::correlation::CORRELATION_CAUTION;
+pub use stages::field_tests::FIELD_TEST_CAUTION;
+pub use stages::poles::POLE_CAUTION;
 pub use tables::CsvTable;
 
 /// One input file of a project folder: its name (as shown in messages) and its bytes.
@@ -109,8 +113,8 @@ pub struct Headline {
     pub sites_used: usize,
     /// Magnetozones.
     pub zones: usize,
-    /// Paleopole latitude and longitude, A95 (degrees), if computed.
-    pub pole: Option<[f64; 3]>,
+    /// Paleopole latitude, longitude and A95 (degrees; A95 `None` where undefined), if computed.
+    pub pole: Option<(f64, f64, Option<f64>)>,
     /// Ties (position, age) of the best correlation, if any.
     pub ties: Vec<[f64; 2]>,
     /// Score of the best and second-best correlation.

@@ -1,0 +1,162 @@
+//! Stage 3: the reversal test and the fold test on the used sites' means.
+
+use super::inputs::Inputs;
+use super::site_means::{bedding_or_flat, UsedSite};
+use super::RunLog;
+use crate::error::Result;
+use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions};
+use crate::figures::FoldPlot;
+use crate::montecarlo::MonteCarlo;
+use crate::numbers::fixed;
+use crate::section::stage::{draw, Stage};
+use crate::section::tables::CsvTable;
+use crate::sphere::Bedding;
+use crate::strat::ZonePolarity;
+
+/// Caution carried with every field test.
+pub const FIELD_TEST_CAUTION: &str = "Field tests are statistical statements about a model of the directions \
+(Fisher distributions or bootstrap resampling), not proof of when the rocks were magnetized; local practice and \
+the published literature decide.";
+
+/// What the tests did and found, in words, and their table rows.
+struct Found {
+    table: CsvTable,
+    methods: Vec<String>,
+    results: Vec<String>,
+}
+
+/// Run the tests that the used sites allow; a test that cannot run is a warning.
+///
+/// # Errors
+/// Only a failure to draw the fold figure.
+pub(in crate::section) fn field_tests(
+    inp: &Inputs,
+    used: &[UsedSite],
+    mc: &MonteCarlo<'_>,
+    log: &mut RunLog,
+) -> Result<()> {
+    let mut stage = Stage::new("Field tests");
+    let mut found = Found {
+        table: CsvTable::new(
+            "field-tests",
+            "Field tests (95 %)",
+            &["test", "quantity", "value", "critical", "outcome"],
+        ),
+        methods: Vec::new(),
+        results: Vec::new(),
+    };
+    reversal(inp, used, mc, &mut found, log);
+    fold(inp, used, mc, &mut found, &mut stage, log)?;
+    let Found { table, methods, results } = found;
+    stage.ran = !table.rows.is_empty();
+    stage.method =
+        if methods.is_empty() { "No field test could run (see the warnings).".into() } else { methods.join(" ") };
+    stage.result = if results.is_empty() { "Skipped.".into() } else { results.join(" ") };
+    if stage.ran {
+        log.cautions.push(FIELD_TEST_CAUTION.into());
+        log.table(&mut stage, table);
+    }
+    log.stages.push(stage);
+    Ok(())
+}
+
+fn reversal(inp: &Inputs, used: &[UsedSite], mc: &MonteCarlo<'_>, found: &mut Found, log: &mut RunLog) {
+    let s = &inp.settings;
+    let n_n = used.iter().filter(|u| u.polarity == ZonePolarity::Normal).count();
+    let n_r = used.iter().filter(|u| u.polarity == ZonePolarity::Reversed).count();
+    if n_n < 2 || n_r < 2 {
+        log.warnings.push(format!(
+            "Reversal test skipped: it needs at least two normal and two reversed sites (found {n_n} and {n_r})."
+        ));
+        return;
+    }
+    let v: Vec<_> = used.iter().map(|u| u.tilt.to_vector()).collect();
+    let t = match reversal_test(&v, mc, 0.95) {
+        Ok(t) => t,
+        Err(e) => return log.warnings.push(format!("Reversal test skipped: {e}.")),
+    };
+    let c = &t.comparison;
+    found.methods.push(format!("Reversal test on the tilt-corrected site means: the set is split into two modes on its principal axis, mode 2 is flipped, and the means are compared by the angle γ against γc with the classes of McFadden & McElhinny (1990), by Watson's V_w against a critical value simulated from Fisher sets, and by a bootstrap of Cartesian bounds (Tauxe et al. 1991); {} resamples, seed {}.", s.resamples, s.seed));
+    let verdict = |passed: bool| if passed { "pass".to_string() } else { "fail".to_string() };
+    let tt = &mut found.table;
+    tt.push(vec![
+        "reversal".into(),
+        "gamma (deg)".into(),
+        fixed(c.mm90.gamma, 2),
+        fixed(c.mm90.gamma_c, 2),
+        format!("class {}", c.mm90.class.name()),
+    ]);
+    tt.push(vec![
+        "reversal".into(),
+        "V_w".into(),
+        fixed(c.watson.v_w, 2),
+        fixed(c.watson.v_crit, 2),
+        verdict(c.watson.passed),
+    ]);
+    tt.push(vec![
+        "reversal".into(),
+        "bootstrap overlap x/y/z".into(),
+        "".into(),
+        "".into(),
+        verdict(c.bootstrap.passed),
+    ]);
+    found.results.push(format!(
+        "Reversal test ({} and {} sites): γ = {:.1}° against γc = {:.1}°, class {}; V_w {}; bootstrap {}.",
+        c.n1,
+        c.n2,
+        c.mm90.gamma,
+        c.mm90.gamma_c,
+        c.mm90.class.name(),
+        if c.watson.passed { "passes" } else { "fails" },
+        if c.bootstrap.passed { "passes" } else { "fails" }
+    ));
+}
+
+fn fold(
+    inp: &Inputs,
+    used: &[UsedSite],
+    mc: &MonteCarlo<'_>,
+    found: &mut Found,
+    stage: &mut Stage,
+    log: &mut RunLog,
+) -> Result<()> {
+    let s = &inp.settings;
+    let beds: Vec<Bedding> = used.iter().map(|u| bedding_or_flat(&inp.sites[u.idx])).collect::<Result<_>>()?;
+    let spread = if beds.is_empty() { 0.0 } else { bedding_spread(&beds) };
+    if used.len() < 3 {
+        log.warnings.push(format!("Fold test skipped: it needs at least three sites (found {}).", used.len()));
+        return Ok(());
+    }
+    if spread < 5.0 {
+        log.warnings.push(format!("Fold test skipped: the bedding attitudes of the used sites differ by {spread:.1}° (less than 5°), so untilting cannot discriminate."));
+        return Ok(());
+    }
+    let v: Vec<_> = used.iter().map(|u| u.geo.to_vector()).collect();
+    let t = match fold_test(&v, &beds, mc, &FoldOptions::default()) {
+        Ok(t) => t,
+        Err(e) => {
+            log.warnings.push(format!("Fold test skipped: {e}."));
+            return Ok(());
+        }
+    };
+    found.methods.push(format!("Fold test on the site means: bootstrap incremental untilting (Tauxe & Watson 1994) from −10 % to 150 %, {} resamples, seed {}; the classic precision ratio (McElhinny 1964) for comparison only.", s.resamples, s.seed));
+    found.table.push(vec![
+        "fold".into(),
+        "best untilting (%)".into(),
+        fixed(t.best_untilt, 0),
+        format!("{:.0} to {:.0}", t.ci_low, t.ci_high),
+        t.verdict.name().into(),
+    ]);
+    found.table.push(vec![
+        "fold".into(),
+        "k_tilt / k_geo".into(),
+        fixed(t.classic.ratio, 2),
+        fixed(t.classic.f_crit, 2),
+        "comparison only".into(),
+    ]);
+    found.results.push(format!("Fold test: best untilting {:.0} % (95 % interval {:.0} to {:.0} %): {}. Bedding attitudes differ by up to {:.0}°.",
+        t.best_untilt, t.ci_low, t.ci_high, t.verdict.name(), t.bedding_spread));
+    let fig = FoldPlot::from_test(&t, "site means".into());
+    log.figure(stage, draw(&fig, "fold", "Fold test: the leading eigenvalue against percent untilting for the data and bootstrap resamples, and the distribution of the resamples' maxima.".into())?);
+    Ok(())
+}

@@ -1,0 +1,169 @@
+//! Stage 4: the VGP of each used site, the paleopole of the polarity-aligned VGPs, and the VGP
+//! scatter S_B with its bootstrap interval.
+
+use super::inputs::Inputs;
+use super::site_means::UsedSite;
+use super::RunLog;
+use crate::error::Result;
+use crate::figures::{MappedVgp, PolePlot};
+use crate::montecarlo::MonteCarlo;
+use crate::numbers::{fixed, fixed_or_empty};
+use crate::poles::{
+    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp_scatter, within_site_sw, Paleopole, ScatterSite,
+    WithinSite,
+};
+use crate::section::stage::{draw, Stage};
+use crate::section::tables::CsvTable;
+use crate::sphere::GeoPoint;
+
+/// Caution carried with the poles.
+pub const POLE_CAUTION: &str = "VGPs and the paleopole rest on a model: a geocentric dipole field at the locality, \
+averaged over enough time for secular variation to cancel. The scatter depends on the cutoff and on how sites were \
+chosen.";
+
+/// VGPs, paleopole and scatter; write the stage, its tables and the VGP map.
+///
+/// # Errors
+/// Only a failure to draw the map.
+pub(in crate::section) fn poles(inp: &Inputs, used: &[UsedSite], mc: &MonteCarlo<'_>, log: &mut RunLog) -> Result<()> {
+    let s = &inp.settings;
+    let mut stage = Stage::new("Virtual geomagnetic poles, paleopole and scatter");
+    stage.method = format!(
+        "VGP of each used site from its tilt-corrected mean (geocentric axial dipole); dp, dm from α95. Paleopole: Fisher mean of the VGPs after aligning their polarity by the principal axis of the VGPs (each VGP more than 90° from its northern end replaced by its antipode). VGP scatter S_B about the mean pole with cutoff '{}', corrected for within-site scatter where every site has n ≥ 2 and k (McElhinny & McFadden 1997), with a {} % bootstrap interval over sites ({} resamples, seed {}).",
+        s.scatter_cutoff, s.confidence * 100.0, s.resamples, s.seed);
+    if !used.is_empty() {
+        log.table(&mut stage, vgp_table(inp, used));
+    }
+    // Polarity aligned by the principal axis of the VGPs (not by hemisphere: see poles::align_polarity).
+    let raw: Vec<GeoPoint> = used.iter().map(|u| GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP")).collect();
+    let aligned: Vec<(GeoPoint, bool)> = match align_polarity(&raw) {
+        Ok(a) => a.poles.into_iter().zip(a.flipped).collect(),
+        Err(_) => Vec::new(),
+    };
+    if used.len() < 2 {
+        log.skip(&mut stage, format!("Skipped: a paleopole needs at least two used sites (found {}).", used.len()));
+    } else {
+        match paleopole(&aligned.iter().map(|a| a.0).collect::<Vec<_>>()) {
+            Ok(pp) => pole_and_scatter(inp, used, &aligned, &pp, mc, &mut stage, log)?,
+            Err(e) => log.skip_on_error(&mut stage, "Paleopole", e),
+        }
+    }
+    log.stages.push(stage);
+    Ok(())
+}
+
+fn vgp_table(inp: &Inputs, used: &[UsedSite]) -> CsvTable {
+    let mut vt = CsvTable::new(
+        "vgps",
+        "Virtual geomagnetic poles of the used sites (tilt-corrected)",
+        &["site", inp.axis.column(), "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "polarity"],
+    );
+    for u in used {
+        let oval = u.a95.map(|a| pole_oval(u.colat, a)).transpose().ok().flatten();
+        vt.push(vec![
+            inp.sites[u.idx].site.clone(),
+            fixed(inp.sites[u.idx].position, 3),
+            fixed(u.tilt.dec, 1),
+            fixed(u.tilt.inc, 1),
+            fixed(u.vgp_lat, 2),
+            fixed(u.vgp_lon, 2),
+            fixed_or_empty(oval.map(|o| o.dp), 1),
+            fixed_or_empty(oval.map(|o| o.dm), 1),
+            fixed(u.paleolat, 1),
+            u.polarity.code().into(),
+        ]);
+    }
+    vt
+}
+
+/// The sites as the scatter sees them: the aligned pole, and the within-site dispersion where
+/// the site has at least two specimens and a finite precision.
+fn scatter_sites(used: &[UsedSite], aligned: &[(GeoPoint, bool)]) -> Vec<ScatterSite> {
+    used.iter()
+        .zip(aligned)
+        .map(|(u, a)| ScatterSite {
+            pole: a.0,
+            within: match (u.n, u.k) {
+                (n, Some(k)) if n >= 2 && k.is_finite() => Some(WithinSite { n, sw: within_site_sw(k, u.paleolat) }),
+                _ => None,
+            },
+        })
+        .collect()
+}
+
+fn pole_and_scatter(
+    inp: &Inputs,
+    used: &[UsedSite],
+    aligned: &[(GeoPoint, bool)],
+    pp: &Paleopole,
+    mc: &MonteCarlo<'_>,
+    stage: &mut Stage,
+    log: &mut RunLog,
+) -> Result<()> {
+    let s = &inp.settings;
+    let sc_sites = scatter_sites(used, aligned);
+    let mut pt = CsvTable::new(
+        "paleopole",
+        "Paleopole and VGP scatter",
+        &["n", "plat", "plon", "k", "a95", "cutoff", "s", "s_low", "s_high", "s_total", "n_used", "n_removed"],
+    );
+    let mut row = vec![
+        pp.n.to_string(),
+        fixed(pp.pole.lat, 2),
+        fixed(pp.pole.lon, 2),
+        fixed(pp.k.0, 1),
+        fixed_or_empty(pp.a95, 2),
+        s.scatter_cutoff.clone(),
+    ];
+    let mut kept_flags = vec![true; used.len()];
+    match vgp_scatter(&sc_sites, s.cutoff()) {
+        Ok(sc) => {
+            kept_flags = sc.kept.clone();
+            let kept: Vec<ScatterSite> = sc_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
+            let boot = bootstrap_scatter(&kept, s.confidence, mc);
+            let (lo, hi) = boot.as_ref().map_or((None, None), |b| (Some(b.low), Some(b.high)));
+            if let Err(e) = &boot {
+                log.warnings.push(format!("Scatter interval skipped: {e}."));
+            }
+            row.extend([
+                fixed_or_empty(sc.s, 2),
+                fixed_or_empty(lo, 2),
+                fixed_or_empty(hi, 2),
+                fixed(sc.s_total, 2),
+                sc.n_used.to_string(),
+                sc.n_removed.to_string(),
+            ]);
+            let s_b = sc.s.map_or_else(
+                || format!("undefined (the within-site scatter exceeds the total, {:.1}°)", sc.s_total),
+                |s| format!("{s:.1}°"),
+            );
+            stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
+                pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
+        }
+        Err(e) => {
+            row.extend(std::iter::repeat_n(String::new(), 6));
+            log.warnings.push(format!("VGP scatter skipped: {e}."));
+            stage.result = format!(
+                "Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}°.",
+                pp.n,
+                pp.pole.lat,
+                pp.pole.lon,
+                pp.k.0,
+                fixed_or_empty(pp.a95, 1)
+            );
+        }
+    }
+    pt.push(row);
+    log.head.pole = Some((pp.pole.lat, pp.pole.lon, pp.a95));
+    log.table(stage, pt);
+    let fig = PolePlot {
+        title: "VGPs and paleopole (polarity-aligned)".into(),
+        centre: pp.pole,
+        vgps: aligned.iter().zip(&kept_flags).map(|(a, k)| MappedVgp { pole: a.0, kept: *k, flipped: a.1 }).collect(),
+        mean: Some((pp.pole, pp.a95)),
+        cutoff: None,
+    };
+    log.figure(stage, draw(&fig, "vgps", "VGPs of the used sites (polarity aligned by their principal axis) on an azimuthal equal-area map centred on the paleopole, with its A95 circle.".into())?);
+    log.cautions.push(POLE_CAUTION.into());
+    Ok(())
+}
