@@ -5,8 +5,8 @@ use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
 use lodestone::poles::{
-    align_polarity, bootstrap_scatter, paleolatitude_range, paleopole, pole_oval, precision_from_a95, vgp, vgp_scatter,
-    within_site_sw, Cutoff, ScatterSite, WithinSite,
+    align_polarity, bootstrap_scatter, paleolatitude_range, paleopole, pole_oval, vgp, vgp_scatter, Cutoff,
+    ScatterSite, WithinSite,
 };
 use lodestone::stats::confidence_cone;
 use lodestone::table::{read_sites, Table};
@@ -81,19 +81,10 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         }
         averaged.push(if a.northern { aligned } else { v.pole });
         flipped_flags.push(a.northern && flipped);
-        // Within-site dispersion needs n and k (k from a95 when only a95 is given).
-        let k = match (r.k, r.n, r.a95) {
-            (Some(k), _, _) => Some(k),
-            (None, Some(n), Some(x)) if n >= 2 => Some(precision_from_a95(n, x)?),
-            _ => None,
-        };
-        let within = match (r.n, k) {
-            (Some(n), Some(k)) => Some(WithinSite { n, sw: within_site_sw(k, v.paleolat) }),
-            _ => {
-                missing_within += 1;
-                None
-            }
-        };
+        let within = WithinSite::from_site(r.n, r.k, r.a95, v.paleolat)?;
+        if within.is_none() {
+            missing_within += 1;
+        }
         scatter_sites.push(ScatterSite { pole: aligned, within });
         sites_sec.rows.push(vec![
             Cell::Text(r.site.clone()),

@@ -45,6 +45,26 @@ pub struct WithinSite {
     pub sw: f64,
 }
 
+impl WithinSite {
+    /// The within-site term of a site of `n` directions with precision `k` (or, where k is not
+    /// given, the k implied by its α95), its VGP at paleolatitude `paleolat_deg`: the one rule that
+    /// `poles`, `psv`, `section` and the Python package share. `None` (no correction for this site)
+    /// when n is unknown or below 2, or when neither k nor α95 is known. An infinite k (identical
+    /// directions) gives S_w = 0.
+    ///
+    /// # Errors
+    /// An α95 outside (0°, 180°).
+    pub fn from_site(n: Option<usize>, k: Option<f64>, a95: Option<f64>, paleolat_deg: f64) -> Result<Option<Self>> {
+        let Some(n) = n.filter(|&n| n >= 2) else { return Ok(None) };
+        let k = match (k, a95) {
+            (Some(k), _) => k,
+            (None, Some(a)) => precision_from_a95(n, a)?,
+            (None, None) => return Ok(None),
+        };
+        Ok(Some(WithinSite { n, sw: within_site_sw(k, paleolat_deg) }))
+    }
+}
+
 /// One site's contribution to the scatter.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct ScatterSite {

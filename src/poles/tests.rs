@@ -208,3 +208,24 @@ fn expected_declination_range_is_the_angle_subtended_by_the_a95_circle() {
     // A site inside the A95 circle: every declination possible.
     assert!(expected_oval(GeoPoint::new(80.0, 160.0).unwrap(), pole, 6.0).unwrap().delta_dec.is_none());
 }
+
+#[test]
+fn within_site_term_follows_one_rule() {
+    // The rule shared by poles, psv, section and Python: n ≥ 2 and k (or k from α95 by inverting
+    // Fisher's cone, Butler 1992 eq. 6.21); otherwise no correction.
+    let lat = 30.0;
+    assert_eq!(WithinSite::from_site(None, Some(50.0), None, lat).unwrap(), None);
+    assert_eq!(WithinSite::from_site(Some(1), Some(50.0), None, lat).unwrap(), None);
+    assert_eq!(WithinSite::from_site(Some(5), None, None, lat).unwrap(), None);
+    let w = WithinSite::from_site(Some(5), Some(50.0), Some(3.0), lat).unwrap().unwrap();
+    assert_eq!(w, WithinSite { n: 5, sw: within_site_sw(50.0, lat) }, "a given k wins over α95");
+    // The α95 of N = 6 directions with k = 45 (Fisher 1953 cone, R = N − (N − 1)/k) gives back k.
+    let (n, k) = (6usize, 45.0);
+    let r = n as f64 - (n as f64 - 1.0) / k;
+    let a95 = crate::stats::confidence_cone(n, r, 0.95).unwrap();
+    let w = WithinSite::from_site(Some(n), None, Some(a95), lat).unwrap().unwrap();
+    assert_abs_diff_eq!(w.sw, within_site_sw(k, lat), epsilon = 1e-6);
+    let w = WithinSite::from_site(Some(3), Some(f64::INFINITY), None, lat).unwrap().unwrap();
+    assert_eq!(w.sw, 0.0, "identical directions: no within-site scatter");
+    assert!(WithinSite::from_site(Some(3), None, Some(200.0), lat).is_err());
+}

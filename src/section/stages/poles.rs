@@ -9,8 +9,7 @@ use crate::figures::{MappedVgp, PolePlot};
 use crate::montecarlo::MonteCarlo;
 use crate::numbers::{fixed, fixed_or_empty};
 use crate::poles::{
-    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp_scatter, within_site_sw, Paleopole, ScatterSite,
-    WithinSite,
+    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp_scatter, Paleopole, ScatterSite, WithinSite,
 };
 use crate::section::stage::{draw, Stage};
 use crate::section::tables::CsvTable;
@@ -76,18 +75,12 @@ fn vgp_table(inp: &Inputs, used: &[UsedSite]) -> CsvTable {
     vt
 }
 
-/// The sites as the scatter sees them: the aligned pole, and the within-site dispersion where
-/// the site has at least two specimens and a finite precision.
-fn scatter_sites(used: &[UsedSite], aligned: &[(GeoPoint, bool)]) -> Vec<ScatterSite> {
+/// The sites as the scatter sees them: the aligned pole, and the within-site dispersion by the
+/// shared rule ([`WithinSite::from_site`]).
+fn scatter_sites(used: &[UsedSite], aligned: &[(GeoPoint, bool)]) -> Result<Vec<ScatterSite>> {
     used.iter()
         .zip(aligned)
-        .map(|(u, a)| ScatterSite {
-            pole: a.0,
-            within: match (u.n, u.k) {
-                (n, Some(k)) if n >= 2 && k.is_finite() => Some(WithinSite { n, sw: within_site_sw(k, u.paleolat) }),
-                _ => None,
-            },
-        })
+        .map(|(u, a)| Ok(ScatterSite { pole: a.0, within: WithinSite::from_site(Some(u.n), u.k, u.a95, u.paleolat)? }))
         .collect()
 }
 
@@ -101,7 +94,7 @@ fn pole_and_scatter(
     log: &mut RunLog,
 ) -> Result<()> {
     let s = &inp.settings;
-    let sc_sites = scatter_sites(used, aligned);
+    let sc_sites = scatter_sites(used, aligned)?;
     let mut pt = CsvTable::new(
         "paleopole",
         "Paleopole and VGP scatter",
