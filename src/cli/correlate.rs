@@ -5,10 +5,11 @@ use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::figures::{ColumnFigure, ScalePanel};
 use lodestone::strat::{
-    comparison_sentence, correlate, read_levels, read_zones, zone_levels, CorrelateOptions, DatedLevel, LevelOptions,
+    comparison_sentence, correlate, read_levels, read_zones, zone_levels, Candidate, CorrelateOptions, Correlation,
+    DatedLevel, LevelOptions, ZoneColumn,
 };
 use lodestone::table::{Table, TimeScale};
-use serde_json::json;
+use serde_json::{json, Value};
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -75,23 +76,9 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     }
     ctx.inputs.add(&a.zones);
     ctx.inputs.add(&a.timescale);
-    let zt = Table::read(&a.zones)?;
-    let ts = TimeScale::from_table(&Table::read(&a.timescale)?)?;
     let mut notes = Vec::new();
-    let (col, levels) = if zt.col("n_levels").is_some() && zt.col("base_low").is_some() {
-        (read_zones(&zt)?, Vec::new())
-    } else {
-        let set = read_levels(&zt, LevelOptions::default())?;
-        notes.extend(set.notes.clone());
-        let (_, col) = zone_levels(&set, a.threshold, a.min_levels)?;
-        notes.push(format!(
-            "{} was read as a levels table and zoned with threshold {}° and min-levels {}.",
-            a.zones.display(),
-            a.threshold,
-            a.min_levels
-        ));
-        (col, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect())
-    };
+    let (col, levels) = read_column(&a, &mut notes)?;
+    let ts = TimeScale::from_table(&Table::read(&a.timescale)?)?;
     let opts = CorrelateOptions {
         miss_penalty: a.miss_penalty,
         hiatus_penalty: a.hiatus_penalty,
@@ -102,6 +89,62 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     };
     let res = correlate(&col, &ts, &opts)?;
     let axis = col.axis.column();
+    let (summary, ties_sec) = candidate_sections(&a, axis, &res);
+    let cands: Vec<Value> = res.candidates.iter().map(|c| candidate_json(axis, c)).collect();
+    let best = &res.candidates[0];
+    let sentence = comparison_sentence(&res);
+    if res.candidates.len() < 5 {
+        notes.push(format!("Only {} distinct candidates fit this column and time scale.", res.candidates.len()));
+    }
+    notes.push(sentence.clone());
+    notes.push("End runs have no rate of their own: their ages are extrapolated at the candidate's mean rate. Rates between ties use boundary midpoints; each boundary may lie anywhere in its sampling gap.".into());
+    notes.push("Caution: the ranking is a statistical statement about a steady-rate model, not proof of the correlation. Independent age control (dated beds as --anchor, biostratigraphy), local practice and the published literature decide.".into());
+    if let Some(path) = &a.plot {
+        let file_name = |p: &PathBuf| p.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default();
+        let fig = ColumnFigure {
+            title: format!("{} against {}", file_name(&a.zones), file_name(&a.timescale)),
+            axis: col.axis,
+            zones: col.zones.clone(),
+            levels,
+            threshold: Some(a.threshold),
+            scale: Some(ScalePanel::of_candidate(&ts.chrons, best, "candidate 1")),
+        };
+        super::write_figure(&fig, path, &ctx.inputs)?;
+    }
+    Ok(Report {
+        json: json!({
+            "zones": a.zones.display().to_string(), "timescale": a.timescale.display().to_string(), "axis": axis,
+            "settings": {"miss_penalty": a.miss_penalty, "hiatus_penalty": a.hiatus_penalty, "skip_penalty": a.skip_penalty,
+                "rate_spread": a.rate_spread, "anchors": opts.anchors},
+            "n_scored": res.n_scored, "candidates": cands, "comparison": sentence, "notes": notes,
+        }),
+        sections: vec![summary, ties_sec, runs_section(best)],
+        csv_section: 1,
+        notes,
+    })
+}
+
+/// The column to correlate: a zones table as `column` writes it, or a levels table zoned here
+/// (then with its levels, for the figure).
+fn read_column(a: &CorrelateArgs, notes: &mut Vec<String>) -> Result<(ZoneColumn, Vec<(f64, f64)>)> {
+    let zt = Table::read(&a.zones)?;
+    if zt.col("n_levels").is_some() && zt.col("base_low").is_some() {
+        return Ok((read_zones(&zt)?, Vec::new()));
+    }
+    let set = read_levels(&zt, LevelOptions::default())?;
+    notes.extend(set.notes.clone());
+    let (_, col) = zone_levels(&set, a.threshold, a.min_levels)?;
+    notes.push(format!(
+        "{} was read as a levels table and zoned with threshold {}° and min-levels {}.",
+        a.zones.display(),
+        a.threshold,
+        a.min_levels
+    ));
+    Ok((col, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect()))
+}
+
+/// The ranked candidates and the ties of every candidate.
+fn candidate_sections(a: &CorrelateArgs, axis: &str, res: &Correlation) -> (Section, Section) {
     let mut summary = Section::new(
         &format!("Correlations of {} with {} (lower score is better)", a.zones.display(), a.timescale.display()),
         &["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
@@ -110,7 +153,6 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
         "Tie points of every candidate",
         &["rank", axis, "low", "high", "age", "chron_above", "chron_below"],
     );
-    let mut cands = Vec::new();
     for c in &res.candidates {
         let am = &c.age_model;
         summary.rows.push(vec![
@@ -134,18 +176,24 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
                 Cell::Text(t.chron_below.clone()),
             ]);
         }
-        cands.push(json!({
-            "rank": c.rank, "score": c.score, "mean_rate": c.mean_rate, "rate_misfit": c.rate_misfit,
-            "missing_chrons": c.missing_chrons, "skipped_zones": c.skipped_zones,
-            "ties": c.ties.iter().map(|t| json!({axis: t.position, "low": t.low, "high": t.high, "age": t.age,
-                "chron_above": t.chron_above, "chron_below": t.chron_below})).collect::<Vec<_>>(),
-            "rates": c.runs.iter().map(|r| json!({"top": r.top, "base": r.base, "age_young": r.age_young, "age_old": r.age_old,
-                "rate": jnum(r.rate), "chrons": r.chrons, "missing": r.missing, "reading": r.reading,
-                "skipped_zones": r.skipped_zones, "section_end": r.end})).collect::<Vec<_>>(),
-            "age_model": c.age_model.iter().map(|p| json!({axis: p.position, "age": p.age})).collect::<Vec<_>>(),
-        }));
     }
-    let best = &res.candidates[0];
+    (summary, ties_sec)
+}
+
+fn candidate_json(axis: &str, c: &Candidate) -> Value {
+    json!({
+        "rank": c.rank, "score": c.score, "mean_rate": c.mean_rate, "rate_misfit": c.rate_misfit,
+        "missing_chrons": c.missing_chrons, "skipped_zones": c.skipped_zones,
+        "ties": c.ties.iter().map(|t| json!({axis: t.position, "low": t.low, "high": t.high, "age": t.age,
+            "chron_above": t.chron_above, "chron_below": t.chron_below})).collect::<Vec<_>>(),
+        "rates": c.runs.iter().map(|r| json!({"top": r.top, "base": r.base, "age_young": r.age_young, "age_old": r.age_old,
+            "rate": jnum(r.rate), "chrons": r.chrons, "missing": r.missing, "reading": r.reading,
+            "skipped_zones": r.skipped_zones, "section_end": r.end})).collect::<Vec<_>>(),
+        "age_model": c.age_model.iter().map(|p| json!({axis: p.position, "age": p.age})).collect::<Vec<_>>(),
+    })
+}
+
+fn runs_section(best: &Candidate) -> Section {
     let mut runs = Section::new(
         "Age model of the best candidate: runs and accumulation rates (cm/kyr)",
         &["top", "base", "age_young", "age_old", "rate", "reading", "missing"],
@@ -161,44 +209,5 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
             Cell::Text(r.missing.join(" ")),
         ]);
     }
-    let sentence = comparison_sentence(&res);
-    if res.candidates.len() < 5 {
-        notes.push(format!("Only {} distinct candidates fit this column and time scale.", res.candidates.len()));
-    }
-    notes.push(sentence.clone());
-    notes.push("End runs have no rate of their own: their ages are extrapolated at the candidate's mean rate. Rates between ties use boundary midpoints; each boundary may lie anywhere in its sampling gap.".into());
-    notes.push("Caution: the ranking is a statistical statement about a steady-rate model, not proof of the correlation. Independent age control (dated beds as --anchor, biostratigraphy), local practice and the published literature decide.".into());
-    if let Some(path) = &a.plot {
-        let (y0, y1) =
-            best.age_model.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
-        let shown = ts.chrons.iter().filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05).cloned().collect();
-        let fig = ColumnFigure {
-            title: format!(
-                "{} against {}",
-                a.zones.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
-                a.timescale.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
-            ),
-            axis: col.axis,
-            zones: col.zones.clone(),
-            levels,
-            threshold: Some(a.threshold),
-            scale: Some(ScalePanel {
-                chrons: shown,
-                ties: best.ties.iter().map(|t| (t.position, t.age)).collect(),
-                label: "candidate 1".into(),
-            }),
-        };
-        super::write_figure(&fig, path, &ctx.inputs)?;
-    }
-    Ok(Report {
-        json: json!({
-            "zones": a.zones.display().to_string(), "timescale": a.timescale.display().to_string(), "axis": axis,
-            "settings": {"miss_penalty": a.miss_penalty, "hiatus_penalty": a.hiatus_penalty, "skip_penalty": a.skip_penalty,
-                "rate_spread": a.rate_spread, "anchors": opts.anchors},
-            "n_scored": res.n_scored, "candidates": cands, "comparison": sentence, "notes": notes,
-        }),
-        sections: vec![summary, ties_sec, runs],
-        csv_section: 1,
-        notes,
-    })
+    runs
 }

@@ -3,7 +3,10 @@
 use super::{Cell, Ctx, Report, Section};
 use anyhow::{bail, Result};
 use clap::Args;
-use lodestone::dirstats::{fit_latitude_model, group_paleolatitude, latitude_model_bootstrap, LatitudeGroup};
+use lodestone::dirstats::{
+    fit_latitude_model, group_paleolatitude, latitude_model_bootstrap, LatitudeFit, LatitudeGroup,
+    LatitudeModelInterval,
+};
 use lodestone::figures::{LatitudeFigure, LatitudePoint};
 use lodestone::poles::{align_polarity, vgp, vgp_scatter, Cutoff, ScatterSite, WithinSite};
 use lodestone::sphere::GeoPoint;
@@ -86,31 +89,7 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
     let fname = a.file.display().to_string();
     let (gathered, flipped) = gather(&a.file, &a.by)?;
     let mut notes = Vec::new();
-    let mut groups = Vec::new();
-    let mut used = Vec::new();
-    for g in gathered {
-        if g.sites.len() < 3 {
-            notes.push(format!(
-                "Group '{}' has {} site(s) and is left out (a scatter needs at least 3).",
-                g.name,
-                g.sites.len()
-            ));
-            continue;
-        }
-        let sc = vgp_scatter(&g.sites, cutoff)?;
-        let kept: Vec<ScatterSite> = g.sites.iter().zip(&sc.kept).filter(|p| *p.1).map(|p| *p.0).collect();
-        let locs: Vec<GeoPoint> = g.locations.iter().zip(&sc.kept).filter(|p| *p.1).map(|p| *p.0).collect();
-        if kept.len() < 3 {
-            notes.push(format!("Group '{}' keeps {} site(s) after the cutoff and is left out.", g.name, kept.len()));
-            continue;
-        }
-        if sc.s.is_none() {
-            notes.push(format!("Group '{}': the within-site term exceeds the total scatter; S is taken as 0.", g.name));
-        }
-        let paleolat = group_paleolatitude(&locs, sc.mean_pole)?;
-        used.push((sc.n_used, sc.within_term.is_some()));
-        groups.push(LatitudeGroup { name: g.name, paleolat, sites: kept, s: sc.s.unwrap_or(0.0) });
-    }
+    let (groups, used) = group_scatters(gathered, cutoff, &mut notes)?;
     if groups.len() < 2 {
         bail!(
             "{fname}: the latitude model needs at least 2 groups of 3 or more sites (column '{}'), got {}",
@@ -137,20 +116,6 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
         gjson.push(json!({"group": g.name, "paleolat": g.paleolat, "s": g.s, "s_low": b.0, "s_high": b.1,
             "n_used": n_used, "within_site_corrected": within}));
     }
-    let mut msec = Section::new(
-        "Latitude model S(λ)² = a² + (bλ)² (λ in degrees)",
-        &["a", "a_low", "a_high", "b", "b_low", "b_high", "rms", "n_groups"],
-    );
-    msec.rows.push(vec![
-        Cell::Num(fit.a, 2),
-        Cell::Num(ci.a_low, 2),
-        Cell::Num(ci.a_high, 2),
-        Cell::Num(fit.b, 3),
-        Cell::Num(ci.b_low, 3),
-        Cell::Num(ci.b_high, 3),
-        Cell::Num(fit.rms, 2),
-        Cell::Int(fit.n_groups as i64),
-    ]);
     if flipped > 0 {
         notes.push(format!(
             "{flipped} VGP(s) more than 90° from the principal axis of their group's VGPs were mapped to their antipodes (scatter of one polarity)."
@@ -188,8 +153,64 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
             "resamples": ci.resamples, "seed": ctx.global.seed,
             "notes": notes,
         }),
-        sections: vec![gsec, msec],
+        sections: vec![gsec, model_section(&fit, &ci)],
         csv_section: 0,
         notes,
     })
+}
+
+/// Sites used by a group's scatter, and whether the within-site correction applied.
+type GroupUse = (usize, bool);
+
+/// Each group's scatter after the cutoff, with (sites used, whether the within-site correction
+/// applied); a group of fewer than three sites (before or after the cutoff) is left out with a note.
+fn group_scatters(
+    gathered: Vec<Gathered>,
+    cutoff: Cutoff,
+    notes: &mut Vec<String>,
+) -> Result<(Vec<LatitudeGroup>, Vec<GroupUse>)> {
+    let mut groups = Vec::new();
+    let mut used = Vec::new();
+    for g in gathered {
+        if g.sites.len() < 3 {
+            notes.push(format!(
+                "Group '{}' has {} site(s) and is left out (a scatter needs at least 3).",
+                g.name,
+                g.sites.len()
+            ));
+            continue;
+        }
+        let sc = vgp_scatter(&g.sites, cutoff)?;
+        let kept: Vec<ScatterSite> = g.sites.iter().zip(&sc.kept).filter(|p| *p.1).map(|p| *p.0).collect();
+        let locs: Vec<GeoPoint> = g.locations.iter().zip(&sc.kept).filter(|p| *p.1).map(|p| *p.0).collect();
+        if kept.len() < 3 {
+            notes.push(format!("Group '{}' keeps {} site(s) after the cutoff and is left out.", g.name, kept.len()));
+            continue;
+        }
+        if sc.s.is_none() {
+            notes.push(format!("Group '{}': the within-site term exceeds the total scatter; S is taken as 0.", g.name));
+        }
+        let paleolat = group_paleolatitude(&locs, sc.mean_pole)?;
+        used.push((sc.n_used, sc.within_term.is_some()));
+        groups.push(LatitudeGroup { name: g.name, paleolat, sites: kept, s: sc.s.unwrap_or(0.0) });
+    }
+    Ok((groups, used))
+}
+
+fn model_section(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Section {
+    let mut msec = Section::new(
+        "Latitude model S(λ)² = a² + (bλ)² (λ in degrees)",
+        &["a", "a_low", "a_high", "b", "b_low", "b_high", "rms", "n_groups"],
+    );
+    msec.rows.push(vec![
+        Cell::Num(fit.a, 2),
+        Cell::Num(ci.a_low, 2),
+        Cell::Num(ci.a_high, 2),
+        Cell::Num(fit.b, 3),
+        Cell::Num(ci.b_low, 3),
+        Cell::Num(ci.b_high, 3),
+        Cell::Num(fit.rms, 2),
+        Cell::Int(fit.n_groups as i64),
+    ]);
+    msec
 }

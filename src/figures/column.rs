@@ -21,6 +21,23 @@ pub struct ScalePanel {
     pub label: String,
 }
 
+impl ScalePanel {
+    /// The panel of one correlation candidate: the chrons its age model spans (with 0.05 Myr on
+    /// either side) and its ties. Used by `correlate --plot` and by `section`, so both show the
+    /// same window.
+    pub fn of_candidate(chrons: &[Chron], candidate: &crate::strat::Candidate, label: &str) -> Self {
+        let (y0, y1) = candidate
+            .age_model
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
+        ScalePanel {
+            chrons: chrons.iter().filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05).cloned().collect(),
+            ties: candidate.ties.iter().map(|t| (t.position, t.age)).collect(),
+            label: label.into(),
+        }
+    }
+}
+
 /// A polarity-column figure.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ColumnFigure {

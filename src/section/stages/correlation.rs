@@ -82,13 +82,7 @@ fn correlate_column(
         fixed_or_empty(best.age_model.last().map(|a| a.age), 3),
         comparison_sentence(&res)
     );
-    let (y0, y1) =
-        best.age_model.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
-    let panel = ScalePanel {
-        chrons: ts.chrons.iter().filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05).cloned().collect(),
-        ties: best.ties.iter().map(|t| (t.position, t.age)).collect(),
-        label: "best candidate".into(),
-    };
+    let panel = ScalePanel::of_candidate(&ts.chrons, best, "best candidate");
     for t in [ct, tt, at, rt] {
         log.table(stage, t);
     }
