@@ -3,10 +3,8 @@
 use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Context, Result};
 use clap::Args;
-use lodestone::figures::{ColumnFigure, ScalePanel};
-use lodestone::strat::{
-    comparison_sentence, correlate, read_levels, read_zones, zone_levels, CorrelateOptions, DatedLevel, LevelOptions,
-};
+use lodestone::figures::ColumnFigure;
+use lodestone::strat::{comparison_sentence, correlate, read_column, CorrelateOptions, DatedLevel};
 use lodestone::table::{Table, TimeScale};
 use serde_json::json;
 use std::path::PathBuf;
@@ -49,48 +47,36 @@ pub struct CorrelateArgs {
 fn parse_anchor(s: &str) -> Result<DatedLevel> {
     let parts: Vec<&str> = s.split(':').collect();
     let num = |x: &str, what: &str| -> Result<f64> {
-        let v: f64 = x.trim().parse().with_context(|| format!("--anchor {s}: {what} '{x}' is not a number"))?;
-        if !v.is_finite() {
-            bail!("--anchor {s}: {what} must be finite");
-        }
-        Ok(v)
+        x.trim().parse().with_context(|| format!("--anchor {s}: {what} '{x}' is not a number"))
     };
-    let a = match parts.as_slice() {
-        [p, a] => DatedLevel { position: num(p, "position")?, age: num(a, "age")?, uncertainty: 0.0 },
-        [p, a, e] => {
-            DatedLevel { position: num(p, "position")?, age: num(a, "age")?, uncertainty: num(e, "uncertainty")? }
-        }
+    let (p, age, err) = match parts.as_slice() {
+        [p, a] => (num(p, "position")?, num(a, "age")?, 0.0),
+        [p, a, e] => (num(p, "position")?, num(a, "age")?, num(e, "uncertainty")?),
         _ => bail!("--anchor {s}: expected POSITION:AGE or POSITION:AGE:UNCERTAINTY"),
     };
-    if a.age < 0.0 || a.uncertainty < 0.0 {
-        bail!("--anchor {s}: age and uncertainty must not be negative");
-    }
-    Ok(a)
+    DatedLevel::new(p, age, err).with_context(|| format!("--anchor {s}"))
 }
 
 pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     let anchors = a.anchors.iter().map(|s| parse_anchor(s)).collect::<Result<Vec<_>>>()?;
-    if a.candidates == 0 {
-        bail!("--candidates must be at least 1");
-    }
     ctx.inputs.add(&a.zones);
     ctx.inputs.add(&a.timescale);
     let zt = Table::read(&a.zones)?;
     let ts = TimeScale::from_table(&Table::read(&a.timescale)?)?;
     let mut notes = Vec::new();
-    let (col, levels) = if zt.col("n_levels").is_some() && zt.col("base_low").is_some() {
-        (read_zones(&zt)?, Vec::new())
-    } else {
-        let set = read_levels(&zt, LevelOptions::default())?;
-        notes.extend(set.notes.clone());
-        let (_, col) = zone_levels(&set, a.threshold, a.min_levels)?;
-        notes.push(format!(
-            "{} was read as a levels table and zoned with threshold {}° and min-levels {}.",
-            a.zones.display(),
-            a.threshold,
-            a.min_levels
-        ));
-        (col, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect())
+    let (col, set) = read_column(&zt, a.threshold, a.min_levels)?;
+    let levels = match &set {
+        None => Vec::new(),
+        Some(set) => {
+            notes.extend(set.notes.clone());
+            notes.push(format!(
+                "{} was read as a levels table and zoned with threshold {}° and min-levels {}.",
+                a.zones.display(),
+                a.threshold,
+                a.min_levels
+            ));
+            set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect()
+        }
     };
     let opts = CorrelateOptions {
         miss_penalty: a.miss_penalty,
@@ -169,25 +155,12 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     notes.push("End runs have no rate of their own: their ages are extrapolated at the candidate's mean rate. Rates between ties use boundary midpoints; each boundary may lie anywhere in its sampling gap.".into());
     notes.push("Caution: the ranking is a statistical statement about a steady-rate model, not proof of the correlation. Independent age control (dated beds as --anchor, biostratigraphy), local practice and the published literature decide.".into());
     if let Some(path) = &a.plot {
-        let (y0, y1) =
-            best.age_model.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(x, y), p| (x.min(p.age), y.max(p.age)));
-        let shown = ts.chrons.iter().filter(|c| c.old > y0 - 0.05 && c.young < y1 + 0.05).cloned().collect();
-        let fig = ColumnFigure {
-            title: format!(
-                "{} against {}",
-                a.zones.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
-                a.timescale.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
-            ),
-            axis: col.axis,
-            zones: col.zones.clone(),
-            levels,
-            threshold: Some(a.threshold),
-            scale: Some(ScalePanel {
-                chrons: shown,
-                ties: best.ties.iter().map(|t| (t.position, t.age)).collect(),
-                label: "candidate 1".into(),
-            }),
-        };
+        let title = format!(
+            "{} against {}",
+            a.zones.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default(),
+            a.timescale.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
+        );
+        let fig = ColumnFigure::of_correlation(title, &col, levels, a.threshold, &ts, best);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
     Ok(Report {

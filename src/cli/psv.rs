@@ -5,9 +5,7 @@ use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::dirstats::{fit_latitude_model, group_paleolatitude, latitude_model_bootstrap, LatitudeGroup};
 use lodestone::figures::{LatitudeFigure, LatitudePoint};
-use lodestone::poles::{
-    align_polarity, precision_from_a95, vgp, vgp_scatter, within_site_sw, Cutoff, ScatterSite, WithinSite,
-};
+use lodestone::poles::{align_polarity, site_within, vgp, vgp_scatter, Cutoff, ScatterSite};
 use lodestone::sphere::GeoPoint;
 use lodestone::table::{read_sites, SiteRecord, Table};
 use serde_json::json;
@@ -34,16 +32,7 @@ pub struct PsvArgs {
 /// A site's VGP (as computed; polarity is aligned per group in `gather`) and its within-site dispersion (when n and k, or n and a95, are given).
 fn scatter_site(r: &SiteRecord) -> Result<ScatterSite> {
     let v = vgp(r.location, r.direction);
-    let k = match (r.k, r.n, r.a95) {
-        (Some(k), _, _) => Some(k),
-        (None, Some(n), Some(a)) if n >= 2 => Some(precision_from_a95(n, a)?),
-        _ => None,
-    };
-    let within = match (r.n, k) {
-        (Some(n), Some(k)) => Some(WithinSite { n, sw: within_site_sw(k, v.paleolat) }),
-        _ => None,
-    };
-    Ok(ScatterSite { pole: v.pole, within })
+    Ok(ScatterSite { pole: v.pole, within: site_within(r, v.paleolat)? })
 }
 
 /// One group before the fit: its name, sites and locations in file order.
