@@ -82,17 +82,11 @@ pub fn run(a: ColumnArgs, ctx: &mut Ctx) -> Result<Report> {
     let mut notes = set.notes.clone();
     notes.extend(column_notes(&set, &col, a.threshold, a.min_levels));
     if let Some(path) = &a.plot {
-        let fig = ColumnFigure {
-            title: format!(
-                "Polarity column — {}",
-                a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
-            ),
-            axis: set.axis,
-            zones: col.zones.clone(),
-            levels: set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect(),
-            threshold: Some(a.threshold),
-            scale: None,
-        };
+        let title = format!(
+            "Polarity column — {}",
+            a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
+        );
+        let fig = ColumnFigure::of_column(title, &set, &col, a.threshold);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
     Ok(Report {

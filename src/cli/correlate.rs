@@ -3,10 +3,9 @@
 use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Context, Result};
 use clap::Args;
-use lodestone::figures::{ColumnFigure, ScalePanel};
+use lodestone::figures::ColumnFigure;
 use lodestone::strat::{
-    comparison_sentence, correlate, read_levels, read_zones, zone_levels, Candidate, CorrelateOptions, Correlation,
-    DatedLevel, LevelOptions, ZoneColumn,
+    comparison_sentence, correlate, read_column, Candidate, CorrelateOptions, Correlation, DatedLevel, ZoneColumn,
 };
 use lodestone::table::{Table, TimeScale};
 use serde_json::{json, Value};
@@ -50,35 +49,22 @@ pub struct CorrelateArgs {
 fn parse_anchor(s: &str) -> Result<DatedLevel> {
     let parts: Vec<&str> = s.split(':').collect();
     let num = |x: &str, what: &str| -> Result<f64> {
-        let v: f64 = x.trim().parse().with_context(|| format!("--anchor {s}: {what} '{x}' is not a number"))?;
-        if !v.is_finite() {
-            bail!("--anchor {s}: {what} must be finite");
-        }
-        Ok(v)
+        x.trim().parse().with_context(|| format!("--anchor {s}: {what} '{x}' is not a number"))
     };
-    let a = match parts.as_slice() {
-        [p, a] => DatedLevel { position: num(p, "position")?, age: num(a, "age")?, uncertainty: 0.0 },
-        [p, a, e] => {
-            DatedLevel { position: num(p, "position")?, age: num(a, "age")?, uncertainty: num(e, "uncertainty")? }
-        }
+    let (p, age, err) = match parts.as_slice() {
+        [p, a] => (num(p, "position")?, num(a, "age")?, 0.0),
+        [p, a, e] => (num(p, "position")?, num(a, "age")?, num(e, "uncertainty")?),
         _ => bail!("--anchor {s}: expected POSITION:AGE or POSITION:AGE:UNCERTAINTY"),
     };
-    if a.age < 0.0 || a.uncertainty < 0.0 {
-        bail!("--anchor {s}: age and uncertainty must not be negative");
-    }
-    Ok(a)
+    DatedLevel::new(p, age, err).with_context(|| format!("--anchor {s}"))
 }
 
 pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     let anchors = a.anchors.iter().map(|s| parse_anchor(s)).collect::<Result<Vec<_>>>()?;
-    if a.candidates == 0 {
-        bail!("--candidates must be at least 1");
-    }
     ctx.inputs.add(&a.zones);
     ctx.inputs.add(&a.timescale);
     let mut notes = Vec::new();
-    let (col, levels) = read_column(&a, &mut notes)?;
-    let ts = TimeScale::from_table(&Table::read(&a.timescale)?)?;
+    let (col, ts, levels) = column_of(&a, &mut notes)?;
     let opts = CorrelateOptions {
         miss_penalty: a.miss_penalty,
         hiatus_penalty: a.hiatus_penalty,
@@ -101,14 +87,8 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     notes.push("Caution: the ranking is a statistical statement about a steady-rate model, not proof of the correlation. Independent age control (dated beds as --anchor, biostratigraphy), local practice and the published literature decide.".into());
     if let Some(path) = &a.plot {
         let file_name = |p: &PathBuf| p.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default();
-        let fig = ColumnFigure {
-            title: format!("{} against {}", file_name(&a.zones), file_name(&a.timescale)),
-            axis: col.axis,
-            zones: col.zones.clone(),
-            levels,
-            threshold: Some(a.threshold),
-            scale: Some(ScalePanel::of_candidate(&ts.chrons, best, "candidate 1")),
-        };
+        let title = format!("{} against {}", file_name(&a.zones), file_name(&a.timescale));
+        let fig = ColumnFigure::of_correlation(title, &col, levels, a.threshold, &ts, best);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
     Ok(Report {
@@ -124,23 +104,24 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
     })
 }
 
-/// The column to correlate: a zones table as `column` writes it, or a levels table zoned here
-/// (then with its levels, for the figure).
-fn read_column(a: &CorrelateArgs, notes: &mut Vec<String>) -> Result<(ZoneColumn, Vec<(f64, f64)>)> {
+/// Levels as (position, VGP latitude), for the figure.
+type LevelPoints = Vec<(f64, f64)>;
+
+/// The column to correlate (a zones table as `column` writes it, or a levels table zoned here, then
+/// with its levels for the figure) and the time scale.
+fn column_of(a: &CorrelateArgs, notes: &mut Vec<String>) -> Result<(ZoneColumn, TimeScale, LevelPoints)> {
     let zt = Table::read(&a.zones)?;
-    if zt.col("n_levels").is_some() && zt.col("base_low").is_some() {
-        return Ok((read_zones(&zt)?, Vec::new()));
-    }
-    let set = read_levels(&zt, LevelOptions::default())?;
+    let ts = TimeScale::from_table(&Table::read(&a.timescale)?)?;
+    let (col, set) = read_column(&zt, a.threshold, a.min_levels)?;
+    let Some(set) = set else { return Ok((col, ts, Vec::new())) };
     notes.extend(set.notes.clone());
-    let (_, col) = zone_levels(&set, a.threshold, a.min_levels)?;
     notes.push(format!(
         "{} was read as a levels table and zoned with threshold {}° and min-levels {}.",
         a.zones.display(),
         a.threshold,
         a.min_levels
     ));
-    Ok((col, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect()))
+    Ok((col, ts, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect()))
 }
 
 /// The ranked candidates and the ties of every candidate.

@@ -4,11 +4,7 @@ use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
-use lodestone::poles::{
-    align_polarity, bootstrap_scatter, paleolatitude_range, paleopole, pole_oval, vgp, vgp_scatter, Cutoff,
-    ScatterSite, WithinSite,
-};
-use lodestone::stats::confidence_cone;
+use lodestone::poles::{pole_summary, Cutoff};
 use lodestone::table::{read_sites, Table};
 use serde_json::{json, Value};
 use std::path::PathBuf;
@@ -54,38 +50,18 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         &["site", "lat", "lon", "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "paleolat_low", "paleolat_high"],
     );
     let mut sites_json = Vec::new();
-    let raw: Vec<_> = set.records.iter().map(|r| vgp(r.location, r.direction).pole).collect();
-    let alignment = align_polarity(&raw)?;
-    let mut averaged = Vec::new();
-    let mut scatter_sites = Vec::new();
-    let mut flipped_flags = Vec::new();
-    let (mut n_south, mut missing_oval, mut missing_within) = (0usize, Vec::new(), 0usize);
-    for (i, r) in set.records.iter().enumerate() {
-        let v = vgp(r.location, r.direction);
-        // α95 as given, else from n and k through Fisher's cone.
-        let a95 = r.a95.or_else(|| match (r.n, r.k) {
-            (Some(n), Some(k)) if n >= 2 => confidence_cone(n, n as f64 - (n as f64 - 1.0) / k, 0.95),
-            _ => None,
-        });
-        if a95.is_none() {
+    let sum = pole_summary(&set, a.northern, cutoff, &ctx.monte_carlo(a.resamples))?;
+    let n_south = sum.alignment.flipped.iter().filter(|f| **f).count();
+    let flipped_flags: Vec<bool> = sum.alignment.flipped.iter().map(|f| a.northern && *f).collect();
+    let mut missing_oval = Vec::new();
+    for (r, sp) in set.records.iter().zip(&sum.sites) {
+        let (v, oval, range) = (sp.vgp, sp.oval, sp.range);
+        if sp.a95.is_none() {
             if a.ovals {
                 bail!("{}:{}: column 'a95': is missing; dp and dm need the site's a95 (or its n and k)", fname, r.line);
             }
             missing_oval.push(r.site.clone());
         }
-        let oval = a95.map(|x| pole_oval(v.colatitude, x)).transpose()?;
-        let range = a95.map(|x| paleolatitude_range(r.direction.inc, x)).transpose()?;
-        let (aligned, flipped) = (alignment.poles[i], alignment.flipped[i]);
-        if flipped {
-            n_south += 1;
-        }
-        averaged.push(if a.northern { aligned } else { v.pole });
-        flipped_flags.push(a.northern && flipped);
-        let within = WithinSite::from_site(r.n, r.k, r.a95, v.paleolat)?;
-        if within.is_none() {
-            missing_within += 1;
-        }
-        scatter_sites.push(ScatterSite { pole: aligned, within });
         sites_sec.rows.push(vec![
             Cell::Text(r.site.clone()),
             Cell::Num(r.location.lat, 2),
@@ -104,16 +80,16 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
             "site": r.site, "line": r.line, "lat": r.location.lat, "lon": r.location.lon,
             "dec": r.direction.dec, "inc": r.direction.inc,
             "plat": v.pole.lat, "plon": v.pole.lon,
-            "dp": jnum(oval.map(|o| o.dp)), "dm": jnum(oval.map(|o| o.dm)), "a95": jnum(a95),
+            "dp": jnum(oval.map(|o| o.dp)), "dm": jnum(oval.map(|o| o.dm)), "a95": jnum(sp.a95),
             "paleolat": v.paleolat, "paleolat_low": jnum(range.map(|x| x.low)), "paleolat_high": jnum(range.map(|x| x.high)),
             "colatitude": v.colatitude,
         }));
     }
 
-    if set.records.len() == 1 {
-        return one_site(&a, ctx, &fname, sites_sec, sites_json, averaged[0], missing_oval);
-    }
-    let pp = paleopole(&averaged)?;
+    let (Some(pp), Some(sc), Some(boot)) = (sum.pole, sum.scatter.as_ref(), sum.interval) else {
+        return one_site(&a, ctx, &fname, sites_sec, sites_json, sum.averaged[0], missing_oval);
+    };
+    let (averaged, alignment, missing_within) = (&sum.averaged, &sum.alignment, sum.missing_within());
     let mut pole_sec = Section::new("Paleopole (Fisher mean of the VGPs)", &["n", "plat", "plon", "k", "a95"]);
     pole_sec.rows.push(vec![
         Cell::Int(pp.n as i64),
@@ -123,14 +99,7 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         Cell::opt(pp.a95, 1),
     ]);
 
-    let sc = vgp_scatter(&scatter_sites, cutoff)?;
-    let kept: Vec<ScatterSite> = scatter_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
-    let boot = bootstrap_scatter(&kept, 0.95, &ctx.monte_carlo(a.resamples))?;
-    let cut_name = match cutoff {
-        Cutoff::None => "none".to_string(),
-        Cutoff::Fixed(x) => format!("{x}"),
-        Cutoff::Vandamme => "vandamme".to_string(),
-    };
+    let cut_name = cutoff.name();
     let mut sc_sec = Section::new(
         "VGP scatter about the mean pole (polarity-aligned VGPs)",
         &["cutoff", "s", "s_low", "s_high", "s_total", "n_used", "n_removed", "threshold"],

@@ -8,7 +8,7 @@ use lodestone::dirstats::{
     LatitudeModelInterval,
 };
 use lodestone::figures::{LatitudeFigure, LatitudePoint};
-use lodestone::poles::{align_polarity, vgp, vgp_scatter, Cutoff, ScatterSite, WithinSite};
+use lodestone::poles::{align_polarity, site_within, vgp, vgp_scatter, Cutoff, ScatterSite};
 use lodestone::sphere::GeoPoint;
 use lodestone::table::{read_sites, SiteRecord, Table};
 use serde_json::json;
@@ -35,8 +35,7 @@ pub struct PsvArgs {
 /// A site's VGP (as computed; polarity is aligned per group in `gather`) and its within-site dispersion (when n and k, or n and a95, are given).
 fn scatter_site(r: &SiteRecord) -> Result<ScatterSite> {
     let v = vgp(r.location, r.direction);
-    let within = WithinSite::from_site(r.n, r.k, r.a95, v.paleolat)?;
-    Ok(ScatterSite { pole: v.pole, within })
+    Ok(ScatterSite { pole: v.pole, within: site_within(r, v.paleolat)? })
 }
 
 /// One group before the fit: its name, sites and locations in file order.

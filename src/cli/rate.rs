@@ -28,8 +28,8 @@ pub struct RateArgs {
 
 pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
     let rec = a.window.load(ctx)?;
-    let step = a.step.unwrap_or(a.width / 10.0);
-    let points = reversals::windowed_rate(&rec.reversals, rec.from, rec.to, a.width, step, a.level)?;
+    let sum = reversals::rate_summary(&rec.reversals, rec.from, rec.to, a.width, a.step, a.level)?;
+    let (step, points) = (sum.step, &sum.points);
     let mut notes = record_notes(&rec, &a.window.timescale);
     notes.push(format!(
         "{} reversals in the window; rates counted in {} Myr windows every {} Myr, with exact Poisson {:.0} % limits.",
@@ -39,7 +39,7 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
         a.level * 100.0
     ));
     let mut sec = Section::new("Reversal rate through time (per Myr)", &["age", "rate", "low", "high", "count"]);
-    for p in &points {
+    for p in points {
         sec.rows.push(vec![
             Cell::Num(p.age, 3),
             Cell::Num(p.rate, 3),
@@ -49,7 +49,7 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
         ]);
     }
     let mut tests = Section::new("Tests", &["test", "n", "statistic", "value", "p"]);
-    let laplace = match reversals::laplace_test(&rec.reversals, rec.from, rec.to) {
+    let laplace = match &sum.laplace {
         Ok(l) => {
             tests.rows.push(vec![
                 Cell::Text("laplace trend".into()),
@@ -69,7 +69,7 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
             Value::Null
         }
     };
-    let clustering = match reversals::clustering_test(&rec.reversals) {
+    let clustering = match &sum.clustering {
         Ok(c) => {
             tests.rows.push(vec![
                 Cell::Text("clustering (mean H)".into()),
@@ -100,7 +100,7 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
     if let Some(path) = &a.plot {
         let fig = lodestone::figures::RateFigure {
             title: format!("Reversal rate — {}", a.window.timescale.display()),
-            points: points.clone(),
+            points: points.to_vec(),
             reversals: rec.reversals.clone(),
             window: a.width,
         };

@@ -5,8 +5,8 @@
 
 use super::render::{de, Figure};
 use super::theme;
-use crate::strat::{Magnetozone, ZonePolarity};
-use crate::table::{Chron, Polarity, StratAxis};
+use crate::strat::{Candidate, LevelSet, Magnetozone, ZoneColumn, ZonePolarity};
+use crate::table::{Chron, Polarity, StratAxis, TimeScale};
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
@@ -53,6 +53,42 @@ pub struct ColumnFigure {
     pub threshold: Option<f64>,
     /// Optional time-scale panel.
     pub scale: Option<ScalePanel>,
+}
+
+impl ColumnFigure {
+    /// The figure of a zoned section (as `column --plot` draws it): the levels' VGP latitudes with the
+    /// threshold guides, and the magnetozones.
+    pub fn of_column(title: String, set: &LevelSet, col: &ZoneColumn, threshold: f64) -> Self {
+        ColumnFigure {
+            title,
+            axis: set.axis,
+            zones: col.zones.clone(),
+            levels: set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect(),
+            threshold: Some(threshold),
+            scale: None,
+        }
+    }
+
+    /// The figure of a correlation (as `correlate --plot` draws it): the column beside the chrons of the
+    /// time scale that the candidate's age model spans (with 0.05 Myr beyond each end), and its ties.
+    /// `levels` are (position, VGP latitude), empty when the column came from a zones table.
+    pub fn of_correlation(
+        title: String,
+        col: &ZoneColumn,
+        levels: Vec<(f64, f64)>,
+        threshold: f64,
+        ts: &TimeScale,
+        candidate: &Candidate,
+    ) -> Self {
+        ColumnFigure {
+            title,
+            axis: col.axis,
+            zones: col.zones.clone(),
+            levels,
+            threshold: Some(threshold),
+            scale: Some(ScalePanel::of_candidate(&ts.chrons, candidate, &format!("candidate {}", candidate.rank))),
+        }
+    }
 }
 
 fn fill(z: &Magnetozone) -> RGBColor {

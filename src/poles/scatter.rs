@@ -34,6 +34,15 @@ impl Cutoff {
             },
         }
     }
+
+    /// The cutoff's name as reports give it: `none`, `vandamme`, or the angle (e.g. `45`).
+    pub fn name(&self) -> String {
+        match self {
+            Cutoff::None => "none".to_string(),
+            Cutoff::Fixed(x) => format!("{x}"),
+            Cutoff::Vandamme => "vandamme".to_string(),
+        }
+    }
 }
 
 /// Within-site dispersion of one site, transferred to VGP space.

@@ -17,5 +17,8 @@ pub use gof::{goodness_of_fit, GoodnessOfFit};
 pub use hazard::{averaged_interval, hazard_at, p_within, HazardEstimate, ModelHazard, CAUTIONS};
 pub use intervals::{intervals, EdgeReading, Interval, IntervalOptions, IntervalRecord};
 pub use models::{Fitted, Model, Sample};
-pub use rate::{clustering_test, laplace_test, windowed_rate, ClusteringTest, LaplaceTest, RatePoint};
+pub use rate::{
+    clustering_test, default_rate_step, laplace_test, rate_summary, windowed_rate, ClusteringTest, LaplaceTest,
+    RatePoint, RateSummary,
+};
 pub use renewal::{fit_models, lr_test, LrTest, ModelFit, RenewalFits};

@@ -22,6 +22,40 @@ pub struct RatePoint {
     pub count: usize,
 }
 
+/// The rate through time of one record and the two tests on its reversals (what `rate` reports).
+#[derive(Debug, Clone, PartialEq)]
+pub struct RateSummary {
+    /// Spacing of the window centres, Myr.
+    pub step: f64,
+    /// The sliding-window rate.
+    pub points: Vec<RatePoint>,
+    /// The Laplace trend test, or why it is unavailable.
+    pub laplace: Result<LaplaceTest>,
+    /// The clustering test, or why it is unavailable.
+    pub clustering: Result<ClusteringTest>,
+}
+
+/// The window spacing used when none is given: a tenth of the window width.
+pub fn default_rate_step(window: f64) -> f64 {
+    window / 10.0
+}
+
+/// The rate through time of the reversals at `ages` (Ma) in [from, to] with windows of width `window`
+/// every `step` (default [`default_rate_step`]), and the trend and clustering tests beside it. The
+/// tests may be unavailable (too few reversals) without failing the whole.
+pub fn rate_summary(
+    ages: &[f64],
+    from: f64,
+    to: f64,
+    window: f64,
+    step: Option<f64>,
+    level: f64,
+) -> Result<RateSummary> {
+    let step = step.unwrap_or_else(|| default_rate_step(window));
+    let points = windowed_rate(ages, from, to, window, step, level)?;
+    Ok(RateSummary { step, points, laplace: laplace_test(ages, from, to), clustering: clustering_test(ages) })
+}
+
 /// Sliding-window reversal rate over [from, to] with windows of width `window` centred every `step`.
 ///
 /// Only whole windows are used, so every point has the same width. Reversals at `ages` (Ma).

@@ -22,7 +22,7 @@ pub use section::{
 };
 pub use timescale::{
     simulate_timescale, FirstPolarity, IntervalSampler, RenewalModel, TimeScaleModel, AGE_QUANTUM, BURN_IN_INTERVALS,
-    MODEL_NAMES, TIMESCALE_STREAM,
+    DEFAULT_SHAPE, MODEL_NAMES, TIMESCALE_STREAM,
 };
 
 #[cfg(test)]

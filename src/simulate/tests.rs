@@ -349,3 +349,13 @@ fn settings_file_parses_and_names_lines() {
     assert!(s.number("confidence", 0.0, 1.0).unwrap_err().to_string().contains("x.toml:1"));
     assert!(Settings::parse("x.toml", "just words\n").is_err());
 }
+
+#[test]
+fn settings_default_the_shape_and_refuse_it_for_the_exponential() {
+    let g = RenewalModel::from_settings("gamma", 0.25, None).unwrap();
+    assert_eq!(g, RenewalModel::with_mean("gamma", 0.25, Some(DEFAULT_SHAPE)).unwrap());
+    assert_abs_diff_eq!(g.mean(), 0.25, epsilon = 1e-12);
+    assert!(RenewalModel::from_settings("exponential", 0.25, None).is_ok());
+    assert!(matches!(RenewalModel::from_settings("exponential", 0.25, Some(2.0)), Err(crate::Error::Invalid(_))));
+    assert!(RenewalModel::from_settings("weibull", -1.0, None).is_err());
+}

@@ -10,6 +10,10 @@ use statrs::function::gamma::gamma as gamma_fn;
 /// Random stream used for synthetic time scales (see [`crate::montecarlo::replicate_rng`]).
 pub const TIMESCALE_STREAM: u64 = 0x7153_0001;
 
+/// Shape parameter of a synthetic time scale's model when none is given (gamma/Weibull shape, lognormal
+/// σ, inverse-Gaussian shape in Myr): an illustrative choice, not a fitted value.
+pub const DEFAULT_SHAPE: f64 = 1.5;
+
 /// A renewal model for the lengths of polarity intervals, with the contract's parameter names.
 ///
 /// # Units
@@ -111,6 +115,19 @@ impl RenewalModel {
                 )))
             }
         })
+    }
+
+    /// As [`RenewalModel::with_mean`], with the settings' defaults: a shape is refused for the
+    /// exponential model, and the other models take [`DEFAULT_SHAPE`] when none is given.
+    pub fn from_settings(name: &str, mean: f64, shape: Option<f64>) -> Result<Self> {
+        let shape = match (name, shape) {
+            ("exponential", Some(_)) => {
+                return Err(Error::Invalid("a shape does not apply to the exponential model".into()))
+            }
+            ("exponential", None) => None,
+            (_, s) => Some(s.unwrap_or(DEFAULT_SHAPE)),
+        };
+        Self::with_mean(name, mean, shape)
     }
 
     /// The contract name of the family.

@@ -77,6 +77,7 @@ pub struct Correlation {
 /// # Formula and references
 /// See the module documentation.
 pub fn correlate(col: &ZoneColumn, ts: &TimeScale, opts: &CorrelateOptions) -> Result<Correlation> {
+    opts.check()?;
     let pb = Problem::new(col, ts, opts)?;
     let (lo, hi) = pb.rate_range();
     let step = opts.rate_spread / 2.0;

@@ -12,6 +12,34 @@ pub struct DatedLevel {
     pub uncertainty: f64,
 }
 
+impl DatedLevel {
+    /// A dated bed; the position and age must be finite, the age and its uncertainty not negative.
+    pub fn new(position: f64, age: f64, uncertainty: f64) -> crate::Result<Self> {
+        let d = DatedLevel { position, age, uncertainty };
+        d.check()?;
+        Ok(d)
+    }
+
+    fn check(&self) -> crate::Result<()> {
+        let finite = |name: &'static str, value: f64| {
+            if value.is_finite() {
+                Ok(())
+            } else {
+                Err(crate::Error::OutOfRange { name, value, range: "the finite numbers" })
+            }
+        };
+        finite("anchor position", self.position)?;
+        finite("anchor age", self.age)?;
+        finite("anchor uncertainty", self.uncertainty)?;
+        for (name, value) in [("anchor age", self.age), ("anchor uncertainty", self.uncertainty)] {
+            if value < 0.0 {
+                return Err(crate::Error::OutOfRange { name, value, range: "[0, ∞) (not negative)" });
+            }
+        }
+        Ok(())
+    }
+}
+
 /// Settings of the `correlate` function.
 #[derive(Debug, Clone, PartialEq)]
 pub struct CorrelateOptions {
@@ -39,6 +67,29 @@ impl Default for CorrelateOptions {
             candidates: 5,
             anchors: vec![],
         }
+    }
+}
+
+impl CorrelateOptions {
+    /// Refuse settings the search cannot use: no candidate asked for, a negative or non-finite
+    /// penalty, a rate spread that is not positive, a bad dated bed.
+    pub fn check(&self) -> crate::Result<()> {
+        if self.candidates == 0 {
+            return Err(crate::Error::Invalid("the number of candidates must be at least 1".into()));
+        }
+        for (name, value) in [
+            ("miss penalty", self.miss_penalty),
+            ("hiatus penalty", self.hiatus_penalty),
+            ("skip penalty", self.skip_penalty),
+        ] {
+            if !(value.is_finite() && value >= 0.0) {
+                return Err(crate::Error::OutOfRange { name, value, range: "[0, ∞)" });
+            }
+        }
+        if !(self.rate_spread.is_finite() && self.rate_spread > 0.0) {
+            return Err(crate::Error::OutOfRange { name: "rate spread", value: self.rate_spread, range: "(0, ∞)" });
+        }
+        self.anchors.iter().try_for_each(DatedLevel::check)
     }
 }
 

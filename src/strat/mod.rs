@@ -34,5 +34,25 @@ pub fn zone_levels(
     Ok((pol, col))
 }
 
+/// A column for a correlation: a zones table (as `column --format csv` writes it) read as it is, or a
+/// levels table zoned with `threshold` and `min_levels`; the levels come back with the second.
+pub fn read_column(
+    t: &crate::table::Table,
+    threshold: f64,
+    min_levels: usize,
+) -> crate::Result<(ZoneColumn, Option<LevelSet>)> {
+    if is_zones_table(t) {
+        return Ok((read_zones(t)?, None));
+    }
+    let set = read_levels(t, LevelOptions::default())?;
+    let (_, col) = zone_levels(&set, threshold, min_levels)?;
+    Ok((col, Some(set)))
+}
+
+/// A zones table has the `n_levels` and `base_low` columns of [`ZONE_COLUMNS`].
+pub fn is_zones_table(t: &crate::table::Table) -> bool {
+    t.col("n_levels").is_some() && t.col("base_low").is_some()
+}
+
 #[cfg(test)]
 mod tests;

@@ -205,3 +205,28 @@ fn a_column_without_a_polarity_change_cannot_be_correlated() {
     let col = build_zones(StratAxis::Height, &[1.0, 2.0], &[ZonePolarity::Normal; 2], 2).unwrap();
     assert!(correlate(&col, &scale(), &CorrelateOptions::default()).is_err());
 }
+
+#[test]
+fn correlation_settings_are_checked_before_the_search() {
+    assert!(DatedLevel::new(12.0, 1.5, 0.1).is_ok());
+    for (p, a, e) in [(12.0, -0.1, 0.0), (12.0, 1.0, -0.2), (f64::NAN, 1.0, 0.0), (1.0, f64::INFINITY, 0.0)] {
+        assert!(matches!(DatedLevel::new(p, a, e), Err(crate::Error::OutOfRange { .. })), "{p} {a} {e}");
+    }
+    let levels = Table::parse("l.csv", b"height,vgp_lat\n1,70\n2,75\n3,-70\n4,-80\n5,60\n6,65\n").unwrap();
+    let (col, set) = read_column(&levels, DEFAULT_THRESHOLD, DEFAULT_MIN_LEVELS).unwrap();
+    assert_eq!(col.zones.len(), 3);
+    assert_eq!(set.map(|s| s.levels.len()), Some(6));
+    let bad = [
+        CorrelateOptions { candidates: 0, ..Default::default() },
+        CorrelateOptions { rate_spread: 0.0, ..Default::default() },
+        CorrelateOptions { miss_penalty: -1.0, ..Default::default() },
+        CorrelateOptions {
+            anchors: vec![DatedLevel { position: 1.0, age: -2.0, uncertainty: 0.0 }],
+            ..Default::default()
+        },
+    ];
+    for opts in &bad {
+        assert!(correlate(&col, &scale(), opts).is_err(), "{opts:?}");
+    }
+    assert!(correlate(&col, &scale(), &CorrelateOptions::default()).is_ok());
+}

@@ -77,13 +77,8 @@ pub struct RenewalArgs {
 
 impl RenewalArgs {
     fn model(&self, young: f64, span: f64) -> Result<TimeScaleModel> {
-        let shape = match (self.model, self.shape) {
-            (ModelArg::Exponential, Some(_)) => bail!("--shape does not apply to the exponential model"),
-            (ModelArg::Exponential, None) => None,
-            (_, s) => Some(s.unwrap_or(1.5)),
-        };
         Ok(TimeScaleModel {
-            model: RenewalModel::with_mean(self.model.name(), self.mean_interval, shape)?,
+            model: RenewalModel::from_settings(self.model.name(), self.mean_interval, self.shape)?,
             young,
             span,
             first: match self.first_polarity {
