@@ -10,7 +10,7 @@ use crate::error::{Error, Result};
 use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions};
 use crate::figures::{ColumnFigure, EqualAreaPlot, FoldPlot, MappedVgp, NetGroup, PolePlot, ScalePanel};
 use crate::montecarlo::{MonteCarlo, Progress};
-use crate::numbers::{fixed, fixed_or_empty};
+use crate::numbers::{azimuth, azimuth_or_empty, fixed, fixed_or_empty};
 use crate::poles::{
     align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp, vgp_scatter, within_site_sw, ScatterSite, WithinSite,
 };
@@ -247,7 +247,7 @@ pub fn run_with_truth(
             f.n_steps.to_string(),
             fixed(f.from, 1),
             fixed(f.to, 1),
-            fixed(f.direction.dec, 2),
+            azimuth(f.direction.dec, 2),
             fixed(f.direction.inc, 2),
             fixed(f.mad, 2),
             fixed_or_empty(f.dang, 2),
@@ -370,11 +370,11 @@ pub fn run_with_truth(
             fixed(s.position, 3),
             g.stats.n.to_string(),
             g.planes.to_string(),
-            fixed_or_empty(g.stats.mean.map(|m| m.dec), 1),
+            azimuth_or_empty(g.stats.mean.map(|m| m.dec), 1),
             fixed_or_empty(g.stats.mean.map(|m| m.inc), 1),
             fixed_or_empty(k(g), 1),
             fixed_or_empty(g.stats.alpha, 1),
-            fixed_or_empty(t.stats.mean.map(|m| m.dec), 1),
+            azimuth_or_empty(t.stats.mean.map(|m| m.dec), 1),
             fixed_or_empty(t.stats.mean.map(|m| m.inc), 1),
             fixed_or_empty(k(t), 1),
             fixed_or_empty(t.stats.alpha, 1),
@@ -554,10 +554,10 @@ pub fn run_with_truth(
         vt.push(vec![
             sites[u.idx].site.clone(),
             fixed(sites[u.idx].position, 3),
-            fixed(u.tilt.dec, 1),
+            azimuth(u.tilt.dec, 1),
             fixed(u.tilt.inc, 1),
             fixed(u.vgp_lat, 2),
-            fixed(u.vgp_lon, 2),
+            azimuth(u.vgp_lon, 2),
             fixed_or_empty(oval.map(|o| o.dp), 1),
             fixed_or_empty(oval.map(|o| o.dm), 1),
             fixed(u.paleolat, 1),
@@ -611,7 +611,7 @@ pub fn run_with_truth(
                 let mut row = vec![
                     pp.n.to_string(),
                     fixed(pp.pole.lat, 2),
-                    fixed(pp.pole.lon, 2),
+                    azimuth(pp.pole.lon, 2),
                     fixed(pp.k.0, 1),
                     fixed_or_empty(pp.a95, 2),
                     settings.scatter_cutoff.clone(),
@@ -639,17 +639,17 @@ pub fn run_with_truth(
                             || format!("undefined (the within-site scatter exceeds the total, {:.1}°)", sc.s_total),
                             |s| format!("{s:.1}°"),
                         );
-                        stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
-                            pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
+                        stage.result = format!("Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
+                            pp.n, pp.pole.lat, azimuth(pp.pole.lon, 1), pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
                     }
                     Err(e) => {
                         row.extend(["".into(), "".into(), "".into(), "".into(), "".into(), "".into()]);
                         warnings.push(format!("VGP scatter skipped: {e}."));
                         stage.result = format!(
-                            "Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}°.",
+                            "Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}°.",
                             pp.n,
                             pp.pole.lat,
-                            pp.pole.lon,
+                            azimuth(pp.pole.lon, 1),
                             pp.k.0,
                             fixed_or_empty(pp.a95, 1)
                         );
