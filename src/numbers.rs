@@ -48,6 +48,52 @@ pub fn push_csv(buf: &mut String, x: f64) {
     }
 }
 
+/// Append an azimuth (a declination or a longitude, degrees) with `decimals` fixed decimals, in
+/// [0, 360) as written: the angle is reduced into [0, 360) first, and a value that rounds up to 360
+/// (359.96 at one decimal) is written as 0 (`0.0`), the same direction.
+///
+/// # Units
+/// Degrees.
+pub fn push_azimuth(buf: &mut String, x: f64, decimals: usize) {
+    if !x.is_finite() {
+        push_fixed(buf, x, decimals);
+        return;
+    }
+    let start = buf.len();
+    push_fixed(buf, x.rem_euclid(360.0), decimals);
+    if buf[start..].starts_with("360") {
+        buf.truncate(start);
+        push_fixed(buf, 0.0, decimals);
+    }
+}
+
+/// An azimuth as [`push_azimuth`] writes it.
+pub fn azimuth(x: f64, decimals: usize) -> String {
+    let mut s = String::new();
+    push_azimuth(&mut s, x, decimals);
+    s
+}
+
+/// An optional azimuth as [`azimuth`] writes it, or an empty string for `None`.
+pub fn azimuth_or_empty(x: Option<f64>, decimals: usize) -> String {
+    x.map_or(String::new(), |v| azimuth(v, decimals))
+}
+
+/// Append an azimuth for a CSV cell: [`push_csv`] of the angle reduced into [0, 360), with a value
+/// that rounds to 360 at ten decimals written `0`.
+pub fn push_csv_azimuth(buf: &mut String, x: f64) {
+    if !x.is_finite() {
+        push_csv(buf, x);
+        return;
+    }
+    let start = buf.len();
+    push_csv(buf, x.rem_euclid(360.0));
+    if &buf[start..] == "360" {
+        buf.truncate(start);
+        buf.push('0');
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -76,5 +122,29 @@ mod tests {
         assert_eq!(csv(-1e-12), "|0");
         assert_eq!(csv(1.0 / 3.0), "|0.3333333333");
         assert_eq!(csv(f64::INFINITY), "|inf");
+    }
+
+    #[test]
+    fn azimuths_stay_below_360_after_rounding() {
+        // The contract: declinations and longitudes are output in [0, 360).
+        assert_eq!(azimuth(359.96, 1), "0.0");
+        assert_eq!(azimuth(359.94, 1), "359.9");
+        assert_eq!(azimuth(359.996, 2), "0.00");
+        assert_eq!(azimuth(359.5, 0), "0");
+        assert_eq!(azimuth(-0.01, 1), "0.0");
+        assert_eq!(azimuth(-0.2, 1), "359.8");
+        assert_eq!(azimuth(360.0, 1), "0.0");
+        assert_eq!(azimuth(725.3, 1), "5.3");
+        assert_eq!(azimuth(0.04, 1), "0.0");
+        assert_eq!(azimuth_or_empty(None, 1), "");
+        assert_eq!(azimuth(f64::NAN, 1), "NaN");
+        let csv = |x: f64| {
+            let mut s = String::new();
+            push_csv_azimuth(&mut s, x);
+            s
+        };
+        assert_eq!(csv(359.99999999999), "0");
+        assert_eq!(csv(359.5), "359.5");
+        assert_eq!(csv(-90.0), "270");
     }
 }

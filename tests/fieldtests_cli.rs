@@ -214,3 +214,21 @@ fn randomness_test_outputs() {
         .success()
         .stdout(predicates::str::starts_with("n,r,r0,p_value,random\n10,"));
 }
+
+#[test]
+fn the_readme_example_of_a_negative_reversal_test_stays_negative() {
+    // records/quillan-scarp-sites.csv is invented (its header states the model): site means whose fits
+    // carry an overprint. The README quotes these numbers for "What a negative reversal test means"; the
+    // three checks must agree that the two modes are not antipodal.
+    let f = concat!(env!("CARGO_MANIFEST_DIR"), "/records/quillan-scarp-sites.csv");
+    let v = json(&["test", "reversal", f, "--format", "json"]);
+    assert_eq!((v["n1"].as_u64(), v["n2"].as_u64()), (Some(12), Some(8)));
+    assert_eq!(v["class"], "negative");
+    assert_eq!(v["passed"], false);
+    assert_eq!(v["bootstrap"]["passed"], false);
+    let (g, gc) = (v["gamma"].as_f64().unwrap(), v["gamma_c"].as_f64().unwrap());
+    let (vw, vc) = (v["v_w"].as_f64().unwrap(), v["v_crit"].as_f64().unwrap());
+    assert!(g > gc && vw > vc, "γ {g} γc {gc} V_w {vw} critical {vc}");
+    let quoted = [format!("{g:.1}"), format!("{gc:.1}"), format!("{vw:.1}"), format!("{vc:.1}")];
+    assert_eq!(quoted, ["13.4", "8.1", "19.8", "7.3"], "update the README's numbers");
+}

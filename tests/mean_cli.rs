@@ -264,3 +264,20 @@ fn many_groups_streamed_and_whole_table_outputs_are_identical() {
         "{notes}"
     );
 }
+
+#[test]
+fn a_declination_just_below_360_is_never_printed_as_360() {
+    // The contract gives declinations in [0, 360): 359.97 at one decimal is the direction 0.0, and a
+    // mean a hair west of north likewise (the CSV keeps full precision, below 360).
+    let d = tempfile::tempdir().unwrap();
+    let f = write(&d, "north.csv", "site,dec,inc\nA,359.97,30\nB,359.98,31\nB,359.95,29\nC,359.94,30\n");
+    let out = cmd().args(["mean", f.to_str().unwrap()]).output().unwrap();
+    assert!(out.status.success());
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(!text.contains("360.0"), "{text}");
+    let decs: Vec<&str> = text.lines().skip(2).take(3).map(|l| l.split_whitespace().nth(2).unwrap()).collect();
+    assert_eq!(decs, ["0.0", "0.0", "359.9"], "{text}");
+    let out = cmd().args(["mean", f.to_str().unwrap(), "--format", "csv"]).output().unwrap();
+    let csv = String::from_utf8(out.stdout).unwrap();
+    assert!(csv.contains("\nA,1,359.97,30,"), "{csv}");
+}

@@ -123,7 +123,7 @@ fn specimens_and_preview_fits() {
     assert_eq!(st, 200);
     let list = json(&body);
     let list = list.as_array().unwrap();
-    assert_eq!(list.len(), 144); // 48 levels × 3 specimens (records/demo/README.md)
+    assert_eq!(list.len(), 192); // 48 levels × 4 specimens (records/demo/README.md)
     let first = &list[0];
     assert_eq!(first["specimen"], "SG001-1");
     assert_eq!(first["n_steps"], 12);

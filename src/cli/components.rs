@@ -216,7 +216,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
             Cell::Int(f.n_steps as i64),
             Cell::Num(f.from, 1),
             Cell::Num(f.to, 1),
-            Cell::Num(f.direction.dec, 1),
+            Cell::Azimuth(f.direction.dec, 1),
             Cell::Num(f.direction.inc, 1),
             Cell::Num(f.mad, 1),
             Cell::opt(f.dang, 1),

@@ -88,7 +88,7 @@ pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Report> {
                 Cell::Text(format!("{:.4e}", d.moment)),
                 Cell::Num(d.tilt, 2),
                 Cell::Num(d.pole.lat, 2),
-                Cell::Num(d.pole.lon, 2),
+                Cell::Azimuth(d.pole.lon, 2),
             ]);
             (
                 json!({"kind": "gauss", "g10": g10, "g11": g11, "h11": h11, "b0": d.b0_nt, "moment": d.moment,

@@ -278,7 +278,7 @@ impl StreamedReport for MeanOutput {
             row.extend([
                 Cell::Text(g.name().to_string()),
                 Cell::Int(s.n as i64),
-                Cell::opt(s.mean.map(|m| m.dec), 1),
+                Cell::opt_azimuth(s.mean.map(|m| m.dec), 1),
                 Cell::opt(s.mean.map(|m| m.inc), 1),
                 Cell::Num(s.r, 4),
                 Cell::opt(s.k.map(|k| k.0), 1),

@@ -101,12 +101,13 @@ impl Ellipses {
     pub fn cells(&self, index: usize) -> Vec<Cell> {
         let e = self.get(index);
         let f = |x: fn(&KentEllipse) -> f64| Cell::opt(e.map(x), 1);
+        let az = |x: fn(&KentEllipse) -> f64| Cell::opt_azimuth(e.map(x), 1);
         vec![
             f(|e| e.major),
             f(|e| e.minor),
-            f(|e| e.major_axis.dec),
+            az(|e| e.major_axis.dec),
             f(|e| e.major_axis.inc),
-            f(|e| e.minor_axis.dec),
+            az(|e| e.minor_axis.dec),
             f(|e| e.minor_axis.inc),
         ]
     }

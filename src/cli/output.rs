@@ -23,6 +23,9 @@ pub enum Cell {
     Text(String),
     /// A number shown with this many decimals in text tables (full precision in CSV).
     Num(f64, usize),
+    /// An azimuth (declination, longitude) in degrees: as `Num`, but reduced into [0, 360) and never
+    /// written as 360 after rounding.
+    Azimuth(f64, usize),
     /// An integer.
     Int(i64),
     /// No value (JSON null): printed as `-` in text and empty in CSV.
@@ -34,6 +37,10 @@ impl Cell {
     pub fn opt(v: Option<f64>, decimals: usize) -> Cell {
         v.map_or(Cell::Empty, |x| Cell::Num(x, decimals))
     }
+    /// An azimuth, or `Empty` for `None`.
+    pub fn opt_azimuth(v: Option<f64>, decimals: usize) -> Cell {
+        v.map_or(Cell::Empty, |x| Cell::Azimuth(x, decimals))
+    }
     /// Text, or `Empty` for `None`.
     pub fn opt_text(v: Option<&str>) -> Cell {
         v.map_or(Cell::Empty, |s| Cell::Text(s.to_string()))
@@ -44,6 +51,7 @@ impl Cell {
         match self {
             Cell::Text(s) => buf.push_str(s),
             Cell::Num(x, d) => lodestone::numbers::push_fixed(buf, *x, *d),
+            Cell::Azimuth(x, d) => lodestone::numbers::push_azimuth(buf, *x, *d),
             Cell::Int(i) => {
                 let _ = write!(buf, "{i}");
             }
@@ -54,6 +62,7 @@ impl Cell {
     fn push_csv(&self, buf: &mut String) {
         match self {
             Cell::Num(x, _) => lodestone::numbers::push_csv(buf, *x),
+            Cell::Azimuth(x, _) => lodestone::numbers::push_csv_azimuth(buf, *x),
             Cell::Empty => {}
             other => other.push_text(buf),
         }
@@ -226,7 +235,7 @@ fn write_text_table(s: &Section, rows: EachRow, out: &mut dyn Write) -> std::io:
             }
         }
         for (i, num) in numeric.iter_mut().enumerate() {
-            *num &= matches!(r.get(i), Some(Cell::Num(..) | Cell::Int(_) | Cell::Empty));
+            *num &= matches!(r.get(i), Some(Cell::Num(..) | Cell::Azimuth(..) | Cell::Int(_) | Cell::Empty));
         }
         Ok(())
     })?;

@@ -65,11 +65,11 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         sites_sec.rows.push(vec![
             Cell::Text(r.site.clone()),
             Cell::Num(r.location.lat, 2),
-            Cell::Num(r.location.lon, 2),
-            Cell::Num(r.direction.dec, 1),
+            Cell::Azimuth(r.location.lon, 2),
+            Cell::Azimuth(r.direction.dec, 1),
             Cell::Num(r.direction.inc, 1),
             Cell::Num(v.pole.lat, 1),
-            Cell::Num(v.pole.lon, 1),
+            Cell::Azimuth(v.pole.lon, 1),
             Cell::opt(oval.map(|o| o.dp), 1),
             Cell::opt(oval.map(|o| o.dm), 1),
             Cell::Num(v.paleolat, 1),
@@ -94,7 +94,7 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
     pole_sec.rows.push(vec![
         Cell::Int(pp.n as i64),
         Cell::Num(pp.pole.lat, 1),
-        Cell::Num(pp.pole.lon, 1),
+        Cell::Azimuth(pp.pole.lon, 1),
         Cell::Num(pp.k.0, 1),
         Cell::opt(pp.a95, 1),
     ]);
@@ -120,7 +120,7 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         j["kept"] = json!(keep);
     }
 
-    let axis = format!("{:.1}°, {:.1}°E", alignment.axis.lat, alignment.axis.lon);
+    let axis = format!("{:.1}°, {}°E", alignment.axis.lat, lodestone::numbers::azimuth(alignment.axis.lon, 1));
     if n_south > 0 {
         notes.push(if a.northern {
             format!("{n_south} VGP(s) lie more than 90° from the northern end of the VGPs' principal axis ({axis}) and were mapped to their antipodes before averaging (--northern).")

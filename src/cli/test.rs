@@ -242,14 +242,14 @@ fn reversal(a: OneFile, ctx: &mut Ctx) -> Result<Report> {
     modes.rows.push(vec![
         Cell::Text("1".into()),
         Cell::Int(c.n1 as i64),
-        Cell::Num(c.mean1.dec, 1),
+        Cell::Azimuth(c.mean1.dec, 1),
         Cell::Num(c.mean1.inc, 1),
         Cell::Num(c.k1, 1),
     ]);
     modes.rows.push(vec![
         Cell::Text("2".into()),
         Cell::Int(c.n2 as i64),
-        Cell::Num(t.mode2_mean.dec, 1),
+        Cell::Azimuth(t.mode2_mean.dec, 1),
         Cell::Num(t.mode2_mean.inc, 1),
         Cell::Num(c.k2, 1),
     ]);
@@ -290,7 +290,7 @@ fn common_mean(a: TwoFiles, ctx: &mut Ctx) -> Result<Report> {
         means.rows.push(vec![
             Cell::Text(p.display().to_string()),
             Cell::Int(n as i64),
-            Cell::Num(m.dec, 1),
+            Cell::Azimuth(m.dec, 1),
             Cell::Num(m.inc, 1),
             Cell::Num(k, 1),
         ]);

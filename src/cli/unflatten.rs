@@ -198,7 +198,7 @@ fn by_factor(dirs: &[Direction], f: f64, fname: &str, mut notes: Vec<String>) ->
         Cell::opt(hi, 1),
         Cell::opt(r.observed.alpha, 1),
         Cell::opt(a95, 1),
-        Cell::Num(m1.dec, 1),
+        Cell::Azimuth(m1.dec, 1),
     ]);
     notes.push(format!(
         "f = {f} is an assumption supplied on the command line, not estimated from these data: the corrected mean is only as good as that factor (tan I₀ = tan I_f / f applied to every direction, King 1955)."

@@ -220,12 +220,12 @@ impl Figure for VectorEndpointPlot {
             };
             let dang = f.dang.map(|d| format!(", DANG {d:.1}°")).unwrap_or_default();
             let text = format!(
-                "{what}, {} fit, steps {}–{}{unit} (n = {}): D {:.1}°, I {:.1}°, MAD {:.1}°{dang}",
+                "{what}, {} fit, steps {}–{}{unit} (n = {}): D {}°, I {:.1}°, MAD {:.1}°{dang}",
                 f.anchor.as_str(),
                 format_step(f.from),
                 format_step(f.to),
                 f.n_steps,
-                f.direction.dec,
+                crate::numbers::azimuth(f.direction.dec, 1),
                 f.direction.inc,
                 f.mad
             );

@@ -10,7 +10,7 @@
 
 use super::tables::CsvTable;
 use super::{ProjectFile, SectionRun, Stage};
-use crate::numbers::fixed;
+use crate::numbers::{azimuth, fixed};
 use crate::sphere::Direction;
 use serde_json::Value;
 
@@ -223,9 +223,9 @@ fn compare_directions(run: &SectionRun, truth: &[TrueLevel], results: &mut Vec<S
         angles.push(angle);
         t.push(vec![
             site.into(),
-            fixed(f.dec, 1),
+            azimuth(f.dec, 1),
             fixed(f.inc, 1),
-            fixed(d, 1),
+            azimuth(d, 1),
             fixed(i, 1),
             fixed(angle, 1),
             a95.map_or(String::new(), |a| fixed(a, 1)),

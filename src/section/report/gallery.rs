@@ -23,12 +23,12 @@ fn caption(sp: &SpecimenRecord, site_note: Option<&str>) -> String {
     for f in &sp.fits {
         let _ = write!(
             c,
-            " · {} {}–{} {u} ({} steps): {:.1}°/{:.1}°, MAD {:.1}°",
+            " · {} {}–{} {u} ({} steps): {}°/{:.1}°, MAD {:.1}°",
             f.kind.as_str(),
             f.from,
             f.to,
             f.n_steps,
-            f.direction.dec,
+            crate::numbers::azimuth(f.direction.dec, 1),
             f.direction.inc,
             f.mad
         );

@@ -61,7 +61,8 @@ pub fn report_html(run: &SectionRun, title: &str, inputs: &[(String, usize)]) ->
 
 fn header(h: &mut String, run: &SectionRun, title: &str) {
     let locality = run.headline.locality.map_or(String::new(), |[lat, lon]| {
-        format!("Locality {:.2}°{}, {:.2}°E · ", lat.abs(), if lat < 0.0 { "S" } else { "N" }, lon.rem_euclid(360.0))
+        let lon = crate::numbers::azimuth(lon, 2);
+        format!("Locality {:.2}°{}, {lon}°E · ", lat.abs(), if lat < 0.0 { "S" } else { "N" })
     });
     let _ = writeln!(
         h,

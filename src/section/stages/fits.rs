@@ -5,7 +5,7 @@ use super::inputs::{parse, Inputs};
 use super::RunLog;
 use crate::demag::{fit_range, FitKind, SpecimenFit};
 use crate::error::Result;
-use crate::numbers::{fixed, fixed_or_empty};
+use crate::numbers::{azimuth, fixed, fixed_or_empty};
 use crate::section::auto::{automatic_fit, rule_text};
 use crate::section::stage::Stage;
 use crate::section::tables::CsvTable;
@@ -101,7 +101,7 @@ fn components_table(inp: &Inputs, fits: &[SpecimenFit], grades: &BTreeMap<String
             f.n_steps.to_string(),
             fixed(f.from, 1),
             fixed(f.to, 1),
-            fixed(f.direction.dec, 2),
+            azimuth(f.direction.dec, 2),
             fixed(f.direction.inc, 2),
             fixed(f.mad, 2),
             fixed_or_empty(f.dang, 2),

@@ -7,7 +7,7 @@ use super::RunLog;
 use crate::error::Result;
 use crate::figures::{MappedVgp, PolePlot};
 use crate::montecarlo::MonteCarlo;
-use crate::numbers::{fixed, fixed_or_empty};
+use crate::numbers::{azimuth, fixed, fixed_or_empty};
 use crate::poles::{
     align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp_scatter, Paleopole, ScatterSite, WithinSite,
 };
@@ -62,10 +62,10 @@ fn vgp_table(inp: &Inputs, used: &[UsedSite]) -> CsvTable {
         vt.push(vec![
             inp.sites[u.idx].site.clone(),
             fixed(inp.sites[u.idx].position, 3),
-            fixed(u.tilt.dec, 1),
+            azimuth(u.tilt.dec, 1),
             fixed(u.tilt.inc, 1),
             fixed(u.vgp_lat, 2),
-            fixed(u.vgp_lon, 2),
+            azimuth(u.vgp_lon, 2),
             fixed_or_empty(oval.map(|o| o.dp), 1),
             fixed_or_empty(oval.map(|o| o.dm), 1),
             fixed(u.paleolat, 1),
@@ -103,7 +103,7 @@ fn pole_and_scatter(
     let mut row = vec![
         pp.n.to_string(),
         fixed(pp.pole.lat, 2),
-        fixed(pp.pole.lon, 2),
+        azimuth(pp.pole.lon, 2),
         fixed(pp.k.0, 1),
         fixed_or_empty(pp.a95, 2),
         s.scatter_cutoff.clone(),
@@ -130,17 +130,17 @@ fn pole_and_scatter(
                 || format!("undefined (the within-site scatter exceeds the total, {:.1}°)", sc.s_total),
                 |s| format!("{s:.1}°"),
             );
-            stage.result = format!("Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
-                pp.n, pp.pole.lat, pp.pole.lon, pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
+            stage.result = format!("Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
+                pp.n, pp.pole.lat, azimuth(pp.pole.lon, 1), pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
         }
         Err(e) => {
             row.extend(std::iter::repeat_n(String::new(), 6));
             log.warnings.push(format!("VGP scatter skipped: {e}."));
             stage.result = format!(
-                "Paleopole from {} sites: {:.1}°N, {:.1}°E, K = {:.1}, A95 = {}°.",
+                "Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}°.",
                 pp.n,
                 pp.pole.lat,
-                pp.pole.lon,
+                azimuth(pp.pole.lon, 1),
                 pp.k.0,
                 fixed_or_empty(pp.a95, 1)
             );

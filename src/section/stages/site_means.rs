@@ -6,7 +6,7 @@ use super::{yes_no, RunLog};
 use crate::demag::{FitKind, SpecimenFit};
 use crate::error::Result;
 use crate::figures::{EqualAreaPlot, NetGroup};
-use crate::numbers::{fixed, fixed_or_empty};
+use crate::numbers::{azimuth_or_empty, fixed, fixed_or_empty};
 use crate::poles::vgp;
 use crate::section::stage::{draw, Stage};
 use crate::section::tables::CsvTable;
@@ -157,11 +157,11 @@ fn site_row(site: &SiteInfo, g: &GroupMean, t: &GroupMean, ok: bool) -> Vec<Stri
         fixed(site.position, 3),
         g.stats.n.to_string(),
         g.planes.to_string(),
-        fixed_or_empty(g.stats.mean.map(|m| m.dec), 1),
+        azimuth_or_empty(g.stats.mean.map(|m| m.dec), 1),
         fixed_or_empty(g.stats.mean.map(|m| m.inc), 1),
         fixed_or_empty(k_of(g), 1),
         fixed_or_empty(g.stats.alpha, 1),
-        fixed_or_empty(t.stats.mean.map(|m| m.dec), 1),
+        azimuth_or_empty(t.stats.mean.map(|m| m.dec), 1),
         fixed_or_empty(t.stats.mean.map(|m| m.inc), 1),
         fixed_or_empty(k_of(t), 1),
         fixed_or_empty(t.stats.alpha, 1),
