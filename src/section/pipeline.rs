@@ -424,7 +424,7 @@ pub fn run_with_truth(
             } else {
                 None
             };
-            groups.push(NetGroup { label: name.into(), points: pts, mean });
+            groups.push(NetGroup { label: name.into(), points: pts, circles: vec![], mean });
         }
         if groups.is_empty() {
             continue;
