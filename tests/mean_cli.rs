@@ -265,8 +265,17 @@ fn many_groups_streamed_and_whole_table_outputs_are_identical() {
     );
 }
 
-/// Polylines of an SVG written by the figures: (stroke colour, stroke width, opacity, points).
-fn polylines(svg: &str) -> Vec<(String, String, String, Vec<(f64, f64)>)> {
+/// One polyline of an SVG written by the figures.
+struct Polyline {
+    /// Stroke colour, upper-case hex.
+    stroke: String,
+    /// Stroke width as written.
+    width: String,
+    points: Vec<(f64, f64)>,
+}
+
+/// The polylines of an SVG written by the figures.
+fn polylines(svg: &str) -> Vec<Polyline> {
     let attr = |tag: &str, name: &str| {
         let key = format!(" {name}=\"");
         tag.find(&key).map(|i| tag[i + key.len()..].split('"').next().unwrap_or("").to_string()).unwrap_or_default()
@@ -282,7 +291,7 @@ fn polylines(svg: &str) -> Vec<(String, String, String, Vec<(f64, f64)>)> {
                     (x.parse().unwrap(), y.parse().unwrap())
                 })
                 .collect();
-            (attr(tag, "stroke").to_uppercase(), attr(tag, "stroke-width"), attr(tag, "opacity"), pts)
+            Polyline { stroke: attr(tag, "stroke").to_uppercase(), width: attr(tag, "stroke-width"), points: pts }
         })
         .collect()
 }
@@ -307,8 +316,11 @@ fn planes_are_drawn_as_great_circles_with_the_combined_mean() {
     let svg = fs::read_to_string(&svg_path).unwrap();
     let lines = polylines(&svg);
     // The net's primitive circle (ink #222831, 2 px, 361 points) gives the centre and radius in pixels.
-    let rim = lines.iter().find(|l| l.0 == "#222831" && l.1 == "2" && l.3.len() == 361).expect("primitive circle");
-    let (xs, ys): (Vec<f64>, Vec<f64>) = rim.3.iter().copied().unzip();
+    let rim = lines
+        .iter()
+        .find(|l| l.stroke == "#222831" && l.width == "2" && l.points.len() == 361)
+        .expect("primitive circle");
+    let (xs, ys): (Vec<f64>, Vec<f64>) = rim.points.iter().copied().unzip();
     let span = |v: &[f64]| (v.iter().copied().fold(f64::MAX, f64::min), v.iter().copied().fold(f64::MIN, f64::max));
     let ((x0, x1), (y0, y1)) = (span(&xs), span(&ys));
     let (cx, cy, rad) = ((x0 + x1) / 2.0, (y0 + y1) / 2.0, (x1 - x0) / 2.0);
@@ -336,7 +348,7 @@ fn planes_are_drawn_as_great_circles_with_the_combined_mean() {
         })
     };
     let mut cone = 0;
-    for (stroke, width, _, pts) in lines.iter().filter(|l| l.0 == colour) {
+    for Polyline { stroke, width, points: pts } in lines.iter().filter(|l| l.stroke == colour) {
         if on_cone(pts) {
             cone += 1;
             continue;
