@@ -281,3 +281,117 @@ fn a_declination_just_below_360_is_never_printed_as_360() {
     let csv = String::from_utf8(out.stdout).unwrap();
     assert!(csv.contains("\nA,1,359.97,30,"), "{csv}");
 }
+
+/// One polyline of an SVG written by the figures.
+struct Polyline {
+    /// Stroke colour, upper-case hex.
+    stroke: String,
+    /// Stroke width as written.
+    width: String,
+    points: Vec<(f64, f64)>,
+}
+
+/// The polylines of an SVG written by the figures.
+fn polylines(svg: &str) -> Vec<Polyline> {
+    let attr = |tag: &str, name: &str| {
+        let key = format!(" {name}=\"");
+        tag.find(&key).map(|i| tag[i + key.len()..].split('"').next().unwrap_or("").to_string()).unwrap_or_default()
+    };
+    svg.split("<polyline")
+        .skip(1)
+        .map(|rest| {
+            let tag = rest.split("/>").next().unwrap();
+            let pts = attr(tag, "points")
+                .split_whitespace()
+                .map(|p| {
+                    let (x, y) = p.split_once(',').unwrap();
+                    (x.parse().unwrap(), y.parse().unwrap())
+                })
+                .collect();
+            Polyline { stroke: attr(tag, "stroke").to_uppercase(), width: attr(tag, "stroke-width"), points: pts }
+        })
+        .collect()
+}
+
+#[test]
+fn planes_are_drawn_as_great_circles_with_the_combined_mean() {
+    use lodestone::figures::unproject;
+    use lodestone::sphere::Direction;
+    // Invented site: three lines and two planes (poles given as dec, inc with kind = plane).
+    let d = tempfile::tempdir().unwrap();
+    let body = "site,dec,inc,kind\nQ,350,52,line\nQ,8,47,line\nQ,2,60,line\nQ,100,20,plane\nQ,250,10,plane\n";
+    let f = write(&d, "q.csv", body);
+    let svg_path = d.path().join("q.svg");
+    let out = cmd()
+        .args(["mean", f.to_str().unwrap(), "--plot", svg_path.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let g = &v["groups"][0];
+    let mean = Direction { dec: g["dec"].as_f64().unwrap(), inc: g["inc"].as_f64().unwrap() };
+    let svg = fs::read_to_string(&svg_path).unwrap();
+    let lines = polylines(&svg);
+    // The net's primitive circle (ink #222831, 2 px, 361 points) gives the centre and radius in pixels.
+    let rim = lines
+        .iter()
+        .find(|l| l.stroke == "#222831" && l.width == "2" && l.points.len() == 361)
+        .expect("primitive circle");
+    let (xs, ys): (Vec<f64>, Vec<f64>) = rim.points.iter().copied().unzip();
+    let span = |v: &[f64]| (v.iter().copied().fold(f64::MAX, f64::min), v.iter().copied().fold(f64::MIN, f64::max));
+    let ((x0, x1), (y0, y1)) = (span(&xs), span(&ys));
+    let (cx, cy, rad) = ((x0 + x1) / 2.0, (y0 + y1) / 2.0, (x1 - x0) / 2.0);
+    // Pixel → unit net; points rounded just outside the rim are put back on it.
+    let net = |(px, py): (f64, f64)| {
+        let (x, y) = ((px - cx) / rad, (cy - py) / rad);
+        let r = x.hypot(y).max(1.0);
+        (x / r, y / r)
+    };
+    let poles = [Direction { dec: 100.0, inc: 20.0 }, Direction { dec: 250.0, inc: 10.0 }];
+    // Which pole's circle (if any) a polyline follows: every vertex, unprojected on the given hemisphere,
+    // 90° from the pole within 1.5° (pixel rounding: ≤ 0.5° on this net).
+    let on_circle = |pts: &[(f64, f64)], lower: bool| {
+        poles.iter().position(|p| {
+            pts.iter().all(|q| unproject(net(*q), lower).is_some_and(|d| (d.angle_to(*p) - 90.0).abs() < 1.5))
+        })
+    };
+    let colour = "#006D77"; // the first series colour of the figures' theme
+    let mut solid = [0; 2];
+    let mut dashed = [0; 2];
+    let a95 = g["a95"].as_f64().unwrap();
+    let on_cone = |pts: &[(f64, f64)]| {
+        [true, false].iter().any(|&lower| {
+            pts.iter().all(|q| unproject(net(*q), lower).is_some_and(|d| (d.angle_to(mean) - a95).abs() < 1.5))
+        })
+    };
+    let mut cone = 0;
+    for Polyline { stroke, width, points: pts } in lines.iter().filter(|l| l.stroke == colour) {
+        if on_cone(pts) {
+            cone += 1;
+            continue;
+        }
+        match (width.as_str(), on_circle(pts, width == "2")) {
+            ("2", Some(i)) if pts.len() > 50 => solid[i] += 1,
+            ("1", Some(i)) if pts.len() < 10 => dashed[i] += 1,
+            other => panic!("unexpected {stroke} polyline {other:?} with {} points", pts.len()),
+        }
+    }
+    assert_eq!(cone, 1, "the α95 cone of the combined mean, all on the lower hemisphere");
+    assert_eq!(solid, [1, 1], "one solid lower half per plane");
+    // The upper halves of these steep planes are about two radii long on the net (about 550 px: some
+    // 45 dashes of 7 px with 5 px gaps).
+    assert!(dashed.iter().all(|&n| n > 30), "dashes per plane: {dashed:?}");
+    // The combined mean (from the JSON output) is marked by the square, 12 px wide, centred on its projection.
+    let (mx, my) = lodestone::figures::project(mean);
+    let (px, py) = ((cx + mx * rad).round(), (cy - my * rad).round());
+    let square = format!("<rect x=\"{}\" y=\"{}\" width=\"12\" height=\"12\"", px - 6.0, py - 6.0);
+    assert!(svg.contains(&square), "no mean square {square}");
+    // Plane poles are no longer drawn as points: no marker at either pole's projection.
+    for p in poles {
+        let (x, y) = lodestone::figures::project(p);
+        let at = format!("<circle cx=\"{}\" cy=\"{}\"", (cx + x * rad).round(), (cy - y * rad).round());
+        assert!(!svg.contains(&at), "a marker at the pole {p:?}");
+    }
+    assert!(svg.contains("great circle, upper half") && svg.contains("(3 lines, 2 circles)"));
+    assert!(svg.contains("mean of lines and circles"));
+}

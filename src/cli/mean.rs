@@ -9,10 +9,11 @@ use super::{jnum, Cell, Ctx, Output, Section, StreamedReport};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
+use lodestone::sphere::Direction;
 use lodestone::stats::{
     group_means, stream_group_sums, CircleSense, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums,
 };
-use lodestone::table::{read_directions, GroupBy, Table, TableStream};
+use lodestone::table::{read_directions, DirectionKind, DirectionRecord, DirectionSet, GroupBy, Table, TableStream};
 use serde::ser::{Error as _, SerializeSeq, Serializer};
 use serde::Serialize;
 use serde_json::Value;
@@ -92,25 +93,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
                         frame.label()
                     ),
                     cone_label: "α95".into(),
-                    groups: means
-                        .iter()
-                        .map(|g| NetGroup {
-                            label: g.group.clone().unwrap_or_else(|| "all".into()),
-                            points: g
-                                .lines
-                                .iter()
-                                .filter_map(|l| set.records.iter().find(|r| r.line == *l))
-                                .map(|r| match frame {
-                                    Frame::Geo => r.direction,
-                                    Frame::Tilt => lodestone::sphere::Direction::from_vector(
-                                        r.bedding.expect("checked").untilt(r.direction.to_vector()),
-                                    )
-                                    .expect("unit"),
-                                })
-                                .collect(),
-                            mean: g.stats.mean.map(|m| (m, g.stats.alpha)),
-                        })
-                        .collect(),
+                    groups: means.iter().map(|g| net_group(g, &set, frame)).collect(),
                 };
                 match &ellipses {
                     Some(e) => super::write_figure(&super::mean_ellipse::with_ellipses(fig, e), path, &ctx.inputs)?,
@@ -141,6 +124,26 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
         groups,
         ellipses,
     })))
+}
+
+/// A group on the net: its lines as points, its planes as great circles (by their poles), and the mean
+/// of both together, all in the chosen frame.
+fn net_group(g: &GroupMean, set: &DirectionSet, frame: Frame) -> NetGroup {
+    let in_frame = |r: &DirectionRecord| match frame {
+        Frame::Geo => r.direction,
+        Frame::Tilt => {
+            Direction::from_vector(r.bedding.expect("checked").untilt(r.direction.to_vector())).expect("unit")
+        }
+    };
+    let records: Vec<&DirectionRecord> =
+        g.lines.iter().filter_map(|l| set.records.iter().find(|r| r.line == *l)).collect();
+    let of_kind = |k: DirectionKind| records.iter().filter(|r| r.kind == k).map(|r| in_frame(r)).collect();
+    NetGroup {
+        label: g.group.clone().unwrap_or_else(|| "all".into()),
+        points: of_kind(DirectionKind::Line),
+        circles: of_kind(DirectionKind::Plane),
+        mean: g.stats.mean.map(|m| (m, g.stats.alpha)),
+    }
 }
 
 /// The groups of a run: compact streamed sums, or the whole-table means (figure, great circles).

@@ -1,5 +1,6 @@
 //! Equal-area (Lambert azimuthal) projection of directions, lower hemisphere view from above.
 
+use super::great_circle::{dashes, great_circle_halves, project_all};
 use super::render::{de, Figure};
 use super::theme;
 use crate::sphere::{Direction, Vec3};
@@ -45,7 +46,10 @@ pub struct NetGroup {
     pub label: String,
     /// The directions.
     pub points: Vec<Direction>,
-    /// The mean direction and its cone half-angle (degrees), if any.
+    /// Poles of great circles (planes), each drawn as its circle: lower half solid, upper half dashed.
+    pub circles: Vec<Direction>,
+    /// The mean direction (of lines and circles together, when there are circles) and its cone
+    /// half-angle (degrees), if any.
     pub mean: Option<(Direction, Option<f64>)>,
 }
 
@@ -123,6 +127,24 @@ impl NetCoords {
         }
         Ok(())
     }
+    /// Draw the great circle of pole `pole`: its lower-hemisphere half solid, its upper half dashed
+    /// (thinner and lighter), split at the horizon ([`great_circle_halves`]).
+    pub fn great_circle<DB: DrawingBackend>(
+        &self,
+        area: &DrawingArea<DB, Shift>,
+        pole: Direction,
+        color: RGBColor,
+    ) -> Result<(), String> {
+        let h = great_circle_halves(pole, 90);
+        let solid: Vec<(i32, i32)> = project_all(&h.lower).into_iter().map(|p| self.px(p)).collect();
+        area.draw(&PathElement::new(solid, color.stroke_width(2))).map_err(de)?;
+        // Dashes of 7 px with gaps of 5 px, measured on the net.
+        for dash in dashes(&project_all(&h.upper), 7.0 / self.rad, 5.0 / self.rad) {
+            let pts: Vec<(i32, i32)> = dash.into_iter().map(|p| self.px(p)).collect();
+            area.draw(&PathElement::new(pts, color.mix(0.8).stroke_width(1))).map_err(de)?;
+        }
+        Ok(())
+    }
     /// Draw a path of directions (a small or great circle): solid on the lower hemisphere, thin on the upper.
     pub fn curve<DB: DrawingBackend>(
         &self,
@@ -165,6 +187,9 @@ impl Figure for EqualAreaPlot {
         let nc = draw_net(&net_area)?;
         for (gi, g) in self.groups.iter().enumerate() {
             let color = theme::series(gi);
+            for pole in &g.circles {
+                nc.great_circle(&net_area, *pole, color)?;
+            }
             for d in &g.points {
                 nc.marker(&net_area, *d, color, 4)?;
             }
@@ -188,9 +213,11 @@ impl Figure for EqualAreaPlot {
             right.draw(&Circle::new((14, y + 7), 5, theme::series(gi).filled())).map_err(de)?;
             let cone =
                 g.mean.and_then(|m| m.1).map(|a| format!(" ({} {:.1}°)", self.cone_label, a)).unwrap_or_default();
-            right
-                .draw(&Text::new(format!("{} n={}{}", g.label, g.points.len(), cone), (26, y), font.clone()))
-                .map_err(de)?;
+            let n = match g.circles.len() {
+                0 => format!("n={}", g.points.len()),
+                c => format!("n={} ({} lines, {} circles)", g.points.len() + c, g.points.len(), c),
+            };
+            right.draw(&Text::new(format!("{} {}{}", g.label, n, cone), (26, y), font.clone())).map_err(de)?;
             y += 20;
         }
         if self.groups.len() > shown {
@@ -208,10 +235,25 @@ impl Figure for EqualAreaPlot {
         right.draw(&Text::new("open: upper hemisphere (up)", (26, y), small.clone())).map_err(de)?;
         y += 18;
         right.draw(&Rectangle::new([(9, y + 1), (19, y + 11)], theme::INK.stroke_width(1))).map_err(de)?;
+        let circles = self.groups.iter().any(|g| !g.circles.is_empty());
         right
             .draw(&Text::new(format!("square: mean, ring: {}", self.cone_label), (26, y), small.clone()))
             .map_err(de)?;
         y += 18;
+        if circles {
+            right.draw(&Text::new("(mean of lines and circles)", (26, y), small.clone())).map_err(de)?;
+            y += 18;
+            right.draw(&PathElement::new(vec![(6, y + 6), (22, y + 6)], theme::INK.stroke_width(2))).map_err(de)?;
+            right.draw(&Text::new("great circle, lower half", (26, y), small.clone())).map_err(de)?;
+            y += 18;
+            for x in [6, 15] {
+                right
+                    .draw(&PathElement::new(vec![(x, y + 6), (x + 5, y + 6)], theme::INK.stroke_width(1)))
+                    .map_err(de)?;
+            }
+            right.draw(&Text::new("great circle, upper half", (26, y), small.clone())).map_err(de)?;
+            y += 18;
+        }
         right.draw(&Text::new("equal-area projection", (26, y), small)).map_err(de)?;
         Ok(())
     }

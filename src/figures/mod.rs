@@ -8,6 +8,7 @@ mod equal_area;
 mod field_map;
 mod field_series;
 mod fold;
+mod great_circle;
 mod hazard;
 mod intervals;
 mod latitude;
@@ -25,6 +26,7 @@ pub use equal_area::{draw_net, project, small_circle, EqualAreaPlot, NetCoords, 
 pub use field_map::IntensityMap;
 pub use field_series::FieldSeriesFigure;
 pub use fold::FoldPlot;
+pub use great_circle::{dashes, great_circle_halves, project_all, unproject, CircleHalves};
 pub use hazard::HazardFigure;
 pub use intervals::{Curve, IntervalFigure};
 pub use latitude::{LatitudeFigure, LatitudePoint};

@@ -2,7 +2,7 @@
 //! remanence vector on shared axes) beside an equal-area plot of the step directions and the
 //! moment's decay.
 
-use super::equal_area::{draw_net, project, small_circle};
+use super::equal_area::{draw_net, project};
 use super::render::{de, Figure};
 use super::theme;
 use crate::demag::{Anchor, FitKind, SpecimenFit};
@@ -198,7 +198,7 @@ impl Figure for VectorEndpointPlot {
         }
         for f in &self.fits {
             match f.kind {
-                FitKind::Plane => nc.curve(&right, &small_circle(f.direction, 90.0, 360), FIT)?,
+                FitKind::Plane => nc.great_circle(&right, f.direction, FIT)?,
                 FitKind::Line => {
                     let p = nc.px(project(f.direction));
                     let diamond = vec![(p.0, p.1 - 8), (p.0 + 8, p.1), (p.0, p.1 + 8), (p.0 - 8, p.1), (p.0, p.1 - 8)];

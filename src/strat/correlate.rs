@@ -33,7 +33,7 @@
 //! The search is exact: none of the following changes a result, tie order included.
 //! - Everything about a run that does not depend on r (logarithms of its thickness and duration
 //!   intervals, its missing chrons, its ignored zones, which gap pairs a run can join) is computed once
-//!   per problem (`RunTables`; n × n entries for n chrons).
+//!   per problem (`RunTables`: only the chron pairs a run can use, about n²/4 per table for n chrons).
 //! - Branch and bound inside each pass: a run costs at least `P_miss` · missing + `P_skip` · ignored,
 //!   and the number of missing chrons only grows as a run reaches further back, so a walk over earlier
 //!   nodes stops as soon as that floor (plus the least cost that could precede it) exceeds the worst

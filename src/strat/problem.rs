@@ -3,12 +3,14 @@
 //! module `strat::correlate`.
 
 pub(super) mod kbest;
+mod pairs;
 
 use super::correlate_options::{CorrelateOptions, DatedLevel, Reading};
 use super::polarity::ZonePolarity;
 use super::zones::ZoneColumn;
 use crate::table::{Polarity, TimeScale};
 use crate::{Error, Result};
+use pairs::{PairTable, Ranks};
 
 /// A polarity boundary of the column, possibly spread over intermediate zones (internal, up coordinates).
 #[derive(Debug, Clone, Copy)]
@@ -57,15 +59,14 @@ impl LnSpan {
     }
 }
 
-/// Chron side of a run: durations for both readings and the missing chrons.
+/// Chron side of a run: ln of its durations for both readings of its missing chrons (the missing chrons
+/// themselves come from prefix sums, [`Problem::missing`]).
 #[derive(Debug, Clone, Copy, Default)]
 struct ChronRun {
     /// Durations with the missing chrons (unsampled reading).
     u: LnSpan,
     /// Durations without them (hiatus reading).
     h: LnSpan,
-    missing: usize,
-    mdur: f64,
 }
 
 /// Column side of a run: polarity, ignored zones and ln of the thickness interval.
@@ -79,16 +80,18 @@ struct GapRun {
 
 /// Everything about a run that does not depend on the rate, computed once per problem instead of once
 /// per (pair of nodes, rate): the search evaluates each run at every rate of the grid, so these values
-/// (logarithms, prefix-sum lookups, scans for ignored zones) were the bulk of the work. Chron tables are
-/// n × n for n chrons (48 bytes an entry: about 4 MB per table for 300 chrons).
+/// (logarithms, prefix-sum lookups, scans for ignored zones) were the bulk of the work. The chron tables
+/// hold only the pairs a run can use ([`pairs`]): about n²/4 entries each for n alternating chrons, 32 bytes
+/// an entry (8 MB per table for 1 000 chrons).
 struct RunTables {
-    n: usize,
-    /// Interior run from chron boundary j1 to j2 (chrons j1 + 1..=j2), at [j2·n + j1].
-    inter: Vec<ChronRun>,
-    /// Top run over chrons s..=j, at [j·n + s].
-    top: Vec<ChronRun>,
-    /// Bottom run over chrons j + 1..=e, at [j·n + e].
-    bottom: Vec<ChronRun>,
+    /// Rank of each chron among those of its polarity (the index into the chron tables).
+    ranks: Ranks,
+    /// Interior run from chron boundary j1 to j2 (chrons j1 + 1..=j2): row j2, key j1 + 1.
+    inter: PairTable,
+    /// Top run over chrons s..=j: row j, key s.
+    top: PairTable,
+    /// Bottom run over chrons j + 1..=e: row j, key e.
+    bottom: PairTable,
     /// Interior run between gaps g1 and g2, at [g1·n_gaps + g2]; None if no run can join them.
     gap_inter: Vec<Option<GapRun>>,
     /// Top run down to gap g.
@@ -182,10 +185,10 @@ impl<'a> Problem<'a> {
         }
         let anchors_up = opts.anchors.iter().map(|a| (col.up(a.position), *a)).collect();
         let empty = RunTables {
-            n: 0,
-            inter: vec![],
-            top: vec![],
-            bottom: vec![],
+            ranks: Ranks::new(&[]),
+            inter: PairTable::empty(),
+            top: PairTable::empty(),
+            bottom: PairTable::empty(),
             gap_inter: vec![],
             gap_top: vec![],
             gap_bottom: vec![],
@@ -213,39 +216,51 @@ impl<'a> Problem<'a> {
     fn run_tables(&self) -> RunTables {
         let ch = &self.ts.chrons;
         let n = ch.len();
-        let mut inter = vec![ChronRun::default(); n * n];
-        let mut top = vec![ChronRun::default(); n * n];
-        let mut bottom = vec![ChronRun::default(); n * n];
-        for j2 in 0..n {
-            for j1 in 0..j2 {
-                let (missing, mdur) = self.missing(j1 + 1, j2, ch[j2].polarity);
+        let cpol = &self.cpol;
+        let ranks = Ranks::new(cpol);
+        // Interior: row j2, key k = j1 + 1 in 1..=j2 of the polarity of chron j2.
+        let inter = PairTable::build(
+            &ranks,
+            cpol,
+            n,
+            |j2| (1, j2 + 1),
+            |j2| Some(cpol[j2]),
+            |j2, k| {
+                let j1 = k - 1;
+                let (_, mdur) = self.missing(j1 + 1, j2, ch[j2].polarity);
                 let d_incl = ch[j2].old - ch[j1].old;
                 let (du, dh) = (d_incl, d_incl - mdur);
-                inter[j2 * n + j1] = ChronRun { u: LnSpan::new(du, du), h: LnSpan::new(dh, dh), missing, mdur };
-            }
-        }
-        for j in 0..n {
-            for s in 0..=j {
-                let (missing, mdur) = self.missing(s, j, ch[j].polarity);
-                let (dmin, dmax) = (ch[j].old - ch[s].old, ch[j].old - ch[s].young);
-                top[j * n + s] = ChronRun {
-                    u: LnSpan::new(dmin, dmax),
-                    h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur),
-                    missing,
-                    mdur,
-                };
-            }
-            for e in j + 1..n {
-                let (missing, mdur) = self.missing(j + 1, e, ch[e].polarity);
-                let (dmin, dmax) = (ch[e].young - ch[j].old, ch[e].old - ch[j].old);
-                bottom[j * n + e] = ChronRun {
-                    u: LnSpan::new(dmin, dmax),
-                    h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur),
-                    missing,
-                    mdur,
-                };
-            }
-        }
+                ChronRun { u: LnSpan::new(du, du), h: LnSpan::new(dh, dh) }
+            },
+        );
+        let spans = |dmin: f64, dmax: f64, mdur: f64| ChronRun {
+            u: LnSpan::new(dmin, dmax),
+            h: LnSpan::new((dmin - mdur).max(0.0), dmax - mdur),
+        };
+        // Top: row j, key s in 0..=j of the polarity of chron j.
+        let top = PairTable::build(
+            &ranks,
+            cpol,
+            n,
+            |j| (0, j + 1),
+            |j| Some(cpol[j]),
+            |j, s| {
+                let (_, mdur) = self.missing(s, j, ch[j].polarity);
+                spans(ch[j].old - ch[s].old, ch[j].old - ch[s].young, mdur)
+            },
+        );
+        // Bottom: row j, key e in j + 1..n of the polarity of chron j + 1.
+        let bottom = PairTable::build(
+            &ranks,
+            cpol,
+            n,
+            |j| (j + 1, n),
+            |j| cpol.get(j + 1).copied(),
+            |j, e| {
+                let (_, mdur) = self.missing(j + 1, e, ch[e].polarity);
+                spans(ch[e].young - ch[j].old, ch[e].old - ch[j].old, mdur)
+            },
+        );
         let ng = self.gaps.len();
         let mut gap_inter = vec![None; ng * ng];
         for (g1, a) in self.gaps.iter().enumerate() {
@@ -277,7 +292,7 @@ impl<'a> Problem<'a> {
             .iter()
             .map(|gp| edge_run(gp.c, gp.c, last, LnSpan::new((gp.lo - self.u_bottom).max(0.0), gp.hi - self.u_bottom)))
             .collect();
-        RunTables { n, inter, top, bottom, gap_inter, gap_top, gap_bottom }
+        RunTables { ranks, inter, top, bottom, gap_inter, gap_top, gap_bottom }
     }
 
     #[inline]
@@ -286,7 +301,7 @@ impl<'a> Problem<'a> {
     }
 
     /// Chrons in s..=e not of polarity `p`: (count, total duration).
-    fn missing(&self, s: usize, e: usize, p: Polarity) -> (usize, f64) {
+    pub(super) fn missing(&self, s: usize, e: usize, p: Polarity) -> (usize, f64) {
         let o = pidx(p.flip());
         let (n1, d1) = self.pre[o][e + 1];
         let (n0, d0) = self.pre[o][s];
@@ -359,7 +374,7 @@ impl<'a> Problem<'a> {
         {
             return None;
         }
-        Some(self.run_cost(gr, &self.tab.inter[j2 * self.tab.n + j1], ln_r, r))
+        Some(self.run_cost(gr, self.tab.inter.get(&self.tab.ranks, j2, j1 + 1), j1 + 1, j2, ln_r, r))
     }
 
     /// Top run: section top down to gap g tied at j, starting in chron s.
@@ -377,7 +392,7 @@ impl<'a> Problem<'a> {
         if !self.anchors_up.is_empty() && !self.anchors_ok(f64::INFINITY, self.gaps[g].mid(), ch[s].young, ch[j].old) {
             return None;
         }
-        Some(self.run_cost(gr, &self.tab.top[j * self.tab.n + s], ln_r, r))
+        Some(self.run_cost(gr, self.tab.top.get(&self.tab.ranks, j, s), s, j, ln_r, r))
     }
 
     /// Bottom run: gap g tied at j down to the section bottom, ending in chron e.
@@ -396,16 +411,18 @@ impl<'a> Problem<'a> {
         {
             return None;
         }
-        Some(self.run_cost(gr, &self.tab.bottom[j * self.tab.n + e], ln_r, r))
+        Some(self.run_cost(gr, self.tab.bottom.get(&self.tab.ranks, j, e), j + 1, e, ln_r, r))
     }
 
-    /// Cost of a run from its column side and chron side (the hiatus term is only needed, and only
-    /// computed, when chrons are missing: [`Problem::choose`] ignores it otherwise).
+    /// Cost of a run over chrons s..=e from its column side and chron side (the hiatus term is only
+    /// needed, and only computed, when chrons are missing: [`Problem::choose`] ignores it otherwise).
+    #[allow(clippy::too_many_arguments)]
     #[inline]
-    fn run_cost(&self, gr: &GapRun, cr: &ChronRun, ln_r: f64, r: f64) -> RunCost {
+    fn run_cost(&self, gr: &GapRun, cr: &ChronRun, s: usize, e: usize, ln_r: f64, r: f64) -> RunCost {
+        let (missing, mdur) = self.missing(s, e, gr.cp);
         let u = self.interval_term(gr.t, cr.u, ln_r);
-        let h = if cr.missing == 0 { u } else { self.interval_term(gr.t, cr.h, ln_r) };
-        self.choose(u, h, cr.missing, cr.mdur, gr.skipped, r)
+        let h = if missing == 0 { u } else { self.interval_term(gr.t, cr.h, ln_r) };
+        self.choose(u, h, missing, mdur, gr.skipped, r)
     }
 
     /// Pick the better reading of a run's missing chrons (rate term with them / without them); r = exp(ln r).

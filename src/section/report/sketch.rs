@@ -7,7 +7,7 @@
 //! [`crate::figures::project`]); only the drawing is lighter (no text but the axis letters).
 
 use crate::demag::{FitKind, SpecimenFit};
-use crate::figures::{endpoint_projections, project};
+use crate::figures::{endpoint_projections, great_circle_halves, project};
 use crate::sphere::Direction;
 use crate::table::SpecimenSteps;
 use std::fmt::Write as _;
@@ -136,9 +136,20 @@ fn net_panel(s: &mut String, sp: &SpecimenSteps, fits: &[SpecimenFit]) {
     markers(s, &down.iter().map(|x| *x.1).collect::<Vec<_>>(), "#222", false);
     markers(s, &up.iter().map(|x| *x.1).collect::<Vec<_>>(), "#222", true);
     for fit in fits {
+        if fit.kind == FitKind::Plane {
+            // The plane's great circle: lower half solid, upper half dashed (as on the full-size nets).
+            let h = great_circle_halves(fit.direction, 36);
+            let on_page = |v: &[Direction]| v.iter().map(|d| page(*d)).collect::<Vec<_>>();
+            let _ = write!(s, "<path d=\"{}\" stroke=\"{FIT}\" stroke-width=\"1.3\"/>", line(&on_page(&h.lower)));
+            if h.upper.len() > 1 {
+                let d = line(&on_page(&h.upper));
+                let _ = write!(s, "<path d=\"{d}\" stroke=\"{FIT}\" stroke-width=\".8\" stroke-dasharray=\"3 2\"/>");
+            }
+            continue;
+        }
         let (x, y) = page(fit.direction);
         let fill = if fit.direction.inc >= 0.0 { FIT } else { "#fff" };
-        let shape = if fit.kind == FitKind::Line { "M0-4.5L4.5 0L0 4.5L-4.5 0Z" } else { "M-3.5-3.5h7v7h-7Z" };
+        let shape = "M0-4.5L4.5 0L0 4.5L-4.5 0Z";
         let _ = write!(
             s,
             "<path transform=\"translate({} {})\" d=\"{shape}\" fill=\"{fill}\" stroke=\"{FIT}\" stroke-width=\"1.3\"/>",
@@ -221,5 +232,23 @@ mod tests {
         assert!(svg.matches("stroke=\"#fff\"").count() >= 2);
         assert!(svg.contains(FIT));
         assert!(svg.len() < 4000, "{}", svg.len());
+    }
+
+    #[test]
+    fn a_plane_fit_is_drawn_as_its_great_circle() {
+        // Three steps (step, dec, inc, moment) in the vertical north–south plane: its pole is horizontal
+        // east–west, so its circle is the north–south diameter of the net (x = 165, the net's centre).
+        let sp = specimen(&[(0.0, 0.0, 10.0, 5.0), (50.0, 0.0, 60.0, 3.0), (100.0, 180.0, 70.0, 1.0)]);
+        let fit = crate::demag::fit_range(&sp, 0.0, 100.0, FitKind::Plane, crate::demag::Anchor::Free).unwrap();
+        let svg = specimen_svg(&sp, &[fit], "X1");
+        let dashed = svg.split("<path").find(|p| p.contains("stroke-dasharray")).expect("dashed upper half");
+        let solid = svg.split("<path").find(|p| p.contains(FIT) && !p.contains("dasharray") && p.contains("L"));
+        for path in [dashed, solid.expect("solid lower half")] {
+            let d = path.split("d=\"").nth(1).unwrap().split('"').next().unwrap();
+            for xy in d.split(['M', 'L']).filter(|t| !t.is_empty()) {
+                let x: f64 = xy.split(' ').next().unwrap().parse().unwrap();
+                assert!((x - 1.5 * PANEL).abs() <= 0.1, "{x} in {d}");
+            }
+        }
     }
 }

@@ -212,7 +212,7 @@ fn net_figures(inp: &Inputs, used: &[UsedSite], stage: &mut Stage, log: &mut Run
             } else {
                 None
             };
-            groups.push(NetGroup { label: name.into(), points: pts, mean });
+            groups.push(NetGroup { label: name.into(), points: pts, circles: vec![], mean });
         }
         if groups.is_empty() {
             continue;

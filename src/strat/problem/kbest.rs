@@ -117,7 +117,7 @@ pub(crate) fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
             let sk = pb.opts.skip_penalty * gt.skipped as f64;
             for s in (0..=j).rev() {
                 if list.len() == k {
-                    let floor = pb.opts.miss_penalty * pb.tab.top[j * n + s].missing as f64 + sk;
+                    let floor = pb.opts.miss_penalty * pb.missing(s, j, pb.chron_pol(j)).0 as f64 + sk;
                     if floor > list[k - 1].0 {
                         break;
                     }
@@ -142,7 +142,7 @@ pub(crate) fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
                     continue;
                 }
                 if list.len() == k {
-                    let floor = pb.opts.miss_penalty * pb.tab.inter[j * n + j1].missing as f64 + sk;
+                    let floor = pb.opts.miss_penalty * pb.missing(j1 + 1, j, pb.chron_pol(j)).0 as f64 + sk;
                     if pmin[i1] + floor > list[k - 1].0 {
                         break;
                     }
@@ -177,7 +177,7 @@ pub(crate) fn kbest(pb: &Problem, ln_r: f64, k: usize) -> Vec<Path> {
         let sk = pb.opts.skip_penalty * gb.skipped as f64;
         for e in j + 1..n {
             if ends.len() == k {
-                let floor = pb.opts.miss_penalty * pb.tab.bottom[j * n + e].missing as f64 + sk;
+                let floor = pb.opts.miss_penalty * pb.missing(j + 1, e, pb.chron_pol(e)).0 as f64 + sk;
                 if best[i][0].0 + floor >= ends[k - 1].0 {
                     break;
                 }
