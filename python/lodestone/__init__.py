@@ -33,6 +33,7 @@ from ._native import LodestoneError
 from ._column import column_figure, correlate, polarity_column
 from ._poles import paleopole
 from ._rates import reversal_rate, simulate_timescale
+from ._shallowing import unflatten
 from ._results import (
     FIELD_CAUTION,
     Correlation,
@@ -42,6 +43,7 @@ from ._results import (
     Paleopole,
     PolarityColumn,
     ReversalTest,
+    Unflattening,
     VGP,
 )
 
@@ -58,6 +60,7 @@ __all__ = [
     "Paleopole",
     "PolarityColumn",
     "Correlation",
+    "Unflattening",
     "fisher_mean",
     "group_means",
     "vgp",
@@ -75,6 +78,7 @@ __all__ = [
     "column_figure",
     "reversal_rate",
     "simulate_timescale",
+    "unflatten",
 ]
 
 from ._tables import ArrayLike, TableLike, _array, _source

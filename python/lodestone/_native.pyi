@@ -63,3 +63,7 @@ def simulate_timescale(
     model: str, span: float, mean_interval: float = 0.25, shape: Optional[float] = None, young: float = 0.0,
     first_polarity: str = "N", name_prefix: Optional[str] = None, seed: int = 1,
 ) -> Dict[str, Any]: ...
+def unflatten(
+    table: Source, factor: Optional[float] = None, frame: str = "tilt", seed: int = 1, resamples: int = 1000,
+    threads: Optional[int] = None,
+) -> Dict[str, Any]: ...

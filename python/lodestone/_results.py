@@ -270,3 +270,46 @@ class Correlation(_Result):
     details: Any
     zones: Any
     caution: str = CORRELATION_CAUTION
+
+
+#: The caution that goes with an inclination-shallowing correction.
+SHALLOWING_CAUTION = (
+    "The correction rests on a model: that the scatter of the directions is that of the TK03 field "
+    "model (or, with a given factor, that the factor applies to every direction). It is a statistical "
+    "estimate, not a measurement of compaction; local practice and the published literature decide."
+)
+
+
+@dataclasses.dataclass(frozen=True)
+class Unflattening(_Result):
+    """Inclination-shallowing correction (as ``unflatten`` gives it).
+
+    ``method``: ``"elongation_inclination"`` (the search, with bootstrap intervals ``f_low``,
+    ``f_high``, ``inc_low``, ``inc_high``) or ``"factor"`` (a given ``f``; ``inc_low``/``inc_high``
+    are the corrected mean inclination ∓ the corrected α95). ``f`` is the flattening factor
+    (tan I_f = f tan I₀; 1 = no shallowing; None when the data's path never meets the model curve);
+    inclinations in degrees; ``elongation`` τ₂/τ₃ of the observed directions. ``no_bedding`` is True
+    when the tilt-corrected frame was asked for but the table has no bedding (directions as given).
+    """
+
+    method: str
+    n: int
+    f: Optional[float]
+    inc_observed: Optional[float]
+    inc_corrected: Optional[float]
+    inc_low: Optional[float]
+    inc_high: Optional[float]
+    elongation: Optional[float]
+    no_bedding: bool
+    f_low: Optional[float] = None
+    f_high: Optional[float] = None
+    elongation_dec: Optional[float] = None
+    meridional: Optional[bool] = None
+    no_crossing: Optional[int] = None
+    dec_observed: Optional[float] = None
+    dec_corrected: Optional[float] = None
+    a95_observed: Optional[float] = None
+    a95_corrected: Optional[float] = None
+    seed: Optional[int] = None
+    resamples: Optional[int] = None
+    caution: str = SHALLOWING_CAUTION

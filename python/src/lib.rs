@@ -12,6 +12,7 @@ mod fieldtests;
 mod poles;
 mod reversals;
 mod section;
+mod shallowing;
 mod simulate;
 mod strat;
 
@@ -149,5 +150,6 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(strat::column_figure, m)?)?;
     m.add_function(wrap_pyfunction!(reversals::reversal_rate, m)?)?;
     m.add_function(wrap_pyfunction!(simulate::simulate_timescale, m)?)?;
+    m.add_function(wrap_pyfunction!(shallowing::unflatten, m)?)?;
     Ok(())
 }

@@ -7,6 +7,7 @@ mod elongation;
 mod kent;
 mod legendre;
 mod psv_model;
+mod shallowing;
 mod tk03;
 mod unflatten;
 
@@ -18,6 +19,7 @@ pub use psv_model::{
     fit_latitude_model, group_paleolatitude, group_pole, latitude_model_bootstrap, LatitudeFit, LatitudeGroup,
     LatitudeModelInterval,
 };
+pub use shallowing::{shallowing_directions, unflatten_given, ShallowingInput};
 pub use tk03::{field_direction, Tk03};
 pub use unflatten::{
     apply_factor, unflatten_factor, unflatten_inclination, unflatten_search, EiCurve, FactorResult, UnflattenResult,
