@@ -32,6 +32,7 @@ from . import _native
 from ._native import LodestoneError
 from ._column import column_figure, correlate, polarity_column
 from ._poles import paleopole
+from ._psv import psv
 from ._rates import reversal_rate, simulate_timescale
 from ._shallowing import unflatten
 from ._results import (
@@ -79,6 +80,7 @@ __all__ = [
     "reversal_rate",
     "simulate_timescale",
     "unflatten",
+    "psv",
 ]
 
 from ._tables import ArrayLike, TableLike, _array, _source

@@ -67,3 +67,6 @@ def unflatten(
     table: Source, factor: Optional[float] = None, frame: str = "tilt", seed: int = 1, resamples: int = 1000,
     threads: Optional[int] = None,
 ) -> Dict[str, Any]: ...
+def psv(
+    sites: Source, by: str, cutoff: str = "none", seed: int = 1, resamples: int = 1000, threads: Optional[int] = None
+) -> Dict[str, Any]: ...

@@ -10,6 +10,7 @@ mod directions;
 mod field;
 mod fieldtests;
 mod poles;
+mod psv;
 mod reversals;
 mod section;
 mod shallowing;
@@ -151,5 +152,6 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(reversals::reversal_rate, m)?)?;
     m.add_function(wrap_pyfunction!(simulate::simulate_timescale, m)?)?;
     m.add_function(wrap_pyfunction!(shallowing::unflatten, m)?)?;
+    m.add_function(wrap_pyfunction!(psv::psv, m)?)?;
     Ok(())
 }

@@ -6,6 +6,7 @@ mod bootstrap_ellipse;
 mod elongation;
 mod kent;
 mod legendre;
+mod psv_groups;
 mod psv_model;
 mod shallowing;
 mod tk03;
@@ -15,6 +16,7 @@ pub use bootstrap_ellipse::{bootstrap_ellipse, BootstrapKind};
 pub use elongation::{elongation_of, tk03_curve, Elongation};
 pub use kent::{chi2_2_quantile, kent_ellipse, KentEllipse};
 pub use legendre::{schmidt_legendre, SchmidtTable};
+pub use psv_groups::{psv_groups, psv_model, GroupRemark, PsvGroups, MIN_GROUP_SITES};
 pub use psv_model::{
     fit_latitude_model, group_paleolatitude, group_pole, latitude_model_bootstrap, LatitudeFit, LatitudeGroup,
     LatitudeModelInterval,
