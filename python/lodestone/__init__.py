@@ -1,9 +1,11 @@
 """lodestone: paleomagnetic reversal-record analysis, from Python.
 
 The same library as the ``lodestone`` command line, at native speed: Fisher means, virtual
-geomagnetic poles, principal-component fits, field tests, renewal-model fits to polarity intervals
-and the hazard, the whole chain on a project folder, and the present field from a spherical-harmonic
-model (the bundled IGRF-14 or a model table).
+geomagnetic poles, the paleopole and the VGP scatter, principal-component fits, field tests, the
+polarity column and its correlation with a time scale (with the column figure), renewal-model fits
+to polarity intervals, the hazard and the reversal rate, synthetic time scales, the whole chain on
+a project folder, and the present field from a spherical-harmonic model (the bundled IGRF-14 or a
+model table).
 
 Conventions (as on the command line): angles in degrees; declination clockwise from north in
 [0, 360); inclination positive down in [-90, 90]; ages in Ma, durations in Myr. Arrays are NumPy
@@ -21,14 +23,30 @@ from __future__ import annotations
 
 import os
 import pathlib
-from typing import Optional, Sequence, Tuple, Union
+from typing import Optional, Sequence, Union
 
 import numpy as np
 import pandas as pd
 
 from . import _native
 from ._native import LodestoneError
-from ._results import FIELD_CAUTION, FieldElements, FisherMean, FoldTest, ReversalTest, VGP
+from ._column import column_figure, correlate, polarity_column
+from ._poles import paleopole
+from ._psv import psv
+from ._rates import reversal_rate, simulate_timescale
+from ._shallowing import unflatten
+from ._results import (
+    FIELD_CAUTION,
+    Correlation,
+    FieldElements,
+    FisherMean,
+    FoldTest,
+    Paleopole,
+    PolarityColumn,
+    ReversalTest,
+    Unflattening,
+    VGP,
+)
 
 # Errors that do not come from a table have no file, line or column.
 LodestoneError.file = LodestoneError.line = LodestoneError.column = None
@@ -40,6 +58,10 @@ __all__ = [
     "ReversalTest",
     "FoldTest",
     "FieldElements",
+    "Paleopole",
+    "PolarityColumn",
+    "Correlation",
+    "Unflattening",
     "fisher_mean",
     "group_means",
     "vgp",
@@ -51,32 +73,20 @@ __all__ = [
     "run_section",
     "field_at",
     "field_series",
+    "paleopole",
+    "polarity_column",
+    "correlate",
+    "column_figure",
+    "reversal_rate",
+    "simulate_timescale",
+    "unflatten",
+    "psv",
 ]
 
-#: A table: a path to a CSV file, or a DataFrame with the same columns.
-TableLike = Union[str, "os.PathLike[str]", pd.DataFrame]
-ArrayLike = Union[Sequence[float], np.ndarray, float]
+from ._tables import ArrayLike, TableLike, _array, _source
 
 #: Parameter columns of the renewal tables, as in ``intervals --format csv`` (each model fills its own).
 PARAM_COLUMNS = ["rate", "shape", "scale", "mu", "sigma", "mean"]
-
-
-def _source(table: TableLike) -> Union[str, Tuple[str, bytes]]:
-    """A table for the extension: a path as text, or a DataFrame as CSV bytes with a name."""
-    if isinstance(table, pd.DataFrame):
-        return ("DataFrame", table.to_csv(index=False).encode("utf-8"))
-    if isinstance(table, (str, os.PathLike)):
-        return os.fspath(table)
-    raise TypeError(f"a table is a path or a pandas DataFrame, not {type(table).__name__}")
-
-
-def _array(x: ArrayLike, name: str) -> np.ndarray:
-    """A contiguous 1-D float64 copy of ``x`` (a scalar becomes one value)."""
-    try:
-        a = np.asarray(x, dtype=np.float64)
-    except (TypeError, ValueError) as e:
-        raise LodestoneError(f"{name}: expected numbers ({e})") from None
-    return np.ascontiguousarray(a.reshape(-1))
 
 
 def fisher_mean(dec: ArrayLike, inc: ArrayLike, confidence: float = 0.95) -> FisherMean:

@@ -6,6 +6,7 @@ import dataclasses
 from typing import Any, Dict, Optional
 
 import numpy as np
+import pandas as pd
 
 #: The caution that goes with every field test.
 FIELD_TEST_CAUTION = (
@@ -26,6 +27,12 @@ def _plain(value: Any) -> Any:
     """A value as plain Python: arrays become lists, NumPy scalars become Python numbers."""
     if isinstance(value, np.ndarray):
         return value.tolist()
+    if isinstance(value, pd.DataFrame):
+        # Records of plain values; NaN (an undefined statistic in a table) becomes None.
+        return [
+            {k: (None if isinstance(v, float) and v != v else _plain(v)) for k, v in row.items()}
+            for row in value.to_dict("records")
+        ]
     if isinstance(value, np.generic):
         return value.item()
     return value
@@ -169,3 +176,140 @@ class FieldElements(_Result):
     frame: str
     model: Dict[str, Any]
     caution: str = FIELD_CAUTION
+
+
+#: The caution that goes with the paleopole and the VGP scatter.
+POLE_CAUTION = (
+    "VGPs and the paleopole rest on a model: a geocentric axial dipole at each site, averaged over enough "
+    "time for secular variation to cancel. The scatter interval is a seeded bootstrap over these sites; it "
+    "depends on the cutoff and on how the sites were chosen, and is a statement about this sample, not "
+    "about the field itself. Local practice and the published literature decide."
+)
+
+#: The caution that goes with a correlation to the time scale.
+CORRELATION_CAUTION = (
+    "The ranking is a statistical statement about a steady-rate model, not proof of the correlation. "
+    "Independent age control (dated beds as anchors, biostratigraphy), local practice and the published "
+    "literature decide."
+)
+
+
+@dataclasses.dataclass(frozen=True)
+class Paleopole(_Result):
+    """VGPs of the sites, the paleopole and the VGP scatter S_B (as ``poles`` gives them).
+
+    ``vgps``: DataFrame with ``site, lat, lon, dec, inc, plat, plon, dp, dm, paleolat, paleolat_low,
+    paleolat_high`` (the columns of ``poles --format csv``) and ``a95``, ``kept`` (by the cutoff),
+    ``flipped`` (more than 90° from the northern end of the VGPs' principal axis). Degrees throughout.
+    ``n``, ``plat``, ``plon``, ``k``, ``a95``: the Fisher mean of the VGPs (None for a single site).
+    ``s`` (S_B, None when the within-site term exceeds the total), ``s_low``/``s_high`` (bootstrap
+    95 % interval), ``s_total``, ``within_term``, ``n_used``, ``n_removed``, ``threshold`` (the
+    cutoff angle used, None without a cutoff) and ``cutoff``: the scatter of the polarity-aligned
+    VGPs. ``caution`` says what these numbers are.
+    """
+
+    vgps: Any
+    n: Optional[int]
+    plat: Optional[float]
+    plon: Optional[float]
+    k: Optional[float]
+    a95: Optional[float]
+    s: Optional[float]
+    s_low: Optional[float]
+    s_high: Optional[float]
+    s_total: Optional[float]
+    within_term: Optional[float]
+    n_used: Optional[int]
+    n_removed: Optional[int]
+    threshold: Optional[float]
+    cutoff: str
+    northern: bool
+    seed: int
+    resamples: int
+    caution: str = POLE_CAUTION
+
+
+@dataclasses.dataclass(frozen=True)
+class PolarityColumn(_Result):
+    """Polarity per level and the magnetozones of a section (as ``column`` gives them).
+
+    ``levels``: DataFrame with ``height`` (or ``depth``), ``vgp_lat``, ``polarity`` (``N``, ``R``,
+    ``I``), ``n``, ``a95``, ``mad``, by increasing position. ``zones``: DataFrame with the columns of
+    ``column --format csv`` (``zone, polarity, n_levels, status, base, base_low, base_high, top,
+    top_low, top_high, axis``; metres), which :func:`lodestone.correlate` reads back. ``axis`` is
+    ``"height"`` or ``"depth"``; ``threshold`` the VGP latitude (degrees) of the polarity rule.
+    """
+
+    axis: str
+    levels: Any
+    zones: Any
+    threshold: float
+    min_levels: int
+    notes: Any
+
+
+@dataclasses.dataclass(frozen=True)
+class Correlation(_Result):
+    """Ranked correlations of a polarity column with a time scale (as ``correlate`` gives them).
+
+    ``candidates``: DataFrame, one row per candidate (``rank, score, mean_rate_cm_kyr, ties,
+    missing_chrons, skipped_zones, top_age, base_age``; lower score is better). ``ties``: DataFrame
+    of every candidate's tie points (the columns of ``correlate --format csv``: ``rank``, the
+    position, ``low``, ``high``, ``age``, ``chron_above``, ``chron_below``). ``age_model``: the best
+    candidate's runs (``top, base, age_young, age_old, rate`` in cm/kyr, ``reading``, ``missing``).
+    ``details``: every candidate as the library gives it (runs, chrons, age-model points).
+    ``comparison``: best against runner-up in words. ``caution`` says what the ranking is.
+    """
+
+    axis: str
+    candidates: Any
+    ties: Any
+    age_model: Any
+    comparison: str
+    n_scored: int
+    details: Any
+    zones: Any
+    caution: str = CORRELATION_CAUTION
+
+
+#: The caution that goes with an inclination-shallowing correction.
+SHALLOWING_CAUTION = (
+    "The correction rests on a model: that the scatter of the directions is that of the TK03 field "
+    "model (or, with a given factor, that the factor applies to every direction). It is a statistical "
+    "estimate, not a measurement of compaction; local practice and the published literature decide."
+)
+
+
+@dataclasses.dataclass(frozen=True)
+class Unflattening(_Result):
+    """Inclination-shallowing correction (as ``unflatten`` gives it).
+
+    ``method``: ``"elongation_inclination"`` (the search, with bootstrap intervals ``f_low``,
+    ``f_high``, ``inc_low``, ``inc_high``) or ``"factor"`` (a given ``f``; ``inc_low``/``inc_high``
+    are the corrected mean inclination ∓ the corrected α95). ``f`` is the flattening factor
+    (tan I_f = f tan I₀; 1 = no shallowing; None when the data's path never meets the model curve);
+    inclinations in degrees; ``elongation`` τ₂/τ₃ of the observed directions. ``no_bedding`` is True
+    when the tilt-corrected frame was asked for but the table has no bedding (directions as given).
+    """
+
+    method: str
+    n: int
+    f: Optional[float]
+    inc_observed: Optional[float]
+    inc_corrected: Optional[float]
+    inc_low: Optional[float]
+    inc_high: Optional[float]
+    elongation: Optional[float]
+    no_bedding: bool
+    f_low: Optional[float] = None
+    f_high: Optional[float] = None
+    elongation_dec: Optional[float] = None
+    meridional: Optional[bool] = None
+    no_crossing: Optional[int] = None
+    dec_observed: Optional[float] = None
+    dec_corrected: Optional[float] = None
+    a95_observed: Optional[float] = None
+    a95_corrected: Optional[float] = None
+    seed: Optional[int] = None
+    resamples: Optional[int] = None
+    caution: str = SHALLOWING_CAUTION

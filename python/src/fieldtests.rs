@@ -13,7 +13,7 @@ use pyo3::types::PyDict;
 const CONFIDENCE: f64 = 0.95;
 
 /// The command line's floor on resamples: fewer cannot place 95 % quantiles.
-fn check_resamples(n: usize) -> PyResult<()> {
+pub(crate) fn check_resamples(n: usize) -> PyResult<()> {
     if n < 100 {
         return Err(arg_error(format!("resamples must be at least 100, got {n}")));
     }

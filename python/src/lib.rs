@@ -9,8 +9,13 @@ mod components;
 mod directions;
 mod field;
 mod fieldtests;
+mod poles;
+mod psv;
 mod reversals;
 mod section;
+mod shallowing;
+mod simulate;
+mod strat;
 
 use lodestone::table::Table;
 use pyo3::create_exception;
@@ -140,5 +145,13 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(section::run_section, m)?)?;
     m.add_function(wrap_pyfunction!(field::field_at, m)?)?;
     m.add_function(wrap_pyfunction!(field::field_series, m)?)?;
+    m.add_function(wrap_pyfunction!(poles::paleopole, m)?)?;
+    m.add_function(wrap_pyfunction!(strat::polarity_column, m)?)?;
+    m.add_function(wrap_pyfunction!(strat::correlate, m)?)?;
+    m.add_function(wrap_pyfunction!(strat::column_figure, m)?)?;
+    m.add_function(wrap_pyfunction!(reversals::reversal_rate, m)?)?;
+    m.add_function(wrap_pyfunction!(simulate::simulate_timescale, m)?)?;
+    m.add_function(wrap_pyfunction!(shallowing::unflatten, m)?)?;
+    m.add_function(wrap_pyfunction!(psv::psv, m)?)?;
     Ok(())
 }

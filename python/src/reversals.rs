@@ -166,3 +166,68 @@ pub fn hazard<'py>(
     out.set_item("cautions", CAUTIONS.to_vec())?;
     Ok(out)
 }
+
+/// Reversal rate through time with the Laplace trend test and the clustering test (see
+/// `lodestone.reversal_rate`); a test that cannot be computed comes back as its reason.
+#[pyfunction]
+#[pyo3(signature = (timescale, young = None, old = None, min_length = 0.0, censor = true, old_edge = None,
+                    window = 1.0, step = None, level = 0.95))]
+#[allow(clippy::too_many_arguments)]
+pub fn reversal_rate<'py>(
+    py: Python<'py>,
+    timescale: Source<'py>,
+    young: Option<f64>,
+    old: Option<f64>,
+    min_length: f64,
+    censor: bool,
+    old_edge: Option<&str>,
+    window: f64,
+    step: Option<f64>,
+    level: f64,
+) -> PyResult<Bound<'py, PyDict>> {
+    let input = timescale.input();
+    let opt = options(young, old, min_length, censor, old_edge)?;
+    let (rec, sum) = run_detached(py, None, || {
+        let rec = load(&input, &opt)?;
+        let sum = reversals::rate_summary(&rec.reversals, rec.from, rec.to, window, step, level)?;
+        Ok((rec, sum))
+    })?;
+    let out = record_dict(py, &rec)?;
+    let p = &sum.points;
+    let rate = PyDict::new(py);
+    rate.set_item("age", p.iter().map(|x| x.age).collect::<Vec<_>>())?;
+    rate.set_item("rate", p.iter().map(|x| x.rate).collect::<Vec<_>>())?;
+    rate.set_item("low", p.iter().map(|x| x.low).collect::<Vec<_>>())?;
+    rate.set_item("high", p.iter().map(|x| x.high).collect::<Vec<_>>())?;
+    rate.set_item("count", p.iter().map(|x| x.count).collect::<Vec<_>>())?;
+    out.set_item("rate", rate)?;
+    out.set_item("reversals", rec.reversals.clone())?;
+    out.set_item("window", window)?;
+    out.set_item("step", sum.step)?;
+    out.set_item("level", level)?;
+    match &sum.laplace {
+        Ok(l) => {
+            let d = PyDict::new(py);
+            d.set_item("n", l.n)?;
+            d.set_item("u", l.u)?;
+            d.set_item("p_value", l.p_value)?;
+            out.set_item("laplace", d)?;
+        }
+        Err(e) => out.set_item("laplace", e.to_string())?,
+    }
+    match &sum.clustering {
+        Ok(c) => {
+            let d = PyDict::new(py);
+            d.set_item("n", c.h.len())?;
+            d.set_item("mean_h", c.mean_h)?;
+            d.set_item("z", c.z)?;
+            d.set_item("p_value", c.p_value)?;
+            d.set_item("ks_d", c.ks_d)?;
+            d.set_item("ks_p", c.ks_p)?;
+            d.set_item("h", c.h.clone())?;
+            out.set_item("clustering", d)?;
+        }
+        Err(e) => out.set_item("clustering", e.to_string())?,
+    }
+    Ok(out)
+}

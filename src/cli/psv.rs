@@ -3,14 +3,10 @@
 use super::{Cell, Ctx, Report, Section};
 use anyhow::{bail, Result};
 use clap::Args;
-use lodestone::dirstats::{
-    fit_latitude_model, group_paleolatitude, latitude_model_bootstrap, LatitudeFit, LatitudeGroup,
-    LatitudeModelInterval,
-};
+use lodestone::dirstats::{psv_groups, psv_model, GroupRemark, LatitudeFit, LatitudeModelInterval, MIN_GROUP_SITES};
 use lodestone::figures::{LatitudeFigure, LatitudePoint};
-use lodestone::poles::{align_polarity, site_within, vgp, vgp_scatter, Cutoff, ScatterSite};
-use lodestone::sphere::GeoPoint;
-use lodestone::table::{read_sites, SiteRecord, Table};
+use lodestone::poles::Cutoff;
+use lodestone::table::Table;
 use serde_json::json;
 use std::path::PathBuf;
 
@@ -32,72 +28,28 @@ pub struct PsvArgs {
     pub plot: Option<PathBuf>,
 }
 
-/// A site's VGP (as computed; polarity is aligned per group in `gather`) and its within-site dispersion (when n and k, or n and a95, are given).
-fn scatter_site(r: &SiteRecord) -> Result<ScatterSite> {
-    let v = vgp(r.location, r.direction);
-    Ok(ScatterSite { pole: v.pole, within: site_within(r, v.paleolat)? })
-}
-
-/// One group before the fit: its name, sites and locations in file order.
-struct Gathered {
-    name: String,
-    sites: Vec<ScatterSite>,
-    locations: Vec<GeoPoint>,
-}
-
-fn gather(file: &std::path::Path, by: &str) -> Result<(Vec<Gathered>, usize)> {
-    let table = Table::read(file)?;
-    let set = read_sites(&table)?;
-    let col = table.require(by)?;
-    let mut groups: Vec<Gathered> = Vec::new();
-    let mut flipped = 0;
-    for (row, r) in table.rows.iter().zip(&set.records) {
-        let name = table.text(row, col).trim().to_string();
-        if name.is_empty() {
-            bail!("{}:{}: column '{by}': is empty; expected a group name", file.display(), r.line);
-        }
-        let site = scatter_site(r)?;
-        let at = match groups.iter().position(|g| g.name == name) {
-            Some(i) => i,
-            None => {
-                groups.push(Gathered { name, sites: Vec::new(), locations: Vec::new() });
-                groups.len() - 1
-            }
-        };
-        groups[at].sites.push(site);
-        groups[at].locations.push(r.location);
-    }
-    // Polarity aligned per group by the principal axis of its VGPs (not by hemisphere, which splits a
-    // group whose mean pole lies at low latitude).
-    for g in &mut groups {
-        let poles: Vec<GeoPoint> = g.sites.iter().map(|s| s.pole).collect();
-        let a = align_polarity(&poles)?;
-        for (s, (p, f)) in g.sites.iter_mut().zip(a.poles.into_iter().zip(a.flipped)) {
-            s.pole = p;
-            flipped += usize::from(f);
-        }
-    }
-    Ok((groups, flipped))
-}
-
 pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
     let Some(cutoff) = Cutoff::parse(&a.cutoff) else {
         bail!("--cutoff must be none, vandamme or an angle in (0, 180] such as 45; got '{}'", a.cutoff);
     };
     ctx.inputs.add(&a.file);
     let fname = a.file.display().to_string();
-    let (gathered, flipped) = gather(&a.file, &a.by)?;
+    let pg = psv_groups(&Table::read(&a.file)?, &a.by, cutoff)?;
     let mut notes = Vec::new();
-    let (groups, used) = group_scatters(gathered, cutoff, &mut notes)?;
-    if groups.len() < 2 {
-        bail!(
-            "{fname}: the latitude model needs at least 2 groups of 3 or more sites (column '{}'), got {}",
-            a.by,
-            groups.len()
-        );
+    for (name, remark) in &pg.remarks {
+        notes.push(match remark {
+            GroupRemark::TooFewSites(n) => {
+                format!("Group '{name}' has {n} site(s) and is left out (a scatter needs at least {MIN_GROUP_SITES}).")
+            }
+            GroupRemark::TooFewKept(n) => format!("Group '{name}' keeps {n} site(s) after the cutoff and is left out."),
+            GroupRemark::WithinExceedsTotal => {
+                format!("Group '{name}': the within-site term exceeds the total scatter; S is taken as 0.")
+            }
+        });
     }
-    let fit = fit_latitude_model(&groups.iter().map(|g| (g.paleolat, g.s)).collect::<Vec<_>>())?;
-    let ci = latitude_model_bootstrap(&groups, &ctx.monte_carlo(a.resamples.max(20)))?;
+    let (groups, flipped) = (&pg.groups, pg.flipped);
+    let used: Vec<(usize, bool)> = pg.n_used.iter().copied().zip(pg.within_corrected.iter().copied()).collect();
+    let (fit, ci) = psv_model(&pg, &ctx.monte_carlo(a.resamples))?;
     let mut gsec = Section::new(
         &format!("VGP scatter per group of {fname} (by '{}', cutoff {})", a.by, a.cutoff),
         &["group", "paleolat", "s", "s_low", "s_high", "n_used"],
@@ -156,44 +108,6 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
         csv_section: 0,
         notes,
     })
-}
-
-/// Sites used by a group's scatter, and whether the within-site correction applied.
-type GroupUse = (usize, bool);
-
-/// Each group's scatter after the cutoff, with (sites used, whether the within-site correction
-/// applied); a group of fewer than three sites (before or after the cutoff) is left out with a note.
-fn group_scatters(
-    gathered: Vec<Gathered>,
-    cutoff: Cutoff,
-    notes: &mut Vec<String>,
-) -> Result<(Vec<LatitudeGroup>, Vec<GroupUse>)> {
-    let mut groups = Vec::new();
-    let mut used = Vec::new();
-    for g in gathered {
-        if g.sites.len() < 3 {
-            notes.push(format!(
-                "Group '{}' has {} site(s) and is left out (a scatter needs at least 3).",
-                g.name,
-                g.sites.len()
-            ));
-            continue;
-        }
-        let sc = vgp_scatter(&g.sites, cutoff)?;
-        let kept: Vec<ScatterSite> = g.sites.iter().zip(&sc.kept).filter(|p| *p.1).map(|p| *p.0).collect();
-        let locs: Vec<GeoPoint> = g.locations.iter().zip(&sc.kept).filter(|p| *p.1).map(|p| *p.0).collect();
-        if kept.len() < 3 {
-            notes.push(format!("Group '{}' keeps {} site(s) after the cutoff and is left out.", g.name, kept.len()));
-            continue;
-        }
-        if sc.s.is_none() {
-            notes.push(format!("Group '{}': the within-site term exceeds the total scatter; S is taken as 0.", g.name));
-        }
-        let paleolat = group_paleolatitude(&locs, sc.mean_pole)?;
-        used.push((sc.n_used, sc.within_term.is_some()));
-        groups.push(LatitudeGroup { name: g.name, paleolat, sites: kept, s: sc.s.unwrap_or(0.0) });
-    }
-    Ok((groups, used))
 }
 
 fn model_section(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Section {

@@ -4,11 +4,12 @@ use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::dirstats::{
-    elongation_of, unflatten_factor, unflatten_search, Tk03, MIN_DIRECTIONS, RECOMMENDED_DIRECTIONS,
+    elongation_of, shallowing_directions, unflatten_given, unflatten_search, Tk03, MIN_DIRECTIONS,
+    RECOMMENDED_DIRECTIONS,
 };
 use lodestone::figures::UnflattenFigure;
 use lodestone::sphere::Direction;
-use lodestone::table::{read_directions, DirectionKind, GroupBy, Table};
+use lodestone::table::{read_directions, GroupBy, Table};
 use serde_json::json;
 use std::path::PathBuf;
 
@@ -42,36 +43,12 @@ const PATHS_DRAWN: usize = 100;
 
 /// The directions of the table in the chosen frame (tilt: bedding-corrected when the table has bedding).
 fn directions(file: &std::path::Path, frame: ShallowFrame, notes: &mut Vec<String>) -> Result<Vec<Direction>> {
-    let table = Table::read(file)?;
-    let set = read_directions(&table, &GroupBy::None)?;
-    let mut out = Vec::with_capacity(set.records.len());
-    let mut untilted = 0;
-    for r in &set.records {
-        if r.kind != DirectionKind::Line {
-            bail!(
-                "{}:{}: column 'kind': a plane cannot be unflattened; the method needs lines",
-                file.display(),
-                r.line
-            );
-        }
-        match (frame, r.bedding) {
-            (ShallowFrame::Tilt, Some(b)) => {
-                untilted += 1;
-                out.push(Direction::from_vector(b.untilt(r.direction.to_vector())).expect("unit vector"));
-            }
-            _ => out.push(r.direction),
-        }
-    }
-    if frame == ShallowFrame::Tilt && untilted == 0 {
+    let set = read_directions(&Table::read(file)?, &GroupBy::None)?;
+    let input = shallowing_directions(&set, frame == ShallowFrame::Tilt)?;
+    if input.no_bedding {
         notes.push("The table has no bedding columns: the directions are used as given (no tilt correction).".into());
-    } else if frame == ShallowFrame::Tilt && untilted < out.len() {
-        bail!(
-            "{}: only {untilted} of {} rows carry bedding; give bedding on every row or use --frame geo",
-            file.display(),
-            out.len()
-        );
     }
-    Ok(out)
+    Ok(input.directions)
 }
 
 pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Report> {
@@ -80,9 +57,6 @@ pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Report> {
     let dirs = directions(&a.file, a.frame, &mut notes)?;
     let fname = a.file.display().to_string();
     if let Some(f) = a.factor {
-        if !(f > 0.0 && f <= 1.0) {
-            bail!("--factor must lie in (0, 1] (tan I_f = f tan I₀), got {f}");
-        }
         if a.plot.is_some() {
             notes.push("--plot draws the elongation–inclination search; with --factor there is no figure.".into());
         }
@@ -174,17 +148,14 @@ fn search_notes(r: &lodestone::dirstats::UnflattenResult, notes: &mut Vec<String
 
 /// `--factor`: unflatten by a given factor and compare the Fisher means.
 fn by_factor(dirs: &[Direction], f: f64, fname: &str, mut notes: Vec<String>) -> Result<Report> {
-    let r = unflatten_factor(dirs, f)?;
+    let r = unflatten_given(dirs, f).map_err(|e| anyhow::anyhow!("--factor {e}"))?;
     let (Some(m0), Some(m1)) = (r.observed.mean, r.corrected.mean) else {
         bail!("{fname}: the directions have no mean (R ≈ 0)");
     };
     let a95 = r.corrected.alpha;
     let vectors: Vec<_> = dirs.iter().map(|d| d.to_vector()).collect();
     let elongation = elongation_of(&vectors).ok().map(|e| e.e);
-    let (lo, hi) = match a95 {
-        Some(a) => (Some((m1.inc - a).max(-90.0)), Some((m1.inc + a).min(90.0))),
-        None => (None, None),
-    };
+    let (lo, hi) = r.inc_range().unzip();
     let mut sec = Section::new(
         &format!("Inclination of {fname} unflattened by the given factor f = {f}"),
         &["n", "f", "inc_observed", "inc_corrected", "inc_low", "inc_high", "a95_observed", "a95_corrected", "dec"],

@@ -6,7 +6,9 @@ mod bootstrap_ellipse;
 mod elongation;
 mod kent;
 mod legendre;
+mod psv_groups;
 mod psv_model;
+mod shallowing;
 mod tk03;
 mod unflatten;
 
@@ -14,10 +16,12 @@ pub use bootstrap_ellipse::{bootstrap_ellipse, BootstrapKind};
 pub use elongation::{elongation_of, tk03_curve, Elongation};
 pub use kent::{chi2_2_quantile, kent_ellipse, KentEllipse};
 pub use legendre::{schmidt_legendre, SchmidtTable};
+pub use psv_groups::{psv_groups, psv_model, GroupRemark, PsvGroups, MIN_GROUP_SITES};
 pub use psv_model::{
     fit_latitude_model, group_paleolatitude, group_pole, latitude_model_bootstrap, LatitudeFit, LatitudeGroup,
     LatitudeModelInterval,
 };
+pub use shallowing::{shallowing_directions, unflatten_given, ShallowingInput};
 pub use tk03::{field_direction, Tk03};
 pub use unflatten::{
     apply_factor, unflatten_factor, unflatten_inclination, unflatten_search, EiCurve, FactorResult, UnflattenResult,

@@ -1,0 +1,166 @@
+"""Magnetostratigraphy: the polarity column, its correlation with a time scale, and the column figure."""
+
+from __future__ import annotations
+
+import json
+from typing import Optional, Sequence, Tuple, Union
+
+import pandas as pd
+
+from . import _native
+from ._results import Correlation, PolarityColumn
+from ._tables import TableLike, _source
+
+#: Defaults of the command line (``column`` and ``correlate``).
+THRESHOLD = 45.0
+MIN_LEVELS = 2
+
+#: Columns of the zones table, as ``column --format csv`` prints it.
+ZONE_COLUMNS = ["zone", "polarity", "n_levels", "status", "base", "base_low", "base_high",
+                "top", "top_low", "top_high", "axis"]
+
+Anchor = Union[Tuple[float, float], Tuple[float, float, float]]
+
+
+def _zones_frame(rows) -> pd.DataFrame:
+    df = pd.DataFrame([{c: r[c] for c in ZONE_COLUMNS} for r in rows], columns=ZONE_COLUMNS)
+    df.attrs["section_ends"] = [(r["top_is_section_end"], r["base_is_section_end"]) for r in rows]
+    return df
+
+
+def polarity_column(
+    levels: TableLike, threshold: float = THRESHOLD, min_levels: int = MIN_LEVELS, in_situ: bool = False
+) -> PolarityColumn:
+    """Polarity of each level and the magnetozones of a section (as ``column``).
+
+    ``levels`` is a directions table with ``height`` or ``depth`` and ``lat``/``lon`` (one or more
+    directions per level; tilt-corrected where bedding is given unless ``in_situ``), or a table
+    with a ``vgp_lat`` column. A level is normal when its VGP latitude is at least ``threshold``
+    degrees, reversed at or below −``threshold``, intermediate between; zones resting on fewer than
+    ``min_levels`` levels are reported as single-level (unconfirmed), not merged. Each internal
+    boundary lies somewhere in the sampling gap between the levels on either side (``base_low`` …
+    ``base_high``, ``top_low`` … ``top_high``, metres).
+
+    Returns a :class:`PolarityColumn` with the ``levels`` and ``zones`` DataFrames (the zones with
+    the columns of ``column --format csv``, readable by :func:`correlate`).
+
+    The polarity rule on VGP latitude is common practice; see Opdyke & Channell (1996),
+    *Magnetic Stratigraphy*, ch. 5.
+    """
+    d = _native.polarity_column(_source(levels), float(threshold), int(min_levels), bool(in_situ))
+    lev = pd.DataFrame(d["levels"])
+    for c in ("a95", "mad"):
+        lev[c] = lev[c].astype(float)
+    return PolarityColumn._from(
+        dict(axis=d["axis"], levels=lev, zones=_zones_frame(d["zones"]), threshold=float(threshold),
+             min_levels=int(min_levels), notes=list(d["notes"]))
+    )
+
+
+def _settings(anchors, miss_penalty, hiatus_penalty, skip_penalty, rate_spread, candidates, threshold, min_levels):
+    parsed = []
+    for a in anchors or ():
+        if len(a) not in (2, 3):
+            raise TypeError(f"an anchor is (position, age) or (position, age, uncertainty), not {a!r}")
+        parsed.append((float(a[0]), float(a[1]), float(a[2]) if len(a) == 3 else 0.0))
+    return dict(
+        anchors=parsed, miss_penalty=float(miss_penalty), hiatus_penalty=float(hiatus_penalty),
+        skip_penalty=float(skip_penalty), rate_spread=float(rate_spread), candidates=int(candidates),
+        threshold=float(threshold), min_levels=int(min_levels),
+    )
+
+
+def correlate(
+    zones: TableLike,
+    timescale: TableLike,
+    anchors: Optional[Sequence[Anchor]] = None,
+    miss_penalty: float = 2.0,
+    hiatus_penalty: float = 6.0,
+    skip_penalty: float = 2.0,
+    rate_spread: float = 0.25,
+    candidates: int = 5,
+    threshold: float = THRESHOLD,
+    min_levels: int = MIN_LEVELS,
+) -> Correlation:
+    """Ranked correlations of a polarity column with a time scale, and the best one's age model.
+
+    ``zones`` is a zones table (``polarity_column(...).zones``, or what ``column --format csv``
+    prints) or a levels table, zoned with ``threshold`` and ``min_levels``. ``timescale`` has
+    ``young``, ``old`` (Ma), ``polarity`` and optional ``name``. ``anchors`` are dated beds
+    ``(position m, age Ma)`` or ``(position, age, uncertainty Myr)``: each must fall in the chrons
+    a candidate assigns there. Scores (lower is better) are −2 ln L of a log-normal model of the
+    accumulation rates (spread ``rate_spread`` in ln rate) plus ``miss_penalty`` per chron missing
+    from the column, ``hiatus_penalty`` per run read as holding a hiatus, ``skip_penalty`` per
+    single-level zone left out.
+
+    Returns a :class:`Correlation`: the ``candidates``, every candidate's ``ties`` (the columns of
+    ``correlate --format csv``), the best one's ``age_model`` runs (rates in cm/kyr; the end runs
+    are extrapolated at the mean rate and have no rate of their own), and ``comparison``.
+
+    The ranking is a statistical statement about a steady-rate model, not proof of the correlation;
+    independent age control, local practice and the published literature decide (``caution``).
+    The verbal scale of ``comparison`` follows Kass & Raftery (1995), J. Am. Stat. Assoc. 90, 773–795.
+    """
+    st = _settings(anchors, miss_penalty, hiatus_penalty, skip_penalty, rate_spread, candidates, threshold, min_levels)
+    d = _native.correlate(_source(zones), _source(timescale), st)
+    cands = json.loads(d["candidates"])
+    axis = d["axis"]
+    summary = pd.DataFrame(
+        [
+            dict(rank=c["rank"], score=c["score"], mean_rate_cm_kyr=c["mean_rate"], ties=len(c["ties"]),
+                 missing_chrons=c["missing_chrons"], skipped_zones=c["skipped_zones"],
+                 top_age=c["age_model"][0]["age"], base_age=c["age_model"][-1]["age"])
+            for c in cands
+        ],
+        columns=["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
+    )
+    tie_cols = ["rank", axis, "low", "high", "age", "chron_above", "chron_below"]
+    ties = pd.DataFrame(
+        [dict(rank=c["rank"], **{axis: t["position"]}, **{k: t[k] for k in tie_cols[2:]})
+         for c in cands for t in c["ties"]],
+        columns=tie_cols,
+    )
+    run_cols = ["top", "base", "age_young", "age_old", "rate", "reading", "missing"]
+    runs = pd.DataFrame(
+        [{**{k: r[k] for k in run_cols[:-1]}, "missing": " ".join(r["missing"])} for r in cands[0]["runs"]],
+        columns=run_cols,
+    )
+    runs["rate"] = runs["rate"].astype(float)
+    ties.attrs["axis"] = axis
+    return Correlation._from(
+        dict(axis=axis, candidates=summary, ties=ties, age_model=runs, comparison=d["comparison"],
+             n_scored=d["n_scored"], details=cands, zones=_zones_frame(d["zones"]))
+    )
+
+
+def column_figure(
+    levels: TableLike,
+    timescale: Optional[TableLike] = None,
+    format: str = "svg",
+    title: Optional[str] = None,
+    threshold: float = THRESHOLD,
+    min_levels: int = MIN_LEVELS,
+    anchors: Optional[Sequence[Anchor]] = None,
+    **correlate_settings: float,
+) -> Union[str, bytes]:
+    """The library's polarity-column figure: SVG text (``format="svg"``) or PNG bytes (``"png"``).
+
+    Without ``timescale``: the levels' VGP latitudes with the ±``threshold`` guides and the
+    magnetozones beside them, as ``column --plot`` draws it (``levels`` is a levels table). With
+    ``timescale``: the column beside the chrons its best correlation spans, with that candidate's
+    tie lines, as ``correlate --plot`` draws it (``levels`` may then also be a zones table;
+    ``anchors`` and the keywords of :func:`correlate` set the correlation). Fill convention of the
+    trade: black normal, white reversed, grey intermediate or single-level.
+
+    Write the result with ``open(path, "w").write(svg)`` or ``open(path, "wb").write(png)``; in a
+    notebook, ``IPython.display.SVG(svg)`` shows it.
+    """
+    st = _settings(
+        anchors, correlate_settings.pop("miss_penalty", 2.0), correlate_settings.pop("hiatus_penalty", 6.0),
+        correlate_settings.pop("skip_penalty", 2.0), correlate_settings.pop("rate_spread", 0.25),
+        correlate_settings.pop("candidates", 5), threshold, min_levels,
+    )
+    if correlate_settings:
+        raise TypeError(f"unknown keyword(s): {', '.join(sorted(correlate_settings))}")
+    ts = None if timescale is None else _source(timescale)
+    return _native.column_figure(_source(levels), ts, st, format, title)

@@ -1,0 +1,98 @@
+//! The paleopole and the VGP scatter of a sites table (the library's `pole_summary`, as `poles` runs it).
+
+use crate::{arg_error, run_detached, Source};
+use lodestone::montecarlo::MonteCarlo;
+use lodestone::poles::{pole_summary, Cutoff};
+use lodestone::table::read_sites;
+use pyo3::prelude::*;
+use pyo3::types::PyDict;
+
+/// The columns of the sites: name, location, direction, VGP, oval, paleolatitude range, kept.
+fn site_columns<'py>(
+    py: Python<'py>,
+    set: &lodestone::table::SiteSet,
+    sum: &lodestone::poles::PoleSummary,
+) -> PyResult<Bound<'py, PyDict>> {
+    let d = PyDict::new(py);
+    let r = &set.records;
+    let s = &sum.sites;
+    let opt = |f: &dyn Fn(&lodestone::poles::SitePole) -> Option<f64>| -> Vec<f64> {
+        s.iter().map(|x| f(x).unwrap_or(f64::NAN)).collect()
+    };
+    d.set_item("site", r.iter().map(|x| x.site.clone()).collect::<Vec<_>>())?;
+    d.set_item("lat", r.iter().map(|x| x.location.lat).collect::<Vec<_>>())?;
+    d.set_item("lon", r.iter().map(|x| x.location.lon).collect::<Vec<_>>())?;
+    d.set_item("dec", r.iter().map(|x| x.direction.dec).collect::<Vec<_>>())?;
+    d.set_item("inc", r.iter().map(|x| x.direction.inc).collect::<Vec<_>>())?;
+    d.set_item("plat", s.iter().map(|x| x.vgp.pole.lat).collect::<Vec<_>>())?;
+    d.set_item("plon", s.iter().map(|x| x.vgp.pole.lon).collect::<Vec<_>>())?;
+    d.set_item("dp", opt(&|x| x.oval.map(|o| o.dp)))?;
+    d.set_item("dm", opt(&|x| x.oval.map(|o| o.dm)))?;
+    d.set_item("paleolat", s.iter().map(|x| x.vgp.paleolat).collect::<Vec<_>>())?;
+    d.set_item("paleolat_low", opt(&|x| x.range.map(|o| o.low)))?;
+    d.set_item("paleolat_high", opt(&|x| x.range.map(|o| o.high)))?;
+    d.set_item("a95", opt(&|x| x.a95))?;
+    let kept: Vec<bool> = match &sum.scatter {
+        Some(sc) => sc.kept.clone(),
+        None => vec![true; s.len()],
+    };
+    d.set_item("kept", kept)?;
+    d.set_item("flipped", sum.alignment.flipped.clone())?;
+    Ok(d)
+}
+
+/// VGPs, paleopole and VGP scatter of a sites table (see `lodestone.paleopole`).
+#[pyfunction]
+#[pyo3(signature = (sites, cutoff = "none", northern = false, seed = 1, resamples = 1000, threads = None))]
+pub fn paleopole<'py>(
+    py: Python<'py>,
+    sites: Source<'py>,
+    cutoff: &str,
+    northern: bool,
+    seed: u64,
+    resamples: usize,
+    threads: Option<usize>,
+) -> PyResult<Bound<'py, PyDict>> {
+    let cut = Cutoff::parse(cutoff).ok_or_else(|| {
+        arg_error(format!("cutoff must be 'none', 'vandamme' or an angle in (0, 180] such as '45'; got '{cutoff}'"))
+    })?;
+    let input = sites.input();
+    let (set, sum) = run_detached(py, threads, || {
+        let set = read_sites(&input.table()?)?;
+        let sum = pole_summary(&set, northern, cut, &MonteCarlo::new(seed, resamples))?;
+        Ok((set, sum))
+    })?;
+    let out = PyDict::new(py);
+    out.set_item("sites", site_columns(py, &set, &sum)?)?;
+    out.set_item("axis_lat", sum.alignment.axis.lat)?;
+    out.set_item("axis_lon", sum.alignment.axis.lon)?;
+    out.set_item("missing_within", sum.missing_within())?;
+    if let Some(pp) = &sum.pole {
+        let p = PyDict::new(py);
+        p.set_item("n", pp.n)?;
+        p.set_item("plat", pp.pole.lat)?;
+        p.set_item("plon", pp.pole.lon)?;
+        p.set_item("r", pp.r)?;
+        p.set_item("k", pp.k.0)?;
+        p.set_item("a95", pp.a95)?;
+        out.set_item("pole", p)?;
+    }
+    if let (Some(sc), Some(b)) = (&sum.scatter, &sum.interval) {
+        let s = PyDict::new(py);
+        s.set_item("cutoff", cut.name())?;
+        s.set_item("s", sc.s)?;
+        s.set_item("s_low", b.low)?;
+        s.set_item("s_high", b.high)?;
+        s.set_item("s_total", sc.s_total)?;
+        s.set_item("within_term", sc.within_term)?;
+        s.set_item("n_used", sc.n_used)?;
+        s.set_item("n_removed", sc.n_removed)?;
+        s.set_item("threshold", sc.threshold)?;
+        s.set_item("mean_plat", sc.mean_pole.lat)?;
+        s.set_item("mean_plon", sc.mean_pole.lon)?;
+        s.set_item("resamples", b.resamples)?;
+        s.set_item("n_negative", b.n_negative)?;
+        out.set_item("scatter", s)?;
+    }
+    Ok(out)
+}
