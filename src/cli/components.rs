@@ -8,7 +8,7 @@ use lodestone::demag::{
 };
 use lodestone::figures::VectorEndpointPlot;
 use lodestone::table::{read_picks, read_steps, SpecimenSteps, StepSet, Table, Treatment};
-use serde_json::json;
+use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
 
 #[derive(Debug, Args)]
@@ -104,6 +104,22 @@ fn unit_of(sp: &SpecimenSteps) -> &'static str {
     }
 }
 
+/// What the chosen method made of the specimens.
+struct Fitted {
+    method: &'static str,
+    fits: Vec<SpecimenFit>,
+    unfitted: Vec<(String, String)>,
+    /// (specimen, grade, reason) of the last-component rule's fits.
+    grades: Vec<(String, &'static str, String)>,
+    rule_json: Value,
+}
+
+impl Fitted {
+    fn new(method: &'static str) -> Self {
+        Fitted { method, fits: Vec::new(), unfitted: Vec::new(), grades: Vec::new(), rule_json: Value::Null }
+    }
+}
+
 pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     let max_mad = a.max_mad.unwrap_or(if a.rule == RuleArg::Last { 15.0 } else { 5.0 });
     if a.auto && (a.min_steps < 2 || !(max_mad >= 0.0) || !(a.max_dang >= 0.0)) {
@@ -114,140 +130,16 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         ctx.inputs.add(p);
     }
     let set: StepSet = read_steps(&Table::read(&a.steps)?)?;
-    let anchor = if a.anchor { Anchor::Origin } else { Anchor::Free };
-    let mut fits: Vec<SpecimenFit> = Vec::new();
-    let mut unfitted: Vec<(String, String)> = Vec::new();
     let mut notes = Vec::new();
-    let mut rule_json = serde_json::Value::Null;
-    let mut grades: Vec<(String, &'static str, String)> = Vec::new();
-    let method;
-    if let Some(pp) = &a.picks {
-        method = "picks";
-        let pt = Table::read(pp)?;
-        let picks = read_picks(&pt, &set)?;
-        for p in &picks {
-            let sp = set.get(&p.specimen).expect("checked by read_picks");
-            let f = fit_range(sp, p.from, p.to, p.kind, p.anchor)
-                .map_err(|e| pt.error(p.line, Some("from"), e.to_string()))?;
-            fits.push(f);
-        }
-        for sp in &set.specimens {
-            if !picks.iter().any(|p| p.specimen == sp.specimen) {
-                unfitted.push((sp.specimen.clone(), format!("no pick in {}", pp.display())));
-            }
-        }
-    } else if a.auto && a.rule == RuleArg::Last {
-        method = "auto";
-        let rule = LastComponentRule {
-            min_steps: a.min_steps,
-            alpha: a.alpha,
-            max_mad,
-            max_dang: a.max_dang,
-            anchor,
-            planes: true,
-        };
-        rule.validate()?;
-        notes.push(format!(
-            "Automatic fits by the last-component rule: a {} line grown down from the last {} steps while each lower step lies on it within the noise (F-test at α = {}), accepted with MAD ≤ {}° and DANG ≤ {}°; otherwise a great circle through the origin (grade C). Check each choice on the figures (--plot).",
-            anchor.as_str(), rule.min_steps, rule.alpha, rule.max_mad, rule.max_dang));
-        rule_json = json!({"rule": "last", "min_steps": rule.min_steps, "alpha": rule.alpha, "max_mad": rule.max_mad,
-                           "max_dang": rule.max_dang, "anchor": anchor});
-        for sp in &set.specimens {
-            match last_component(sp, &rule) {
-                Ok(c) => {
-                    grades.push((sp.specimen.clone(), c.grade.as_str(), c.reason));
-                    fits.push(c.fit)
-                }
-                Err(why) => unfitted.push((sp.specimen.clone(), why)),
-            }
-        }
-    } else if a.auto {
-        method = "auto";
-        let rule = AutoRule { min_steps: a.min_steps, max_mad, max_dang: a.max_dang, anchor };
-        notes.push(format!(
-            "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
-             among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
-            rule.min_steps, anchor.as_str(), rule.max_mad, rule.max_dang));
-        rule_json = json!({"rule": "longest", "min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
-        for sp in &set.specimens {
-            match auto_line(sp, &rule) {
-                AutoOutcome::Fitted(f) => fits.push(f),
-                AutoOutcome::Unfitted(why) => unfitted.push((sp.specimen.clone(), why)),
-            }
-        }
-    } else {
-        method = "range";
-        let (from, to) = (a.from.expect("clap"), a.to.expect("clap"));
-        if from > to {
-            bail!("--from {from} is above --to {to}");
-        }
-        let kind = match a.kind {
-            KindArg::Line => FitKind::Line,
-            KindArg::Plane => FitKind::Plane,
-        };
-        for sp in &set.specimens {
-            match fit_range(sp, from, to, kind, anchor) {
-                Ok(f) => fits.push(f),
-                Err(e) => unfitted.push((sp.specimen.clone(), e.detail().to_string())),
-            }
-        }
-    }
-    let axis = set.axis;
-    let mut columns = vec!["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"];
-    if let Some(ax) = axis {
-        columns.push(ax.column());
-    }
-    if set.has_bedding {
-        columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
-    }
-    let graded = method == "auto" && a.rule == RuleArg::Last;
-    if graded {
-        columns.push("grade");
-    }
-    let mut sec = Section::new(&format!("Principal components of {} ({} fits)", a.steps.display(), method), &columns);
-    let mut fits_json = Vec::new();
-    for f in &fits {
-        let sp = set.get(&f.specimen).expect("fitted specimen exists");
-        let mut row = vec![
-            Cell::Text(f.specimen.clone()),
-            Cell::opt_text(sp.site.as_deref()),
-            Cell::Text(f.kind.as_str().into()),
-            Cell::Text(f.anchor.as_str().into()),
-            Cell::Int(f.n_steps as i64),
-            Cell::Num(f.from, 1),
-            Cell::Num(f.to, 1),
-            Cell::Azimuth(f.direction.dec, 1),
-            Cell::Num(f.direction.inc, 1),
-            Cell::Num(f.mad, 1),
-            Cell::opt(f.dang, 1),
-        ];
-        if axis.is_some() {
-            row.push(Cell::opt(sp.position, 2));
-        }
-        if set.has_bedding {
-            row.push(Cell::opt(sp.bedding.map(|b| b.dip_dir), 1));
-            row.push(Cell::opt(sp.bedding.map(|b| b.dip), 1));
-            row.push(Cell::Text(if sp.bedding.is_some_and(|b| b.overturned) { "yes" } else { "no" }.into()));
-        }
-        if graded {
-            let g = grades.iter().find(|(s, _, _)| s == &f.specimen).map_or("", |(_, g, _)| g);
-            row.push(Cell::Text(g.into()));
-        }
-        sec.rows.push(row);
-        let mut j = json!({
-            "specimen": f.specimen, "site": sp.site, "kind": f.kind, "anchor": f.anchor, "n_steps": f.n_steps,
-            "from": f.from, "to": f.to, "dec": f.direction.dec, "inc": f.direction.inc, "mad": f.mad, "dang": jnum(f.dang),
-        });
-        if let Some(ax) = axis {
-            j[ax.column()] = jnum(sp.position);
-        }
-        if let Some((_, g, why)) = grades.iter().find(|(s, _, _)| s == &f.specimen) {
-            j["grade"] = json!(g);
-            j["reason"] = json!(why);
-        }
-        fits_json.push(j);
-    }
+    let fitted = match &a.picks {
+        Some(pp) => by_picks(pp, &set)?,
+        None if a.auto && a.rule == RuleArg::Last => by_last_rule(&a, max_mad, &set, &mut notes)?,
+        None if a.auto => by_longest_run(&a, max_mad, &set, &mut notes),
+        None => by_range(&a, &set)?,
+    };
+    let (sec, fits_json) = fits_section(&a, &set, &fitted);
     let mut sections = vec![sec];
+    let Fitted { method, fits, unfitted, rule_json, .. } = fitted;
     if !unfitted.is_empty() {
         let mut u = Section::new("Specimens not fitted", &["specimen", "reason"]);
         for (s, why) in &unfitted {
@@ -281,6 +173,160 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
         csv_section: 0,
         notes,
     })
+}
+
+fn anchor_of(a: &ComponentsArgs) -> Anchor {
+    if a.anchor {
+        Anchor::Origin
+    } else {
+        Anchor::Free
+    }
+}
+
+/// One fit per pick; a pick that cannot be fitted is an error naming the picks file and line.
+fn by_picks(pp: &Path, set: &StepSet) -> Result<Fitted> {
+    let mut out = Fitted::new("picks");
+    let pt = Table::read(pp)?;
+    let picks = read_picks(&pt, set)?;
+    for p in &picks {
+        let sp = set.get(&p.specimen).expect("checked by read_picks");
+        let f =
+            fit_range(sp, p.from, p.to, p.kind, p.anchor).map_err(|e| pt.error(p.line, Some("from"), e.to_string()))?;
+        out.fits.push(f);
+    }
+    for sp in &set.specimens {
+        if !picks.iter().any(|p| p.specimen == sp.specimen) {
+            out.unfitted.push((sp.specimen.clone(), format!("no pick in {}", pp.display())));
+        }
+    }
+    Ok(out)
+}
+
+fn by_last_rule(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> Result<Fitted> {
+    let mut out = Fitted::new("auto");
+    let anchor = anchor_of(a);
+    let rule = LastComponentRule {
+        min_steps: a.min_steps,
+        alpha: a.alpha,
+        max_mad,
+        max_dang: a.max_dang,
+        anchor,
+        planes: true,
+    };
+    rule.validate()?;
+    notes.push(format!(
+        "Automatic fits by the last-component rule: a {} line grown down from the last {} steps while each lower step lies on it within the noise (F-test at α = {}), accepted with MAD ≤ {}° and DANG ≤ {}°; otherwise a great circle through the origin (grade C). Check each choice on the figures (--plot).",
+        anchor.as_str(), rule.min_steps, rule.alpha, rule.max_mad, rule.max_dang));
+    out.rule_json = json!({"rule": "last", "min_steps": rule.min_steps, "alpha": rule.alpha, "max_mad": rule.max_mad,
+                       "max_dang": rule.max_dang, "anchor": anchor});
+    for sp in &set.specimens {
+        match last_component(sp, &rule) {
+            Ok(c) => {
+                out.grades.push((sp.specimen.clone(), c.grade.as_str(), c.reason));
+                out.fits.push(c.fit)
+            }
+            Err(why) => out.unfitted.push((sp.specimen.clone(), why)),
+        }
+    }
+    Ok(out)
+}
+
+fn by_longest_run(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> Fitted {
+    let mut out = Fitted::new("auto");
+    let anchor = anchor_of(a);
+    let rule = AutoRule { min_steps: a.min_steps, max_mad, max_dang: a.max_dang, anchor };
+    notes.push(format!(
+        "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
+         among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
+        rule.min_steps, anchor.as_str(), rule.max_mad, rule.max_dang));
+    out.rule_json = json!({"rule": "longest", "min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
+    for sp in &set.specimens {
+        match auto_line(sp, &rule) {
+            AutoOutcome::Fitted(f) => out.fits.push(f),
+            AutoOutcome::Unfitted(why) => out.unfitted.push((sp.specimen.clone(), why)),
+        }
+    }
+    out
+}
+
+fn by_range(a: &ComponentsArgs, set: &StepSet) -> Result<Fitted> {
+    let mut out = Fitted::new("range");
+    let (from, to) = (a.from.expect("clap"), a.to.expect("clap"));
+    if from > to {
+        bail!("--from {from} is above --to {to}");
+    }
+    let kind = match a.kind {
+        KindArg::Line => FitKind::Line,
+        KindArg::Plane => FitKind::Plane,
+    };
+    for sp in &set.specimens {
+        match fit_range(sp, from, to, kind, anchor_of(a)) {
+            Ok(f) => out.fits.push(f),
+            Err(e) => out.unfitted.push((sp.specimen.clone(), e.detail().to_string())),
+        }
+    }
+    Ok(out)
+}
+
+/// The fits as the table (with the position, bedding and grade columns the input has) and as JSON.
+fn fits_section(a: &ComponentsArgs, set: &StepSet, fitted: &Fitted) -> (Section, Vec<Value>) {
+    let axis = set.axis;
+    let mut columns = vec!["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"];
+    if let Some(ax) = axis {
+        columns.push(ax.column());
+    }
+    if set.has_bedding {
+        columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
+    }
+    let graded = fitted.method == "auto" && a.rule == RuleArg::Last;
+    if graded {
+        columns.push("grade");
+    }
+    let title = format!("Principal components of {} ({} fits)", a.steps.display(), fitted.method);
+    let mut sec = Section::new(&title, &columns);
+    let mut fits_json = Vec::new();
+    for f in &fitted.fits {
+        let sp = set.get(&f.specimen).expect("fitted specimen exists");
+        let grade = fitted.grades.iter().find(|(s, _, _)| s == &f.specimen);
+        let mut row = vec![
+            Cell::Text(f.specimen.clone()),
+            Cell::opt_text(sp.site.as_deref()),
+            Cell::Text(f.kind.as_str().into()),
+            Cell::Text(f.anchor.as_str().into()),
+            Cell::Int(f.n_steps as i64),
+            Cell::Num(f.from, 1),
+            Cell::Num(f.to, 1),
+            Cell::Azimuth(f.direction.dec, 1),
+            Cell::Num(f.direction.inc, 1),
+            Cell::Num(f.mad, 1),
+            Cell::opt(f.dang, 1),
+        ];
+        if axis.is_some() {
+            row.push(Cell::opt(sp.position, 2));
+        }
+        if set.has_bedding {
+            row.push(Cell::opt(sp.bedding.map(|b| b.dip_dir), 1));
+            row.push(Cell::opt(sp.bedding.map(|b| b.dip), 1));
+            row.push(Cell::Text(if sp.bedding.is_some_and(|b| b.overturned) { "yes" } else { "no" }.into()));
+        }
+        if graded {
+            row.push(Cell::Text(grade.map_or("", |(_, g, _)| g).into()));
+        }
+        sec.rows.push(row);
+        let mut j = json!({
+            "specimen": f.specimen, "site": sp.site, "kind": f.kind, "anchor": f.anchor, "n_steps": f.n_steps,
+            "from": f.from, "to": f.to, "dec": f.direction.dec, "inc": f.direction.inc, "mad": f.mad, "dang": jnum(f.dang),
+        });
+        if let Some(ax) = axis {
+            j[ax.column()] = jnum(sp.position);
+        }
+        if let Some((_, g, why)) = grade {
+            j["grade"] = json!(g);
+            j["reason"] = json!(why);
+        }
+        fits_json.push(j);
+    }
+    (sec, fits_json)
 }
 
 fn write_plots(
