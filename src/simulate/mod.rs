@@ -9,6 +9,7 @@ mod planning;
 mod project;
 mod section;
 mod timescale;
+mod truth;
 
 pub use accumulation::{parse_rates, AccumulationHistory, AccumulationSpan, RateSegment};
 pub use planning::{catch_probability, chron_thickness};
@@ -24,6 +25,7 @@ pub use timescale::{
     simulate_timescale, FirstPolarity, IntervalSampler, RenewalModel, TimeScaleModel, AGE_QUANTUM, BURN_IN_INTERVALS,
     DEFAULT_SHAPE, MODEL_NAMES, TIMESCALE_STREAM,
 };
+pub use truth::truth_document;
 
 #[cfg(test)]
 mod tests;

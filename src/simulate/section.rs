@@ -226,6 +226,22 @@ pub struct RecordedChron {
     pub n_levels: usize,
 }
 
+impl RecordedChron {
+    /// How the section holds the chron: `complete`, `spans the section`, `cut at top` or `cut at
+    /// base` (its span clipped by the section's top and base ages, `top_age` ≤ `base_age`, Ma).
+    pub fn status(&self, top_age: f64, base_age: f64) -> &'static str {
+        if self.complete {
+            "complete"
+        } else if self.young <= top_age + 1e-12 && self.old >= base_age - 1e-12 {
+            "spans the section"
+        } else if self.young <= top_age + 1e-12 {
+            "cut at top"
+        } else {
+            "cut at base"
+        }
+    }
+}
+
 /// A reversal boundary of the time scale inside the section: the true tie of height to age.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct TrueTie {

@@ -6,8 +6,8 @@ use anyhow::{bail, Context, Result};
 use clap::{Args, ValueEnum};
 use lodestone::simulate::{
     catch_probability, chron_thickness, parse_rates, sampling_csv, settings_text, simulate_section, simulate_timescale,
-    steps_csv, timescale_csv, Overprint, SectionModel, SyntheticSection, Treatment, Unblocking, SAMPLING_FILE,
-    SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+    steps_csv, timescale_csv, truth_document, Overprint, SectionModel, SyntheticSection, Treatment, Unblocking,
+    SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::{StratAxis, Table, TimeScale};
@@ -180,47 +180,6 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
     })
 }
 
-fn truth_json(
-    m: &SectionModel,
-    sec: &SyntheticSection,
-    ts: &TimeScale,
-    source: &serde_json::Value,
-    seed: u64,
-) -> serde_json::Value {
-    let levels: Vec<_> = sec
-        .levels
-        .iter()
-        .map(|l| {
-            json!({
-                "site": l.site, "height": l.height, "depth": l.depth, "age": l.age, "polarity": l.polarity,
-                "chron": l.chron, "chron_name": ts.chrons[l.chron].name,
-                "field_tilt": l.field_tilt, "field_geo": l.field_geo, "bedding": l.bedding,
-            })
-        })
-        .collect();
-    let specimens: Vec<_> = sec
-        .specimens
-        .iter()
-        .map(|s| {
-            json!({"specimen": s.name, "site": sec.levels[s.level].site, "characteristic_tilt": s.characteristic_tilt,
-            "characteristic_geo": s.characteristic_geo, "moment": s.moment})
-        })
-        .collect();
-    json!({
-        "what": "the true model behind a synthetic project folder (lodestone simulate section)",
-        "seed": seed,
-        "timescale": source,
-        "model": m,
-        "axis": m.axis,
-        "thickness": sec.history.thickness(),
-        "accumulation": sec.history.spans,
-        "ties": sec.ties,
-        "chrons": sec.chrons,
-        "levels": levels,
-        "specimens": specimens,
-    })
-}
-
 pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     let model = build_model(&a)?;
     let seed = ctx.global.seed;
@@ -238,6 +197,62 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     };
     let mc = ctx.monte_carlo(0);
     let sec = simulate_section(&model, &ts, &mc)?;
+    let files = write_folder(&a, &model, &sec, &ts, &source, seed, ctx)?;
+    let (table, missed, thin) = chron_table(&model, &sec);
+    let mut notes = vec![format!("Wrote {} (steps, sampling, time scale, settings, truth).", a.out.display())];
+    let complete = sec.chrons.iter().filter(|c| c.complete).count();
+    notes.push(format!(
+        "Sampling check: {} of {complete} complete chrons hold no level and {} hold only one (a single level cannot make a magnetozone).{}",
+        missed.len(),
+        thin.len(),
+        if missed.is_empty() { String::new() } else { format!(" Missed: {}.", missed.join(", ")) }
+    ));
+    let spans = &sec.history.spans;
+    let min_rate = spans.iter().filter(|s| s.rate > 0.0).map(|s| s.rate).fold(f64::INFINITY, f64::min);
+    let max_rate = spans.iter().map(|s| s.rate).fold(0.0, f64::max);
+    // A chron of length t Myr at r cm/kyr is chron_thickness(t, r) m thick: it holds at least one
+    // level for sure only if that exceeds the spacing, and at least two only if it exceeds twice it.
+    notes.push(format!(
+        "At the slowest rate ({min_rate} cm/kyr) chrons shorter than {:.4} Myr can fall between levels, and chrons shorter than {:.4} Myr hold fewer than two.",
+        model.spacing / cm_per_kyr_to_m_per_myr(min_rate),
+        2.0 * model.spacing / cm_per_kyr_to_m_per_myr(min_rate)
+    ));
+    let (plan, plan_json) = sampling_plan(&model, min_rate, max_rate);
+    if spans.iter().any(|s| s.rate == 0.0) {
+        notes.push("The rate history has a hiatus: chrons inside it leave no rock and no record.".into());
+    }
+    notes.push("The data are synthetic draws from the stated model, for planning and testing; they say nothing about any real section.".into());
+    Ok(Report {
+        json: json!({
+            "out": a.out.display().to_string(),
+            "seed": seed,
+            "files": files,
+            "thickness": sec.history.thickness(),
+            "n_levels": sec.levels.len(),
+            "n_specimens": sec.specimens.len(),
+            "chrons": sec.chrons,
+            "ties": sec.ties,
+            "missed": missed,
+            "plan": plan_json,
+            "single_level": thin,
+            "notes": notes,
+        }),
+        sections: vec![table, plan],
+        csv_section: 0,
+        notes,
+    })
+}
+
+/// Write the project folder (steps, sampling, time scale, settings, truth); returns the file names.
+fn write_folder(
+    a: &SectionArgs,
+    model: &SectionModel,
+    sec: &SyntheticSection,
+    ts: &TimeScale,
+    source: &serde_json::Value,
+    seed: u64,
+    ctx: &mut Ctx,
+) -> Result<Vec<&'static str>> {
     crate::cli::prepare_out_dir(&a.out, a.force, &ctx.inputs)?;
     let what = format!(
         "Synthetic data written by lodestone simulate section (seed {seed}): a model, not measurements.\nLocality {:.4}, {:.4}; {} levels, {} specimens each.",
@@ -247,21 +262,26 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
         model.specimens
     );
     let files = [
-        (STEPS_FILE, steps_csv(&model, &sec, &what)),
-        (SAMPLING_FILE, sampling_csv(&model, &sec, &what)),
+        (STEPS_FILE, steps_csv(model, sec, &what)),
+        (SAMPLING_FILE, sampling_csv(model, sec, &what)),
         (
             TIMESCALE_FILE,
-            timescale_csv(&ts, &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}")),
+            timescale_csv(ts, &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}")),
         ),
         (
             SETTINGS_FILE,
             settings_text(seed, "Settings for lodestone section (flat key = value; see the README, 'Project folder')."),
         ),
-        (TRUTH_FILE, serde_json::to_string_pretty(&truth_json(&model, &sec, &ts, &source, seed))? + "\n"),
+        (TRUTH_FILE, serde_json::to_string_pretty(&truth_document(model, sec, ts, source, seed))? + "\n"),
     ];
     for (name, text) in &files {
         write_atomic(&a.out.join(name), text.as_bytes(), &ctx.inputs)?;
     }
+    Ok(files.iter().map(|f| f.0).collect())
+}
+
+/// The chrons of the section with their status, and the complete chrons that hold no level or one.
+fn chron_table(model: &SectionModel, sec: &SyntheticSection) -> (Section, Vec<String>, Vec<String>) {
     let mut table = Section::new(
         &format!(
             "Chrons in the synthetic section ({} m, {} levels every {} m)",
@@ -275,15 +295,6 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
     let mut thin = Vec::new();
     for c in &sec.chrons {
         let label = c.name.clone().unwrap_or_else(|| format!("#{}", c.index + 1));
-        let status = if c.complete {
-            "complete"
-        } else if c.young <= model.top_age + 1e-12 && c.old >= model.base_age - 1e-12 {
-            "spans the section"
-        } else if c.young <= model.top_age + 1e-12 {
-            "cut at top"
-        } else {
-            "cut at base"
-        };
         if c.complete && c.n_levels == 0 {
             missed.push(label.clone());
         } else if c.complete && c.n_levels == 1 {
@@ -298,27 +309,14 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
             Cell::Num(c.top, 2),
             Cell::Num(c.top - c.base, 2),
             Cell::Int(c.n_levels as i64),
-            Cell::Text(status.into()),
+            Cell::Text(c.status(model.top_age, model.base_age).into()),
         ]);
     }
-    let mut notes = vec![format!("Wrote {} (steps, sampling, time scale, settings, truth).", a.out.display())];
-    let complete = sec.chrons.iter().filter(|c| c.complete).count();
-    notes.push(format!(
-        "Sampling check: {} of {complete} complete chrons hold no level and {} hold only one (a single level cannot make a magnetozone).{}",
-        missed.len(),
-        thin.len(),
-        if missed.is_empty() { String::new() } else { format!(" Missed: {}.", missed.join(", ")) }
-    ));
-    let spans = &sec.history.spans;
-    let min_rate = spans.iter().filter(|s| s.rate > 0.0).map(|s| s.rate).fold(f64::INFINITY, f64::min);
-    // At rate r cm/kyr a chron of length t Myr is 10·r·t m thick: it holds at least one level for
-    // sure only if that exceeds the spacing, and at least two only if it exceeds twice the spacing.
-    notes.push(format!(
-        "At the slowest rate ({min_rate} cm/kyr) chrons shorter than {:.4} Myr can fall between levels, and chrons shorter than {:.4} Myr hold fewer than two.",
-        model.spacing / cm_per_kyr_to_m_per_myr(min_rate),
-        2.0 * model.spacing / cm_per_kyr_to_m_per_myr(min_rate)
-    ));
-    let max_rate = spans.iter().map(|s| s.rate).fold(0.0, f64::max);
+    (table, missed, thin)
+}
+
+/// The chance that a chron of a given length holds one / two levels, at the slowest and fastest rates.
+fn sampling_plan(model: &SectionModel, min_rate: f64, max_rate: f64) -> (Section, Vec<serde_json::Value>) {
     let mut plan = Section::new(
         &format!("Sampling plan: chance that a chron holds at least one / two levels every {} m (random position against the grid)", model.spacing),
         &["length", "rate", "thickness", "p_one", "p_two"],
@@ -342,29 +340,7 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
             plan_json.push(json!({"length": length, "rate": rate, "thickness": d, "p_one": p1, "p_two": p2}));
         }
     }
-    if spans.iter().any(|s| s.rate == 0.0) {
-        notes.push("The rate history has a hiatus: chrons inside it leave no rock and no record.".into());
-    }
-    notes.push("The data are synthetic draws from the stated model, for planning and testing; they say nothing about any real section.".into());
-    Ok(Report {
-        json: json!({
-            "out": a.out.display().to_string(),
-            "seed": seed,
-            "files": files.iter().map(|f| f.0).collect::<Vec<_>>(),
-            "thickness": sec.history.thickness(),
-            "n_levels": sec.levels.len(),
-            "n_specimens": sec.specimens.len(),
-            "chrons": sec.chrons,
-            "ties": sec.ties,
-            "missed": missed,
-            "plan": plan_json,
-            "single_level": thin,
-            "notes": notes,
-        }),
-        sections: vec![table, plan],
-        csv_section: 0,
-        notes,
-    })
+    (plan, plan_json)
 }
 
 fn round3(x: f64) -> f64 {
