@@ -235,7 +235,7 @@ pub fn quantile_select(data: &[f64], q: f64) -> f64 {
 /// order given, found by selection in linear time without sorting. NaN sorts last (`f64::total_cmp`);
 /// with no data every quantile is NaN.
 ///
-/// The values are selected as integers that order like `f64::total_cmp` ([`order_key`]), which
+/// The values are selected as integers that order like `f64::total_cmp` (`order_key`), which
 /// compare faster than floating point; each level after the first is selected among the values above
 /// the previous one.
 pub fn quantiles_select(data: &[f64], qs: &[f64]) -> Vec<f64> {

@@ -217,7 +217,7 @@ fn line_grade(f: &SpecimenFit) -> Grade {
 /// 1. Drop trailing steps that scatter about the origin: the segment ends at the highest step
 ///    whose last `min_steps` steps make a line with MAD ≤ `max_mad`.
 /// 2. Grow a line downward from those `min_steps` steps while each next lower step lies on it
-///    within the noise (the F-test of [`grow`]); a step that departs marks where the direction of
+///    within the noise (the F-test of `grow`); a step that departs marks where the direction of
 ///    decay changes, i.e. where a lower-stability component begins.
 /// 3. Accept the line if it heads for the origin (DANG ≤ `max_dang`) with MAD ≤ `max_mad`; grade A
 ///    or B.

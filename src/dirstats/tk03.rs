@@ -16,7 +16,7 @@ use rand_distr::StandardNormal;
 ///
 /// # Formula
 /// σₗ² = c^{2l} α² / ((l + 1)(2l + 1)) for l − m even, and β σₗ for the standard deviation when l − m
-/// is odd; E[g₁⁰] = g₁⁰ (no other mean). Truncated at `degree`.
+/// is odd; E\[g₁⁰\] = g₁⁰ (no other mean). Truncated at `degree`.
 ///
 /// # References
 /// Constable, C. G. & Parker, R. L. (1988), Statistics of the geomagnetic secular variation for the
