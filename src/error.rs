@@ -111,6 +111,33 @@ pub enum Error {
         /// What went wrong.
         cause: Box<Error>,
     },
+    /// More items than the computation can hold or index (`count` of `what`, at most `limit`).
+    #[error("{count} {what}: more than the {limit} that can be held")]
+    TooMany {
+        /// What is being counted (directions, untilting steps, chrons …).
+        what: &'static str,
+        /// The count asked for.
+        count: u64,
+        /// The largest count accepted.
+        limit: u64,
+    },
+    /// A length of time that should be a positive number of Myr (a polarity interval).
+    #[error("interval length {0} is not a positive number of Myr")]
+    IntervalLength(f64),
+    /// A figure could not be drawn or encoded (`context` says which step, `detail` what failed).
+    #[error("{context}: {detail}")]
+    Figure {
+        /// What was being done (e.g. `drawing the figure failed`, `PNG encoding failed`, `figure fold`).
+        context: String,
+        /// The cause, from the drawing or encoding layer.
+        detail: String,
+    },
+    /// A figure file name without a known extension.
+    #[error("figure path '{0}' must end in .svg or .png")]
+    FigurePath(String),
+    /// An input file that is not UTF-8 text.
+    #[error("{0}: not UTF-8 text")]
+    NotText(String),
     /// Any other invalid input, described in words.
     #[error("{0}")]
     Invalid(String),
@@ -135,5 +162,22 @@ pub fn check_range(name: &'static str, value: f64, lo: f64, hi: f64, range: &'st
         Ok(value)
     } else {
         Err(Error::OutOfRange { name, value, range })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::figures::FigureFormat;
+
+    #[test]
+    fn typed_errors_carry_the_offending_value() {
+        let e = crate::reversals::Sample::new(vec![0.2, -0.1, 0.3], None).unwrap_err();
+        assert_eq!(e, Error::IntervalLength(-0.1));
+        assert_eq!(e.to_string(), "interval length -0.1 is not a positive number of Myr");
+        let e = FigureFormat::from_path(std::path::Path::new("net.pdf")).unwrap_err();
+        assert_eq!(e, Error::FigurePath("net.pdf".into()));
+        let e = Error::TooMany { what: "untilting steps", count: 200_001, limit: 100_000 };
+        assert_eq!(e.to_string(), "200001 untilting steps: more than the 100000 that can be held");
     }
 }

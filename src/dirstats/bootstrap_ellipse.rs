@@ -53,7 +53,11 @@ pub fn bootstrap_ellipse(
     let mean = stats.mean.ok_or_else(|| Error::Undefined("the resultant vanishes (R ≈ 0): no mean".into()))?;
     let means: Vec<Option<Vec3>> = match kind {
         BootstrapKind::Resample => {
-            let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("{n} directions are too many")))?;
+            let pick = UniformIndex::new(n).ok_or(Error::TooMany {
+                what: "directions",
+                count: n as u64,
+                limit: u64::from(u32::MAX),
+            })?;
             mc.run_with(
                 "bootstrap ellipse",
                 STREAM,

@@ -241,7 +241,11 @@ pub fn unflatten_search(directions: &[Direction], mc: &MonteCarlo<'_>, paths_kep
     let orient = observed.principal.to_vector();
     let set: Vec<Prepared> = directions.iter().map(prepare).collect();
     let (found, path) = search(&set, orient, true);
-    let pick = UniformIndex::new(n).ok_or_else(|| Error::Invalid(format!("{n} directions are too many")))?;
+    let pick = UniformIndex::new(n).ok_or(Error::TooMany {
+        what: "directions",
+        count: n as u64,
+        limit: u64::from(u32::MAX),
+    })?;
     let draws: Vec<BootstrapDraw> = mc.run_with(
         "unflatten bootstrap",
         STREAM,

@@ -103,8 +103,10 @@ fn bounds(pairs: &[(Option<Vec3>, Option<Vec3>)], confidence: f64) -> [Component
 /// *J. Geophys. Res.* 96, 11723–11740; Efron & Tibshirani (1993), *An Introduction to the Bootstrap*.
 pub fn bootstrap_overlap(a: &[Vec3], b: &[Vec3], mc: &MonteCarlo, confidence: f64) -> Result<BootstrapOverlap> {
     super::check_two_sets("a bootstrap of two means", a, b, mc.resamples, confidence)?;
-    let too_many = || {
-        Error::Invalid(format!("a bootstrap of {} and {} directions: more than 2³² − 1 in one set", a.len(), b.len()))
+    let too_many = || Error::TooMany {
+        what: "directions in one set of a bootstrap",
+        count: a.len().max(b.len()) as u64,
+        limit: u64::from(u32::MAX),
     };
     let (pick_a, pick_b) =
         (UniformIndex::new(a.len()).ok_or_else(too_many)?, UniformIndex::new(b.len()).ok_or_else(too_many)?);

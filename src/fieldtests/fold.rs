@@ -156,7 +156,7 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     }
     let n_steps = ((opt.to - opt.from) / opt.step + 1e-9).floor() as usize + 1;
     if n_steps > 100_000 {
-        return Err(Error::Invalid(format!("{n_steps} untilting steps is too many")));
+        return Err(Error::TooMany { what: "untilting steps", count: n_steps as u64, limit: 100_000 });
     }
     let steps: Vec<f64> = (0..n_steps).map(|s| opt.from + s as f64 * opt.step).collect();
     let curves = UntiltCurves::new(v, beds, &steps);
@@ -173,8 +173,11 @@ pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOption
     let data_curve = curve_of(&vec![1u32; n]);
     let best_untilt = steps[argmax(&data_curve)];
     let keep = opt.keep_curves;
-    let pick = UniformIndex::new(n)
-        .ok_or_else(|| Error::Invalid(format!("a fold test of {n} directions: more than 2³² − 1")))?;
+    let pick = UniformIndex::new(n).ok_or(Error::TooMany {
+        what: "directions in a fold test",
+        count: n as u64,
+        limit: u64::from(u32::MAX),
+    })?;
     let scratch = || (vec![0u32; n], vec![0u32; TILE * n], CurveScratch::default());
     // The bootstrap (resamples in tiles that share one pass over the untilted numbers), with the two
     // cheap serial summaries computed alongside on the other thread.

@@ -37,7 +37,7 @@ impl FigureFormat {
         match path.extension().and_then(|e| e.to_str()).map(str::to_lowercase).as_deref() {
             Some("svg") => Ok(Self::Svg),
             Some("png") => Ok(Self::Png),
-            _ => Err(Error::Invalid(format!("figure path '{}' must end in .svg or .png", path.display()))),
+            _ => Err(Error::FigurePath(path.display().to_string())),
         }
     }
     /// The file extension.
@@ -66,7 +66,7 @@ pub fn de<E: std::fmt::Display>(e: E) -> String {
 pub fn render<F: Figure>(fig: &F, format: FigureFormat) -> Result<Vec<u8>> {
     register_fonts();
     let (w, h) = fig.size();
-    let fail = |e: String| Error::Invalid(format!("drawing the figure failed: {e}"));
+    let fail = |e: String| Error::Figure { context: "drawing the figure failed".into(), detail: e };
     match format {
         FigureFormat::Svg => {
             let mut s = String::new();
@@ -95,8 +95,10 @@ fn encode_png(rgb: &[u8], w: u32, h: u32) -> Result<Vec<u8>> {
         let mut enc = png::Encoder::new(&mut out, w, h);
         enc.set_color(png::ColorType::Rgb);
         enc.set_depth(png::BitDepth::Eight);
-        let mut wr = enc.write_header().map_err(|e| Error::Invalid(format!("PNG encoding failed: {e}")))?;
-        wr.write_image_data(rgb).map_err(|e| Error::Invalid(format!("PNG encoding failed: {e}")))?;
+        let png =
+            |e: png::EncodingError| Error::Figure { context: "PNG encoding failed".into(), detail: e.to_string() };
+        let mut wr = enc.write_header().map_err(png)?;
+        wr.write_image_data(rgb).map_err(png)?;
     }
     Ok(out)
 }

@@ -37,7 +37,7 @@ impl Stage {
 /// Render `fig` as SVG and PNG under the file stem `stem`, with its caption.
 pub(super) fn draw<F: Figure>(fig: &F, stem: &str, caption: String) -> Result<FigureOutput> {
     let svg = String::from_utf8(render(fig, FigureFormat::Svg)?)
-        .map_err(|e| Error::Invalid(format!("figure {stem}: {e}")))?;
+        .map_err(|e| Error::Figure { context: format!("figure {stem}"), detail: e.to_string() })?;
     let png = render(fig, FigureFormat::Png)?;
     Ok(FigureOutput { stem: stem.into(), caption, svg, png })
 }

@@ -299,7 +299,11 @@ pub fn simulate_timescale(m: &TimeScaleModel, seed: u64) -> Result<TimeScale> {
         }
         edges.push(t);
         if edges.len() > limit {
-            return Err(Error::Invalid(format!("more than {limit} chrons; shorten the span")));
+            return Err(Error::TooMany {
+                what: "chrons (shorten the span)",
+                count: edges.len() as u64,
+                limit: limit as u64,
+            });
         }
     }
     // Boundaries are kept to AGE_QUANTUM (so that a written table reads back exactly); a chron that

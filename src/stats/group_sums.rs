@@ -229,11 +229,12 @@ impl GroupSums {
 }
 
 /// `i` as a `u32` link, or an error past the last usable value.
-fn small_index(i: usize, what: &str) -> Result<u32> {
-    u32::try_from(i)
-        .ok()
-        .filter(|&k| k != NONE)
-        .ok_or_else(|| Error::Invalid(format!("more than {} {what}: too many to hold", NONE - 1)))
+fn small_index(i: usize, what: &'static str) -> Result<u32> {
+    u32::try_from(i).ok().filter(|&k| k != NONE).ok_or_else(|| Error::TooMany {
+        what,
+        count: i as u64,
+        limit: u64::from(NONE - 1),
+    })
 }
 
 impl<'a> GroupSum<'a> {

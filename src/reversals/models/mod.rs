@@ -104,7 +104,7 @@ impl Sample {
     /// Validate and summarise: every length finite and positive, at least two complete intervals.
     pub fn new(mut complete: Vec<f64>, censored: Option<f64>) -> Result<Sample> {
         if let Some(x) = complete.iter().chain(censored.iter()).find(|x| !(x.is_finite() && **x > 0.0)) {
-            return Err(Error::Invalid(format!("interval length {x} is not a positive number of Myr")));
+            return Err(Error::IntervalLength(*x));
         }
         if complete.len() < 2 {
             return Err(Error::TooFew {
@@ -129,7 +129,7 @@ impl Sample {
     /// The same sample with a second right-censored length at the old end (`None` removes it).
     pub fn with_old_censored(mut self, c: Option<f64>) -> Result<Sample> {
         if let Some(x) = c.filter(|x| !(x.is_finite() && *x > 0.0)) {
-            return Err(Error::Invalid(format!("interval length {x} is not a positive number of Myr")));
+            return Err(Error::IntervalLength(x));
         }
         self.censored_old = c;
         Ok(self)

@@ -48,8 +48,7 @@ pub(in crate::section) fn parse(f: &ProjectFile) -> Result<Table> {
 pub(in crate::section) fn read_inputs(p: &Project, log: &mut RunLog) -> Result<Inputs> {
     let (settings, unknown) = match &p.settings {
         Some(f) => {
-            let text =
-                std::str::from_utf8(&f.bytes).map_err(|_| Error::Invalid(format!("{}: not UTF-8 text", f.name)))?;
+            let text = std::str::from_utf8(&f.bytes).map_err(|_| Error::NotText(f.name.clone()))?;
             SectionSettings::from_settings(&Settings::parse(&f.name, text)?)?
         }
         None => (SectionSettings::default(), vec![]),
