@@ -211,7 +211,12 @@ unsafe fn map2_avx2<F: Fn(f64, f64) -> f64>(a: &[f64], b: &[f64], out: &mut [f64
 /// Natural logarithm of every element (positive finite inputs; subnormal ones are read as the
 /// smallest normal number).
 pub(crate) fn ln_into(xs: &[f64], out: &mut [f64]) {
-    map_into(xs, out, |x| ln_basic(x.max(f64::MIN_POSITIVE)))
+    map_into(
+        xs,
+        out,
+        #[inline(always)]
+        |x| ln_basic(x.max(f64::MIN_POSITIVE)),
+    )
 }
 
 /// eˣ of every element.

@@ -64,8 +64,18 @@ pub(crate) fn ln_upper_tail(u: f64) -> f64 {
 /// ln Φ(w) into `ln_cdf` and ln Φ(−w) into `ln_sf` for every w: the smaller tail from
 /// [`ln_upper_tail`], the larger one as ln(1 − e^(smaller)).
 pub(crate) fn norm_log_tails(w: &[f64], ln_cdf: &mut [f64], ln_sf: &mut [f64]) {
-    map_into(w, ln_sf, |w| ln_upper_tail(w.abs()));
-    map_into(ln_sf, ln_cdf, |small| ln_basic(1.0 - exp_basic(small)));
+    map_into(
+        w,
+        ln_sf,
+        #[inline(always)]
+        |w| ln_upper_tail(w.abs()),
+    );
+    map_into(
+        ln_sf,
+        ln_cdf,
+        #[inline(always)]
+        |small| ln_basic(1.0 - exp_basic(small)),
+    );
     for ((&w, lc), ls) in w.iter().zip(ln_cdf.iter_mut()).zip(ln_sf.iter_mut()) {
         if w < 0.0 {
             std::mem::swap(lc, ls);

@@ -103,9 +103,12 @@ pub(crate) fn gamma_p_sorted(a: f64, z: &[f64], ln_gamma_a: f64, out: &mut [f64]
     let cut = if a > 0.0 && a <= MAX_SHAPE { z.partition_point(|&v| v <= a + 40.0 + 10.0 * a.sqrt()) } else { 0 };
     let lg1 = ln_gamma_a + a.ln();
     // Prefactors e^(−z) z^a / Γ(a + 1), the exponentials a slice at a time.
-    crate::fastmath::map_into(&z[..cut], &mut out[..cut], |v| {
-        crate::fastmath::exp_basic(a * crate::fastmath::ln_basic(v.max(f64::MIN_POSITIVE)) - v - lg1)
-    });
+    crate::fastmath::map_into(
+        &z[..cut],
+        &mut out[..cut],
+        #[inline(always)]
+        |v| crate::fastmath::exp_basic(a * crate::fastmath::ln_basic(v.max(f64::MIN_POSITIVE)) - v - lg1),
+    );
     inv.clear();
     for (zc, oc) in z[..cut].chunks(LANES).zip(out[..cut].chunks_mut(LANES)) {
         if !series_lanes(a, zc, oc, inv) {

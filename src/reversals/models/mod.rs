@@ -310,18 +310,24 @@ impl Fitted {
 /// ln Φ(z), the log of the standard normal distribution function, accurate far into the lower tail.
 ///
 /// # Formula
-/// Φ(z) = ½ erfc(−z/√2); below z = −30 the asymptotic series
-/// ln Φ(z) ≈ −z²/2 − ln(−z) − ½ ln 2π + ln(1 − 1/z² + 3/z⁴ − 15/z⁶).
+/// For z < 0 the lower tail directly, ln Φ(z) = ln(½ erfc(−z/√2)) by the Chebyshev form of
+/// `normal_tail::ln_upper_tail` (no underflow); for z ≥ 0, ln Φ(z) = ln(1 − Φ(−z)).
 ///
 /// # References
-/// Abramowitz, M. & Stegun, I. A. (1964), *Handbook of Mathematical Functions*, 26.2.12.
+/// Abramowitz, M. & Stegun, I. A. (1964), *Handbook of Mathematical Functions*, 26.2.2 and 7.1.2;
+/// Press, W. H. et al. (2007), *Numerical Recipes*, 3rd ed., §6.2.2.
 pub fn ln_norm_cdf(z: f64) -> f64 {
-    if z > -30.0 {
-        (0.5 * statrs::function::erf::erfc(-z / std::f64::consts::SQRT_2)).ln()
+    if z.is_nan() || z == f64::NEG_INFINITY {
+        return z;
+    }
+    if z == f64::INFINITY {
+        return 0.0;
+    }
+    let small = crate::reversals::normal_tail::ln_upper_tail(z.abs());
+    if z < 0.0 {
+        small
     } else {
-        let z2 = z * z;
-        -0.5 * z2 - (-z).ln() - 0.5 * (2.0 * std::f64::consts::PI).ln()
-            + (1.0 - 1.0 / z2 + 3.0 / (z2 * z2) - 15.0 / (z2 * z2 * z2)).ln()
+        (-small.exp()).ln_1p()
     }
 }
 

@@ -31,7 +31,12 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     // Σ w, Σ w ln y, Σ w ln² y with w = exp(k (ln y − top)), the exponentials over the whole slice at once.
     let mut w = vec![0.0; ly.len()];
     let mut sums = |k: f64| {
-        crate::fastmath::map_into(&ly, &mut w, |l| crate::fastmath::exp_basic(k * (l - top)));
+        crate::fastmath::map_into(
+            &ly,
+            &mut w,
+            #[inline(always)]
+            |l| crate::fastmath::exp_basic(k * (l - top)),
+        );
         let (mut s0, mut s1, mut s2) = (0.0, 0.0, 0.0);
         for (&wi, &l) in w.iter().zip(&ly) {
             s0 += wi;
