@@ -97,6 +97,7 @@
 pub mod demag;
 pub mod dirstats;
 pub mod error;
+pub(crate) mod fastmath;
 pub mod field;
 pub mod fieldtests;
 pub mod figures;

@@ -6,7 +6,7 @@
 //! samples of the same size from the fitted model, refits the model to each, and recomputes the
 //! statistic; the open chron, when present, is held at its observed length in every replicate.
 
-use super::models::{Fitted, Sample};
+use super::models::{draw_sorted, EdfValues, Fitted, Sample};
 use crate::error::{Error, Result};
 use crate::montecarlo::MonteCarlo;
 
@@ -55,29 +55,35 @@ pub fn ad_statistic(sorted: &[f64], f: &Fitted) -> f64 {
     -(n as f64) - sum / n as f64
 }
 
-/// Statistics (D, A²) of a sample under a fitted model, from one CDF evaluation per interval
-/// (ln S = ln(1 − F) except in the far upper tail, where ln S is computed directly). `cdf` is a
-/// buffer for the CDF values.
-fn statistics(s: &Sample, f: &Fitted, cdf: &mut Vec<f64>) -> (f64, f64) {
-    let x = &s.complete;
-    let n = x.len();
-    f.cdf_into(x, cdf);
+/// Statistics (D, A²) from F, ln F and ln S at the sorted points.
+fn d_and_a2(e: &EdfValues) -> (f64, f64) {
+    let n = e.cdf.len();
     let nf = n as f64;
-    let d = cdf.iter().enumerate().fold(0.0f64, |d, (i, &c)| d.max((i as f64 + 1.0) / nf - c).max(c - i as f64 / nf));
-    let ln_f = |i: usize| cdf[i].max(1e-300).ln();
-    let ln_s = |i: usize| if cdf[i] < 1.0 - 1e-8 { (-cdf[i]).ln_1p() } else { f.ln_sf(x[i]) }.max(-690.0);
-    let sum: f64 = (0..n).map(|i| (2 * i + 1) as f64 * (ln_f(i) + ln_s(n - 1 - i))).sum();
+    let d = e.cdf.iter().enumerate().fold(0.0f64, |d, (i, &c)| d.max((i as f64 + 1.0) / nf - c).max(c - i as f64 / nf));
+    let sum: f64 =
+        e.ln_cdf.iter().zip(e.ln_sf.iter().rev()).enumerate().map(|(i, (lf, ls))| (2 * i + 1) as f64 * (lf + ls)).sum();
     (d, -nf - sum / nf)
+}
+
+/// Statistics (D, A²) of a sample under a fitted model, the model evaluated over the whole sorted
+/// sample at once ([`EdfValues`]; ln S directly, not as ln(1 − F), in the upper tail).
+fn statistics(s: &Sample, f: &Fitted, e: &mut EdfValues) -> (f64, f64) {
+    let mut lx = vec![0.0; s.n()];
+    crate::fastmath::ln_into(&s.complete, &mut lx);
+    e.fill(f, &s.complete, &lx);
+    d_and_a2(e)
 }
 
 /// Buffers of one bootstrap replicate, reused across a batch of replicates.
 #[derive(Default)]
 struct Scratch {
     xs: Vec<f64>,
-    cdf: Vec<f64>,
+    lx: Vec<f64>,
+    edf: EdfValues,
 }
 
-/// The bootstrap null distribution of (D, A²): replicate samples drawn from `f`, refitted.
+/// The bootstrap null distribution of (D, A²): replicate samples drawn from `f` (already sorted, see
+/// [`draw_sorted`]), refitted.
 ///
 /// Returns one pair per replicate whose refit succeeded, in replicate order.
 pub fn null_statistics(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64) -> Vec<(f64, f64)> {
@@ -85,10 +91,12 @@ pub fn null_statistics(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64)
     let label = format!("goodness of fit ({})", f.model.name());
     mc.run_with(&label, stream, Scratch::default, |buf, rng, _| {
         let mut xs = std::mem::take(&mut buf.xs);
-        xs.clear();
-        xs.extend((0..n).map(|_| f.sample(rng)));
-        let rs = s.replicate(xs).ok()?;
-        let st = f.model.fit(&rs).ok().map(|rf| statistics(&rs, &rf, &mut buf.cdf));
+        draw_sorted(f, n, rng, &mut xs, &mut buf.lx);
+        let rs = Sample::from_sorted_logs(xs, &buf.lx, s).ok()?;
+        let st = f.model.fit(&rs).ok().map(|rf| {
+            buf.edf.fill(&rf, &rs.complete, &buf.lx);
+            d_and_a2(&buf.edf)
+        });
         buf.xs = rs.complete;
         let st = st?;
         (st.0.is_finite() && st.1.is_finite()).then_some(st)
@@ -109,7 +117,7 @@ pub fn null_statistics(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64)
 /// Bootstrap based goodness-of-fit tests. *Metrika* 40, 243–256. Davison, A. C. & Hinkley, D. V.
 /// (1997), *Bootstrap Methods and their Application*, CUP.
 pub fn goodness_of_fit(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64) -> Result<GoodnessOfFit> {
-    let (d, a) = statistics(s, f, &mut Vec::new());
+    let (d, a) = statistics(s, f, &mut EdfValues::default());
     let null = null_statistics(f, s, mc, stream);
     if null.is_empty() {
         return Err(Error::Undefined(format!(
@@ -148,7 +156,7 @@ mod tests {
         // The shared-evaluation path used by the bootstrap gives the same two numbers.
         let g = Fitted { model: Model::Gamma, params: [2.0, 0.2] };
         let s = Sample::new(vec![0.05, 0.2, 0.33, 0.41, 0.9, 1.7, 2.9], None).unwrap();
-        let (d, a) = statistics(&s, &g, &mut Vec::new());
+        let (d, a) = statistics(&s, &g, &mut EdfValues::default());
         assert!((d - ks_statistic(&s.complete, |v| g.cdf(v))).abs() < 1e-15);
         assert!((a - ad_statistic(&s.complete, &g)).abs() < 1e-9);
     }
@@ -183,5 +191,40 @@ mod tests {
         let gg = goodness_of_fit(&fg, &s, &mc, 2).unwrap();
         assert!(gg.ad_p > 0.05, "{gg:?}");
         assert_eq!(gg.resamples, 200);
+    }
+    #[test]
+    fn null_distribution_unchanged_by_the_fast_path() {
+        // The bootstrap's fast path (sorted draws, slice kernels, Newton refits) against the plain one
+        // (draws one at a time, Sample::new, the one-point statistics of Stephens 1974): the means of
+        // D and A² over 3 000 replicates each (independent streams) agree within 4 standard errors of
+        // the difference, for every model; n = 22 with two censored lengths.
+        let base: Vec<f64> = (1..=22).map(|i| 0.05 + 0.37 * (i as f64 * 0.61).sin().abs()).collect();
+        let s = Sample::new(base, Some(0.78)).unwrap().with_old_censored(Some(0.8)).unwrap();
+        let reps = 3000;
+        for model in Model::ALL {
+            let f = model.fit(&s).unwrap();
+            let fast = null_statistics(&f, &s, &MonteCarlo::new(21, reps), 0);
+            let plain: Vec<(f64, f64)> = MonteCarlo::new(22, reps)
+                .run("plain", 0, |r, _| {
+                    let xs: Vec<f64> = (0..s.n()).map(|_| f.sample(r)).collect();
+                    let rs = s.replicate(xs).ok()?;
+                    let rf = model.fit(&rs).ok()?;
+                    Some((ks_statistic(&rs.complete, |v| rf.cdf(v)), ad_statistic(&rs.complete, &rf)))
+                })
+                .into_iter()
+                .flatten()
+                .collect();
+            let stats = |v: &[f64]| {
+                let m = v.iter().sum::<f64>() / v.len() as f64;
+                (m, v.iter().map(|x| (x - m).powi(2)).sum::<f64>() / (v.len() as f64 - 1.0) / v.len() as f64)
+            };
+            for k in 0..2 {
+                let pick = |t: &[(f64, f64)]| t.iter().map(|t| if k == 0 { t.0 } else { t.1 }).collect::<Vec<f64>>();
+                let ((ma, va), (mb, vb)) = (stats(&pick(&fast)), stats(&pick(&plain)));
+                let z = (ma - mb) / (va + vb).sqrt();
+                eprintln!("{model:?} {}: fast {ma:.5}, plain {mb:.5}, {z:.2} s.e.", ["D", "A2"][k]);
+                assert!(z.abs() < 4.0, "{model:?}: mean {} fast {ma}, plain {mb} ({z:.2} s.e.)", ["D", "A2"][k]);
+            }
+        }
     }
 }

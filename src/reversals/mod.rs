@@ -9,6 +9,7 @@ pub mod gof;
 pub mod hazard;
 pub mod intervals;
 pub mod models;
+mod normal_tail;
 pub mod optimize;
 pub mod rate;
 pub mod renewal;

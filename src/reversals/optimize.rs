@@ -148,6 +148,61 @@ pub fn newton_bisect<G: FnMut(f64) -> (f64, f64)>(
     Some(x)
 }
 
+/// Maximise a smooth function of two parameters by Newton's method from `start`.
+///
+/// `f` is the function, `derivs` its gradient and Hessian `[∂₀₀, ∂₀₁, ∂₁₁]`, `inside` the domain.
+/// A step that leaves the domain or does not increase `f` is halved (up to 40 times). Stops when the
+/// increase that the quadratic model predicts, ½ gᵀ(−H)⁻¹g, is below `tol` · (1 + |f|). Returns `None`
+/// when the Hessian is not negative definite, a step cannot be made, or `max_iter` steps do not
+/// converge: the caller then falls back to [`nelder_mead`].
+///
+/// # References
+/// Nocedal, J. & Wright, S. J. (2006), *Numerical Optimization*, 2nd ed., §3.1 (backtracking) and
+/// §3.3 (Newton's method); Boyd, S. & Vandenberghe, L. (2004), *Convex Optimization*, §9.5.1 (the
+/// Newton decrement as a stopping rule).
+pub fn newton_max2<F, D, I>(f: F, derivs: D, inside: I, start: [f64; 2], tol: f64, max_iter: usize) -> Option<[f64; 2]>
+where
+    F: Fn([f64; 2]) -> f64,
+    D: Fn([f64; 2]) -> ([f64; 2], [f64; 3]),
+    I: Fn([f64; 2]) -> bool,
+{
+    let mut p = start;
+    let mut fp = f(p);
+    if !(inside(p) && fp.is_finite()) {
+        return None;
+    }
+    for _ in 0..max_iter {
+        let (g, h) = derivs(p);
+        let det = h[0] * h[2] - h[1] * h[1];
+        if !(h[0] < 0.0 && det > 0.0 && det.is_finite() && g[0].is_finite() && g[1].is_finite()) {
+            return None;
+        }
+        // s = −H⁻¹ g.
+        let s = [(h[1] * g[1] - h[2] * g[0]) / det, (h[1] * g[0] - h[0] * g[1]) / det];
+        let gain = 0.5 * (g[0] * s[0] + g[1] * s[1]);
+        if gain <= tol * (1.0 + fp.abs()) {
+            return Some(p);
+        }
+        let mut t = 1.0;
+        let mut moved = false;
+        for _ in 0..40 {
+            let q = [p[0] + t * s[0], p[1] + t * s[1]];
+            if inside(q) {
+                let fq = f(q);
+                if fq.is_finite() && fq >= fp {
+                    (p, fp, moved) = (q, fq, true);
+                    break;
+                }
+            }
+            t *= 0.5;
+        }
+        if !moved {
+            return None;
+        }
+    }
+    None
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -165,6 +220,27 @@ mod tests {
         );
         assert!(m.converged);
         assert!((m.x[0] - 1.0).abs() < 1e-5 && (m.x[1] - 1.0).abs() < 1e-5, "{m:?}");
+    }
+
+    #[test]
+    fn newton_max2_finds_a_quadratic_maximum() {
+        // −(x − 1)² − 2(y + 3)² + xy/2 has its maximum where the gradient vanishes (solved by hand
+        // with Cramer's rule):
+        let f = |p: [f64; 2]| -(p[0] - 1.0).powi(2) - 2.0 * (p[1] + 3.0).powi(2) + 0.5 * p[0] * p[1];
+        let d = |p: [f64; 2]| ([-2.0 * (p[0] - 1.0) + 0.5 * p[1], -4.0 * (p[1] + 3.0) + 0.5 * p[0]], [-2.0, 0.5, -4.0]);
+        // −2x + y/2 = −2, x/2 − 4y = 12 → det = 8 − 1/4 = 31/4; x = (8 − 6)/(31/4) = 8/31, y = (−24 + 1)/(31/4) = −92/31.
+        let m = newton_max2(f, d, |_| true, [10.0, 10.0], 1e-15, 20).unwrap();
+        assert!((m[0] - 8.0 / 31.0).abs() < 1e-12 && (m[1] + 92.0 / 31.0).abs() < 1e-12, "{m:?}");
+        // A convex function has no maximum: the Hessian test refuses it.
+        assert!(newton_max2(
+            |p| p[0] * p[0] + p[1] * p[1],
+            |p| ([2.0 * p[0], 2.0 * p[1]], [2.0, 0.0, 2.0]),
+            |_| true,
+            [1.0, 1.0],
+            1e-12,
+            20
+        )
+        .is_none());
     }
 
     #[test]

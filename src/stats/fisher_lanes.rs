@@ -7,78 +7,14 @@
 //! bit for bit, on every machine.
 
 use super::FisherSampler;
+use crate::fastmath::{estrin, ln_basic, ATANH, EXP_MAGIC_BITS, LN2_HI, LN2_LO, MANTISSA, ONE_BITS, TWO52};
 use crate::sphere::Vec3;
 use rand::Rng;
 
-const ONE_BITS: u64 = 0x3FF0_0000_0000_0000;
 /// 2.0: a mantissa under this exponent gives a number in [2, 4).
 const TWO_BITS: u64 = 0x4000_0000_0000_0000;
 /// The top 32 bits of a 52-bit mantissa.
 const HIGH32_AT_20: u64 = 0x000F_FFFF_FFF0_0000;
-const MANTISSA: u64 = 0x000F_FFFF_FFFF_FFFF;
-/// 2⁵² + exponent field, read as a double, minus 2⁵² gives the exponent field as a double.
-const EXP_MAGIC_BITS: u64 = 0x4330_0000_0000_0000;
-const TWO52: f64 = 4_503_599_627_370_496.0;
-/// ln 2 = LN2_HI + LN2_LO, LN2_HI with its low 32 bits zero so that e · LN2_HI is exact for |e| < 2²⁰
-/// (the split of fdlibm's `e_log.c`, bit patterns 0x3fe62e42fee00000 and 0x3dea39ef35793c76).
-#[allow(clippy::excessive_precision)]
-const LN2_HI: f64 = 6.931_471_803_691_238_164_90e-1;
-#[allow(clippy::excessive_precision)]
-const LN2_LO: f64 = 1.908_214_929_270_587_700_02e-10;
-/// Coefficients 1/(2k + 1), k = 0 … 11, of ln m = 2f Σ f²ᵏ/(2k + 1), f = (m − 1)/(m + 1).
-const ATANH: [f64; 12] = [
-    1.0,
-    1.0 / 3.0,
-    1.0 / 5.0,
-    1.0 / 7.0,
-    1.0 / 9.0,
-    1.0 / 11.0,
-    1.0 / 13.0,
-    1.0 / 15.0,
-    1.0 / 17.0,
-    1.0 / 19.0,
-    1.0 / 21.0,
-    1.0 / 23.0,
-];
-
-/// Σₖ ATANH[k] zᵏ (k = 0 … 11) by Estrin's scheme (pairs, then pairs of pairs with z², z⁴, z⁸): a
-/// chain of 5 dependent steps instead of Horner's 11, with the same operations on any number type.
-#[inline(always)]
-fn estrin<T: Copy>(z: T, c: impl Fn(usize) -> T, add: impl Fn(T, T) -> T, mul: impl Fn(T, T) -> T) -> T {
-    let z2 = mul(z, z);
-    let z4 = mul(z2, z2);
-    let pair = |k: usize| add(c(k), mul(c(k + 1), z));
-    let (p0, p1, p2, p3, p4, p5) = (pair(0), pair(2), pair(4), pair(6), pair(8), pair(10));
-    let q0 = add(p0, mul(p1, z2));
-    let q1 = add(p2, mul(p3, z2));
-    let q2 = add(p4, mul(p5, z2));
-    // Σ = q0 + z⁴ q1 + z⁸ q2 = q0 + z⁴ (q1 + z⁴ q2)
-    add(q0, mul(z4, add(q1, mul(z4, q2))))
-}
-
-/// Natural logarithm of a positive normal number by basic operations only.
-///
-/// # Formula
-/// w = m · 2ᵉ with m in [√½, √2); ln w = e ln 2 + 2 atanh f, f = (m − 1)/(m + 1), |f| ≤ 0.1716, the
-/// series 2f Σ f²ᵏ/(2k + 1) cut after k = 11 (f²⁴/25 < 10⁻¹⁹), summed by [`estrin`]; ln 2 split in two parts so that e ln 2
-/// is exact to rounding.
-///
-/// # References
-/// Abramowitz, M. & Stegun, I. A. (1964), *Handbook of Mathematical Functions*, 4.1.27 (the series of
-/// ln((1 + f)/(1 − f))); the split ln 2 after Tang, P. T. P. (1990), *ACM Trans. Math. Softw.* 16, 378.
-#[inline(always)]
-fn ln_basic(w: f64) -> f64 {
-    let bits = w.to_bits();
-    let e0 = f64::from_bits((bits >> 52) | EXP_MAGIC_BITS) - TWO52 - 1023.0;
-    let m0 = f64::from_bits((bits & MANTISSA) | ONE_BITS);
-    let big = m0 > std::f64::consts::SQRT_2;
-    let m = if big { m0 * 0.5 } else { m0 };
-    let e = if big { e0 + 1.0 } else { e0 };
-    let f = (m - 1.0) / (m + 1.0);
-    let f2 = f * f;
-    let p = estrin(f2, |k| ATANH[k], |a, b| a + b, |a, b| a * b);
-    e * LN2_HI + (2.0 * f * p + e * LN2_LO)
-}
 
 /// Lanes: two sets of four, so that two rounds of 256-bit work are in flight at once.
 const LANES: usize = 8;
@@ -457,27 +393,6 @@ mod tests {
     use super::*;
     use crate::montecarlo::replicate_rng;
     use crate::sphere::Direction;
-
-    #[test]
-    fn logarithm_matches_the_library_one() {
-        assert_eq!((LN2_HI.to_bits(), LN2_LO.to_bits()), (0x3FE6_2E42_FEE0_0000, 0x3DEA_39EF_3579_3C76));
-        assert_eq!(LN2_HI + LN2_LO, std::f64::consts::LN_2);
-        // Against the system ln over (2⁻⁵², 1] and a few exact cases: within 3 units in the last place
-        // of |ln w| (plus 1e-300 for w = 1).
-        use rand::RngExt;
-        let mut rng = replicate_rng(4, 0, 0);
-        for i in 0..200_000 {
-            let w = if i % 2 == 0 { rng.random::<f64>() } else { (-(rng.random::<f64>() * 36.0)).exp() };
-            if !(w > 0.0) {
-                continue;
-            }
-            let (got, want) = (ln_basic(w), w.ln());
-            assert!((got - want).abs() <= 3.0 * f64::EPSILON * want.abs() + 1e-300, "ln({w}) = {got}, library {want}");
-        }
-        assert_eq!(ln_basic(1.0), 0.0);
-        assert!((ln_basic(0.5) + std::f64::consts::LN_2).abs() < 1e-16);
-        assert!((ln_basic(2f64.powi(-52)) + 52.0 * std::f64::consts::LN_2).abs() < 1e-13);
-    }
 
     #[test]
     fn vector_and_portable_paths_agree_bit_for_bit() {

@@ -4,7 +4,7 @@
 //! f(x) = √(λ/(2πx³)) exp(−λ(x − μ)²/(2μ²x));
 //! F(x) = Φ(√(λ/x)(x/μ − 1)) + e^(2λ/μ) Φ(−√(λ/x)(x/μ + 1)) (the second term in log space).
 //! Without censoring the MLE is μ = x̄, 1/λ = mean(1/x) − 1/x̄; with a censored length the
-//! likelihood is maximised by Nelder–Mead on (ln μ, ln λ).
+//! likelihood is maximised by Newton's method from there, falling back to Nelder–Mead on (ln μ, ln λ).
 //!
 //! # References
 //! Chhikara, R. S. & Folks, J. L. (1989), *The Inverse Gaussian Distribution*, Dekker, ch. 2 and 4;
@@ -30,6 +30,36 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     if s.censored_lengths().next().is_none() {
         return Ok(start);
     }
+    if let Some(p) = fit_newton(s, start) {
+        return Ok(p);
+    }
+    fit_nelder_mead(s, start)
+}
+
+/// The complete-data log-likelihood with its analytic gradient and Hessian in (μ, λ).
+///
+/// # Formula
+/// ℓ = ½ (n ln λ − n ln 2π − 3 Σ ln x) − λ (Σx/μ² − 2n/μ + Σ1/x)/2; ∂ℓ/∂μ = λ (Σx/μ³ − n/μ²),
+/// ∂ℓ/∂λ = n/(2λ) − (Σx/μ² − 2n/μ + Σ1/x)/2; ∂²ℓ/∂μ² = λ (2n/μ³ − 3Σx/μ⁴),
+/// ∂²ℓ/∂μ∂λ = Σx/μ³ − n/μ², ∂²ℓ/∂λ² = −n/(2λ²).
+fn complete_derivs(s: &Sample, p: [f64; 2]) -> (f64, [f64; 2], [f64; 3]) {
+    let [m, l] = p;
+    let n = s.n() as f64;
+    let (m2, m3) = (m * m, m * m * m);
+    let dm = s.sum_x / m3 - n / m2;
+    let g = [l * dm, 0.5 * n / l - 0.5 * (s.sum_x / m2 - 2.0 * n / m + s.sum_inv)];
+    let h = [l * (2.0 * n / m3 - 3.0 * s.sum_x / (m2 * m2)), dm, -0.5 * n / (l * l)];
+    (loglik_complete(&p, s), g, h)
+}
+
+/// The censored fit by Newton's method from the uncensored one (`None` if it does not converge).
+pub(super) fn fit_newton(s: &Sample, start: [f64; 2]) -> Option<[f64; 2]> {
+    let inside = |p: [f64; 2]| p[0] > 0.0 && p[1] > 0.0;
+    super::newton_censored(s, |p| complete_derivs(s, p), |p, c| ln_sf(&p, c), inside, start)
+}
+
+/// The censored fit by Nelder–Mead on (ln μ, ln λ): the fallback of [`fit_newton`].
+pub(super) fn fit_nelder_mead(s: &Sample, start: [f64; 2]) -> Result<[f64; 2]> {
     let ll = |lm: f64, ll: f64| {
         let p = [lm.exp(), ll.exp()];
         loglik_complete(&p, s) + s.censored_lengths().map(|c| ln_sf(&p, c)).sum::<f64>()

@@ -21,21 +21,31 @@ use rand::RngExt;
 pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     let r = s.n() as f64;
     let g = (s.sum_ln / r).exp();
-    let ly: Vec<f64> = s.complete.iter().copied().chain(s.censored_lengths()).map(|x| (x / g).ln()).collect();
+    let mut ly: Vec<f64> = s.complete.iter().copied().chain(s.censored_lengths()).collect();
+    let lx = ly.clone();
+    crate::fastmath::ln_into(&lx, &mut ly);
+    let ln_g = s.sum_ln / r;
+    ly.iter_mut().for_each(|l| *l -= ln_g);
     let mean_lc = ly[..s.n()].iter().sum::<f64>() / r;
     let top = ly.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-    // Σ w, Σ w ln y, Σ w ln² y with w = exp(k (ln y − top)).
-    let sums = |k: f64| {
+    // Σ w, Σ w ln y, Σ w ln² y with w = exp(k (ln y − top)), the exponentials over the whole slice at once.
+    let mut w = vec![0.0; ly.len()];
+    let mut sums = |k: f64| {
+        crate::fastmath::map_into(
+            &ly,
+            &mut w,
+            #[inline(always)]
+            |l| crate::fastmath::exp_basic(k * (l - top)),
+        );
         let (mut s0, mut s1, mut s2) = (0.0, 0.0, 0.0);
-        for &l in &ly {
-            let w = (k * (l - top)).exp();
-            s0 += w;
-            s1 += w * l;
-            s2 += w * l * l;
+        for (&wi, &l) in w.iter().zip(&ly) {
+            s0 += wi;
+            s1 += wi * l;
+            s2 += wi * l * l;
         }
         (s0, s1, s2)
     };
-    let profile = |k: f64| {
+    let mut profile = |k: f64| {
         let (s0, s1, s2) = sums(k);
         let m1 = s1 / s0;
         (1.0 / k + mean_lc - m1, -1.0 / (k * k) - (s2 / s0 - m1 * m1))
@@ -46,7 +56,7 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     }
     // Start: the shape whose ln-spread is π/(k√6) (Gumbel moments), common practice.
     let start = std::f64::consts::PI / (spread * 6f64.sqrt());
-    let k = newton_bisect(profile, 1e-3, 1e3, start, 1e-13).ok_or_else(|| {
+    let k = newton_bisect(&mut profile, 1e-3, 1e3, start, 1e-13).ok_or_else(|| {
         Error::Undefined("the Weibull shape has no finite maximum-likelihood value for these intervals".into())
     })?;
     let (s0, _, _) = sums(k);

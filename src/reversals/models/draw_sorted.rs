@@ -1,0 +1,127 @@
+//! Replicate samples drawn from a fitted model already in ascending order, with their natural
+//! logarithms, for the goodness-of-fit bootstrap (whose statistics need sorted samples).
+
+use super::{Fitted, Model};
+use crate::fastmath::{exp_into, ln_into};
+use crate::montecarlo::McRng;
+use rand::RngExt;
+use rand_distr::Distribution;
+
+/// `n` lengths from `f`, ascending, into `x`, and their natural logarithms into `lx`.
+///
+/// Exponential and Weibull samples come sorted from the Rényi representation (no sort); the others
+/// are drawn one by one and sorted.
+///
+/// # Formula
+/// Rényi: with E₁ … Eₙ independent standard exponentials, Y₍ᵢ₎ = Σⱼ≤ᵢ Eⱼ/(n − j + 1) are the order
+/// statistics of n standard exponentials. Exponential: x = Y/λ. Weibull: x = λ Y^(1/k) (increasing in
+/// Y, so still sorted), ln x = ln λ + ln Y / k. Lognormal: sorted normals z, ln x = μ + σz.
+///
+/// # References
+/// Rényi, A. (1953), On the theory of order statistics. *Acta Math. Acad. Sci. Hung.* 4, 191–231;
+/// David, H. A. & Nagaraja, H. N. (2003), *Order Statistics*, 3rd ed., §2.5.
+pub(crate) fn draw_sorted(f: &Fitted, n: usize, rng: &mut McRng, x: &mut Vec<f64>, lx: &mut Vec<f64>) {
+    x.clear();
+    lx.clear();
+    x.resize(n, 0.0);
+    lx.resize(n, 0.0);
+    let [p0, p1] = f.params;
+    match f.model {
+        Model::Exponential => {
+            sorted_standard_exponentials(n, rng, x, lx);
+            x.iter_mut().for_each(|v| *v /= p0);
+            ln_into(x, lx);
+        }
+        Model::Weibull => {
+            sorted_standard_exponentials(n, rng, lx, x);
+            ln_into(lx, x);
+            let ln_scale = p1.ln();
+            lx.iter_mut().zip(x.iter()).for_each(|(l, &ly)| *l = ln_scale + ly / p0);
+            exp_into(lx, x);
+        }
+        Model::Lognormal => {
+            lx.iter_mut().for_each(|z| *z = rand_distr::StandardNormal.sample(rng));
+            lx.sort_unstable_by(f64::total_cmp);
+            lx.iter_mut().for_each(|z| *z = p0 + p1 * *z);
+            exp_into(lx, x);
+        }
+        Model::Gamma => {
+            match rand_distr::Gamma::new(p0, p1) {
+                Ok(g) => x.iter_mut().for_each(|v| *v = g.sample(rng)),
+                Err(_) => x.fill(f64::NAN),
+            }
+            x.sort_unstable_by(f64::total_cmp);
+            ln_into(x, lx);
+        }
+        Model::InverseGaussian => {
+            x.iter_mut().for_each(|v| *v = f.sample(rng));
+            x.sort_unstable_by(f64::total_cmp);
+            ln_into(x, lx);
+        }
+    }
+}
+
+/// The order statistics of `y.len()` standard exponentials into `y` (Rényi); `tmp` is a buffer of
+/// the same length.
+fn sorted_standard_exponentials(n: usize, rng: &mut McRng, y: &mut [f64], tmp: &mut [f64]) {
+    // Uniforms on (0, 1]: 1 − U avoids ln 0.
+    tmp.iter_mut().for_each(|u| *u = 1.0 - rng.random::<f64>());
+    ln_into(tmp, y);
+    let mut acc = 0.0;
+    for (j, v) in y.iter_mut().enumerate() {
+        acc -= *v / (n - j) as f64;
+        *v = acc;
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::montecarlo::replicate_rng;
+
+    #[test]
+    fn sorted_draws_have_the_model_moments() {
+        // Sorted, with consistent logarithms, and the means of the i-th order statistics of the standard
+        // exponential, E Y₍ᵢ₎ = Σⱼ≤ᵢ 1/(n − j + 1) (David & Nagaraja 2003, eq. 2.5.5), within 4 standard
+        // errors over 4 000 samples of n = 10.
+        let f = Fitted { model: Model::Exponential, params: [1.0, f64::NAN] };
+        let (n, reps) = (10usize, 4000usize);
+        let (mut x, mut lx) = (Vec::new(), Vec::new());
+        let (mut sum, mut sum2) = (vec![0.0; n], vec![0.0; n]);
+        for r in 0..reps {
+            draw_sorted(&f, n, &mut replicate_rng(3, 0, r as u64), &mut x, &mut lx);
+            assert!(x.windows(2).all(|w| w[0] <= w[1]));
+            assert!(x.iter().zip(&lx).all(|(v, l)| (v.ln() - l).abs() <= 1e-14 * l.abs().max(1.0)));
+            for i in 0..n {
+                sum[i] += x[i];
+                sum2[i] += x[i] * x[i];
+            }
+        }
+        let mut want = 0.0;
+        for i in 0..n {
+            want += 1.0 / (n - i) as f64;
+            let mean = sum[i] / reps as f64;
+            let se = ((sum2[i] / reps as f64 - mean * mean) / reps as f64).sqrt();
+            assert!((mean - want).abs() < 4.0 * se, "order statistic {i}: mean {mean}, expected {want}");
+        }
+        // The other models: sorted, logarithms consistent, and the sample mean near the model mean.
+        for f in [
+            Fitted { model: Model::Weibull, params: [1.6, 0.3] },
+            Fitted { model: Model::Lognormal, params: [-1.4, 0.7] },
+            Fitted { model: Model::Gamma, params: [2.0, 0.125] },
+            Fitted { model: Model::InverseGaussian, params: [0.25, 0.5] },
+        ] {
+            draw_sorted(&f, 20_000, &mut replicate_rng(3, 1, 0), &mut x, &mut lx);
+            assert!(x.windows(2).all(|w| w[0] <= w[1]), "{:?}", f.model);
+            assert!(x.iter().zip(&lx).all(|(v, l)| (v.ln() - l).abs() <= 1e-13 * l.abs().max(1.0)), "{:?}", f.model);
+            let mean = x.iter().sum::<f64>() / x.len() as f64;
+            let sd = (x.iter().map(|v| (v - mean).powi(2)).sum::<f64>() / x.len() as f64).sqrt();
+            assert!(
+                (mean - f.mean()).abs() < 4.0 * sd / (x.len() as f64).sqrt(),
+                "{:?}: {mean} against {}",
+                f.model,
+                f.mean()
+            );
+        }
+    }
+}

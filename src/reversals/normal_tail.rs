@@ -1,0 +1,152 @@
+//! Both tails of the standard normal distribution in log space, over a slice at a time, for the
+//! goodness-of-fit statistics of the lognormal and inverse Gaussian models.
+
+use crate::fastmath::{exp_basic, ln_basic, map_into};
+
+/// Chebyshev coefficients of h(y) = erfcx(z) / t on y ∈ [−1, 1], with t = 2/(2 + z), y = 2t − 1 and
+/// erfcx(z) = e^(z²) erfc(z) (so z ∈ [0, ∞) maps to y ∈ (−1, 1]). Obtained by interpolation at the
+/// 25 Chebyshev points of the first kind (`numpy.polynomial.chebyshev.chebinterpolate(h, 24)`, NumPy
+/// 2.4.6) with `scipy.special.erfcx` (SciPy 1.17.1) as the function; the largest relative error of
+/// t·h(y) against `erfcx` over z ∈ [0, 10⁸] was 6 · 10⁻¹⁵ (checked on 401 000 points).
+#[allow(clippy::excessive_precision)]
+const ERFCX_CHEB: [f64; 25] = [
+    0.5770337386164697,
+    0.3554369212704984,
+    0.06509515882878648,
+    0.0036711423958366144,
+    -0.0011128447433526464,
+    -0.00016075829915378423,
+    3.278031574171233e-05,
+    5.442441645512934e-06,
+    -1.5154665552740682e-06,
+    -1.4297608172054655e-07,
+    8.234608845778822e-08,
+    -1.296284603123054e-09,
+    -4.154721553974811e-09,
+    6.347059177712594e-10,
+    1.4320842514637998e-10,
+    -6.160377796716956e-11,
+    2.061588175390252e-12,
+    3.5717375785853466e-12,
+    -8.581494074183224e-13,
+    -6.125951378839871e-14,
+    7.410827776948574e-14,
+    -1.3274209819927547e-14,
+    -3.393813806476243e-15,
+    9.747222245883877e-16,
+    -1.3325970581392076e-15,
+];
+
+/// ln Φ(−u) = ln(½ erfc(u/√2)) for u ≥ 0 (the log of the smaller tail), by basic operations only.
+///
+/// # Formula
+/// With z = u/√2, t = 2/(2 + z): erfc(z) = t h(2t − 1) e^(−z²), h a Chebyshev series evaluated by
+/// Clenshaw's recurrence, so ln Φ(−u) = ln(½ t h) − u²/2 with no underflow far in the tail.
+///
+/// # References
+/// The form t·exp(−z² + ·) of Press, W. H. et al. (2007), *Numerical Recipes*, 3rd ed., §6.2.2;
+/// Clenshaw, C. W. (1955), *Math. Tables Aids Comput.* 9, 118–120.
+#[inline(always)]
+pub(crate) fn ln_upper_tail(u: f64) -> f64 {
+    let z = u * std::f64::consts::FRAC_1_SQRT_2;
+    let t = 2.0 / (2.0 + z);
+    let y = 2.0 * t - 1.0;
+    let (mut b1, mut b2) = (0.0, 0.0);
+    for &c in ERFCX_CHEB[1..].iter().rev() {
+        let b0 = c + 2.0 * y * b1 - b2;
+        b2 = b1;
+        b1 = b0;
+    }
+    let h = ERFCX_CHEB[0] + y * b1 - b2;
+    ln_basic(0.5 * t * h) - 0.5 * u * u
+}
+
+/// ln Φ(w) into `ln_cdf` and ln Φ(−w) into `ln_sf` for every w: the smaller tail from
+/// [`ln_upper_tail`], the larger one as ln(1 − e^(smaller)).
+pub(crate) fn norm_log_tails(w: &[f64], ln_cdf: &mut [f64], ln_sf: &mut [f64]) {
+    map_into(
+        w,
+        ln_sf,
+        #[inline(always)]
+        |w| ln_upper_tail(w.abs()),
+    );
+    map_into(
+        ln_sf,
+        ln_cdf,
+        #[inline(always)]
+        |small| ln_basic(1.0 - exp_basic(small)),
+    );
+    for ((&w, lc), ls) in w.iter().zip(ln_cdf.iter_mut()).zip(ln_sf.iter_mut()) {
+        if w < 0.0 {
+            std::mem::swap(lc, ls);
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn log_tails_match_scipy() {
+        // SciPy 1.17.1: (w, scipy.special.log_ndtr(w), scipy.special.log_ndtr(−w)).
+        let want = [
+            (-40.0, -804.6084420137539, -0.0),
+            (-12.0, -75.41067300156881, -1.776482112077653e-33),
+            (-3.0, -6.60772622151035, -0.0013508099647481925),
+            (-1.0, -1.8410216450092634, -0.1727537790234499),
+            (-0.1, -0.7761545927302733, -0.6165050101150262),
+            (0.0, -std::f64::consts::LN_2, -std::f64::consts::LN_2),
+            (0.3, -0.4814101615884813, -0.9621028181688505),
+            (1.7, -0.045589029170068934, -3.1107960975524813),
+            (5.0, -2.8665161296376294e-07, -15.064998393988727),
+            (9.0, -1.1285884059538324e-19, -43.62814911333212),
+        ];
+        let w: Vec<f64> = want.iter().map(|t| t.0).collect();
+        let (mut lc, mut ls) = (vec![0.0; w.len()], vec![0.0; w.len()]);
+        norm_log_tails(&w, &mut lc, &mut ls);
+        for (i, &(w, c, s)) in want.iter().enumerate() {
+            // 10⁻¹³ relative, or 2 · 10⁻¹⁶ absolute where the tail's log is close to 0 (1 − q rounds).
+            let close = |got: f64, want: f64| (got - want).abs() <= 1e-13 * want.abs() + 2.3e-16;
+            assert!(close(lc[i], c), "ln Φ({w}) = {}, SciPy {c}", lc[i]);
+            assert!(close(ls[i], s), "ln Φ(−{w}) = {}, SciPy {s}", ls[i]);
+        }
+    }
+
+    #[test]
+    fn upper_tail_matches_scipy_on_a_grid() {
+        // SciPy 1.17.1 scipy.special.log_ndtr(−u) from u = 0.05 to 37.5: within 10⁻¹³ relative. (statrs
+        // 0.19's erfc is not a usable reference here: it is off by 10⁻¹⁰ near u = 0.71.)
+        let want = [
+            (0.05, -0.7338416953693601),
+            (0.2, -0.8657395226815952),
+            (0.45, -1.119768858049314),
+            (0.6, -1.2937038116140283),
+            (0.71, -1.4319108806532483),
+            (0.9, -1.692492806561338),
+            (1.1, -1.997558846986297),
+            (1.3, -2.335103278662442),
+            (1.6, -2.9040780103022463),
+            (2.0, -3.7831843336820317),
+            (2.4, -4.8039216668706715),
+            (2.9, -6.284058234947419),
+            (3.5, -8.366065308344094),
+            (4.2, -11.224312649601075),
+            (5.5, -17.779376352625263),
+            (6.6, -24.607776351138085),
+            (7.7, -32.62136690998012),
+            (8.8, -41.82621095948452),
+            (10.5, -58.40418706107325),
+            (13.0, -87.98971997102255),
+            (17.0, -148.25558265098041),
+            (22.0, -246.01203653738094),
+            (27.5, -382.35944250888986),
+            (33.0, -548.9163622697381),
+            (37.5, -707.6689893175072),
+        ];
+        for (u, want) in want {
+            let got = ln_upper_tail(u);
+            assert!((got - want).abs() <= 1e-13 * want.abs(), "u {u}: {got}, SciPy {want}");
+        }
+    }
+}
