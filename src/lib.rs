@@ -74,6 +74,9 @@
 //! | figures: elongation–inclination, S against latitude, ellipses on the net | [`figures::UnflattenFigure`], [`figures::LatitudeFigure`], [`figures::EllipseNet`] |
 //! | one stage of the chain as reported (what ran, what it found) | [`section::Stage`] |
 //! | correlation settings: penalties, rate spread, dated levels | [`strat::CorrelateOptions`], [`strat::DatedLevel`] |
+//! | from a sites table to VGPs, paleopole and S_B (the stage `poles` and Python share) | [`poles::pole_summary`], [`poles::WithinSite::from_site`] |
+//! | a column from a zones or levels table (the stage `correlate` and Python share) | [`strat::read_column`] |
+//! | the truth file of a synthetic project folder | [`simulate::truth_document`] |
 //! | errors: kinds with the offending value; kinds of table faults | [`Error`], [`TableError`], [`TableFault`] |
 //! | accumulation-rate units (cm/kyr ↔ m/Myr) | [`units::cm_per_kyr_to_m_per_myr`], [`units::m_per_myr_to_cm_per_kyr`] |
 //! | the number formatter of every table, CSV file and report | [`numbers::fixed`], [`numbers::push_csv`] |
