@@ -83,7 +83,7 @@ struct Scratch {
 }
 
 /// The bootstrap null distribution of (D, A²): replicate samples drawn from `f` (already sorted, see
-/// [`draw_sorted`]), refitted.
+/// `draw_sorted`), refitted.
 ///
 /// Returns one pair per replicate whose refit succeeded, in replicate order.
 pub fn null_statistics(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64) -> Vec<(f64, f64)> {
