@@ -1,27 +1,12 @@
 //! Equal-area (Lambert azimuthal) projection of directions, lower hemisphere view from above.
 
-use super::great_circle::{dashes, great_circle_halves, project_all};
+use super::great_circle::{dashes, great_circle_halves};
+use super::projection::{project, project_all};
 use super::render::{de, Figure};
 use super::theme;
 use crate::sphere::{Direction, Vec3};
 use plotters::coord::Shift;
 use plotters::prelude::*;
-
-/// Plot coordinates of a direction on the unit equal-area net (north up, east right).
-///
-/// # Formula
-/// r = √(1 − |sin I|) (Lambert azimuthal equal-area, scaled so the horizon has radius 1);
-/// x = r sin D, y = r cos D. Upward directions (I < 0) plot at the same place as their reflection
-/// through the horizontal and are drawn as open symbols.
-///
-/// # References
-/// Lambert (1772); Snyder (1987), *Map Projections — A Working Manual*, USGS PP 1395, §24;
-/// Butler (1992), §5.2 (equal-area projection in paleomagnetism).
-pub fn project(d: Direction) -> (f64, f64) {
-    let r = (1.0 - d.inc.to_radians().sin().abs()).max(0.0).sqrt();
-    let dr = d.dec.to_radians();
-    (r * dr.sin(), r * dr.cos())
-}
 
 /// Points of the small circle of angular radius `radius_deg` about `centre`, as directions, in order.
 pub fn small_circle(centre: Direction, radius_deg: f64, n: usize) -> Vec<Direction> {

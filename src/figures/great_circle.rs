@@ -13,7 +13,6 @@
 //! their poles); Snyder (1987), *Map Projections — A Working Manual*, USGS PP 1395, §24 (the net's
 //! Lambert projection, inverted in [`unproject`]).
 
-use super::equal_area::project;
 use crate::sphere::{Direction, Vec3};
 
 /// The two halves of a great circle, lower hemisphere first; both run from horizon to horizon and meet
@@ -58,26 +57,6 @@ pub fn great_circle_halves(pole: Direction, n: usize) -> CircleHalves {
     CircleHalves { lower: half(0.0), upper: half(std::f64::consts::PI) }
 }
 
-/// Net coordinates (unit horizon) of a polyline of directions.
-pub fn project_all(pts: &[Direction]) -> Vec<(f64, f64)> {
-    pts.iter().map(|d| project(*d)).collect()
-}
-
-/// The direction at net coordinates (x east, y north, unit horizon) on the chosen hemisphere; `None`
-/// outside the net.
-///
-/// # Formula
-/// Inverse of [`project`]: r² = x² + y², |sin I| = 1 − r², D = atan2(x, y).
-pub fn unproject((x, y): (f64, f64), lower: bool) -> Option<Direction> {
-    let r2 = x * x + y * y;
-    if !(r2 <= 1.0 + 1e-12) {
-        return None;
-    }
-    let inc = (1.0 - r2).clamp(0.0, 1.0).asin().to_degrees();
-    let dec = if r2 == 0.0 { 0.0 } else { crate::sphere::wrap360(x.atan2(y).to_degrees()) };
-    Some(Direction { dec, inc: if lower { inc } else { -inc } })
-}
-
 /// Cut a polyline into dashes: pieces of length `on` separated by gaps of length `off` (same units as
 /// the points), measured along the line from its first point.
 pub fn dashes(path: &[(f64, f64)], on: f64, off: f64) -> Vec<Vec<(f64, f64)>> {
@@ -117,6 +96,7 @@ pub fn dashes(path: &[(f64, f64)], on: f64, off: f64) -> Vec<Vec<(f64, f64)>> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::figures::projection::{project, project_all, unproject};
     use approx::assert_abs_diff_eq;
 
     fn all_points(h: &CircleHalves) -> impl Iterator<Item = &Direction> {
