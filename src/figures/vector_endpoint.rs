@@ -5,7 +5,8 @@
 use super::equal_area::{draw_net, project};
 use super::render::{de, Figure};
 use super::theme;
-use crate::demag::{Anchor, FitKind, SpecimenFit};
+use crate::demag::SpecimenFit;
+use crate::model::{Anchor, FitKind};
 use crate::sphere::{Direction, Vec3};
 use plotters::coord::Shift;
 use plotters::prelude::*;
