@@ -13,7 +13,7 @@
 //! their poles); Snyder (1987), *Map Projections — A Working Manual*, USGS PP 1395, §24 (the net's
 //! Lambert projection, inverted in [`unproject`]).
 
-use super::equal_area::project;
+use super::net_projection::project;
 use crate::sphere::{Direction, Vec3};
 
 /// The two halves of a great circle, lower hemisphere first; both run from horizon to horizon and meet

@@ -2,7 +2,8 @@
 //! remanence vector on shared axes) beside an equal-area plot of the step directions and the
 //! moment's decay.
 
-use super::equal_area::{draw_net, project};
+use super::equal_area::draw_net;
+use super::net_projection::project;
 use super::render::{de, Figure};
 use super::theme;
 use crate::demag::SpecimenFit;
