@@ -2,11 +2,11 @@
 //! 300-chron synthetic time scale. Run: `cargo bench --bench correlate`.
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use lodestone::model::{Polarity, StratAxis, TimeScale};
 use lodestone::simulate::{simulate_timescale, FirstPolarity, RenewalModel, TimeScaleModel};
 use lodestone::strat::{
     build_zones, classify, correlate, CorrelateOptions, ZoneColumn, DEFAULT_MIN_LEVELS, DEFAULT_THRESHOLD,
 };
-use lodestone::table::{Polarity, StratAxis, TimeScale};
 use std::hint::black_box;
 
 /// A 300-chron scale (gamma intervals, mean 0.25 Myr, the first 300 chrons of an 80 Myr run) and a column sampled evenly in

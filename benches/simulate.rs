@@ -1,13 +1,13 @@
 //! Timing of the synthetic generators: a renewal time scale and a sampled section.
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use lodestone::model::{Polarity, StratAxis};
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::simulate::{
     parse_rates, simulate_section, simulate_timescale, FirstPolarity, RenewalModel, SectionModel, TimeScaleModel,
     Treatment,
 };
 use lodestone::sphere::{Bedding, GeoPoint};
-use lodestone::table::{Polarity, StratAxis};
 use std::hint::black_box;
 
 fn scale(span: f64) -> TimeScaleModel {

@@ -27,7 +27,8 @@
 //! | seeded, thread-count-independent Monte Carlo | [`montecarlo::MonteCarlo`], [`montecarlo::MonteCarlo::run_with`], [`montecarlo::MonteCarlo::run_batched`] |
 //! | uniform resampling indices, quantiles by selection | [`montecarlo::UniformIndex`], [`montecarlo::quantile_select`], [`montecarlo::quantiles_select`] |
 //! | largest eigenvalue of a symmetric 3 × 3 matrix (Newton on the cubic) | [`fieldtests::largest_eigenvalue`], [`fieldtests::largest_eigenvalues`] |
-//! | tables (CSV) and typed rows | [`table::Table`], [`table::read_directions`] |
+//! | the domain types: polarity, time scale, treatments and steps, stratigraphic axis, directions, sites, picks, fit kind and anchor | [`model::TimeScale`], [`model::StepSet`], [`model::DirectionSet`], [`model::SiteSet`], [`model::Pick`], [`model::FitKind`] |
+//! | tables (CSV) read into the domain types | [`table::Table`], [`table::read_directions`], [`model::TimeScale::from_table`] |
 //! | a table read one row at a time, same checks and messages | [`table::TableStream`], [`table::Columns`], [`table::DirectionColumns`] |
 //! | sites and poles on the sphere: direct/inverse problems | [`sphere::GeoPoint`] |
 //! | virtual geomagnetic pole, expected direction | [`poles::vgp`], [`poles::expected_direction`] |
@@ -83,9 +84,10 @@
 //!
 //! ## Where things go
 //! A computation lives in the module of its concept (the table above), with `# Units`, `# Formula` and
-//! `# References` and a test against an outside source. `table` reads tables into typed rows; the command layer
-//! (`src/cli/`, not part of the library) parses arguments, calls the library and writes a report; the
-//! whole-output snapshot tests (`tests/snapshot_*.rs`) pin every verb's output.
+//! `# References` and a test against an outside source. `model` holds the domain types (no file reading);
+//! `table` reads tables into them; the command layer (`src/cli/`, not part of the library) parses arguments,
+//! calls the library and writes a report; the whole-output snapshot tests (`tests/snapshot_*.rs`) pin every
+//! verb's output.
 //!
 //! ## References used throughout
 //! - Fisher, R. A. (1953), Dispersion on a sphere. *Proc. R. Soc. Lond. A* 217, 295–305.
@@ -105,6 +107,7 @@ pub mod field;
 pub mod fieldtests;
 pub mod figures;
 pub mod linalg;
+pub mod model;
 pub mod montecarlo;
 pub mod numbers;
 pub mod poles;

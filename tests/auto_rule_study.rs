@@ -5,15 +5,15 @@
 //! Run with `cargo test --test auto_rule_study -- --nocapture` to see the table (BENCHMARKS.md
 //! records it).
 
-use lodestone::demag::{
-    auto_line, fit_range, last_component, Anchor, AutoOutcome, AutoRule, FitKind, LastComponentRule,
-};
+use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule};
+use lodestone::model::{Anchor, FitKind};
+use lodestone::model::{Polarity, SpecimenSteps, StepRecord, StratAxis, TimeScale};
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::simulate::{
     parse_rates, simulate_section, Overprint, SectionModel, SyntheticSpecimen, Treatment, Unblocking,
 };
 use lodestone::sphere::{Direction, GeoPoint};
-use lodestone::table::{read_steps, Polarity, SpecimenSteps, StepRecord, StratAxis, Table, TimeScale};
+use lodestone::table::{read_steps, Table};
 
 /// Angular errors (degrees) of one rule's lines, split by polarity; the specimens it fitted with a
 /// great circle (not counted in the errors) and those it left unfitted.

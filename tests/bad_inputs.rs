@@ -756,7 +756,8 @@ fn catalogue_of_bad_inputs() {
 /// Time-scale tables: the validator itself.
 #[test]
 fn timescale_catalogue() {
-    use lodestone::table::{Table, TimeScale};
+    use lodestone::model::TimeScale;
+    use lodestone::table::Table;
     let cases: &[(&str, &str, usize, Option<&str>)] = &[
         ("overlapping chrons", "young,old,polarity\n0,0.8,N\n0.7,1.0,R\n", 3, Some("young")),
         ("gap between chrons", "young,old,polarity\n0,0.8,N\n0.9,1.0,R\n", 3, Some("young")),

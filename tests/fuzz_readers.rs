@@ -3,7 +3,8 @@
 //! The default case count is small so that `cargo test` stays quick; set `LODESTONE_FUZZ_CASES`
 //! (e.g. 1000000) for a long run.
 
-use lodestone::table::{read_directions, read_picks, read_sites, read_steps, GroupBy, StepSet, Table, TimeScale};
+use lodestone::model::{StepSet, TimeScale};
+use lodestone::table::{read_directions, read_picks, read_sites, read_steps, GroupBy, Table};
 use proptest::prelude::*;
 
 fn cases() -> u32 {
@@ -82,7 +83,8 @@ proptest! {
             let _ = read_sites(&t);
             if let Ok(set) = read_steps(&t) {
                 // A fuzzed steps table must still yield fittable specimens or errors, never a panic.
-                use lodestone::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind};
+                use lodestone::demag::{auto_line, fit_range, AutoOutcome, AutoRule};
+                use lodestone::model::{Anchor, FitKind};
                 let rule = AutoRule { min_steps: 2, max_mad: 15.0, max_dang: 15.0, anchor: Anchor::Free };
                 for sp in &set.specimens {
                     for (kind, anchor) in [(FitKind::Line, Anchor::Free), (FitKind::Plane, Anchor::Origin)] {
@@ -151,7 +153,8 @@ proptest! {
     #[test]
     fn structured_steps_fit_finite(rows in proptest::collection::vec(
         (0usize..2, 0u32..8, edge_number(-360.0, 360.0), edge_number(-90.0, 90.0), edge_moment()), 1..12)) {
-        use lodestone::demag::{auto_line, fit_range, Anchor, AutoOutcome, AutoRule, FitKind};
+        use lodestone::demag::{auto_line, fit_range, AutoOutcome, AutoRule};
+        use lodestone::model::{Anchor, FitKind};
         let mut text = String::from("specimen,step,dec,inc,moment\n");
         let mut rows = rows;
         rows.sort_by_key(|r| (r.0, r.1));

@@ -6,7 +6,8 @@
 //! latitudes at ±90, identical and antipodal directions, groups of one and two.
 //! The default case count keeps `cargo test` quick; `LODESTONE_PROPERTY_CASES` raises it.
 
-use lodestone::demag::{fit_line, fit_plane, Anchor};
+use lodestone::demag::{fit_line, fit_plane};
+use lodestone::model::Anchor;
 use lodestone::poles::{expected_direction, paleopole, vgp, vgp_scatter, Cutoff, ScatterSite};
 use lodestone::sphere::{angle_between, Direction, GeoPoint, Vec3};
 use lodestone::stats::{confidence_cone, fisher_mean, group_means, FisherStats, Frame};

@@ -2,10 +2,11 @@
 //! project's table readers, and hold the model they were drawn from.
 
 use assert_cmd::Command;
+use lodestone::model::TimeScale;
 use lodestone::simulate::Settings;
 use lodestone::sphere::{Direction, Vec3};
 use lodestone::stats::fisher_mean;
-use lodestone::table::{read_bedding, read_directions, GroupBy, Table, TimeScale};
+use lodestone::table::{read_bedding, read_directions, GroupBy, Table};
 use std::collections::BTreeMap;
 use std::fs;
 use std::path::Path;

@@ -2,7 +2,8 @@
 
 use crate::{arg_error, run_detached, Outcome, Source};
 use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule, SpecimenFit};
-use lodestone::table::{read_picks, read_steps, StepSet};
+use lodestone::model::StepSet;
+use lodestone::table::{read_picks, read_steps};
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 

@@ -2,9 +2,10 @@
 
 use crate::{arg_error, invalid, run_detached, Outcome, Source};
 use lodestone::fieldtests::{fold_test as lib_fold_test, reversal_test as lib_reversal_test, FoldOptions};
+use lodestone::model::DirectionKind;
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::sphere::{Bedding, Direction, Vec3};
-use lodestone::table::{read_directions, DirectionKind, GroupBy};
+use lodestone::table::{read_directions, GroupBy};
 use numpy::PyReadonlyArray1;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;

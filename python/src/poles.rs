@@ -10,7 +10,7 @@ use pyo3::types::PyDict;
 /// The columns of the sites: name, location, direction, VGP, oval, paleolatitude range, kept.
 fn site_columns<'py>(
     py: Python<'py>,
-    set: &lodestone::table::SiteSet,
+    set: &lodestone::model::SiteSet,
     sum: &lodestone::poles::PoleSummary,
 ) -> PyResult<Bound<'py, PyDict>> {
     let d = PyDict::new(py);

@@ -1,9 +1,9 @@
 //! Reversal statistics of a time scale: renewal-model fits and the hazard.
 
 use crate::{arg_error, invalid, run_detached, Outcome, Source};
+use lodestone::model::TimeScale;
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::reversals::{self, EdgeReading, Fitted, IntervalOptions, IntervalRecord, Model, CAUTIONS};
-use lodestone::table::TimeScale;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 

@@ -1,8 +1,8 @@
 //! Synthetic polarity time scales from a stated renewal model (the library's `simulate_timescale`).
 
 use crate::{arg_error, run_detached};
+use lodestone::model::Polarity;
 use lodestone::simulate::{simulate_timescale as lib_simulate, FirstPolarity, RenewalModel, TimeScaleModel};
-use lodestone::table::Polarity;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 

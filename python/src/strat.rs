@@ -3,11 +3,12 @@
 
 use crate::{arg_error, run_detached, Outcome, Source};
 use lodestone::figures::{render, ColumnFigure, FigureFormat};
+use lodestone::model::TimeScale;
 use lodestone::strat::{
     comparison_sentence, correlate as lib_correlate, read_column, read_levels, status_word, zone_levels,
     CorrelateOptions, Correlation, DatedLevel, LevelOptions, LevelSet, ZoneColumn, ZonePolarity, ZONE_COLUMNS,
 };
-use lodestone::table::{Table, TimeScale};
+use lodestone::table::Table;
 use pyo3::prelude::*;
 use pyo3::types::{PyBytes, PyDict};
 

@@ -3,11 +3,11 @@
 use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Context, Result};
 use clap::Args;
-use lodestone::demag::{
-    auto_line, fit_range, last_component, Anchor, AutoOutcome, AutoRule, FitKind, LastComponentRule, SpecimenFit,
-};
+use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule, SpecimenFit};
 use lodestone::figures::VectorEndpointPlot;
-use lodestone::table::{read_picks, read_steps, SpecimenSteps, StepSet, Table, Treatment};
+use lodestone::model::{Anchor, FitKind};
+use lodestone::model::{SpecimenSteps, StepSet, Treatment};
+use lodestone::table::{read_picks, read_steps, Table};
 use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
 

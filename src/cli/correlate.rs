@@ -4,10 +4,11 @@ use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::figures::ColumnFigure;
+use lodestone::model::TimeScale;
 use lodestone::strat::{
     comparison_sentence, correlate, read_column, Candidate, CorrelateOptions, Correlation, DatedLevel, ZoneColumn,
 };
-use lodestone::table::{Table, TimeScale};
+use lodestone::table::Table;
 use serde_json::{json, Value};
 use std::path::PathBuf;
 

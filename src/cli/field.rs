@@ -9,7 +9,8 @@ use lodestone::field::{
 };
 use lodestone::field::{intensity_grid, intensity_low};
 use lodestone::figures::{FieldSeriesFigure, IntensityMap};
-use lodestone::table::{Table, TimeScale};
+use lodestone::model::TimeScale;
+use lodestone::table::Table;
 use serde_json::json;
 use std::path::PathBuf;
 

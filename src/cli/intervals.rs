@@ -3,8 +3,9 @@
 use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::Result;
 use clap::Args;
+use lodestone::model::TimeScale;
 use lodestone::reversals::{self, goodness_of_fit, EdgeReading, IntervalOptions, IntervalRecord, Model, RenewalFits};
-use lodestone::table::{Table, TimeScale};
+use lodestone::table::Table;
 use serde_json::{json, Map, Value};
 use std::path::{Path, PathBuf};
 

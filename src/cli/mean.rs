@@ -9,11 +9,12 @@ use super::{jnum, Cell, Ctx, Output, Section, StreamedReport};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
+use lodestone::model::{DirectionKind, DirectionRecord, DirectionSet};
 use lodestone::sphere::Direction;
 use lodestone::stats::{
     group_means, stream_group_sums, CircleSense, FisherStats, Frame, GroupMean, GroupSum, GroupSums, StreamedSums,
 };
-use lodestone::table::{read_directions, DirectionKind, DirectionRecord, DirectionSet, GroupBy, Table, TableStream};
+use lodestone::table::{read_directions, GroupBy, Table, TableStream};
 use serde::ser::{Error as _, SerializeSeq, Serializer};
 use serde::Serialize;
 use serde_json::Value;

@@ -4,10 +4,10 @@
 use super::{jnum, Cell};
 use lodestone::dirstats::{bootstrap_ellipse, kent_ellipse, BootstrapKind, KentEllipse};
 use lodestone::figures::{EllipseNet, EqualAreaPlot};
+use lodestone::model::DirectionSet;
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::sphere::{Direction, Vec3};
 use lodestone::stats::{Frame, GroupMean};
-use lodestone::table::DirectionSet;
 use serde_json::{json, Value};
 
 /// The kind of ellipse asked for.

@@ -4,8 +4,9 @@ use super::{jnum, Cell, Ctx, Report, Section};
 use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
+use lodestone::model::SiteSet;
 use lodestone::poles::{pole_summary, Cutoff, Paleopole, PoleSummary, Scatter, ScatterInterval};
-use lodestone::table::{read_sites, SiteSet, Table};
+use lodestone::table::{read_sites, Table};
 use serde_json::{json, Value};
 use std::path::PathBuf;
 

@@ -1,8 +1,7 @@
 //! An automatic, reproducible choice of the line segment of each specimen.
 
-use super::pca::{Anchor, FitKind};
 use super::ranges::{fit_indices, SpecimenFit};
-use crate::table::SpecimenSteps;
+use crate::model::{Anchor, FitKind, SpecimenSteps};
 
 /// The rule used by [`auto_line`]; every parameter is printed with the results.
 ///

@@ -2,11 +2,11 @@
 //! that decays toward the origin at the highest steps, found by growing a line downward from the
 //! last steps until a step departs from it by more than the noise allows.
 
-use super::pca::{fit_line, fit_plane, Anchor, FitKind};
+use super::pca::{fit_line, fit_plane};
 use super::ranges::{fit_indices, SpecimenFit};
 use crate::error::{check_range, Error, Result};
+use crate::model::{Anchor, FitKind, SpecimenSteps};
 use crate::sphere::Vec3;
-use crate::table::SpecimenSteps;
 use statrs::distribution::{ContinuousCDF, FisherSnedecor};
 
 /// Parameters of [`last_component`]; every one is printed with the results.

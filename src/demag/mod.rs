@@ -8,8 +8,8 @@ mod ranges;
 
 pub use auto::{auto_line, AutoOutcome, AutoRule};
 pub use last_component::{last_component, AutoChoice, Grade, LastComponentRule, LastOutcome};
-pub use pca::{fit_line, fit_plane, Anchor, FitKind, LineFit, PlaneFit};
-pub use ranges::{fit_range, steps_in_range, SpecimenFit};
+pub use pca::{fit_line, fit_plane, LineFit, PlaneFit};
+pub use ranges::{fit_range, SpecimenFit};
 
 #[cfg(test)]
 mod tests;

@@ -1,19 +1,9 @@
 //! Fitting a chosen range of steps of one specimen.
 
-use super::pca::{fit_line, fit_plane, Anchor, FitKind};
+use super::pca::{fit_line, fit_plane};
 use crate::error::{Error, Result};
+use crate::model::{Anchor, FitKind, SpecimenSteps};
 use crate::sphere::Direction;
-use crate::table::SpecimenSteps;
-
-/// Relative tolerance when matching a step value against a range end (step values are read from
-/// text, e.g. 12.5 mT, and compared with range ends typed by people).
-const STEP_MATCH: f64 = 1e-9;
-
-/// Indices of the steps whose value lies in `[from, to]` (inclusive, with a tiny tolerance).
-pub fn steps_in_range(sp: &SpecimenSteps, from: f64, to: f64) -> Vec<usize> {
-    let tol = STEP_MATCH * from.abs().max(to.abs()).max(1.0);
-    sp.steps.iter().enumerate().filter(|(_, s)| s.step >= from - tol && s.step <= to + tol).map(|(i, _)| i).collect()
-}
 
 /// One fit of one specimen, ready for a directions table.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -47,7 +37,7 @@ pub struct SpecimenFit {
 /// The steps used must be consecutive in the specimen's list (they are, since the list is sorted).
 /// Errors: too few steps in the range (2 for a line, 3 for a plane), or a degenerate geometry.
 pub fn fit_range(sp: &SpecimenSteps, from: f64, to: f64, kind: FitKind, anchor: Anchor) -> Result<SpecimenFit> {
-    let idx = steps_in_range(sp, from, to);
+    let idx = sp.in_range(from, to);
     if idx.len() < kind.min_steps() {
         let cause = Error::Invalid(format!(
             "the range {from} to {to} holds {} step(s); a {} needs at least {}",

@@ -1,7 +1,7 @@
 use super::*;
+use crate::model::{Anchor, FitKind, SpecimenSteps, StepRecord};
 use crate::montecarlo::replicate_rng;
 use crate::sphere::{Direction, Vec3};
-use crate::table::{SpecimenSteps, StepRecord};
 use approx::assert_abs_diff_eq;
 use rand::RngExt;
 

@@ -2,8 +2,8 @@
 //! given flattening factor: in one place so that the command line and the Python package agree.
 
 use crate::error::{Error, Result};
+use crate::model::{DirectionKind, DirectionSet};
 use crate::sphere::Direction;
-use crate::table::{DirectionKind, DirectionSet};
 
 use super::unflatten::{unflatten_factor, FactorResult};
 

@@ -5,8 +5,9 @@
 use super::error::{FieldError, FieldResult};
 use super::model::FieldModel;
 use crate::error::TableError;
+use crate::model::TimeScale;
 use crate::poles::gauss_dipole;
-use crate::table::{Table, TimeScale};
+use crate::table::Table;
 
 /// A paleointensity record: ages (Ma, increasing) and virtual axial dipole moments (A·m²).
 #[derive(Debug, Clone, PartialEq)]

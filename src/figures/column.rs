@@ -5,8 +5,8 @@
 
 use super::render::{de, Figure};
 use super::theme;
+use crate::model::{Chron, Polarity, StratAxis, TimeScale};
 use crate::strat::{Candidate, LevelSet, Magnetozone, ZoneColumn, ZonePolarity};
-use crate::table::{Chron, Polarity, StratAxis, TimeScale};
 use plotters::coord::Shift;
 use plotters::prelude::*;
 

@@ -6,10 +6,10 @@ use super::{
     PaleolatitudeRange, Paleopole, PolarityAlignment, PoleOval, Scatter, ScatterInterval, ScatterSite, Vgp, WithinSite,
 };
 use crate::error::Result;
+use crate::model::{SiteRecord, SiteSet};
 use crate::montecarlo::MonteCarlo;
 use crate::sphere::GeoPoint;
 use crate::stats::confidence_cone;
-use crate::table::{SiteRecord, SiteSet};
 
 /// Confidence level of the α95, the oval and the scatter interval.
 const LEVEL: f64 = 0.95;

@@ -3,7 +3,7 @@
 
 use super::models::Sample;
 use crate::error::{Error, Result};
-use crate::table::{Polarity, TimeScale, AGE_TOLERANCE};
+use crate::model::{Polarity, TimeScale, AGE_TOLERANCE};
 
 /// One polarity interval: one chron, or several joined (same-polarity neighbours, merged short chrons).
 ///

@@ -3,9 +3,10 @@
 
 use super::settings::SectionSettings;
 use crate::demag::{
-    auto_line, last_component, Anchor, AutoChoice, AutoOutcome, AutoRule, Grade, LastComponentRule, LastOutcome,
+    auto_line, last_component, AutoChoice, AutoOutcome, AutoRule, Grade, LastComponentRule, LastOutcome,
 };
-use crate::table::SpecimenSteps;
+use crate::model::Anchor;
+use crate::model::SpecimenSteps;
 
 /// The last-component rule with the settings' limits.
 pub fn last_rule(s: &SectionSettings) -> LastComponentRule {

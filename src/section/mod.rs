@@ -132,7 +132,7 @@ pub struct Headline {
 #[derive(Debug, Clone, PartialEq)]
 pub struct SpecimenRecord {
     /// The steps as read.
-    pub steps: crate::table::SpecimenSteps,
+    pub steps: crate::model::SpecimenSteps,
     /// The accepted fits (empty when the specimen was rejected).
     pub fits: Vec<crate::demag::SpecimenFit>,
     /// Why it was rejected, if it was (one reason per rejected pick or fit).

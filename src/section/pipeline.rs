@@ -13,8 +13,8 @@ use super::tables::CsvTable;
 use super::{Project, ProjectFile, SectionRun, SpecimenRecord};
 use crate::demag::SpecimenFit;
 use crate::error::Result;
+use crate::model::{StepSet, TimeScale};
 use crate::montecarlo::{MonteCarlo, Progress};
-use crate::table::{StepSet, TimeScale};
 
 /// Run the whole chain on a project. `progress` receives the Monte Carlo progress; `on_stage` is
 /// called with each stage's name as it starts.

@@ -11,13 +11,13 @@
 use super::tables::CsvTable;
 use super::{FigureOutput, Stage};
 use crate::figures::{HazardFigure, IntervalFigure, RateFigure};
+use crate::model::TimeScale;
 use crate::montecarlo::MonteCarlo;
 use crate::numbers::{fixed, fixed_or_empty};
 use crate::reversals::{
     averaged_interval, clustering_test, fit_models, goodness_of_fit, hazard_at, intervals, laplace_test, windowed_rate,
     IntervalOptions, IntervalRecord, Model, RenewalFits, Sample, CAUTIONS,
 };
-use crate::table::TimeScale;
 
 /// Horizon of the reported P(reversal within the horizon | none so far), Myr (the `hazard` verb's
 /// default).

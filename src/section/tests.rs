@@ -42,7 +42,7 @@ fn exponential_fit_of_the_stage_is_the_censored_maximum_likelihood_rate() {
     // (Lawless, Statistical Models and Methods for Lifetime Data, 2nd ed. 2003, §2.2; common practice).
     let csv = "young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,1.0,N\n1.0,1.1,R\n1.1,1.5,N\n1.5,1.9,R\n";
     let ts =
-        crate::table::TimeScale::from_table(&crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap()).unwrap();
+        crate::model::TimeScale::from_table(&crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap()).unwrap();
     let r = reversal_stats::reversal_statistics("ts.csv", &ts, &crate::montecarlo::MonteCarlo::new(1, 50));
     assert!(r.stage.ran, "{:?}", r.warnings);
     let fits = &r.tables[0];

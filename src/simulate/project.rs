@@ -14,7 +14,7 @@
 
 use super::section::{SectionModel, SyntheticSection};
 use crate::error::TableError;
-use crate::table::{StratAxis, TimeScale};
+use crate::model::{StratAxis, TimeScale};
 use std::collections::BTreeMap;
 use std::fmt::Write as _;
 

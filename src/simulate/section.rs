@@ -3,11 +3,11 @@
 
 use super::accumulation::{AccumulationHistory, RateSegment};
 use crate::error::{Error, Result};
+use crate::model::{Polarity, StratAxis, TimeScale};
 use crate::montecarlo::{replicate_rng, McRng, MonteCarlo};
 use crate::poles::dipole_inclination;
 use crate::sphere::{Bedding, Direction, GeoPoint, Vec3};
 use crate::stats::FisherSampler;
-use crate::table::{Polarity, StratAxis, TimeScale};
 use rand_distr::{Distribution, StandardNormal};
 
 /// Random stream of the between-level (secular-variation) scatter.

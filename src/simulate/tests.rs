@@ -1,10 +1,11 @@
 //! Checks of the synthetic time scales, sections and project-folder writers.
 
 use super::*;
+use crate::model::{Polarity, StratAxis, TimeScale};
 use crate::montecarlo::MonteCarlo;
 use crate::sphere::{Bedding, Direction, GeoPoint};
 use crate::stats::fisher_mean;
-use crate::table::{read_directions, GroupBy, Polarity, StratAxis, Table, TimeScale};
+use crate::table::{read_directions, GroupBy, Table};
 use approx::assert_abs_diff_eq;
 
 fn long_scale(model: RenewalModel, n_mean: f64, seed: u64) -> TimeScale {

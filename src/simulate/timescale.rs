@@ -1,8 +1,8 @@
 //! Synthetic polarity time scales from a renewal model of polarity-interval lengths.
 
 use crate::error::{Error, Result};
+use crate::model::{Chron, Polarity, TimeScale};
 use crate::montecarlo::replicate_rng;
-use crate::table::{Chron, Polarity, TimeScale};
 use rand::Rng;
 use rand_distr::{Distribution, Exp, Gamma, InverseGaussian, LogNormal, Weibull};
 use statrs::function::gamma::gamma as gamma_fn;

@@ -3,7 +3,7 @@
 //! simulated (read back by `section`).
 
 use super::{SectionModel, SyntheticSection};
-use crate::table::TimeScale;
+use crate::model::TimeScale;
 use serde_json::json;
 
 /// The `truth.json` document of a synthetic section drawn from `m` over the time scale `ts`

@@ -2,7 +2,7 @@
 
 use super::fisher::{fisher_from_vectors, FisherStats};
 use crate::error::{Error, Result};
-use crate::table::DirectionSet;
+use crate::model::DirectionSet;
 
 /// Coordinate frame of a mean.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
@@ -67,9 +67,9 @@ pub fn group_means(set: &DirectionSet, frame: Frame, confidence: f64) -> Result<
         let mut is_plane = Vec::with_capacity(idx.len());
         let mut ends = Vec::new();
         for &i in &idx {
-            is_plane.push(set.records[i].kind == crate::table::DirectionKind::Plane);
+            is_plane.push(set.records[i].kind == crate::model::DirectionKind::Plane);
             let r = &set.records[i];
-            if r.kind == crate::table::DirectionKind::Plane {
+            if r.kind == crate::model::DirectionKind::Plane {
                 let end = r.path_end.map(|d| d.to_vector());
                 ends.push(match (frame, r.bedding) {
                     (Frame::Tilt, Some(b)) => end.map(|e| b.untilt(e)),

@@ -5,7 +5,8 @@ use super::fisher::FisherStats;
 use super::group_sums::{GroupSums, LineRun};
 use super::groups::{Frame, GroupMean};
 use crate::error::{Error, Result, TableError};
-use crate::table::{Columns, DirectionColumns, DirectionKind, GroupBy, TableStream};
+use crate::model::DirectionKind;
+use crate::table::{Columns, DirectionColumns, GroupBy, TableStream};
 use std::io::BufRead;
 
 /// The mean of one group from [`stream_group_means`].

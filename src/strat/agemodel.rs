@@ -2,7 +2,7 @@
 
 use super::correlate_options::Reading;
 use super::problem::{Path, Problem};
-use crate::table::StratAxis;
+use crate::model::StratAxis;
 use crate::units::m_per_myr_to_cm_per_kyr;
 
 /// A tie point: a polarity boundary of the column matched to a chron boundary.

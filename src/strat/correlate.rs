@@ -55,7 +55,7 @@ use super::correlate_options::CorrelateOptions;
 use super::problem::kbest::kbest;
 use super::problem::{Path, Problem};
 use super::zones::ZoneColumn;
-use crate::table::TimeScale;
+use crate::model::TimeScale;
 use crate::{Error, Result};
 use rayon::prelude::*;
 use std::collections::HashMap;

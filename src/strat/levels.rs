@@ -13,10 +13,11 @@
 //!   for. Rows of kind `plane` carry no direction and are left out (counted in a note).
 
 use crate::error::TableError;
+use crate::model::{DirectionKind, StratAxis};
 use crate::poles::vgp;
 use crate::sphere::{Direction, GeoPoint};
 use crate::stats::fisher_mean;
-use crate::table::{read_directions, strat_axis, DirectionKind, GroupBy, StratAxis, Table};
+use crate::table::{read_directions, strat_axis, GroupBy, Table};
 
 /// One stratigraphic level.
 ///

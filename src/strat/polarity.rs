@@ -33,10 +33,10 @@ impl ZonePolarity {
         }
     }
     /// The same polarity as a time-scale polarity, if it is not intermediate.
-    pub fn as_chron(self) -> Option<crate::table::Polarity> {
+    pub fn as_chron(self) -> Option<crate::model::Polarity> {
         match self {
-            ZonePolarity::Normal => Some(crate::table::Polarity::Normal),
-            ZonePolarity::Reversed => Some(crate::table::Polarity::Reversed),
+            ZonePolarity::Normal => Some(crate::model::Polarity::Normal),
+            ZonePolarity::Reversed => Some(crate::model::Polarity::Reversed),
             ZonePolarity::Intermediate => None,
         }
     }

@@ -8,7 +8,7 @@ mod pairs;
 use super::correlate_options::{CorrelateOptions, DatedLevel, Reading};
 use super::polarity::ZonePolarity;
 use super::zones::ZoneColumn;
-use crate::table::{Polarity, TimeScale};
+use crate::model::{Polarity, TimeScale};
 use crate::{Error, Result};
 use pairs::{PairTable, Ranks};
 

@@ -2,8 +2,9 @@
 //! and a known, varying accumulation rate (seeded), with hiatuses and noisy levels.
 
 use super::*;
+use crate::model::{StratAxis, TimeScale};
 use crate::montecarlo::replicate_rng;
-use crate::table::{StratAxis, Table, TimeScale};
+use crate::table::Table;
 use crate::units::m_per_myr_to_cm_per_kyr;
 use rand::RngExt;
 
@@ -55,7 +56,7 @@ fn synth(ts: &TimeScale, young: f64, old: f64, hiatus: &[(f64, f64)], seed: u64)
         let (a, b) = (grid[k], grid[k + 1]);
         let age = a.0 + (h - a.1) / (b.1 - a.1) * (b.0 - a.0);
         let chron = ts.chrons.iter().find(|c| age >= c.young && age < c.old).unwrap();
-        let sign = if chron.polarity == crate::table::Polarity::Normal { 1.0 } else { -1.0 };
+        let sign = if chron.polarity == crate::model::Polarity::Normal { 1.0 } else { -1.0 };
         let lat = if rng.random::<f64>() < 0.05 {
             rng.random_range(-30.0..30.0)
         } else {

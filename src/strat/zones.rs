@@ -2,7 +2,8 @@
 
 use super::polarity::ZonePolarity;
 use crate::error::TableError;
-use crate::table::{strat_axis, StratAxis, Table};
+use crate::model::StratAxis;
+use crate::table::{strat_axis, Table};
 
 /// One boundary of a zone: where it is placed and the interval it must lie in.
 ///

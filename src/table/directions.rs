@@ -2,80 +2,8 @@
 
 use super::reader::{Cells, Columns, Table};
 use crate::error::TableError;
+use crate::model::{DirectionKind, DirectionRecord, DirectionSet, StratAxis};
 use crate::sphere::{Bedding, Direction, SpecimenOrientation};
-
-/// Which way the stratigraphic position column runs.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
-#[serde(rename_all = "lowercase")]
-pub enum StratAxis {
-    /// `height` in metres, growing upward (younger upward).
-    Height,
-    /// `depth` in metres, growing downward (cores).
-    Depth,
-}
-
-impl StratAxis {
-    /// The column name.
-    pub fn column(self) -> &'static str {
-        match self {
-            StratAxis::Height => "height",
-            StratAxis::Depth => "depth",
-        }
-    }
-}
-
-/// Whether a row is a line (a direction) or a plane (given by its pole), for great-circle analysis.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
-#[serde(rename_all = "lowercase")]
-pub enum DirectionKind {
-    /// A direction.
-    Line,
-    /// A great circle, given by its pole.
-    Plane,
-}
-
-/// One row of a directions table.
-#[derive(Debug, Clone, PartialEq)]
-pub struct DirectionRecord {
-    /// Line in the file.
-    pub line: usize,
-    /// Site name, if given.
-    pub site: Option<String>,
-    /// Specimen name, if given.
-    pub specimen: Option<String>,
-    /// The direction in geographic coordinates (converted from the specimen frame when the row carries
-    /// `x_az` and `x_plunge`).
-    pub direction: Direction,
-    /// Site latitude, degrees.
-    pub lat: Option<f64>,
-    /// Site longitude, degrees east (any range on input, kept as given).
-    pub lon: Option<f64>,
-    /// Height or depth in metres (see [`DirectionSet::axis`]).
-    pub position: Option<f64>,
-    /// Bedding attitude, if given.
-    pub bedding: Option<Bedding>,
-    /// Line or plane.
-    pub kind: DirectionKind,
-    /// Grouping key for means (the `--by` column, default `site`).
-    pub group: Option<String>,
-    /// For a plane: the last demagnetization step used in its fit (geographic coordinates), whose
-    /// pole is then signed so that the path turns anticlockwise about it. It tells which way the path
-    /// moves along the circle (see [`crate::stats::mixed_mean_with_paths`]); `None` when unknown.
-    pub path_end: Option<Direction>,
-}
-
-/// A whole directions table.
-#[derive(Debug, Clone, PartialEq)]
-pub struct DirectionSet {
-    /// File name for messages.
-    pub source: String,
-    /// Which position column the table has, if any.
-    pub axis: Option<StratAxis>,
-    /// The grouping column used, if any.
-    pub group_column: Option<String>,
-    /// The rows.
-    pub records: Vec<DirectionRecord>,
-}
 
 /// Which column to group by when reading a directions table.
 #[derive(Debug, Clone, PartialEq, Eq, Default)]

@@ -1,4 +1,5 @@
-//! Input tables: the shared CSV reader and the typed row models.
+//! Input tables: the shared CSV reader and the readers that turn rows into the domain types of
+//! [`crate::model`].
 
 mod directions;
 mod picks;
@@ -8,16 +9,12 @@ mod steps;
 mod stream;
 mod timescale;
 
-pub use directions::{
-    read_bedding, read_directions, strat_axis, DirectionColumns, DirectionKind, DirectionRecord, DirectionRow,
-    DirectionSet, GroupBy, StratAxis,
-};
-pub use picks::{read_picks, Pick};
+pub use directions::{read_bedding, read_directions, strat_axis, DirectionColumns, DirectionRow, GroupBy};
+pub use picks::read_picks;
 pub use reader::{Cells, Columns, Row, Table};
-pub use sites::{read_sites, SiteRecord, SiteSet};
-pub use steps::{read_steps, SpecimenSteps, StepRecord, StepSet, Treatment};
+pub use sites::read_sites;
+pub use steps::read_steps;
 pub use stream::{is_layout_fault, StreamRow, TableStream};
-pub use timescale::{Chron, Polarity, TimeScale, AGE_TOLERANCE};
 
 #[cfg(test)]
 mod tests;

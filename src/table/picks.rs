@@ -1,26 +1,8 @@
 //! The picks table: a chosen range of steps (and fit kind) per specimen.
 
 use super::reader::Table;
-use super::steps::StepSet;
-use crate::demag::{Anchor, FitKind};
 use crate::error::TableError;
-
-/// One chosen fit: a specimen, a step range (inclusive) and what to fit.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Pick {
-    /// Line in the picks file.
-    pub line: usize,
-    /// Specimen name (present in the steps table).
-    pub specimen: String,
-    /// First step of the range (inclusive).
-    pub from: f64,
-    /// Last step of the range (inclusive).
-    pub to: f64,
-    /// Line or plane (default line).
-    pub kind: FitKind,
-    /// Free or through the origin (default free).
-    pub anchor: Anchor,
-}
+use crate::model::{Anchor, FitKind, Pick, StepSet};
 
 /// Read a picks table, checking each specimen against the steps table.
 ///
@@ -58,7 +40,7 @@ pub fn read_picks(t: &Table, steps: &StepSet) -> Result<Vec<Pick>, TableError> {
             Some("origin") => Anchor::Origin,
             Some(o) => return Err(t.error(row.line, Some("anchor"), format!("'{o}' is not 'free' or 'origin'"))),
         };
-        let n = crate::demag::steps_in_range(sp, from, to).len();
+        let n = sp.in_range(from, to).len();
         if n < kind.min_steps() {
             return Err(t.error(
                 row.line,

@@ -1,96 +1,10 @@
-//! The steps table (stepwise demagnetization) and the picks table (chosen fit ranges).
+//! The steps table (stepwise demagnetization).
 
-use super::directions::{read_bedding, strat_axis, StratAxis};
+use super::directions::{read_bedding, strat_axis};
 use super::reader::Table;
 use crate::error::TableError;
-use crate::sphere::{Bedding, Direction, Vec3};
-
-/// Kind of demagnetization treatment.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
-#[serde(rename_all = "lowercase")]
-pub enum Treatment {
-    /// Natural remanence, before any treatment.
-    Nrm,
-    /// Alternating field; the step is the peak field in mT.
-    Af,
-    /// Thermal; the step is the temperature in °C.
-    Thermal,
-}
-
-impl Treatment {
-    /// Unit of the step value, for labels.
-    pub fn unit(self) -> &'static str {
-        match self {
-            Treatment::Nrm => "",
-            Treatment::Af => "mT",
-            Treatment::Thermal => "°C",
-        }
-    }
-}
-
-/// One measurement after one demagnetization step.
-#[derive(Debug, Clone, PartialEq)]
-pub struct StepRecord {
-    /// Line in the file.
-    pub line: usize,
-    /// Demagnetization level (mT or °C; 0 for the natural remanence).
-    pub step: f64,
-    /// Direction of the remanence.
-    pub direction: Direction,
-    /// Intensity of the remanence, A·m² (> 0).
-    pub moment: f64,
-    /// Treatment, if given.
-    pub treatment: Option<Treatment>,
-}
-
-impl StepRecord {
-    /// The remanence vector, moment × unit vector (x north, y east, z down), A·m².
-    pub fn vector(&self) -> Vec3 {
-        self.direction.to_vector() * self.moment
-    }
-}
-
-/// All steps of one specimen, in increasing step order.
-#[derive(Debug, Clone, PartialEq)]
-pub struct SpecimenSteps {
-    /// Specimen name.
-    pub specimen: String,
-    /// Site name, if given.
-    pub site: Option<String>,
-    /// Height or depth (see [`StepSet::axis`]).
-    pub position: Option<f64>,
-    /// Bedding, if given.
-    pub bedding: Option<Bedding>,
-    /// The steps, step values strictly increasing.
-    pub steps: Vec<StepRecord>,
-}
-
-impl SpecimenSteps {
-    /// The remanence vectors of all steps.
-    pub fn vectors(&self) -> Vec<Vec3> {
-        self.steps.iter().map(StepRecord::vector).collect()
-    }
-}
-
-/// A whole steps table, specimens in order of first appearance.
-#[derive(Debug, Clone, PartialEq)]
-pub struct StepSet {
-    /// File name for messages.
-    pub source: String,
-    /// Which position column the table has, if any.
-    pub axis: Option<StratAxis>,
-    /// Whether any row carries bedding.
-    pub has_bedding: bool,
-    /// The specimens.
-    pub specimens: Vec<SpecimenSteps>,
-}
-
-impl StepSet {
-    /// The specimen with this name.
-    pub fn get(&self, name: &str) -> Option<&SpecimenSteps> {
-        self.specimens.iter().find(|s| s.specimen == name)
-    }
-}
+use crate::model::{SpecimenSteps, StepRecord, StepSet, Treatment};
+use crate::sphere::Direction;
 
 /// Read a steps table.
 ///

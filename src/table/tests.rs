@@ -1,4 +1,5 @@
 use super::*;
+use crate::model::{DirectionKind, StratAxis};
 
 fn parse(s: &str) -> Result<Table, crate::error::TableError> {
     Table::parse("t.csv", s.as_bytes())

@@ -2,75 +2,7 @@
 
 use super::reader::Table;
 use crate::error::TableError;
-
-/// Polarity of a chron.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
-pub enum Polarity {
-    /// Normal (field as today), code `N`.
-    #[serde(rename = "N")]
-    Normal,
-    /// Reversed, code `R`.
-    #[serde(rename = "R")]
-    Reversed,
-}
-
-impl Polarity {
-    /// The one-letter code.
-    pub fn code(self) -> &'static str {
-        match self {
-            Polarity::Normal => "N",
-            Polarity::Reversed => "R",
-        }
-    }
-    /// The other polarity.
-    pub fn flip(self) -> Polarity {
-        match self {
-            Polarity::Normal => Polarity::Reversed,
-            Polarity::Reversed => Polarity::Normal,
-        }
-    }
-}
-
-/// One polarity chron.
-///
-/// # Units
-/// Ages in Ma, growing into the past; `young < old`.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
-pub struct Chron {
-    /// Chron name, if given (e.g. `C1n`).
-    pub name: Option<String>,
-    /// Age of the young boundary, Ma.
-    pub young: f64,
-    /// Age of the old boundary, Ma.
-    pub old: f64,
-    /// Polarity.
-    pub polarity: Polarity,
-    /// Line in the source file.
-    pub line: usize,
-}
-
-impl Chron {
-    /// Duration, Myr.
-    pub fn duration(&self) -> f64 {
-        self.old - self.young
-    }
-}
-
-/// A validated polarity time scale: chrons sorted young → old, tiling time without gap or overlap.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
-pub struct TimeScale {
-    /// File name for messages.
-    pub source: String,
-    /// Chrons, youngest first.
-    pub chrons: Vec<Chron>,
-    /// The table states that the old boundary of its oldest row is a reversal (optional column
-    /// `old_edge` = `reversal` on that row), so the oldest row is a whole interval; otherwise the table
-    /// may be cut at an arbitrary age (`old_edge` = `cut`, or empty).
-    pub oldest_is_reversal: bool,
-}
-
-/// Boundaries closer than this (Myr) are treated as touching.
-pub const AGE_TOLERANCE: f64 = 1e-9;
+use crate::model::{Chron, Polarity, TimeScale, AGE_TOLERANCE};
 
 impl TimeScale {
     /// Read and validate a timescale table (`young`, `old`, `polarity`; optional `name`, and
@@ -146,15 +78,6 @@ impl TimeScale {
         }
         let oldest_is_reversal = edges.iter().any(|(l, e)| Some(*l) == oldest && e.as_deref() == Some("reversal"));
         Ok(TimeScale { source: t.name.clone(), chrons, oldest_is_reversal })
-    }
-
-    /// Age of the youngest boundary, Ma.
-    pub fn young(&self) -> f64 {
-        self.chrons.first().map_or(0.0, |c| c.young)
-    }
-    /// Age of the oldest boundary, Ma.
-    pub fn old(&self) -> f64 {
-        self.chrons.last().map_or(0.0, |c| c.old)
     }
 }
 

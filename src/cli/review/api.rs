@@ -3,10 +3,12 @@
 //! socket; `super` connects them to the HTTP server.
 
 use anyhow::{Context, Result};
-use lodestone::demag::{fit_range, Anchor, FitKind, SpecimenFit};
+use lodestone::demag::{fit_range, SpecimenFit};
+use lodestone::model::{Anchor, FitKind};
+use lodestone::model::{SpecimenSteps, StepSet};
 use lodestone::section::{automatic_fit, rule_text, Project, ProjectFile, SectionSettings};
 use lodestone::simulate::{Settings, PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE};
-use lodestone::table::{read_picks, read_steps, SpecimenSteps, StepSet, Table};
+use lodestone::table::{read_picks, read_steps, Table};
 use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
 

@@ -4,13 +4,14 @@ use super::super::{write_atomic, Cell, Ctx, Report, Section};
 use super::{timescale_model_json, RenewalArgs};
 use anyhow::{bail, Context, Result};
 use clap::{Args, ValueEnum};
+use lodestone::model::{StratAxis, TimeScale};
 use lodestone::simulate::{
     catch_probability, chron_thickness, parse_rates, sampling_csv, settings_text, simulate_section, simulate_timescale,
     steps_csv, timescale_csv, truth_document, Overprint, SectionModel, SyntheticSection, Treatment, Unblocking,
     SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
-use lodestone::table::{StratAxis, Table, TimeScale};
+use lodestone::table::Table;
 use lodestone::units::cm_per_kyr_to_m_per_myr;
 use serde_json::json;
 use std::path::PathBuf;

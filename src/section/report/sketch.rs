@@ -6,10 +6,11 @@
 //! The projections are those of the full-size figures ([`crate::figures::endpoint_projections`],
 //! [`crate::figures::project`]); only the drawing is lighter (no text but the axis letters).
 
-use crate::demag::{FitKind, SpecimenFit};
+use crate::demag::SpecimenFit;
 use crate::figures::{endpoint_projections, great_circle_halves, project};
+use crate::model::FitKind;
+use crate::model::SpecimenSteps;
 use crate::sphere::Direction;
-use crate::table::SpecimenSteps;
 use std::fmt::Write as _;
 
 /// Width and height of one panel, in SVG user units.
@@ -186,7 +187,7 @@ fn decay_panel(s: &mut String, sp: &SpecimenSteps, fits: &[SpecimenFit]) {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::table::StepRecord;
+    use crate::model::StepRecord;
 
     fn specimen(steps: &[(f64, f64, f64, f64)]) -> SpecimenSteps {
         SpecimenSteps {
@@ -226,7 +227,7 @@ mod tests {
     #[test]
     fn upward_directions_are_open_and_the_fit_is_marked() {
         let sp = specimen(&[(0.0, 10.0, -30.0, 3.0), (100.0, 10.0, -30.0, 2.0), (200.0, 10.0, -30.0, 1.0)]);
-        let fit = crate::demag::fit_range(&sp, 0.0, 200.0, FitKind::Line, crate::demag::Anchor::Free).unwrap();
+        let fit = crate::demag::fit_range(&sp, 0.0, 200.0, FitKind::Line, crate::model::Anchor::Free).unwrap();
         let svg = specimen_svg(&sp, &[fit], "X1");
         // Open markers: a white centre over the dots (the vertical projection and the up directions).
         assert!(svg.matches("stroke=\"#fff\"").count() >= 2);
@@ -239,7 +240,7 @@ mod tests {
         // Three steps (step, dec, inc, moment) in the vertical north–south plane: its pole is horizontal
         // east–west, so its circle is the north–south diameter of the net (x = 165, the net's centre).
         let sp = specimen(&[(0.0, 0.0, 10.0, 5.0), (50.0, 0.0, 60.0, 3.0), (100.0, 180.0, 70.0, 1.0)]);
-        let fit = crate::demag::fit_range(&sp, 0.0, 100.0, FitKind::Plane, crate::demag::Anchor::Free).unwrap();
+        let fit = crate::demag::fit_range(&sp, 0.0, 100.0, FitKind::Plane, crate::model::Anchor::Free).unwrap();
         let svg = specimen_svg(&sp, &[fit], "X1");
         let dashed = svg.split("<path").find(|p| p.contains("stroke-dasharray")).expect("dashed upper half");
         let solid = svg.split("<path").find(|p| p.contains(FIT) && !p.contains("dasharray") && p.contains("L"));

@@ -7,12 +7,12 @@ use super::site_means::UsedSite;
 use super::RunLog;
 use crate::error::Result;
 use crate::figures::ScalePanel;
+use crate::model::TimeScale;
 use crate::numbers::{fixed, fixed_or_empty};
 use crate::section::stage::Stage;
 use crate::section::tables::CsvTable;
 use crate::section::Project;
 use crate::strat::{comparison_sentence, correlate, Candidate, CorrelateOptions, Correlation, ZoneColumn};
-use crate::table::TimeScale;
 
 /// Caution carried with the correlation.
 pub const CORRELATION_CAUTION: &str = "The ranking of correlations is a statistical statement about a steady-rate \

@@ -3,14 +3,16 @@
 
 use super::inputs::{parse, Inputs};
 use super::RunLog;
-use crate::demag::{fit_range, FitKind, SpecimenFit};
+use crate::demag::{fit_range, SpecimenFit};
 use crate::error::Result;
+use crate::model::FitKind;
+use crate::model::Pick;
 use crate::numbers::{azimuth, fixed, fixed_or_empty};
 use crate::section::auto::{automatic_fit, rule_text};
 use crate::section::stage::Stage;
 use crate::section::tables::CsvTable;
 use crate::section::Project;
-use crate::table::{read_picks, Pick};
+use crate::table::read_picks;
 use std::collections::BTreeMap;
 
 /// The accepted fits, in the steps table's specimen order, with the automatic rule's grade of

@@ -3,11 +3,12 @@
 
 use super::RunLog;
 use crate::error::{Error, Result};
+use crate::model::{StepSet, StratAxis};
 use crate::section::settings::SectionSettings;
 use crate::section::{Project, ProjectFile, KNOWN_KEYS};
 use crate::simulate::Settings;
 use crate::sphere::{Bedding, GeoPoint};
-use crate::table::{read_bedding, read_steps, strat_axis, StepSet, StratAxis, Table};
+use crate::table::{read_bedding, read_steps, strat_axis, Table};
 
 /// One sampled level of the sampling table.
 #[derive(Debug)]

@@ -3,9 +3,11 @@
 
 use super::inputs::{Inputs, SiteInfo};
 use super::{yes_no, RunLog};
-use crate::demag::{FitKind, SpecimenFit};
+use crate::demag::SpecimenFit;
 use crate::error::Result;
 use crate::figures::{EqualAreaPlot, NetGroup};
+use crate::model::FitKind;
+use crate::model::{DirectionKind, DirectionRecord, DirectionSet};
 use crate::numbers::{azimuth_or_empty, fixed, fixed_or_empty};
 use crate::poles::vgp;
 use crate::section::stage::{draw, Stage};
@@ -14,7 +16,6 @@ use crate::section::Project;
 use crate::sphere::{Bedding, Direction};
 use crate::stats::{fisher_mean, group_means, Frame, GroupMean};
 use crate::strat::{classify, ZonePolarity};
-use crate::table::{DirectionKind, DirectionRecord, DirectionSet};
 use std::collections::BTreeMap;
 
 /// A site whose mean is used downstream, with its VGP.

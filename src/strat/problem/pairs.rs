@@ -7,7 +7,7 @@
 //! chrons of its polarity, so a lookup is two loads and an add. Values are stored as before, so every
 //! score is bitwise the same as with full tables.
 
-use crate::table::Polarity;
+use crate::model::Polarity;
 
 /// ln of a run's duration interval for both readings of its missing chrons (see [`super::ChronRun`]).
 pub(super) type Spans = super::ChronRun;
