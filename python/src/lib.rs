@@ -60,6 +60,13 @@ pub(crate) fn arg_error(msg: impl Into<String>) -> PyErr {
     Failure::Arg(msg.into()).into()
 }
 
+/// The `cutoff` argument of `paleopole` and `psv`: 'none', 'vandamme' or an angle in (0, 180].
+pub(crate) fn cutoff_arg(cutoff: &str) -> PyResult<lodestone::poles::Cutoff> {
+    lodestone::poles::Cutoff::parse(cutoff).ok_or_else(|| {
+        arg_error(format!("cutoff must be 'none', 'vandamme' or an angle in (0, 180] such as '45'; got '{cutoff}'"))
+    })
+}
+
 impl From<Failure> for PyErr {
     fn from(f: Failure) -> PyErr {
         match f {

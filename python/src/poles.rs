@@ -1,8 +1,8 @@
 //! The paleopole and the VGP scatter of a sites table (the library's `pole_summary`, as `poles` runs it).
 
-use crate::{arg_error, run_detached, Source};
+use crate::{cutoff_arg, run_detached, Source};
 use lodestone::montecarlo::MonteCarlo;
-use lodestone::poles::{pole_summary, Cutoff};
+use lodestone::poles::pole_summary;
 use lodestone::table::read_sites;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
@@ -53,9 +53,7 @@ pub fn paleopole<'py>(
     resamples: usize,
     threads: Option<usize>,
 ) -> PyResult<Bound<'py, PyDict>> {
-    let cut = Cutoff::parse(cutoff).ok_or_else(|| {
-        arg_error(format!("cutoff must be 'none', 'vandamme' or an angle in (0, 180] such as '45'; got '{cutoff}'"))
-    })?;
+    let cut = cutoff_arg(cutoff)?;
     let input = sites.input();
     let (set, sum) = run_detached(py, threads, || {
         let set = read_sites(&input.table()?)?;

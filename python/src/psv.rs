@@ -1,10 +1,9 @@
 //! VGP scatter per group against paleolatitude with the latitude model (the library's `psv_groups` and
 //! `psv_model`, as the `psv` verb calls them).
 
-use crate::{arg_error, run_detached, Source};
+use crate::{cutoff_arg, run_detached, Source};
 use lodestone::dirstats::{psv_groups, psv_model, GroupRemark};
 use lodestone::montecarlo::MonteCarlo;
-use lodestone::poles::Cutoff;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 
@@ -20,9 +19,7 @@ pub fn psv<'py>(
     resamples: usize,
     threads: Option<usize>,
 ) -> PyResult<Bound<'py, PyDict>> {
-    let cut = Cutoff::parse(cutoff).ok_or_else(|| {
-        arg_error(format!("cutoff must be 'none', 'vandamme' or an angle in (0, 180] such as '45'; got '{cutoff}'"))
-    })?;
+    let cut = cutoff_arg(cutoff)?;
     let input = sites.input();
     let (pg, fit, ci) = run_detached(py, threads, || {
         let pg = psv_groups(&input.table()?, by, cut)?;

@@ -1,5 +1,6 @@
 //! Command-line argument types shared by several verbs.
 
+use lodestone::poles::Cutoff;
 use lodestone::stats::Frame;
 
 /// The coordinate frame of directions, as `--frame geo|tilt`.
@@ -17,5 +18,13 @@ impl From<FrameArg> for Frame {
             FrameArg::Geo => Frame::Geo,
             FrameArg::Tilt => Frame::Tilt,
         }
+    }
+}
+
+/// The `--cutoff` of `poles` and `psv`: none, vandamme, or an angle in (0, 180].
+pub fn parse_cutoff(s: &str) -> anyhow::Result<Cutoff> {
+    match Cutoff::parse(s) {
+        Some(c) => Ok(c),
+        None => anyhow::bail!("--cutoff must be none, vandamme or an angle in (0, 180] such as 45; got '{s}'"),
     }
 }

@@ -5,7 +5,7 @@ use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
 use lodestone::model::SiteSet;
-use lodestone::poles::{pole_summary, Cutoff, Paleopole, PoleSummary, Scatter, ScatterInterval};
+use lodestone::poles::{pole_summary, Paleopole, PoleSummary, Scatter, ScatterInterval};
 use lodestone::table::{read_sites, Table};
 use serde_json::{json, Value};
 use std::path::PathBuf;
@@ -31,15 +31,8 @@ pub struct PolesArgs {
     pub plot: Option<PathBuf>,
 }
 
-fn parse_cutoff(s: &str) -> Result<Cutoff> {
-    match Cutoff::parse(s) {
-        Some(c) => Ok(c),
-        None => bail!("--cutoff must be none, vandamme or an angle in (0, 180] such as 45; got '{s}'"),
-    }
-}
-
 pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
-    let cutoff = parse_cutoff(&a.cutoff)?;
+    let cutoff = super::args::parse_cutoff(&a.cutoff)?;
     ctx.inputs.add(&a.file);
     let table = Table::read(&a.file)?;
     let set = read_sites(&table)?;

@@ -1,11 +1,10 @@
 //! `lodestone psv`: VGP scatter per group against paleolatitude, with S(λ)² = a² + (bλ)² fitted.
 
 use super::{Cell, Ctx, Report, Section};
-use anyhow::{bail, Result};
+use anyhow::Result;
 use clap::Args;
 use lodestone::dirstats::{psv_groups, psv_model, GroupRemark, LatitudeFit, LatitudeModelInterval, MIN_GROUP_SITES};
 use lodestone::figures::{LatitudeFigure, LatitudePoint};
-use lodestone::poles::Cutoff;
 use lodestone::table::Table;
 use serde_json::json;
 use std::path::PathBuf;
@@ -29,9 +28,7 @@ pub struct PsvArgs {
 }
 
 pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
-    let Some(cutoff) = Cutoff::parse(&a.cutoff) else {
-        bail!("--cutoff must be none, vandamme or an angle in (0, 180] such as 45; got '{}'", a.cutoff);
-    };
+    let cutoff = super::args::parse_cutoff(&a.cutoff)?;
     ctx.inputs.add(&a.file);
     let fname = a.file.display().to_string();
     let pg = psv_groups(&Table::read(&a.file)?, &a.by, cutoff)?;

@@ -7,7 +7,7 @@ use super::psv_model::{
 };
 use crate::error::{Error, Result};
 use crate::montecarlo::MonteCarlo;
-use crate::poles::{align_polarity, site_within, vgp, vgp_scatter, Cutoff, ScatterSite};
+use crate::poles::{align_polarity, vgp, vgp_scatter, Cutoff, ScatterSite, WithinSite};
 use crate::sphere::GeoPoint;
 use crate::table::{read_sites, Table};
 
@@ -59,7 +59,7 @@ pub fn psv_groups(table: &Table, by: &str, cutoff: Cutoff) -> Result<PsvGroups> 
             )));
         }
         let v = vgp(r.location, r.direction);
-        let site = ScatterSite { pole: v.pole, within: site_within(r, v.paleolat)? };
+        let site = ScatterSite { pole: v.pole, within: WithinSite::from_site(r.n, r.k, r.a95, v.paleolat)? };
         let at = match gathered.iter().position(|g| g.0 == name) {
             Some(i) => i,
             None => {

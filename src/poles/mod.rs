@@ -20,4 +20,4 @@ pub use scatter::{
     bootstrap_scatter, precision_from_a95, vgp_scatter, within_site_sw, Cutoff, Scatter, ScatterInterval, ScatterSite,
     WithinSite,
 };
-pub use sites::{pole_summary, site_a95, site_pole, site_within, PoleSummary, SitePole};
+pub use sites::{pole_summary, site_a95, site_pole, PoleSummary, SitePole};

@@ -28,12 +28,6 @@ pub fn site_a95(r: &SiteRecord) -> Option<f64> {
     })
 }
 
-/// A site's within-site dispersion for the scatter, by the one rule of [`WithinSite::from_site`]
-/// (n ≥ 2 and k, or k from α95).
-pub fn site_within(r: &SiteRecord, paleolat: f64) -> Result<Option<WithinSite>> {
-    WithinSite::from_site(r.n, r.k, r.a95, paleolat)
-}
-
 /// One site's VGP with its confidence oval and paleolatitude range (when an α95 is known).
 #[derive(Debug, Clone, PartialEq)]
 pub struct SitePole {
@@ -55,7 +49,7 @@ pub fn site_pole(r: &SiteRecord) -> Result<SitePole> {
     let a95 = site_a95(r);
     let oval = a95.map(|x| pole_oval(v.colatitude, x)).transpose()?;
     let range = a95.map(|x| paleolatitude_range(r.direction.inc, x)).transpose()?;
-    let within = site_within(r, v.paleolat)?;
+    let within = WithinSite::from_site(r.n, r.k, r.a95, v.paleolat)?;
     Ok(SitePole { vgp: v, a95, oval, range, within })
 }
 
