@@ -111,6 +111,7 @@ pub mod model;
 pub mod montecarlo;
 pub mod numbers;
 pub mod poles;
+pub mod present;
 pub mod reversals;
 pub mod section;
 pub mod simulate;

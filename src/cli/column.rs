@@ -1,6 +1,6 @@
 //! `lodestone column`: polarity per level and magnetozones.
 
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::ColumnFigure;
@@ -30,8 +30,8 @@ pub struct ColumnArgs {
 }
 
 /// The zones table section (what `--format csv` prints and `correlate` reads).
-pub fn zones_section(col: &ZoneColumn, title: &str) -> (Section, Vec<Value>) {
-    let mut sec = Section::new(title, &ZONE_COLUMNS);
+pub fn zones_section(col: &ZoneColumn, title: &str) -> (Sheet, Vec<Value>) {
+    let mut sec = Sheet::new(title, &ZONE_COLUMNS);
     let mut js = Vec::new();
     for (i, z) in col.zones.iter().enumerate() {
         sec.rows.push(vec![
@@ -56,13 +56,13 @@ pub fn zones_section(col: &ZoneColumn, title: &str) -> (Section, Vec<Value>) {
     (sec, js)
 }
 
-pub fn run(a: ColumnArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: ColumnArgs, ctx: &mut Ctx) -> Result<Presentation> {
     ctx.inputs.add(&a.file);
     let table = Table::read(&a.file)?;
     let set = read_levels(&table, LevelOptions { in_situ: a.in_situ })?;
     let (pol, col) = zone_levels(&set, a.threshold, a.min_levels)?;
     let axis = set.axis.column();
-    let mut lev = Section::new(
+    let mut lev = Sheet::new(
         &format!("Levels of {} (VGP threshold {}°)", a.file.display(), a.threshold),
         &[axis, "vgp_lat", "polarity", "n", "a95", "mad"],
     );
@@ -89,13 +89,14 @@ pub fn run(a: ColumnArgs, ctx: &mut Ctx) -> Result<Report> {
         let fig = ColumnFigure::of_column(title, &set, &col, a.threshold);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": a.file.display().to_string(), "axis": axis, "threshold": a.threshold, "min_levels": a.min_levels,
             "levels": levels, "zones": zones, "notes": notes,
         }),
-        sections: vec![lev, zsec],
-        csv_section: 1,
+        sheets: vec![lev, zsec],
+        main_sheet: 1,
+        cautions: vec![],
         notes,
     })
 }

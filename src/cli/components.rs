@@ -1,6 +1,6 @@
 //! `lodestone components`: principal-component fits per specimen from a steps table.
 
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule, SpecimenFit};
@@ -120,7 +120,7 @@ impl Fitted {
     }
 }
 
-pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let max_mad = a.max_mad.unwrap_or(if a.rule == RuleArg::Last { 15.0 } else { 5.0 });
     if a.auto && (a.min_steps < 2 || !(max_mad >= 0.0) || !(a.max_dang >= 0.0)) {
         bail!("--min-steps must be at least 2 and --max-mad, --max-dang non-negative");
@@ -141,7 +141,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     let mut sections = vec![sec];
     let Fitted { method, fits, unfitted, rule_json, .. } = fitted;
     if !unfitted.is_empty() {
-        let mut u = Section::new("Specimens not fitted", &["specimen", "reason"]);
+        let mut u = Sheet::new("Specimens not fitted", &["specimen", "reason"]);
         for (s, why) in &unfitted {
             u.rows.push(vec![Cell::Text(s.clone()), Cell::Text(why.clone())]);
             notes.push(format!("{s}: not fitted: {why}."));
@@ -160,7 +160,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
     if let Some(dir) = &a.plot {
         write_plots(dir, &set, &fits, a.plot_format, a.force, ctx)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": a.steps.display().to_string(),
             "method": method,
@@ -169,8 +169,9 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Report> {
             "unfitted": unfitted.iter().map(|(s, r)| json!({"specimen": s, "reason": r})).collect::<Vec<_>>(),
             "notes": notes,
         }),
-        sections,
-        csv_section: 0,
+        sheets: sections,
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }
@@ -269,7 +270,7 @@ fn by_range(a: &ComponentsArgs, set: &StepSet) -> Result<Fitted> {
 }
 
 /// The fits as the table (with the position, bedding and grade columns the input has) and as JSON.
-fn fits_section(a: &ComponentsArgs, set: &StepSet, fitted: &Fitted) -> (Section, Vec<Value>) {
+fn fits_section(a: &ComponentsArgs, set: &StepSet, fitted: &Fitted) -> (Sheet, Vec<Value>) {
     let axis = set.axis;
     let mut columns = vec!["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"];
     if let Some(ax) = axis {
@@ -283,7 +284,7 @@ fn fits_section(a: &ComponentsArgs, set: &StepSet, fitted: &Fitted) -> (Section,
         columns.push("grade");
     }
     let title = format!("Principal components of {} ({} fits)", a.steps.display(), fitted.method);
-    let mut sec = Section::new(&title, &columns);
+    let mut sec = Sheet::new(&title, &columns);
     let mut fits_json = Vec::new();
     for f in &fitted.fits {
         let sp = set.get(&f.specimen).expect("fitted specimen exists");

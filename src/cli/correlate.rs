@@ -1,6 +1,6 @@
 //! `lodestone correlate`: rank correlations of a polarity column with a time scale.
 
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::figures::ColumnFigure;
@@ -60,7 +60,7 @@ fn parse_anchor(s: &str) -> Result<DatedLevel> {
     DatedLevel::new(p, age, err).with_context(|| format!("--anchor {s}"))
 }
 
-pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let anchors = a.anchors.iter().map(|s| parse_anchor(s)).collect::<Result<Vec<_>>>()?;
     ctx.inputs.add(&a.zones);
     ctx.inputs.add(&a.timescale);
@@ -92,15 +92,16 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Report> {
         let fig = ColumnFigure::of_correlation(title, &col, levels, a.threshold, &ts, best);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "zones": a.zones.display().to_string(), "timescale": a.timescale.display().to_string(), "axis": axis,
             "settings": {"miss_penalty": a.miss_penalty, "hiatus_penalty": a.hiatus_penalty, "skip_penalty": a.skip_penalty,
                 "rate_spread": a.rate_spread, "anchors": opts.anchors},
             "n_scored": res.n_scored, "candidates": cands, "comparison": sentence, "notes": notes,
         }),
-        sections: vec![summary, ties_sec, runs_section(best)],
-        csv_section: 1,
+        sheets: vec![summary, ties_sec, runs_section(best)],
+        main_sheet: 1,
+        cautions: vec![],
         notes,
     })
 }
@@ -126,12 +127,12 @@ fn column_of(a: &CorrelateArgs, notes: &mut Vec<String>) -> Result<(ZoneColumn, 
 }
 
 /// The ranked candidates and the ties of every candidate.
-fn candidate_sections(a: &CorrelateArgs, axis: &str, res: &Correlation) -> (Section, Section) {
-    let mut summary = Section::new(
+fn candidate_sections(a: &CorrelateArgs, axis: &str, res: &Correlation) -> (Sheet, Sheet) {
+    let mut summary = Sheet::new(
         &format!("Correlations of {} with {} (lower score is better)", a.zones.display(), a.timescale.display()),
         &["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
     );
-    let mut ties_sec = Section::new(
+    let mut ties_sec = Sheet::new(
         "Tie points of every candidate",
         &["rank", axis, "low", "high", "age", "chron_above", "chron_below"],
     );
@@ -175,8 +176,8 @@ fn candidate_json(axis: &str, c: &Candidate) -> Value {
     })
 }
 
-fn runs_section(best: &Candidate) -> Section {
-    let mut runs = Section::new(
+fn runs_section(best: &Candidate) -> Sheet {
+    let mut runs = Sheet::new(
         "Age model of the best candidate: runs and accumulation rates (cm/kyr)",
         &["top", "base", "age_young", "age_old", "rate", "reading", "missing"],
     );

@@ -1,6 +1,6 @@
 //! `lodestone demo`: `section` on the embedded invented demo section (records/demo/).
 
-use super::{Ctx, Report};
+use super::{Ctx, Presentation};
 use anyhow::Result;
 use clap::Args;
 use lodestone::section::{Project, ProjectFile};
@@ -36,7 +36,7 @@ pub fn demo_project() -> Project {
     }
 }
 
-pub fn run(a: DemoArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: DemoArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let mut r =
         super::section::run_project(demo_project(), Some(ProjectFile::new("truth.json", TRUTH)), &a.out, a.force, ctx)?;
     r.notes.insert(0, "The demo section is invented: synthetic data drawn from a stated model (records/demo/README.md), not measurements.".into());

@@ -1,6 +1,6 @@
 //! `lodestone dipole vadm|vdm|gauss`: dipole moments from intensity or from Gauss coefficients.
 
-use super::{Cell, Ctx, Report, Section};
+use super::{Cell, Ctx, Presentation, Sheet};
 use anyhow::Result;
 use clap::{Args, Subcommand};
 use lodestone::poles::{gauss_dipole, vadm, vdm, EARTH_RADIUS_M, IGRF_REFERENCE_RADIUS_M};
@@ -43,13 +43,13 @@ pub enum DipoleWhat {
     },
 }
 
-pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Presentation> {
     let mut notes = Vec::new();
     let (json, sec) = match a.what {
         DipoleWhat::Vadm { intensity, lat } => {
             let m = vadm(intensity, lat)?;
             notes.push(format!("VADM assumes a geocentric axial dipole at the site's present latitude; Earth radius {EARTH_RADIUS_M} m, μ0 = 4π × 10⁻⁷ H/m."));
-            let mut s = Section::new("Virtual axial dipole moment", &["kind", "intensity_ut", "lat", "moment"]);
+            let mut s = Sheet::new("Virtual axial dipole moment", &["kind", "intensity_ut", "lat", "moment"]);
             s.rows.push(vec![
                 Cell::Text("vadm".into()),
                 Cell::Num(intensity, 2),
@@ -62,7 +62,7 @@ pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Report> {
             let m = vdm(intensity, inc)?;
             let plat = lodestone::poles::paleolatitude_range(inc, 0.0)?.paleolat;
             notes.push(format!("VDM uses the magnetic (paleo)latitude {plat:.2}° from tan I = 2 tan λ; Earth radius {EARTH_RADIUS_M} m, μ0 = 4π × 10⁻⁷ H/m."));
-            let mut s = Section::new("Virtual dipole moment", &["kind", "intensity_ut", "inc", "paleolat", "moment"]);
+            let mut s = Sheet::new("Virtual dipole moment", &["kind", "intensity_ut", "inc", "paleolat", "moment"]);
             s.rows.push(vec![
                 Cell::Text("vdm".into()),
                 Cell::Num(intensity, 2),
@@ -81,7 +81,7 @@ pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Report> {
             if d.reversed {
                 notes.push("g10 > 0: the dipole points the other way from today's field; the north geomagnetic pole (where the field points down) lies in the southern hemisphere.".into());
             }
-            let mut s = Section::new("Geocentric dipole", &["kind", "b0_nt", "moment", "tilt", "pole_lat", "pole_lon"]);
+            let mut s = Sheet::new("Geocentric dipole", &["kind", "b0_nt", "moment", "tilt", "pole_lat", "pole_lon"]);
             s.rows.push(vec![
                 Cell::Text("gauss".into()),
                 Cell::Num(d.b0_nt, 1),
@@ -100,5 +100,5 @@ pub fn run(a: DipoleArgs, _ctx: &mut Ctx) -> Result<Report> {
     };
     let mut json = json;
     json["notes"] = json!(notes);
-    Ok(Report { json, sections: vec![sec], csv_section: 0, notes })
+    Ok(Presentation { json, sheets: vec![sec], main_sheet: 0, cautions: vec![], notes })
 }

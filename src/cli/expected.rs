@@ -1,7 +1,7 @@
 //! `lodestone expected`: the direction a geocentric dipole with a given pole produces at a site (the
 //! inverse of the VGP), for one site or for every site of a sites table.
 
-use super::{Cell, Ctx, Report, Section};
+use super::{Cell, Ctx, Presentation, Sheet};
 use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::poles::{expected_direction, expected_oval};
@@ -32,12 +32,12 @@ pub struct ExpectedArgs {
     pub sites: Option<PathBuf>,
 }
 
-pub fn run(a: ExpectedArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: ExpectedArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let pole = GeoPoint::new(a.pole_lat, a.pole_lon).map_err(|e| anyhow::anyhow!("--pole-lat/--pole-lon: {e}"))?;
     if let Some(x) = a.a95 {
         lodestone::error::check_range("--a95", x, 0.0, 90.0, "[0, 90]")?;
     }
-    let mut sec = Section::new(
+    let mut sec = Sheet::new(
         &format!("Expected directions from the pole {:.2}°, {:.2}°E", pole.lat, pole.lon),
         &[
             "site",
@@ -100,10 +100,11 @@ pub fn run(a: ExpectedArgs, ctx: &mut Ctx) -> Result<Report> {
     let notes = vec![
         "Expected directions assume a geocentric dipole whose axis passes through the pole; rotation = observed − expected declination, flattening = expected − observed inclination.".to_string(),
     ];
-    Ok(Report {
+    Ok(Presentation {
         json: json!({"pole": {"plat": pole.lat, "plon": pole.lon, "a95": super::jnum(a.a95)}, "sites": rows, "notes": notes}),
-        sections: vec![sec],
-        csv_section: 0,
+        sheets: vec![sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }

@@ -1,6 +1,6 @@
 //! `lodestone field series|at|context`: the present field from a spherical-harmonic model.
 
-use super::{Cell, Ctx, Report, Section};
+use super::{Cell, Ctx, Presentation, Sheet};
 use anyhow::{Context as _, Result};
 use clap::{Args, Subcommand};
 use lodestone::field::{
@@ -94,7 +94,7 @@ pub struct ContextArgs {
     pub within: f64,
 }
 
-pub fn run(a: FieldArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: FieldArgs, ctx: &mut Ctx) -> Result<Presentation> {
     match a.what {
         FieldWhat::Series(s) => series(s, ctx),
         FieldWhat::At(s) => at(s, ctx),
@@ -118,7 +118,7 @@ fn model_json(m: &FieldModel) -> serde_json::Value {
            "last_epoch": m.epochs.last(), "defined_from": first, "defined_to": last})
 }
 
-fn at(a: AtArgs, ctx: &mut Ctx) -> Result<Report> {
+fn at(a: AtArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let model = load_model(&a.model, ctx)?;
     let frame = if a.geocentric { Frame::Geocentric } else { Frame::Geodetic };
     let site = Site::new(a.lat, a.lon, a.altitude, frame)?;
@@ -133,7 +133,7 @@ fn at(a: AtArgs, ctx: &mut Ctx) -> Result<Report> {
     }
     notes.push(NOT_A_FORECAST.into());
     let mut s =
-        Section::new("Field elements", &["year", "lat", "lon", "altitude", "x", "y", "z", "h", "f", "dec", "inc"]);
+        Sheet::new("Field elements", &["year", "lat", "lon", "altitude", "x", "y", "z", "h", "f", "dec", "inc"]);
     s.rows.push(vec![
         Cell::Num(a.year, 3),
         Cell::Num(site.lat, 4),
@@ -150,10 +150,10 @@ fn at(a: AtArgs, ctx: &mut Ctx) -> Result<Report> {
     let json = json!({"model": model_json(&model), "year": a.year, "lat": site.lat, "lon": site.lon,
         "altitude": a.altitude, "frame": frame, "x": e.x, "y": e.y, "z": e.z, "h": e.h, "f": e.f,
         "dec": e.dec, "inc": e.inc, "notes": notes});
-    Ok(Report { json, sections: vec![s], csv_section: 0, notes })
+    Ok(Presentation { json, sheets: vec![s], main_sheet: 0, cautions: vec![], notes })
 }
 
-fn series(a: SeriesArgs, ctx: &mut Ctx) -> Result<Report> {
+fn series(a: SeriesArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let model = load_model(&a.model, ctx)?;
     let from = a.from.unwrap_or(model.epochs[0]);
     let to = a.to.unwrap_or(*model.epochs.last().expect("an epoch"));
@@ -169,16 +169,16 @@ fn series(a: SeriesArgs, ctx: &mut Ctx) -> Result<Report> {
         notes.push(format!("Years after {last} (the model's last epoch) carry its coefficients forward with the secular variation: a short extrapolation, not a forecast."));
     }
     notes.push(NOT_A_FORECAST.into());
-    let mut sections = vec![series_section(&rows)];
+    let mut sheets = vec![series_section(&rows)];
     if let Some(last) = rows.last() {
-        let mut sp = Section::new(
+        let mut sp = Sheet::new(
             &format!("Lowes–Mauersberger spectrum at the reference sphere, {}", last.year),
             &["degree", "power_nt2"],
         );
         for (k, p) in last.spectrum.iter().enumerate() {
             sp.rows.push(vec![Cell::Int(k as i64 + 1), Cell::Num(*p, 1)]);
         }
-        sections.push(sp);
+        sheets.push(sp);
     }
     if let Some(p) = &a.plot {
         let title =
@@ -195,11 +195,11 @@ fn series(a: SeriesArgs, ctx: &mut Ctx) -> Result<Report> {
         super::write_figure(&fig, p, &ctx.inputs)?;
     }
     let json = json!({"model": model_json(&model), "low_threshold": a.low_threshold, "epochs": rows, "notes": notes});
-    Ok(Report { json, sections, csv_section: 0, notes })
+    Ok(Presentation { json, sheets, main_sheet: 0, cautions: vec![], notes })
 }
 
-fn series_section(rows: &[EpochSummary]) -> Section {
-    let mut s = Section::new(
+fn series_section(rows: &[EpochSummary]) -> Sheet {
+    let mut s = Sheet::new(
         "The present field through time",
         &[
             "year",
@@ -249,7 +249,7 @@ fn series_section(rows: &[EpochSummary]) -> Section {
     s
 }
 
-fn context(a: ContextArgs, ctx: &mut Ctx) -> Result<Report> {
+fn context(a: ContextArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let model = load_model(&a.model, ctx)?;
     ctx.inputs.add(&a.record);
     let record = PaleoRecord::from_table(&Table::read(&a.record)?)?;
@@ -269,7 +269,7 @@ fn context(a: ContextArgs, ctx: &mut Ctx) -> Result<Report> {
         notes.push(format!("{n} of {} such episodes were followed by a polarity boundary within {} Myr; of all windows, {:.1} % were, for comparison.", c.drops_like_present, c.within_myr, 100.0 * share));
     }
     notes.push(NOT_A_FORECAST.into());
-    let mut s = Section::new("The present dipole beside the record", &["quantity", "value"]);
+    let mut s = Sheet::new("The present dipole beside the record", &["quantity", "value"]);
     let mut row = |k: &str, v: Cell| s.rows.push(vec![Cell::Text(k.into()), v]);
     row("present_year", Cell::Num(c.present_year, 1));
     row("present_moment", Cell::Text(format!("{:.4e}", c.present_moment)));
@@ -285,5 +285,5 @@ fn context(a: ContextArgs, ctx: &mut Ctx) -> Result<Report> {
     json["model"] = model_json(&model);
     json["record"] = json!(record.source);
     json["notes"] = json!(notes);
-    Ok(Report { json, sections: vec![s], csv_section: 0, notes })
+    Ok(Presentation { json, sheets: vec![s], main_sheet: 0, cautions: vec![], notes })
 }

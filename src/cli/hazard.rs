@@ -1,7 +1,7 @@
 //! `lodestone hazard`: hazard and P(reversal within a horizon | none for the elapsed time).
 
 use super::intervals::{param_cells, params_json, record_notes, Window, PARAM_COLUMNS};
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::Result;
 use clap::Args;
 use lodestone::reversals::{self, Model, CAUTIONS};
@@ -29,7 +29,7 @@ pub struct HazardArgs {
     pub plot: Option<PathBuf>,
 }
 
-pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Presentation> {
     if a.resamples == 0 {
         anyhow::bail!("--resamples must be at least 1");
     }
@@ -55,7 +55,7 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Report> {
         Ok(b) => est.interval = Some(b),
         Err(e) => notes.push(format!("No bootstrap interval for the averaged probability: {e}")),
     }
-    let mut sec = Section::new(
+    let mut sec = Sheet::new(
         &format!("Hazard at {elapsed} Myr since the last reversal; P(reversal within {} Myr | none so far)", a.horizon),
         &[],
     );
@@ -102,7 +102,7 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Report> {
         let fig = lodestone::figures::HazardFigure::new(&fits, elapsed, &a.window.timescale.display().to_string());
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": a.window.timescale.display().to_string(),
             "elapsed": elapsed, "horizon": a.horizon,
@@ -118,8 +118,9 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Report> {
             "seed": ctx.global.seed,
             "notes": notes,
         }),
-        sections: vec![sec],
-        csv_section: 0,
+        sheets: vec![sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }

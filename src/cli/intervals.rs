@@ -1,6 +1,6 @@
 //! `lodestone intervals`: renewal-model fits to the polarity intervals of a time scale.
 
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::Result;
 use clap::Args;
 use lodestone::model::TimeScale;
@@ -147,14 +147,14 @@ pub struct IntervalsArgs {
     pub plot: Option<PathBuf>,
 }
 
-pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Presentation> {
     if a.resamples == 0 {
         anyhow::bail!("--resamples must be at least 1");
     }
     let rec = a.window.load(ctx)?;
     let sample = rec.sample()?;
     let fits = reversals::fit_models(&sample, &Model::ALL);
-    let mut sec = Section::new("Renewal models (maximum likelihood, open chron censored)", &[]);
+    let mut sec = Sheet::new("Renewal models (maximum likelihood, open chron censored)", &[]);
     sec.columns = ["model"]
         .iter()
         .chain(PARAM_COLUMNS.iter())
@@ -205,7 +205,7 @@ pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Report> {
         let fig = lodestone::figures::IntervalFigure::new(&sample, &fits, &a.window.timescale.display().to_string());
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": a.window.timescale.display().to_string(),
             "from": rec.from, "to": rec.to,
@@ -223,8 +223,9 @@ pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Report> {
             "resamples": a.resamples, "seed": ctx.global.seed,
             "notes": notes,
         }),
-        sections: vec![sec],
-        csv_section: 0,
+        sheets: vec![sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }

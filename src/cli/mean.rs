@@ -1,11 +1,11 @@
 //! `lodestone mean`: Fisher mean per group.
 //!
 //! Without a figure the table streams through compact per-group sums and the output is written group by
-//! group as it is computed ([`StreamedReport`]): memory holds a few dozen bytes per group and nothing per
+//! group as it is computed ([`Streamed`]): memory holds a few dozen bytes per group and nothing per
 //! row (with `--format json`, also the runs of adjacent file lines of each group).
 
 use super::args::FrameArg;
-use super::{jnum, Cell, Ctx, Output, Section, StreamedReport};
+use super::{jnum, Cell, Ctx, Output, Sheet, Streamed};
 use anyhow::Result;
 use clap::Args;
 use lodestone::figures::{EqualAreaPlot, NetGroup};
@@ -105,7 +105,7 @@ pub fn run(a: MeanArgs, ctx: &mut Ctx) -> Result<Output> {
         }
     };
     let other = (a.confidence - 0.95).abs() > 1e-12;
-    let mut head = Section::new(
+    let mut head = Sheet::new(
         &format!("Fisher means ({} coordinates) of {}", frame.label(), a.file.display()),
         &["group", "n", "dec", "inc", "r", "k", "a95", "theta63"],
     );
@@ -179,7 +179,7 @@ impl GroupView<'_> {
 
 /// Everything `mean` writes; each group is computed when it is written.
 struct MeanOutput {
-    head: Section,
+    head: Sheet,
     file: String,
     frame: Frame,
     group_column: Option<String>,
@@ -268,8 +268,8 @@ fn group_notes(g: &GroupView, f: &mut dyn FnMut(&str) -> std::io::Result<()>) ->
     Ok(())
 }
 
-impl StreamedReport for MeanOutput {
-    fn head(&self) -> &Section {
+impl Streamed for MeanOutput {
+    fn head(&self) -> &Sheet {
         &self.head
     }
 

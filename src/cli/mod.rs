@@ -30,9 +30,11 @@ use clap::{Args, Parser, Subcommand};
 #[allow(unused_imports)]
 pub use io::{prepare_out_dir, write_atomic, write_figure, Inputs};
 #[allow(unused_imports)]
-pub use output::{jnum, write_report, Cell, Format, Report, Section};
+pub use lodestone::present::write_json;
 #[allow(unused_imports)]
-pub use output::{write_json, write_output, Output, StreamedReport};
+pub use lodestone::present::{jnum, Cell, Presentation, Sheet, Streamed};
+pub use output::Format;
+pub use output::{write_output, Output};
 
 /// Options accepted anywhere on the command line.
 #[derive(Debug, Clone, Args)]
@@ -185,5 +187,5 @@ fn dispatch(verb: Verb, ctx: &mut Ctx) -> anyhow::Result<Output> {
         Verb::Unflatten(a) => unflatten::run(a, ctx),
         Verb::Psv(a) => psv::run(a, ctx),
     };
-    report.map(Output::Report)
+    report.map(Output::Held)
 }

@@ -1,6 +1,6 @@
 //! `lodestone poles`: VGP per site, paleopole, VGP scatter.
 
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
@@ -31,7 +31,7 @@ pub struct PolesArgs {
     pub plot: Option<PathBuf>,
 }
 
-pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let cutoff = super::args::parse_cutoff(&a.cutoff)?;
     ctx.inputs.add(&a.file);
     let table = Table::read(&a.file)?;
@@ -89,7 +89,7 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
 
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": fname,
             "northern": a.northern,
@@ -105,8 +105,9 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Report> {
             },
             "notes": notes,
         }),
-        sections: vec![sites_sec, pole_sec, sc_sec],
-        csv_section: 0,
+        sheets: vec![sites_sec, pole_sec, sc_sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }
@@ -116,11 +117,11 @@ fn one_site(
     a: &PolesArgs,
     ctx: &mut Ctx,
     fname: &str,
-    sites_sec: Section,
+    sites_sec: Sheet,
     mut sites_json: Vec<Value>,
     pole: lodestone::sphere::GeoPoint,
     missing_oval: Vec<String>,
-) -> Result<Report> {
+) -> Result<Presentation> {
     let mut notes = vec![format!(
         "{fname} holds one site: its VGP is given, but a paleopole (a Fisher mean of VGPs) and the VGP scatter need at least two sites, so none is computed."
     )];
@@ -141,26 +142,22 @@ fn one_site(
         };
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": fname, "northern": a.northern, "sites": sites_json,
             "pole": Value::Null, "scatter": Value::Null, "notes": notes,
         }),
-        sections: vec![sites_sec],
-        csv_section: 0,
+        sheets: vec![sites_sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }
 
 /// The VGP table of the sites and their JSON, with the sites that lack an α95 (an error with
 /// `--ovals`).
-fn site_rows(
-    a: &PolesArgs,
-    fname: &str,
-    set: &SiteSet,
-    sum: &PoleSummary,
-) -> Result<(Section, Vec<Value>, Vec<String>)> {
-    let mut sites_sec = Section::new(
+fn site_rows(a: &PolesArgs, fname: &str, set: &SiteSet, sum: &PoleSummary) -> Result<(Sheet, Vec<Value>, Vec<String>)> {
+    let mut sites_sec = Sheet::new(
         &format!("Virtual geomagnetic poles of {fname}"),
         &["site", "lat", "lon", "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "paleolat_low", "paleolat_high"],
     );
@@ -250,8 +247,8 @@ fn scatter_notes(
 }
 
 /// The paleopole's table and the scatter's table.
-fn pole_sections(pp: &Paleopole, sc: &Scatter, boot: &ScatterInterval, cut_name: &str) -> (Section, Section) {
-    let mut pole_sec = Section::new("Paleopole (Fisher mean of the VGPs)", &["n", "plat", "plon", "k", "a95"]);
+fn pole_sections(pp: &Paleopole, sc: &Scatter, boot: &ScatterInterval, cut_name: &str) -> (Sheet, Sheet) {
+    let mut pole_sec = Sheet::new("Paleopole (Fisher mean of the VGPs)", &["n", "plat", "plon", "k", "a95"]);
     pole_sec.rows.push(vec![
         Cell::Int(pp.n as i64),
         Cell::Num(pp.pole.lat, 1),
@@ -260,7 +257,7 @@ fn pole_sections(pp: &Paleopole, sc: &Scatter, boot: &ScatterInterval, cut_name:
         Cell::opt(pp.a95, 1),
     ]);
 
-    let mut sc_sec = Section::new(
+    let mut sc_sec = Sheet::new(
         "VGP scatter about the mean pole (polarity-aligned VGPs)",
         &["cutoff", "s", "s_low", "s_high", "s_total", "n_used", "n_removed", "threshold"],
     );

@@ -1,6 +1,6 @@
 //! `lodestone psv`: VGP scatter per group against paleolatitude, with S(λ)² = a² + (bλ)² fitted.
 
-use super::{Cell, Ctx, Report, Section};
+use super::{Cell, Ctx, Presentation, Sheet};
 use anyhow::Result;
 use clap::Args;
 use lodestone::dirstats::{psv_groups, psv_model, GroupRemark, LatitudeFit, LatitudeModelInterval, MIN_GROUP_SITES};
@@ -27,7 +27,7 @@ pub struct PsvArgs {
     pub plot: Option<PathBuf>,
 }
 
-pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let cutoff = super::args::parse_cutoff(&a.cutoff)?;
     ctx.inputs.add(&a.file);
     let fname = a.file.display().to_string();
@@ -47,7 +47,7 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
     let (groups, flipped) = (&pg.groups, pg.flipped);
     let used: Vec<(usize, bool)> = pg.n_used.iter().copied().zip(pg.within_corrected.iter().copied()).collect();
     let (fit, ci) = psv_model(&pg, &ctx.monte_carlo(a.resamples))?;
-    let mut gsec = Section::new(
+    let mut gsec = Sheet::new(
         &format!("VGP scatter per group of {fname} (by '{}', cutoff {})", a.by, a.cutoff),
         &["group", "paleolat", "s", "s_low", "s_high", "n_used"],
     );
@@ -92,7 +92,7 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
         };
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": fname, "by": a.by, "cutoff": a.cutoff,
             "groups": gjson,
@@ -101,14 +101,15 @@ pub fn run(a: PsvArgs, ctx: &mut Ctx) -> Result<Report> {
             "resamples": ci.resamples, "seed": ctx.global.seed,
             "notes": notes,
         }),
-        sections: vec![gsec, model_section(&fit, &ci)],
-        csv_section: 0,
+        sheets: vec![gsec, model_section(&fit, &ci)],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }
 
-fn model_section(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Section {
-    let mut msec = Section::new(
+fn model_section(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Sheet {
+    let mut msec = Sheet::new(
         "Latitude model S(λ)² = a² + (bλ)² (λ in degrees)",
         &["a", "a_low", "a_high", "b", "b_low", "b_high", "rms", "n_groups"],
     );

@@ -1,7 +1,7 @@
 //! `lodestone rate`: reversal rate through time, with the Laplace trend test and the clustering test.
 
 use super::intervals::{record_notes, Window};
-use super::{Cell, Ctx, Report, Section};
+use super::{Cell, Ctx, Presentation, Sheet};
 use anyhow::Result;
 use clap::Args;
 use lodestone::reversals;
@@ -26,7 +26,7 @@ pub struct RateArgs {
     pub plot: Option<PathBuf>,
 }
 
-pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let rec = a.window.load(ctx)?;
     let sum = reversals::rate_summary(&rec.reversals, rec.from, rec.to, a.width, a.step, a.level)?;
     let (step, points) = (sum.step, &sum.points);
@@ -38,7 +38,7 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
         step,
         a.level * 100.0
     ));
-    let mut sec = Section::new("Reversal rate through time (per Myr)", &["age", "rate", "low", "high", "count"]);
+    let mut sec = Sheet::new("Reversal rate through time (per Myr)", &["age", "rate", "low", "high", "count"]);
     for p in points {
         sec.rows.push(vec![
             Cell::Num(p.age, 3),
@@ -48,7 +48,7 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
             Cell::Int(p.count as i64),
         ]);
     }
-    let mut tests = Section::new("Tests", &["test", "n", "statistic", "value", "p"]);
+    let mut tests = Sheet::new("Tests", &["test", "n", "statistic", "value", "p"]);
     let laplace = match &sum.laplace {
         Ok(l) => {
             tests.rows.push(vec![
@@ -106,7 +106,7 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
         };
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": a.window.timescale.display().to_string(),
             "from": rec.from, "to": rec.to, "window": a.width, "step": step, "level": a.level,
@@ -116,8 +116,9 @@ pub fn run(a: RateArgs, ctx: &mut Ctx) -> Result<Report> {
             "clustering": clustering,
             "notes": notes,
         }),
-        sections: vec![sec, tests],
-        csv_section: 0,
+        sheets: vec![sec, tests],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }

@@ -1,7 +1,7 @@
 //! `lodestone section`: the whole chain on a project folder, written as tables, figures and an HTML
 //! report into an output folder.
 
-use super::{Cell, Ctx, Report, Section};
+use super::{Cell, Ctx, Presentation, Sheet};
 use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::section::{run_with_truth, Project, ProjectFile, SectionRun};
@@ -52,7 +52,7 @@ pub fn run_project(
     out: &Path,
     force: bool,
     ctx: &mut Ctx,
-) -> Result<Report> {
+) -> Result<Presentation> {
     let show = !ctx.global.quiet && std::io::stderr().is_terminal();
     let mut on_stage = |name: &str| {
         if show {
@@ -68,8 +68,8 @@ pub fn run_project(
     Ok(summary(&res, &project.title, out, files.len()))
 }
 
-fn summary(res: &SectionRun, title: &str, out: &Path, n_files: usize) -> Report {
-    let mut sec = Section::new(&format!("Section {title}: stages"), &["stage", "ran", "result"]);
+fn summary(res: &SectionRun, title: &str, out: &Path, n_files: usize) -> Presentation {
+    let mut sec = Sheet::new(&format!("Section {title}: stages"), &["stage", "ran", "result"]);
     for st in &res.stages {
         sec.rows.push(vec![
             Cell::Text(st.name.clone()),
@@ -86,7 +86,7 @@ fn summary(res: &SectionRun, title: &str, out: &Path, n_files: usize) -> Report 
     }
     notes.extend(res.cautions.iter().cloned());
     notes.push(format!("Wrote {n_files} files to {} (open {}).", out.display(), out.join("report.html").display()));
-    Report {
+    Presentation {
         json: json!({
             "project": title,
             "out": out.display().to_string(),
@@ -100,13 +100,14 @@ fn summary(res: &SectionRun, title: &str, out: &Path, n_files: usize) -> Report 
             "tables": res.tables.iter().map(|t| format!("tables/{}.csv", t.stem)).collect::<Vec<_>>(),
             "figures": res.figures.iter().map(|f| format!("figures/{}", f.stem)).collect::<Vec<_>>(),
         }),
-        sections: vec![sec],
-        csv_section: 0,
+        sheets: vec![sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     }
 }
 
-pub fn run_cli(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run_cli(a: SectionArgs, ctx: &mut Ctx) -> Result<Presentation> {
     if !a.dir.is_dir() {
         bail!("{}: not a folder (a project folder holds steps.csv and sampling.csv)", a.dir.display());
     }

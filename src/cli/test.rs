@@ -1,7 +1,7 @@
 //! `lodestone test …`: field tests (reversal, fold, randomness, common mean).
 
 use super::args::FrameArg;
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::Result;
 use clap::{Args, Subcommand};
 use lodestone::fieldtests::{self, FoldOptions, MeanComparison};
@@ -85,7 +85,7 @@ pub struct RandomArgs {
     pub frame: FrameArg,
 }
 
-pub fn run(a: TestArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: TestArgs, ctx: &mut Ctx) -> Result<Presentation> {
     match a.kind {
         TestKind::Reversal(o) => reversal(o, ctx),
         TestKind::CommonMean(o) => common_mean(o, ctx),
@@ -150,8 +150,8 @@ fn yes_no(b: bool, yes: &str, no: &str) -> String {
 }
 
 /// The three-approach table and JSON shared by the reversal and common-mean tests.
-fn comparison_output(c: &MeanComparison, what: &str, title: &str) -> (Section, Value, Vec<String>) {
-    let mut sec = Section::new(title, &["check", "value", "critical", "outcome"]);
+fn comparison_output(c: &MeanComparison, what: &str, title: &str) -> (Sheet, Value, Vec<String>) {
+    let mut sec = Sheet::new(title, &["check", "value", "critical", "outcome"]);
     sec.rows.push(vec![
         Cell::Text("gamma (deg)".into()),
         Cell::Num(c.mm90.gamma, 2),
@@ -226,7 +226,7 @@ fn comparison_output(c: &MeanComparison, what: &str, title: &str) -> (Section, V
     (sec, j, notes)
 }
 
-fn reversal(a: OneFile, ctx: &mut Ctx) -> Result<Report> {
+fn reversal(a: OneFile, ctx: &mut Ctx) -> Result<Presentation> {
     check_resamples(a.resamples)?;
     ctx.inputs.add(&a.file);
     let set = load(&a.file)?;
@@ -239,7 +239,7 @@ fn reversal(a: OneFile, ctx: &mut Ctx) -> Result<Report> {
         "The two polarity modes",
         &format!("Reversal test of {} ({} coordinates)", a.file.display(), Frame::from(a.frame).label()),
     );
-    let mut modes = Section::new("Polarity modes (split on the principal axis)", &["mode", "n", "dec", "inc", "k"]);
+    let mut modes = Sheet::new("Polarity modes (split on the principal axis)", &["mode", "n", "dec", "inc", "k"]);
     modes.rows.push(vec![
         Cell::Text("1".into()),
         Cell::Int(c.n1 as i64),
@@ -268,7 +268,7 @@ fn reversal(a: OneFile, ctx: &mut Ctx) -> Result<Report> {
     finish(j, vec![sec, modes], notes, a.file.display().to_string(), a.frame, a.resamples, ctx)
 }
 
-fn common_mean(a: TwoFiles, ctx: &mut Ctx) -> Result<Report> {
+fn common_mean(a: TwoFiles, ctx: &mut Ctx) -> Result<Presentation> {
     check_resamples(a.resamples)?;
     ctx.inputs.add(&a.a);
     ctx.inputs.add(&a.b);
@@ -286,7 +286,7 @@ fn common_mean(a: TwoFiles, ctx: &mut Ctx) -> Result<Report> {
             Frame::from(a.frame).label()
         ),
     );
-    let mut means = Section::new("Means", &["file", "n", "dec", "inc", "k"]);
+    let mut means = Sheet::new("Means", &["file", "n", "dec", "inc", "k"]);
     for (p, n, m, k) in [(&a.a, c.n1, c.mean1, c.k1), (&a.b, c.n2, c.mean2, c.k2)] {
         means.rows.push(vec![
             Cell::Text(p.display().to_string()),
@@ -302,23 +302,23 @@ fn common_mean(a: TwoFiles, ctx: &mut Ctx) -> Result<Report> {
 
 fn finish(
     mut j: Value,
-    sections: Vec<Section>,
+    sheets: Vec<Sheet>,
     notes: Vec<String>,
     file: String,
     frame: FrameArg,
     resamples: usize,
     ctx: &Ctx,
-) -> Result<Report> {
+) -> Result<Presentation> {
     j["file"] = json!(file);
     j["frame"] = json!(Frame::from(frame).label());
     j["confidence"] = json!(CONFIDENCE);
     j["seed"] = json!(ctx.global.seed);
     j["resamples"] = json!(resamples);
     j["notes"] = json!(notes);
-    Ok(Report { json: j, sections, csv_section: 0, notes })
+    Ok(Presentation { json: j, sheets, main_sheet: 0, cautions: vec![], notes })
 }
 
-fn fold(a: FoldArgs, ctx: &mut Ctx) -> Result<Report> {
+fn fold(a: FoldArgs, ctx: &mut Ctx) -> Result<Presentation> {
     check_resamples(a.resamples)?;
     ctx.inputs.add(&a.file);
     let set = load(&a.file)?;
@@ -328,7 +328,7 @@ fn fold(a: FoldArgs, ctx: &mut Ctx) -> Result<Report> {
     let opt = FoldOptions::default();
     let t = fieldtests::fold_test(&v, &beds, &mc, &opt)?;
     let p = &t.classic;
-    let mut sec = Section::new(
+    let mut sec = Sheet::new(
         &format!("Fold test of {} ({} directions, {} resamples)", a.file.display(), t.n, a.resamples),
         &["best_untilt", "ci_low", "ci_high", "verdict", "k_geo", "k_tilt", "k_ratio", "f_crit"],
     );
@@ -392,15 +392,15 @@ fn fold(a: FoldArgs, ctx: &mut Ctx) -> Result<Report> {
         "seed": ctx.global.seed, "resamples": a.resamples,
         "notes": notes,
     });
-    Ok(Report { json: j, sections: vec![sec], csv_section: 0, notes })
+    Ok(Presentation { json: j, sheets: vec![sec], main_sheet: 0, cautions: vec![], notes })
 }
 
-fn random(a: RandomArgs, ctx: &mut Ctx) -> Result<Report> {
+fn random(a: RandomArgs, ctx: &mut Ctx) -> Result<Presentation> {
     ctx.inputs.add(&a.file);
     let set = load(&a.file)?;
     let v = vectors(&set, a.frame)?;
     let t = fieldtests::randomness_test(&v, CONFIDENCE)?;
-    let mut sec = Section::new(
+    let mut sec = Sheet::new(
         &format!("Randomness test of {} ({} coordinates)", a.file.display(), Frame::from(a.frame).label()),
         &["n", "r", "r0", "p_value", "random"],
     );
@@ -424,5 +424,5 @@ fn random(a: RandomArgs, ctx: &mut Ctx) -> Result<Report> {
         "n": t.n, "r": t.r, "r0": t.r0, "p_value": t.p_value, "random": t.random,
         "confidence": t.confidence, "route": t.route, "notes": notes,
     });
-    Ok(Report { json: j, sections: vec![sec], csv_section: 0, notes })
+    Ok(Presentation { json: j, sheets: vec![sec], main_sheet: 0, cautions: vec![], notes })
 }

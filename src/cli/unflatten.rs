@@ -1,6 +1,6 @@
 //! `lodestone unflatten`: correction of inclination shallowing in sediments.
 
-use super::{jnum, Cell, Ctx, Report, Section};
+use super::{jnum, Cell, Ctx, Presentation, Sheet};
 use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::dirstats::{
@@ -51,7 +51,7 @@ fn directions(file: &std::path::Path, frame: ShallowFrame, notes: &mut Vec<Strin
     Ok(input.directions)
 }
 
-pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Presentation> {
     ctx.inputs.add(&a.file);
     let mut notes = Vec::new();
     let dirs = directions(&a.file, a.frame, &mut notes)?;
@@ -73,7 +73,7 @@ pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Report> {
     }
     let kept = if a.plot.is_some() { PATHS_DRAWN } else { 0 };
     let r = unflatten_search(&dirs, &ctx.monte_carlo(a.resamples), kept)?;
-    let mut sec = Section::new(
+    let mut sec = Sheet::new(
         &format!("Inclination shallowing of {fname} (elongation/inclination method, TK03 field model)"),
         &["n", "f", "f_low", "f_high", "inc_observed", "inc_corrected", "inc_low", "inc_high", "elongation"],
     );
@@ -95,7 +95,7 @@ pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Report> {
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
     let m = Tk03::standard();
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": fname, "method": "elongation_inclination",
             "n": r.n, "f": jnum(r.f), "f_low": jnum(r.f_low), "f_high": jnum(r.f_high),
@@ -109,8 +109,9 @@ pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Report> {
             },
             "notes": notes,
         }),
-        sections: vec![sec],
-        csv_section: 0,
+        sheets: vec![sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }
@@ -147,7 +148,7 @@ fn search_notes(r: &lodestone::dirstats::UnflattenResult, notes: &mut Vec<String
 }
 
 /// `--factor`: unflatten by a given factor and compare the Fisher means.
-fn by_factor(dirs: &[Direction], f: f64, fname: &str, mut notes: Vec<String>) -> Result<Report> {
+fn by_factor(dirs: &[Direction], f: f64, fname: &str, mut notes: Vec<String>) -> Result<Presentation> {
     let r = unflatten_given(dirs, f).map_err(|e| anyhow::anyhow!("--factor {e}"))?;
     let (Some(m0), Some(m1)) = (r.observed.mean, r.corrected.mean) else {
         bail!("{fname}: the directions have no mean (R ≈ 0)");
@@ -156,7 +157,7 @@ fn by_factor(dirs: &[Direction], f: f64, fname: &str, mut notes: Vec<String>) ->
     let vectors: Vec<_> = dirs.iter().map(|d| d.to_vector()).collect();
     let elongation = elongation_of(&vectors).ok().map(|e| e.e);
     let (lo, hi) = r.inc_range().unzip();
-    let mut sec = Section::new(
+    let mut sec = Sheet::new(
         &format!("Inclination of {fname} unflattened by the given factor f = {f}"),
         &["n", "f", "inc_observed", "inc_corrected", "inc_low", "inc_high", "a95_observed", "a95_corrected", "dec"],
     );
@@ -175,7 +176,7 @@ fn by_factor(dirs: &[Direction], f: f64, fname: &str, mut notes: Vec<String>) ->
         "f = {f} is an assumption supplied on the command line, not estimated from these data: the corrected mean is only as good as that factor (tan I₀ = tan I_f / f applied to every direction, King 1955)."
     ));
     notes.push("inc_low and inc_high are the corrected mean inclination ∓ the corrected α95; unflattening spreads the directions, so α95 changes too.".into());
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "file": fname, "method": "factor",
             "n": dirs.len(), "f": f, "f_low": null, "f_high": null,
@@ -186,8 +187,9 @@ fn by_factor(dirs: &[Direction], f: f64, fname: &str, mut notes: Vec<String>) ->
             "k_observed": jnum(r.observed.k.map(|k| k.0)), "k_corrected": jnum(r.corrected.k.map(|k| k.0)),
             "notes": notes,
         }),
-        sections: vec![sec],
-        csv_section: 0,
+        sheets: vec![sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }

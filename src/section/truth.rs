@@ -64,7 +64,10 @@ pub(super) fn compare_with_truth(run: &mut SectionRun, file: &ProjectFile) {
             return;
         }
     };
-    let axis = run.table("zones").and_then(|z| z.rows.first().and_then(|r| z.cell(r, "axis"))).unwrap_or("height");
+    let axis = run
+        .table("zones")
+        .and_then(|z| z.rows.first().and_then(|r| z.cell(r, "axis")))
+        .unwrap_or_else(|| "height".into());
     let axis = axis.to_string();
     let mut results = Vec::new();
     let mut tables = Vec::new();
@@ -94,7 +97,7 @@ fn compare_ties(run: &SectionRun, truth: &[(f64, f64)], axis: &str, results: &mu
     let tied: Vec<[f64; 4]> = ties
         .rows
         .iter()
-        .filter(|r| ties.cell(r, "rank") == Some("1"))
+        .filter(|r| ties.cell(r, "rank").as_deref() == Some("1"))
         .filter_map(|r| {
             Some([ties.number(r, "age")?, ties.number(r, axis)?, ties.number(r, "low")?, ties.number(r, "high")?])
         })
@@ -180,12 +183,12 @@ fn compare_levels(run: &SectionRun, truth: &[TrueLevel], results: &mut Vec<Strin
         let ok = pol == tl.polarity;
         agree += usize::from(ok);
         t.push(vec![
-            site.into(),
+            site,
             fixed(tl.age, 4),
             age.map_or(String::new(), |a| fixed(a, 4)),
             err.map_or(String::new(), |e| fixed(e, 4)),
             tl.polarity.clone(),
-            pol.into(),
+            pol,
             if ok { "yes" } else { "no" }.into(),
         ]);
     }
@@ -209,7 +212,7 @@ fn compare_directions(run: &SectionRun, truth: &[TrueLevel], results: &mut Vec<S
         &["site", "true_dec", "true_inc", "dec", "inc", "angle", "a95", "inside_a95"],
     );
     let (mut angles, mut inside) = (Vec::new(), 0usize);
-    for r in sm.rows.iter().filter(|r| sm.cell(r, "used") == Some("yes")) {
+    for r in sm.rows.iter().filter(|r| sm.cell(r, "used").as_deref() == Some("yes")) {
         let site = sm.cell(r, "site").unwrap_or_default();
         let Some(tl) = truth.iter().find(|l| l.site == site) else { continue };
         let (Some(f), Some(d), Some(i)) = (tl.field, sm.number(r, "dec_tilt"), sm.number(r, "inc_tilt")) else {
@@ -222,7 +225,7 @@ fn compare_directions(run: &SectionRun, truth: &[TrueLevel], results: &mut Vec<S
         inside += usize::from(ins == Some(true));
         angles.push(angle);
         t.push(vec![
-            site.into(),
+            site,
             azimuth(f.dec, 1),
             fixed(f.inc, 1),
             azimuth(d, 1),

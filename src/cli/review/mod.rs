@@ -4,7 +4,7 @@
 
 mod api;
 
-use super::{Ctx, Report};
+use super::{Ctx, Presentation};
 use anyhow::{anyhow, bail, Result};
 use clap::Args;
 use rand::RngExt;
@@ -102,7 +102,7 @@ fn serve_one(mut req: tiny_http::Request, gate: &Gate, state: &mut api::State) {
     respond(req, reply)
 }
 
-pub fn run(a: ReviewArgs, _ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: ReviewArgs, _ctx: &mut Ctx) -> Result<Presentation> {
     if !a.dir.is_dir() {
         bail!("{}: not a folder (a project folder holds steps.csv and sampling.csv)", a.dir.display());
     }

@@ -2,7 +2,7 @@
 
 mod section;
 
-use super::{write_atomic, Cell, Ctx, Report, Section};
+use super::{write_atomic, Cell, Ctx, Presentation, Sheet};
 use anyhow::{bail, Result};
 use clap::{Args, Subcommand, ValueEnum};
 use lodestone::model::Polarity;
@@ -109,7 +109,7 @@ pub struct TimescaleArgs {
     pub force: bool,
 }
 
-pub fn run(a: SimulateArgs, ctx: &mut Ctx) -> Result<Report> {
+pub fn run(a: SimulateArgs, ctx: &mut Ctx) -> Result<Presentation> {
     match a.what {
         SimulateWhat::Timescale(t) => run_timescale(t, ctx),
         SimulateWhat::Section(s) => section::run_section(s, ctx),
@@ -120,7 +120,7 @@ pub(super) fn timescale_model_json(m: &TimeScaleModel) -> serde_json::Value {
     json!({ "model": m.model, "mean": m.model.mean(), "young": m.young, "span": m.span, "first_polarity": m.first })
 }
 
-fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
+fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let m = a.renewal.model(a.young, a.span)?;
     let ts = simulate_timescale(&m, ctx.global.seed)?;
     let named = ts.chrons.iter().any(|c| c.name.is_some());
@@ -128,7 +128,7 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
     if named {
         cols.insert(0, "name");
     }
-    let mut sec = Section::new(&format!("Synthetic {} time scale, seed {}", m.model.name(), ctx.global.seed), &cols);
+    let mut sec = Sheet::new(&format!("Synthetic {} time scale, seed {}", m.model.name(), ctx.global.seed), &cols);
     for c in &ts.chrons {
         let mut row = vec![Cell::Num(c.young, 6), Cell::Num(c.old, 6), Cell::Text(c.polarity.code().into())];
         if named {
@@ -164,7 +164,7 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
         .iter()
         .map(|c| json!({"name": c.name, "young": c.young, "old": c.old, "polarity": c.polarity}))
         .collect();
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "seed": ctx.global.seed,
             "model": timescale_model_json(&m),
@@ -175,8 +175,9 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Report> {
             "out": a.out.as_ref().map(|p| p.display().to_string()),
             "notes": notes,
         }),
-        sections: vec![sec],
-        csv_section: 0,
+        sheets: vec![sec],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }

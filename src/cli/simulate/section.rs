@@ -1,6 +1,6 @@
 //! `lodestone simulate section`: write a project folder for a synthetic section.
 
-use super::super::{write_atomic, Cell, Ctx, Report, Section};
+use super::super::{write_atomic, Cell, Ctx, Presentation, Sheet};
 use super::{timescale_model_json, RenewalArgs};
 use anyhow::{bail, Context, Result};
 use clap::{Args, ValueEnum};
@@ -181,7 +181,7 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
     })
 }
 
-pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
+pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let model = build_model(&a)?;
     let seed = ctx.global.seed;
     let (ts, source) = match &a.timescale {
@@ -223,7 +223,7 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
         notes.push("The rate history has a hiatus: chrons inside it leave no rock and no record.".into());
     }
     notes.push("The data are synthetic draws from the stated model, for planning and testing; they say nothing about any real section.".into());
-    Ok(Report {
+    Ok(Presentation {
         json: json!({
             "out": a.out.display().to_string(),
             "seed": seed,
@@ -238,8 +238,9 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Report> {
             "single_level": thin,
             "notes": notes,
         }),
-        sections: vec![table, plan],
-        csv_section: 0,
+        sheets: vec![table, plan],
+        main_sheet: 0,
+        cautions: vec![],
         notes,
     })
 }
@@ -282,8 +283,8 @@ fn write_folder(
 }
 
 /// The chrons of the section with their status, and the complete chrons that hold no level or one.
-fn chron_table(model: &SectionModel, sec: &SyntheticSection) -> (Section, Vec<String>, Vec<String>) {
-    let mut table = Section::new(
+fn chron_table(model: &SectionModel, sec: &SyntheticSection) -> (Sheet, Vec<String>, Vec<String>) {
+    let mut table = Sheet::new(
         &format!(
             "Chrons in the synthetic section ({} m, {} levels every {} m)",
             round3(sec.history.thickness()),
@@ -317,8 +318,8 @@ fn chron_table(model: &SectionModel, sec: &SyntheticSection) -> (Section, Vec<St
 }
 
 /// The chance that a chron of a given length holds one / two levels, at the slowest and fastest rates.
-fn sampling_plan(model: &SectionModel, min_rate: f64, max_rate: f64) -> (Section, Vec<serde_json::Value>) {
-    let mut plan = Section::new(
+fn sampling_plan(model: &SectionModel, min_rate: f64, max_rate: f64) -> (Sheet, Vec<serde_json::Value>) {
+    let mut plan = Sheet::new(
         &format!("Sampling plan: chance that a chron holds at least one / two levels every {} m (random position against the grid)", model.spacing),
         &["length", "rate", "thickness", "p_one", "p_two"],
     );

@@ -59,7 +59,8 @@ pub fn write(h: &mut String, run: &SectionRun) {
     }
     let means = run.table("site-means");
     for site in sites {
-        let row = means.and_then(|t| t.rows.iter().find(|r| t.cell(r, "site") == Some(site)).map(|r| (t, r)));
+        let row =
+            means.and_then(|t| t.rows.iter().find(|r| t.cell(r, "site").as_deref() == Some(site)).map(|r| (t, r)));
         let position = row.and_then(|(t, r)| t.columns.get(1).and_then(|c| t.cell(r, c).map(|v| format!("{c} {v} m"))));
         let site_reason = run.rejected.iter().find(|r| r.what == "site" && r.name == site).map(|r| r.reason.clone());
         let used = if site_reason.is_some() { "site mean not used" } else { "site mean used" };

@@ -1,5 +1,6 @@
 //! Small HTML writers shared by the report's parts: escaping, ids, figures and folded tables.
 
+use crate::present::Cell;
 use crate::section::{CsvTable, FigureOutput};
 use std::fmt::Write as _;
 
@@ -85,11 +86,19 @@ pub fn table(h: &mut String, t: &CsvTable) {
         let _ = write!(h, "<th>{}</th>", escape(c));
     }
     let _ = writeln!(h, "</tr></thead><tbody>");
+    let mut text = String::new();
     for r in &t.rows {
         let _ = write!(h, "<tr>");
         for c in r {
-            let numeric = !c.is_empty() && c.parse::<f64>().is_ok();
-            let _ = write!(h, "<td{}>{}</td>", if numeric { " class=\"n\"" } else { "" }, escape(c));
+            text.clear();
+            c.push_text(&mut text);
+            let numeric = match c {
+                Cell::Text(t) => !t.is_empty() && t.parse::<f64>().is_ok(),
+                Cell::Empty => false,
+                _ => true,
+            };
+            let shown = if matches!(c, Cell::Empty) { "" } else { text.as_str() };
+            let _ = write!(h, "<td{}>{}</td>", if numeric { " class=\"n\"" } else { "" }, escape(shown));
         }
         let _ = writeln!(h, "</tr>");
     }

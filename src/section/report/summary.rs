@@ -5,12 +5,13 @@
 //! summary back and hold it against the verbs' JSON output.
 
 use super::html::{escape, figure};
+use crate::present::Cell;
 use crate::section::{CsvTable, SectionRun};
 use std::fmt::Write as _;
 
 /// A number of the summary, marked with its key.
-fn v(key: &str, text: &str) -> String {
-    format!("<b data-k=\"{key}\">{}</b>", escape(text))
+fn v(key: &str, text: impl AsRef<str>) -> String {
+    format!("<b data-k=\"{key}\">{}</b>", escape(text.as_ref()))
 }
 
 /// A verdict badge: `good`, `bad` or `open` (neither).
@@ -18,18 +19,18 @@ fn badge(text: &str, class: &str) -> String {
     format!("<span class=\"verdict {class}\">{}</span>", escape(text))
 }
 
-fn row<'a>(t: &'a CsvTable, col: &str, value: &str) -> Option<&'a Vec<String>> {
-    t.rows.iter().find(|r| t.cell(r, col) == Some(value))
+fn row<'a>(t: &'a CsvTable, col: &str, value: &str) -> Option<&'a Vec<Cell>> {
+    t.rows.iter().find(|r| t.cell(r, col).as_deref() == Some(value))
 }
 
 fn components(run: &SectionRun) -> String {
     let h = &run.headline;
     format!(
         "{} of {} specimens gave an accepted component; {} of {} sites used.",
-        v("specimens-fitted", &h.specimens_fitted.to_string()),
-        v("specimens", &h.specimens.to_string()),
-        v("sites-used", &h.sites_used.to_string()),
-        v("sites", &h.sites.to_string())
+        v("specimens-fitted", h.specimens_fitted.to_string()),
+        v("specimens", h.specimens.to_string()),
+        v("sites-used", h.sites_used.to_string()),
+        v("sites", h.sites.to_string())
     )
 }
 
@@ -53,7 +54,7 @@ fn pole(run: &SectionRun) -> Option<String> {
             v("scatter-low", c("s_low")),
             v("scatter-high", c("s_high")),
             run.settings.confidence * 100.0,
-            escape(c("cutoff"))
+            escape(&c("cutoff"))
         );
     } else if !c("s_total").is_empty() {
         let _ = write!(
@@ -75,8 +76,10 @@ fn field_tests(run: &SectionRun) -> Option<String> {
             "negative" => "bad",
             _ => "open",
         };
-        let vw = row(t, "quantity", "V_w").and_then(|r| t.cell(r, "outcome")).unwrap_or("—");
-        let boot = row(t, "quantity", "bootstrap overlap x/y/z").and_then(|r| t.cell(r, "outcome")).unwrap_or("—");
+        let vw = row(t, "quantity", "V_w").and_then(|r| t.cell(r, "outcome")).unwrap_or_else(|| "—".into());
+        let boot = row(t, "quantity", "bootstrap overlap x/y/z")
+            .and_then(|r| t.cell(r, "outcome"))
+            .unwrap_or_else(|| "—".into());
         parts.push(format!(
             "Reversal: γ = {}° against γc = {}°, {} (V_w {}, bootstrap {}).",
             v("reversal-gamma", t.cell(r, "value").unwrap_or_default()),
@@ -91,7 +94,7 @@ fn field_tests(run: &SectionRun) -> Option<String> {
             "Fold: best untilting {} % (95 %: {} %), {}.",
             v("fold-best", t.cell(r, "value").unwrap_or_default()),
             v("fold-interval", t.cell(r, "critical").unwrap_or_default()),
-            badge(t.cell(r, "outcome").unwrap_or_default(), "open")
+            badge(&t.cell(r, "outcome").unwrap_or_default(), "open")
         ));
     }
     (!parts.is_empty()).then(|| parts.join("<br>"))
@@ -100,12 +103,12 @@ fn field_tests(run: &SectionRun) -> Option<String> {
 fn column(run: &SectionRun) -> Option<String> {
     let z = run.table("zones")?;
     let levels = run.table("levels").map_or(0, |l| l.rows.len());
-    let code: Vec<&str> = z.rows.iter().filter_map(|r| z.cell(r, "polarity")).collect();
-    let single = z.rows.iter().filter(|r| z.cell(r, "status") != Some("confirmed")).count();
+    let code: Vec<String> = z.rows.iter().filter_map(|r| z.cell(r, "polarity")).collect();
+    let single = z.rows.iter().filter(|r| z.cell(r, "status").as_deref() != Some("confirmed")).count();
     Some(format!(
         "{} magnetozones from {} levels ({} single-level), from the base up: <code>{}</code>.",
-        v("zones", &z.rows.len().to_string()),
-        v("levels", &levels.to_string()),
+        v("zones", z.rows.len().to_string()),
+        v("levels", levels.to_string()),
         single,
         escape(&code.join(" "))
     ))
@@ -115,7 +118,7 @@ fn age_model(run: &SectionRun) -> Option<String> {
     let t = run.table("correlations")?;
     let best = row(t, "rank", "1")?;
     let c = |k: &str| t.cell(best, k).unwrap_or_default();
-    let next = row(t, "rank", "2").and_then(|r| t.cell(r, "score")).unwrap_or("none");
+    let next = row(t, "rank", "2").and_then(|r| t.cell(r, "score")).unwrap_or_else(|| "none".into());
     Some(format!(
         "Best correlation: {} ties, score {} (next best {}; lower is better), {} chrons missing, mean rate {} cm/kyr; levels span {}–{} Ma.",
         v("ties", c("ties")),
@@ -137,7 +140,7 @@ fn reversal_stats(run: &SectionRun) -> Option<String> {
     let c = |k: &str| f.cell(best, k).unwrap_or_default();
     let mut s = format!(
         "{} complete intervals; highest Akaike weight {} ({}; mean interval {} Myr; goodness of fit p = {} Kolmogorov–Smirnov, {} Anderson–Darling).",
-        v("intervals", &run.headline.intervals.to_string()),
+        v("intervals", run.headline.intervals.to_string()),
         v("best-model", c("model")),
         v("best-weight", c("weight")),
         v("best-mean", c("mean_interval_myr")),
@@ -150,7 +153,7 @@ fn reversal_stats(run: &SectionRun) -> Option<String> {
                 s,
                 "<br>Model-averaged P(reversal within {} Myr | none in the last {} Myr) = {} ({:.0} % bootstrap interval {}–{}): a statement about the fitted models, not a forecast.",
                 crate::section::HAZARD_HORIZON,
-                v("elapsed", &format!("{e:.3}")),
+                v("elapsed", format!("{e:.3}")),
                 v("p-within", h.cell(r, "p_within").unwrap_or_default()),
                 crate::section::LEVEL * 100.0,
                 v("p-within-low", h.cell(r, "low").unwrap_or_default()),
