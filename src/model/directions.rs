@@ -13,15 +13,16 @@ pub enum DirectionKind {
     Plane,
 }
 
-/// One row of a directions table.
+/// One row of a directions table. `S` is the type of its text cells: owned (`String`, the default)
+/// in a [`DirectionSet`], borrowed from the row (`&str`, [`DirectionRow`]) when a table is streamed.
 #[derive(Debug, Clone, PartialEq)]
-pub struct DirectionRecord {
+pub struct DirectionRecord<S = String> {
     /// Line in the file.
     pub line: usize,
     /// Site name, if given.
-    pub site: Option<String>,
+    pub site: Option<S>,
     /// Specimen name, if given.
-    pub specimen: Option<String>,
+    pub specimen: Option<S>,
     /// The direction in geographic coordinates (converted from the specimen frame when the row carries
     /// `x_az` and `x_plunge`).
     pub direction: Direction,
@@ -36,11 +37,34 @@ pub struct DirectionRecord {
     /// Line or plane.
     pub kind: DirectionKind,
     /// Grouping key for means (the `--by` column, default `site`).
-    pub group: Option<String>,
+    pub group: Option<S>,
     /// For a plane: the last demagnetization step used in its fit (geographic coordinates), whose
     /// pole is then signed so that the path turns anticlockwise about it. It tells which way the path
     /// moves along the circle (see [`crate::stats::mixed_mean_with_paths`]); `None` when unknown.
     pub path_end: Option<Direction>,
+}
+
+/// One row of a streamed directions table, its text cells borrowed from the row.
+pub type DirectionRow<'a> = DirectionRecord<&'a str>;
+
+impl DirectionRow<'_> {
+    /// The row with its text cells copied, for a [`DirectionSet`].
+    pub fn to_record(&self) -> DirectionRecord {
+        let own = |s: Option<&str>| s.map(str::to_string);
+        DirectionRecord {
+            line: self.line,
+            site: own(self.site),
+            specimen: own(self.specimen),
+            direction: self.direction,
+            lat: self.lat,
+            lon: self.lon,
+            position: self.position,
+            bedding: self.bedding,
+            kind: self.kind,
+            group: own(self.group),
+            path_end: self.path_end,
+        }
+    }
 }
 
 /// A whole directions table.

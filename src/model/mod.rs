@@ -12,7 +12,7 @@ mod strat_axis;
 mod timescale;
 mod treatment;
 
-pub use directions::{DirectionKind, DirectionRecord, DirectionSet};
+pub use directions::{DirectionKind, DirectionRecord, DirectionRow, DirectionSet};
 pub use fit::{Anchor, FitKind};
 pub use pick::Pick;
 pub use polarity::Polarity;

@@ -2,7 +2,7 @@
 
 use super::reader::{Cells, Columns, Table};
 use crate::error::TableError;
-use crate::model::{DirectionKind, DirectionRecord, DirectionSet, StratAxis};
+use crate::model::{DirectionKind, DirectionRow, DirectionSet, StratAxis};
 use crate::sphere::{Bedding, Direction, SpecimenOrientation};
 
 /// Which column to group by when reading a directions table.
@@ -97,20 +97,7 @@ pub fn read_directions(t: &Table, group_by: &GroupBy) -> Result<DirectionSet, Ta
     let cols = DirectionColumns::locate(t, group_by)?;
     let mut records = Vec::with_capacity(t.rows.len());
     for row in &t.rows {
-        let r = cols.parse(t, row)?;
-        records.push(DirectionRecord {
-            line: r.line,
-            site: r.site.map(str::to_string),
-            specimen: r.specimen.map(str::to_string),
-            direction: r.direction,
-            lat: r.lat,
-            lon: r.lon,
-            position: r.position,
-            bedding: r.bedding,
-            kind: r.kind,
-            group: r.group.map(str::to_string),
-            path_end: None,
-        });
+        records.push(cols.parse(t, row)?.to_record());
     }
     Ok(DirectionSet { source: t.name.clone(), axis: cols.axis.map(|a| a.0), group_column: cols.group_column, records })
 }
@@ -134,31 +121,6 @@ pub struct DirectionColumns {
     /// The grouping column used, if any (lower-cased).
     pub group_column: Option<String>,
     group: Option<usize>,
-}
-
-/// One parsed row of a directions table, borrowing its text cells from the row.
-#[derive(Debug, Clone, PartialEq)]
-pub struct DirectionRow<'a> {
-    /// Line in the file.
-    pub line: usize,
-    /// Site name, if given.
-    pub site: Option<&'a str>,
-    /// Specimen name, if given.
-    pub specimen: Option<&'a str>,
-    /// The direction in geographic coordinates.
-    pub direction: Direction,
-    /// Site latitude, degrees.
-    pub lat: Option<f64>,
-    /// Site longitude, degrees east, as given.
-    pub lon: Option<f64>,
-    /// Height or depth in metres.
-    pub position: Option<f64>,
-    /// Bedding attitude, if given.
-    pub bedding: Option<Bedding>,
-    /// Line or plane.
-    pub kind: DirectionKind,
-    /// Grouping key.
-    pub group: Option<&'a str>,
 }
 
 impl DirectionColumns {
@@ -231,6 +193,7 @@ impl DirectionColumns {
             bedding: self.bedding.read(t, row)?,
             kind,
             group: t.opt_str(row, self.group),
+            path_end: None,
         })
     }
 }

@@ -9,7 +9,7 @@ mod steps;
 mod stream;
 mod timescale;
 
-pub use directions::{read_bedding, read_directions, strat_axis, DirectionColumns, DirectionRow, GroupBy};
+pub use directions::{read_bedding, read_directions, strat_axis, DirectionColumns, GroupBy};
 pub use picks::read_picks;
 pub use reader::{Cells, Columns, Row, Table};
 pub use sites::read_sites;
