@@ -138,12 +138,37 @@ pub enum Error {
     /// An input file that is not UTF-8 text.
     #[error("{0}: not UTF-8 text")]
     NotText(String),
-    /// Any other invalid input, described in words.
-    #[error("{0}")]
-    Invalid(String),
+    /// An input or setting that cannot be used: which quantity, the offending value as given, and
+    /// why, in words (the message).
+    #[error("{reason}")]
+    Invalid {
+        /// The quantity or setting at fault (e.g. `window`, `rate history`, `flattening factor`).
+        quantity: &'static str,
+        /// The offending value, as given.
+        value: String,
+        /// What is wrong and what is expected, for people.
+        reason: String,
+    },
+    /// Two inputs that must match in length do not.
+    #[error("{left} {left_what} but {right} {right_what}")]
+    LengthMismatch {
+        /// What the first count counts.
+        left_what: &'static str,
+        /// The first count.
+        left: usize,
+        /// What the second count counts.
+        right_what: &'static str,
+        /// The second count.
+        right: usize,
+    },
 }
 
 impl Error {
+    /// An [`Error::Invalid`] for `quantity` with the offending `value` and the `reason` in words.
+    pub fn invalid(quantity: &'static str, value: impl std::fmt::Display, reason: impl Into<String>) -> Self {
+        Error::Invalid { quantity, value: value.to_string(), reason: reason.into() }
+    }
+
     /// The error itself, or for an error about one specimen its cause (the specimen being known).
     pub fn detail(&self) -> &Error {
         match self {
@@ -179,5 +204,14 @@ mod tests {
         assert_eq!(e, Error::FigurePath("net.pdf".into()));
         let e = Error::TooMany { what: "untilting steps", count: 200_001, limit: 100_000 };
         assert_eq!(e.to_string(), "200001 untilting steps: more than the 100000 that can be held");
+        // An unusable setting names the quantity and carries the value; the message is the reason.
+        let e = crate::dirstats::unflatten_given(&[], 1.5).unwrap_err();
+        assert!(matches!(&e, Error::Invalid { quantity: "flattening factor", value, .. } if value == "1.5"), "{e:?}");
+        assert_eq!(e.to_string(), "must lie in (0, 1] (tan I_f = f tan I₀), got 1.5");
+        let e = crate::simulate::parse_rates("2.0@x,1.0").unwrap_err();
+        assert!(matches!(&e, Error::Invalid { quantity: "rate history", value, .. } if value == "2.0@x,1.0"), "{e:?}");
+        let e = crate::strat::build_zones(crate::model::StratAxis::Height, &[1.0, 2.0], &[], 1).unwrap_err();
+        assert_eq!(e, Error::LengthMismatch { left_what: "positions", left: 2, right_what: "polarities", right: 0 });
+        assert_eq!(e.to_string(), "2 positions but 0 polarities");
     }
 }

@@ -94,7 +94,11 @@ fn check_points(points: &[Vec3], kind: FitKind) -> Result<()> {
         return Err(Error::TooFew { what, needed: need, got: points.len(), unit: "steps" });
     }
     if points.iter().any(|p| !(p.x.is_finite() && p.y.is_finite() && p.z.is_finite())) {
-        return Err(Error::Invalid("a demagnetization step has a non-finite component".into()));
+        return Err(Error::invalid(
+            "demagnetization step",
+            "non-finite",
+            "a demagnetization step has a non-finite component",
+        ));
     }
     Ok(())
 }

@@ -39,12 +39,16 @@ pub struct SpecimenFit {
 pub fn fit_range(sp: &SpecimenSteps, from: f64, to: f64, kind: FitKind, anchor: Anchor) -> Result<SpecimenFit> {
     let idx = sp.in_range(from, to);
     if idx.len() < kind.min_steps() {
-        let cause = Error::Invalid(format!(
-            "the range {from} to {to} holds {} step(s); a {} needs at least {}",
-            idx.len(),
-            kind.as_str(),
-            kind.min_steps()
-        ));
+        let cause = Error::invalid(
+            "fit range",
+            format!("{from} to {to}"),
+            format!(
+                "the range {from} to {to} holds {} step(s); a {} needs at least {}",
+                idx.len(),
+                kind.as_str(),
+                kind.min_steps()
+            ),
+        );
         return Err(Error::Specimen { specimen: sp.specimen.clone(), cause: Box::new(cause) });
     }
     let (first, last) = (idx[0], idx[idx.len() - 1]);

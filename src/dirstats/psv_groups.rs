@@ -53,10 +53,13 @@ pub fn psv_groups(table: &Table, by: &str, cutoff: Cutoff) -> Result<PsvGroups> 
     for (row, r) in table.rows.iter().zip(&set.records) {
         let name = table.text(row, col).trim().to_string();
         if name.is_empty() {
-            return Err(Error::Invalid(format!(
-                "{}:{}: column '{by}': is empty; expected a group name",
-                table.name, r.line
-            )));
+            return Err(crate::error::TableError::value(
+                table.name.as_str(),
+                r.line,
+                Some(by),
+                "is empty; expected a group name",
+            )
+            .into());
         }
         let v = vgp(r.location, r.direction);
         let site = ScatterSite { pole: v.pole, within: WithinSite::from_site(r.n, r.k, r.a95, v.paleolat)? };
@@ -105,11 +108,15 @@ pub fn psv_groups(table: &Table, by: &str, cutoff: Cutoff) -> Result<PsvGroups> 
         out.groups.push(LatitudeGroup { name, paleolat, sites: kept, s: sc.s.unwrap_or(0.0) });
     }
     if out.groups.len() < 2 {
-        return Err(Error::Invalid(format!(
-            "{}: the latitude model needs at least 2 groups of 3 or more sites (column '{by}'), got {}",
-            table.name,
-            out.groups.len()
-        )));
+        return Err(Error::invalid(
+            "groups",
+            out.groups.len(),
+            format!(
+                "{}: the latitude model needs at least 2 groups of 3 or more sites (column '{by}'), got {}",
+                table.name,
+                out.groups.len()
+            ),
+        ));
     }
     Ok(out)
 }

@@ -136,11 +136,15 @@ pub fn latitude_model_bootstrap(groups: &[LatitudeGroup], mc: &MonteCarlo<'_>) -
         });
     }
     if let Some(g) = groups.iter().find(|g| g.sites.len() < 3) {
-        return Err(Error::Invalid(format!(
-            "group '{}' has {} site(s) after the cutoff; the VGP scatter of a group needs at least 3",
-            g.name,
-            g.sites.len()
-        )));
+        return Err(Error::invalid(
+            "group",
+            &g.name,
+            format!(
+                "group '{}' has {} site(s) after the cutoff; the VGP scatter of a group needs at least 3",
+                g.name,
+                g.sites.len()
+            ),
+        ));
     }
     fit_latitude_model(&groups.iter().map(|g| (g.paleolat, g.s)).collect::<Vec<_>>())?;
     let draws: Vec<Option<(Vec<f64>, LatitudeFit)>> = mc.run("latitude model bootstrap", STREAM, |rng, _| {

@@ -27,10 +27,13 @@ pub fn shallowing_directions(set: &DirectionSet, tilt: bool) -> Result<Shallowin
     let mut untilted = 0;
     for r in &set.records {
         if r.kind != DirectionKind::Line {
-            return Err(Error::Invalid(format!(
-                "{}:{}: column 'kind': a plane cannot be unflattened; the method needs lines",
-                set.source, r.line
-            )));
+            return Err(crate::error::TableError::value(
+                set.source.as_str(),
+                r.line,
+                Some("kind"),
+                "a plane cannot be unflattened; the method needs lines",
+            )
+            .into());
         }
         match (tilt, r.bedding) {
             (true, Some(b)) => {
@@ -41,11 +44,15 @@ pub fn shallowing_directions(set: &DirectionSet, tilt: bool) -> Result<Shallowin
         }
     }
     if tilt && untilted > 0 && untilted < directions.len() {
-        return Err(Error::Invalid(format!(
-            "{}: only {untilted} of {} rows carry bedding; give bedding on every row or use the geographic frame",
-            set.source,
-            directions.len()
-        )));
+        return Err(Error::invalid(
+            "bedding",
+            format!("{untilted} of {} rows", directions.len()),
+            format!(
+                "{}: only {untilted} of {} rows carry bedding; give bedding on every row or use the geographic frame",
+                set.source,
+                directions.len()
+            ),
+        ));
     }
     Ok(ShallowingInput { directions, no_bedding: tilt && untilted == 0 })
 }
@@ -56,7 +63,11 @@ pub fn shallowing_directions(set: &DirectionSet, tilt: bool) -> Result<Shallowin
 /// King, R. F. (1955), *Mon. Not. R. Astron. Soc. Geophys. Suppl.* 7, 115–134.
 pub fn unflatten_given(directions: &[Direction], f: f64) -> Result<FactorResult> {
     if !(f > 0.0 && f <= 1.0) {
-        return Err(Error::Invalid(format!("must lie in (0, 1] (tan I_f = f tan I₀), got {f}")));
+        return Err(Error::invalid(
+            "flattening factor",
+            f,
+            format!("must lie in (0, 1] (tan I_f = f tan I₀), got {f}"),
+        ));
     }
     unflatten_factor(directions, f)
 }

@@ -142,14 +142,20 @@ pub struct FoldTest {
 pub fn fold_test(v: &[Vec3], beds: &[Bedding], mc: &MonteCarlo, opt: &FoldOptions) -> Result<FoldTest> {
     check_range("confidence", opt.confidence, 1e-9, 1.0 - 1e-9, "(0, 1)")?;
     if v.len() != beds.len() {
-        return Err(Error::Invalid(format!("{} directions but {} beddings", v.len(), beds.len())));
+        return Err(Error::LengthMismatch {
+            left_what: "directions",
+            left: v.len(),
+            right_what: "beddings",
+            right: beds.len(),
+        });
     }
     let n = v.len();
     if n < 3 {
         return Err(Error::TooFew { what: "a fold test", needed: 3, got: n, unit: "directions" });
     }
     if !(opt.step > 0.0 && opt.to > opt.from && opt.from.is_finite() && opt.to.is_finite()) {
-        return Err(Error::Invalid(format!("untilting range {} to {} by {} is empty", opt.from, opt.to, opt.step)));
+        let range = format!("{} to {} by {}", opt.from, opt.to, opt.step);
+        return Err(Error::invalid("untilting range", &range, format!("untilting range {range} is empty")));
     }
     if mc.resamples < 20 {
         return Err(Error::TooFew { what: "a bootstrap fold test", needed: 20, got: mc.resamples, unit: "resamples" });
@@ -262,7 +268,7 @@ pub fn precision_ratio(v: &[Vec3], beds: &[Bedding]) -> Result<PrecisionRatio> {
     let (geo, tilt) = (common_polarity_resultant(v)?, common_polarity_resultant(&tilted)?);
     let (k_geo, k_tilt) = (super::capped_k(n, geo), super::capped_k(n, tilt));
     let dof = 2.0 * (n as f64 - 1.0);
-    let f = FisherSnedecor::new(dof, dof).map_err(|e| Error::Invalid(e.to_string()))?;
+    let f = FisherSnedecor::new(dof, dof).map_err(|e| Error::invalid("degrees of freedom", dof, e.to_string()))?;
     let f_crit = f.inverse_cdf(0.95);
     let ratio = k_tilt / k_geo;
     Ok(PrecisionRatio { k_geo, k_tilt, ratio, f_crit, increase: ratio > f_crit, decrease: 1.0 / ratio > f_crit })

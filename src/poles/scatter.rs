@@ -276,7 +276,11 @@ pub fn bootstrap_scatter(kept: &[ScatterSite], confidence: f64, mc: &MonteCarlo<
         return Err(Error::TooFew { what: "a bootstrap of the VGP scatter", needed: 2, got: n, unit: "sites" });
     }
     if mc.resamples < 10 {
-        return Err(Error::Invalid(format!("a bootstrap needs at least 10 resamples, got {}", mc.resamples)));
+        return Err(Error::invalid(
+            "resamples",
+            mc.resamples,
+            format!("a bootstrap needs at least 10 resamples, got {}", mc.resamples),
+        ));
     }
     let draws: Vec<Option<f64>> = mc.run("VGP scatter bootstrap", 0x5B_5CA7, |rng, _| {
         let pick: Vec<&ScatterSite> = (0..n).map(|_| &kept[rng.random_range(0..n)]).collect();

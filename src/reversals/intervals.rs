@@ -147,11 +147,15 @@ pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord
     let from = opt.from.unwrap_or(ts.young()).max(ts.young());
     let to = opt.to.unwrap_or(ts.old()).min(ts.old());
     if !(from.is_finite() && to.is_finite() && from < to) {
-        return Err(Error::Invalid(format!(
-            "the window from {from} Ma to {to} Ma is empty or outside the time scale ({} – {} Ma)",
-            ts.young(),
-            ts.old()
-        )));
+        return Err(Error::invalid(
+            "window",
+            format!("{from} – {to} Ma"),
+            format!(
+                "the window from {from} Ma to {to} Ma is empty or outside the time scale ({} – {} Ma)",
+                ts.young(),
+                ts.old()
+            ),
+        ));
     }
     let mut list: Vec<Interval> = Vec::new();
     let mut joined = 0;
@@ -246,10 +250,14 @@ pub fn intervals(ts: &TimeScale, opt: &IntervalOptions) -> Result<IntervalRecord
             // The old end: the scale's oldest row (ends_inside) or a chron cut by the window's old edge.
             let reading = match (opt.old_edge, ends_inside) {
                 (Some(EdgeReading::Complete), false) => {
-                    return Err(Error::Invalid(format!(
-                    "the window's old edge at {to} Ma cuts the chron from {} to {} Ma: it cannot be read as complete",
-                    iv.young, iv.old
-                )))
+                    return Err(Error::invalid(
+                        "old edge",
+                        "complete",
+                        format!(
+                            "the window's old edge at {to} Ma cuts the chron from {} to {} Ma: it cannot be read as complete",
+                            iv.young, iv.old
+                        ),
+                    ))
                 }
                 (Some(r), _) => r,
                 (None, true) => scale_reading,

@@ -78,7 +78,11 @@ pub fn windowed_rate(ages: &[f64], from: f64, to: f64, window: f64, step: f64, l
         return Err(Error::OutOfRange { name: "level", value: level, range: "(0, 1)" });
     }
     if window > to - from {
-        return Err(Error::Invalid(format!("the window ({window} Myr) is longer than the record ({} Myr)", to - from)));
+        return Err(Error::invalid(
+            "window",
+            window,
+            format!("the window ({window} Myr) is longer than the record ({} Myr)", to - from),
+        ));
     }
     let alpha = 1.0 - level;
     let n_points = ((to - from - window) / step + 1e-9).floor() as usize + 1;

@@ -28,7 +28,9 @@ pub fn parse_rates(text: &str) -> Result<Vec<RateSegment>> {
             Some((r, a)) => (r.trim(), Some(a.trim())),
             None => (*p, None),
         };
-        let bad = |what: &str| Error::Invalid(format!("rate history '{text}', part {} ('{p}'): {what}", i + 1));
+        let bad = |what: &str| {
+            Error::invalid("rate history", text, format!("rate history '{text}', part {} ('{p}'): {what}", i + 1))
+        };
         let rate: f64 = r.parse().map_err(|_| bad("expected RATE (cm/kyr) or RATE@AGE (Ma)"))?;
         if !(rate >= 0.0 && rate.is_finite()) {
             return Err(bad("the rate must be a finite number ≥ 0 cm/kyr"));
@@ -75,12 +77,14 @@ impl AccumulationHistory {
     pub fn new(base_age: f64, top_age: f64, segments: &[RateSegment]) -> Result<Self> {
         crate::error::check_range("top age", top_age, 0.0, f64::MAX, "[0, ∞) Ma")?;
         if !(base_age > top_age && base_age.is_finite()) {
-            return Err(Error::Invalid(format!(
-                "the base age ({base_age} Ma) must be older than the top age ({top_age} Ma)"
-            )));
+            return Err(Error::invalid(
+                "base age",
+                base_age,
+                format!("the base age ({base_age} Ma) must be older than the top age ({top_age} Ma)"),
+            ));
         }
         if segments.is_empty() {
-            return Err(Error::Invalid("the rate history is empty".into()));
+            return Err(Error::invalid("rate history", "(empty)", "the rate history is empty"));
         }
         let mut spans = Vec::with_capacity(segments.len());
         let (mut old, mut h) = (base_age, 0.0);
@@ -88,7 +92,7 @@ impl AccumulationHistory {
             let young = match s.until {
                 Some(a) if i + 1 < segments.len() => {
                     if !(a < old && a > top_age) {
-                        return Err(Error::Invalid(format!(
+                        return Err(Error::invalid("rate segment end age", a, format!(
                             "rate segment {}: its end age {a} Ma must lie between {top_age} Ma (top) and {old} Ma (the segment's start), ages decreasing upward",
                             i + 1
                         )));
@@ -97,10 +101,11 @@ impl AccumulationHistory {
                 }
                 None if i + 1 == segments.len() => top_age,
                 _ => {
-                    return Err(Error::Invalid(format!(
-                        "rate segment {}: only the last segment runs to the top",
-                        i + 1
-                    )))
+                    return Err(Error::invalid(
+                        "rate segment",
+                        i + 1,
+                        format!("rate segment {}: only the last segment runs to the top", i + 1),
+                    ))
                 }
             };
             if !(s.rate >= 0.0 && s.rate.is_finite()) {
@@ -112,7 +117,11 @@ impl AccumulationHistory {
             old = young;
         }
         if !(h > 0.0) {
-            return Err(Error::Invalid("the rate history lays down no sediment (every rate is 0)".into()));
+            return Err(Error::invalid(
+                "rate history",
+                "every rate 0",
+                "the rate history lays down no sediment (every rate is 0)",
+            ));
         }
         Ok(Self { spans })
     }

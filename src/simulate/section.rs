@@ -89,10 +89,11 @@ impl Unblocking {
         if self.low.is_finite() && self.high.is_finite() && self.low >= 0.0 && self.high > self.low {
             Ok(())
         } else {
-            Err(Error::Invalid(format!(
-                "{what} unblocking range {}–{} must satisfy 0 ≤ low < high",
-                self.low, self.high
-            )))
+            Err(Error::invalid(
+                "unblocking range",
+                format!("{}–{}", self.low, self.high),
+                format!("{what} unblocking range {}–{} must satisfy 0 ≤ low < high", self.low, self.high),
+            ))
         }
     }
 }
@@ -302,7 +303,11 @@ impl SectionModel {
             || self.steps.windows(2).any(|w| !(w[1] > w[0]))
             || !self.steps.iter().all(|s| s.is_finite())
         {
-            return Err(Error::Invalid("steps must start at 0 (the NRM) and increase strictly".into()));
+            return Err(Error::invalid(
+                "steps",
+                format!("{:?}", self.steps),
+                "steps must start at 0 (the NRM) and increase strictly",
+            ));
         }
         self.characteristic.check("characteristic")?;
         if let Some(o) = &self.overprint {
@@ -310,7 +315,7 @@ impl SectionModel {
             crate::error::check_range("overprint ratio", o.ratio, 0.0, 1e6, "[0, 1e6]")?;
         }
         if self.characteristic.remaining(*self.steps.last().unwrap()) <= 0.0 {
-            return Err(Error::Invalid(format!(
+            return Err(Error::invalid("steps", self.steps.last().unwrap(), format!(
                 "the last step ({}) removes the whole characteristic component (gone by {}): the specimens would end at the noise floor",
                 self.steps.last().unwrap(),
                 self.characteristic.high
@@ -367,35 +372,44 @@ pub fn simulate_section(model: &SectionModel, ts: &TimeScale, mc: &MonteCarlo) -
     model.validate()?;
     let history = AccumulationHistory::new(model.base_age, model.top_age, &model.rates)?;
     if ts.chrons.is_empty() || ts.young() > model.top_age + 1e-12 || ts.old() < model.base_age - 1e-12 {
-        return Err(Error::Invalid(format!(
-            "the time scale covers {}–{} Ma but the section spans {}–{} Ma",
-            ts.young(),
-            ts.old(),
-            model.top_age,
-            model.base_age
-        )));
+        return Err(Error::invalid(
+            "time scale",
+            format!("{}–{} Ma", ts.young(), ts.old()),
+            format!(
+                "the time scale covers {}–{} Ma but the section spans {}–{} Ma",
+                ts.young(),
+                ts.old(),
+                model.top_age,
+                model.base_age
+            ),
+        ));
     }
     let thickness = history.thickness();
     let n_levels = (thickness / model.spacing - 0.5).floor() as i64 + 1;
     if n_levels < 1 {
-        return Err(Error::Invalid(format!(
-            "the section is {thickness:.3} m thick: a sampling interval of {} m puts no level in it",
-            model.spacing
-        )));
+        return Err(Error::invalid(
+            "sampling interval",
+            model.spacing,
+            format!(
+                "the section is {thickness:.3} m thick: a sampling interval of {} m puts no level in it",
+                model.spacing
+            ),
+        ));
     }
     let n_levels = n_levels as usize;
     if n_levels.saturating_mul(model.specimens) > MAX_SPECIMENS {
-        return Err(Error::Invalid(format!(
-            "{n_levels} levels × {} specimens exceeds the limit of {MAX_SPECIMENS} specimens",
-            model.specimens
-        )));
+        return Err(Error::invalid(
+            "specimens",
+            n_levels.saturating_mul(model.specimens),
+            format!("{n_levels} levels × {} specimens exceeds the limit of {MAX_SPECIMENS} specimens", model.specimens),
+        ));
     }
     let mut levels = Vec::with_capacity(n_levels);
     for i in 0..n_levels {
         let height = (i as f64 + 0.5) * model.spacing;
         let age = history.age_at(height);
         let chron = chron_at(ts, age)
-            .ok_or_else(|| Error::Invalid(format!("no chron of the time scale holds age {age} Ma")))?;
+            .ok_or_else(|| Error::invalid("age", age, format!("no chron of the time scale holds age {age} Ma")))?;
         let polarity = ts.chrons[chron].polarity;
         let mean = model.dipole_direction(polarity);
         let field_tilt = match model.level_kappa {

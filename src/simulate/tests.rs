@@ -357,6 +357,9 @@ fn settings_default_the_shape_and_refuse_it_for_the_exponential() {
     assert_eq!(g, RenewalModel::with_mean("gamma", 0.25, Some(DEFAULT_SHAPE)).unwrap());
     assert_abs_diff_eq!(g.mean(), 0.25, epsilon = 1e-12);
     assert!(RenewalModel::from_settings("exponential", 0.25, None).is_ok());
-    assert!(matches!(RenewalModel::from_settings("exponential", 0.25, Some(2.0)), Err(crate::Error::Invalid(_))));
+    assert!(matches!(
+        RenewalModel::from_settings("exponential", 0.25, Some(2.0)),
+        Err(crate::Error::Invalid { quantity: "shape", .. })
+    ));
     assert!(RenewalModel::from_settings("weibull", -1.0, None).is_err());
 }

@@ -90,7 +90,7 @@ impl RenewalModel {
         let need = |s: Option<f64>| -> Result<f64> {
             match s {
                 Some(v) => positive("shape", v),
-                None => Err(Error::Invalid(format!("the {name} model needs a shape parameter"))),
+                None => Err(Error::invalid("shape", "none", format!("the {name} model needs a shape parameter"))),
             }
         };
         Ok(match name {
@@ -109,10 +109,11 @@ impl RenewalModel {
             }
             "inverse_gaussian" => RenewalModel::InverseGaussian { mean, shape: need(shape)? },
             other => {
-                return Err(Error::Invalid(format!(
-                    "'{other}' is not a renewal model; expected one of {}",
-                    MODEL_NAMES.join(", ")
-                )))
+                return Err(Error::invalid(
+                    "renewal model",
+                    other,
+                    format!("'{other}' is not a renewal model; expected one of {}", MODEL_NAMES.join(", ")),
+                ))
             }
         })
     }
@@ -122,7 +123,7 @@ impl RenewalModel {
     pub fn from_settings(name: &str, mean: f64, shape: Option<f64>) -> Result<Self> {
         let shape = match (name, shape) {
             ("exponential", Some(_)) => {
-                return Err(Error::Invalid("a shape does not apply to the exponential model".into()))
+                return Err(Error::invalid("shape", "given", "a shape does not apply to the exponential model"))
             }
             ("exponential", None) => None,
             (_, s) => Some(s.unwrap_or(DEFAULT_SHAPE)),
@@ -154,7 +155,7 @@ impl RenewalModel {
 
     /// A sampler of interval lengths.
     pub fn sampler(&self) -> Result<IntervalSampler> {
-        let bad = |e: String| Error::Invalid(format!("{} model: {e}", self.name()));
+        let bad = |e: String| Error::invalid("renewal model", self.name(), format!("{} model: {e}", self.name()));
         Ok(match *self {
             RenewalModel::Exponential { rate } => {
                 IntervalSampler::Exp(Exp::new(positive("rate", rate)?).map_err(|e| bad(e.to_string()))?)
@@ -265,9 +266,11 @@ pub fn simulate_timescale(m: &TimeScaleModel, seed: u64) -> Result<TimeScale> {
     let mean = m.model.mean();
     let limit = 10_000_000usize;
     if span / mean > limit as f64 {
-        return Err(Error::Invalid(format!(
-            "a span of {span} Myr with a mean interval of {mean} Myr would need more than {limit} chrons"
-        )));
+        return Err(Error::invalid(
+            "span",
+            span,
+            format!("a span of {span} Myr with a mean interval of {mean} Myr would need more than {limit} chrons"),
+        ));
     }
     let mut rng = replicate_rng(seed, TIMESCALE_STREAM, 0);
     let first = match m.first {

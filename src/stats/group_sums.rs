@@ -126,7 +126,7 @@ impl GroupSums {
     /// The index of `group`, created (after the last group) when it is new.
     ///
     /// # Errors
-    /// [`Error::Invalid`] beyond 4 294 967 294 groups, runs or bytes of group names.
+    /// [`Error::TooMany`] beyond 4 294 967 294 groups, runs or bytes of group names.
     pub fn group_index(&mut self, group: Option<&str>) -> Result<usize> {
         if self.last != NONE && self.name_of(&self.slots[self.last as usize]) == group {
             return Ok(self.last as usize);
@@ -174,7 +174,7 @@ impl GroupSums {
     /// Add the unit vector `v` read on file line `line` to group `j` (from [`Self::group_index`]).
     ///
     /// # Errors
-    /// [`Error::Invalid`] for an unknown group, or beyond 4 294 967 294 runs of lines.
+    /// [`Error::Invalid`] for an unknown group; [`Error::TooMany`] beyond 4 294 967 294 runs of lines.
     pub fn push(&mut self, j: usize, line: usize, v: Vec3) -> Result<()> {
         self.note_line(j, line)?;
         self.slots[j].fisher.push(v);
@@ -188,7 +188,7 @@ impl GroupSums {
     /// As [`Self::push`].
     pub fn note_line(&mut self, j: usize, line: usize) -> Result<()> {
         let Some(slot) = self.slots.get(j).copied() else {
-            return Err(Error::Invalid(format!("no group number {j}")));
+            return Err(Error::invalid("group number", j, format!("no group number {j}")));
         };
         if !self.keep_lines {
             return Ok(());

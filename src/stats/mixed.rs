@@ -160,7 +160,12 @@ pub fn mixed_mean_with_paths(
 ) -> Result<MixedStats> {
     check_range("confidence", confidence, 1e-12, 1.0 - 1e-12, "(0, 1)")?;
     if paths.len() != planes.len() {
-        return Err(Error::Invalid(format!("{} path ends for {} great circles", paths.len(), planes.len())));
+        return Err(Error::LengthMismatch {
+            left_what: "path ends",
+            left: paths.len(),
+            right_what: "great circles",
+            right: planes.len(),
+        });
     }
     let (m, n) = (lines.len(), planes.len());
     if m + n < 2 || (m == 0 && n < 2) {

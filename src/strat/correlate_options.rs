@@ -75,7 +75,7 @@ impl CorrelateOptions {
     /// penalty, a rate spread that is not positive, a bad dated bed.
     pub fn check(&self) -> crate::Result<()> {
         if self.candidates == 0 {
-            return Err(crate::Error::Invalid("the number of candidates must be at least 1".into()));
+            return Err(crate::Error::invalid("candidates", 0, "the number of candidates must be at least 1"));
         }
         for (name, value) in [
             ("miss penalty", self.miss_penalty),

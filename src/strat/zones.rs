@@ -96,16 +96,22 @@ pub fn build_zones(
     min_levels: usize,
 ) -> crate::Result<ZoneColumn> {
     if positions.len() != polarities.len() {
-        return Err(crate::Error::Invalid("positions and polarities differ in length".into()));
+        return Err(crate::Error::LengthMismatch {
+            left_what: "positions",
+            left: positions.len(),
+            right_what: "polarities",
+            right: polarities.len(),
+        });
     }
     if positions.is_empty() {
         return Err(crate::Error::TooFew { what: "a polarity column", needed: 1, got: 0, unit: "levels" });
     }
     if let Some(w) = positions.windows(2).find(|w| !(w[1] > w[0])) {
-        return Err(crate::Error::Invalid(format!(
-            "positions must be strictly increasing, found {} then {}",
-            w[0], w[1]
-        )));
+        return Err(crate::Error::invalid(
+            "positions",
+            format!("{} then {}", w[0], w[1]),
+            format!("positions must be strictly increasing, found {} then {}", w[0], w[1]),
+        ));
     }
     let mut zones = Vec::new();
     let mut f = 0;
