@@ -154,11 +154,18 @@ pub(super) fn loglik_complete(p: &[f64; 2], s: &Sample) -> f64 {
 
 pub(super) fn sample(p: &[f64; 2], rng: &mut McRng) -> f64 {
     use rand_distr::Distribution;
-    let [m, l] = *p;
     let z: f64 = rand_distr::StandardNormal.sample(rng);
+    from_normal_uniform(p, z, rng.random::<f64>())
+}
+
+/// One draw of the Michael–Schucany–Haas sampler from its standard normal `z` and uniform `u`:
+/// basic operations and a square root, so it also runs over slices (`draw_sorted`).
+#[inline(always)]
+pub(super) fn from_normal_uniform(p: &[f64; 2], z: f64, u: f64) -> f64 {
+    let [m, l] = *p;
     let y = z * z;
     let x = m + m * m * y / (2.0 * l) - m / (2.0 * l) * (4.0 * m * l * y + m * m * y * y).sqrt();
-    if rng.random::<f64>() <= m / (m + x) {
+    if u <= m / (m + x) {
         x
     } else {
         m * m / x
