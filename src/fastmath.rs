@@ -208,6 +208,31 @@ unsafe fn map2_avx2<F: Fn(f64, f64) -> f64>(a: &[f64], b: &[f64], out: &mut [f64
     map2_portable(a, b, out, f)
 }
 
+/// `a[i] ← f(a[i], b[i])` in place; see [`map_into`].
+#[inline(always)]
+pub(crate) fn map2_in_place<F: Fn(f64, f64) -> f64 + Copy>(a: &mut [f64], b: &[f64], f: F) {
+    assert_eq!(a.len(), b.len(), "map2_in_place: lengths differ");
+    #[cfg(target_arch = "x86_64")]
+    if std::arch::is_x86_feature_detected!("avx2") {
+        // SAFETY: the processor supports AVX2 (checked just above).
+        return unsafe { map2_in_place_avx2(a, b, f) };
+    }
+    map2_in_place_portable(a, b, f)
+}
+
+#[inline(always)]
+fn map2_in_place_portable<F: Fn(f64, f64) -> f64>(a: &mut [f64], b: &[f64], f: F) {
+    for (x, &y) in a.iter_mut().zip(b) {
+        *x = f(*x, y);
+    }
+}
+
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx2")]
+unsafe fn map2_in_place_avx2<F: Fn(f64, f64) -> f64>(a: &mut [f64], b: &[f64], f: F) {
+    map2_in_place_portable(a, b, f)
+}
+
 /// Natural logarithm of every element (positive finite inputs; subnormal ones are read as the
 /// smallest normal number).
 pub(crate) fn ln_into(xs: &[f64], out: &mut [f64]) {
@@ -283,5 +308,10 @@ mod tests {
         let mut inplace = ys.clone();
         map_in_place(&mut inplace, exp_basic);
         assert_eq!(inplace, out);
+        // Two inputs in place, with a square root and a select (the inverse Gaussian sampler's shape).
+        let g = |a: f64, b: f64| if b < 0.5 * a { (a * b).sqrt() - b / a } else { a / (1.0 + b) };
+        let mut two = xs.clone();
+        map2_in_place(&mut two, &ys, g);
+        assert!(xs.iter().zip(&ys).zip(&two).all(|((&a, &b), &v)| v.to_bits() == g(a, b).to_bits()));
     }
 }

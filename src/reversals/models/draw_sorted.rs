@@ -2,7 +2,7 @@
 //! logarithms, for the goodness-of-fit bootstrap (whose statistics need sorted samples).
 
 use super::{Fitted, Model};
-use crate::fastmath::{exp_into, ln_into};
+use crate::fastmath::{exp_into, ln_into, map2_in_place};
 use crate::montecarlo::McRng;
 use rand::RngExt;
 use rand_distr::Distribution;
@@ -10,7 +10,8 @@ use rand_distr::Distribution;
 /// `n` lengths from `f`, ascending, into `x`, and their natural logarithms into `lx`.
 ///
 /// Exponential and Weibull samples come sorted from the Rényi representation (no sort); the others
-/// are drawn one by one and sorted.
+/// are drawn and then sorted (inverse Gaussian: the normals and uniforms drawn one by one, the
+/// transformation over the slice).
 ///
 /// # Formula
 /// Rényi: with E₁ … Eₙ independent standard exponentials, Y₍ᵢ₎ = Σⱼ≤ᵢ Eⱼ/(n − j + 1) are the order
@@ -40,9 +41,9 @@ pub(crate) fn draw_sorted(f: &Fitted, n: usize, rng: &mut McRng, x: &mut Vec<f64
             exp_into(lx, x);
         }
         Model::Lognormal => {
-            lx.iter_mut().for_each(|z| *z = rand_distr::StandardNormal.sample(rng));
-            lx.sort_unstable_by(f64::total_cmp);
-            lx.iter_mut().for_each(|z| *z = p0 + p1 * *z);
+            x.iter_mut().for_each(|k| *k = f64::from_bits(order_key(rand_distr::StandardNormal.sample(rng))));
+            sort_by_bits(x);
+            lx.iter_mut().zip(x.iter()).for_each(|(l, k)| *l = p0 + p1 * from_order_key(k.to_bits()));
             exp_into(lx, x);
         }
         Model::Gamma => {
@@ -50,15 +51,49 @@ pub(crate) fn draw_sorted(f: &Fitted, n: usize, rng: &mut McRng, x: &mut Vec<f64
                 Ok(g) => x.iter_mut().for_each(|v| *v = g.sample(rng)),
                 Err(_) => x.fill(f64::NAN),
             }
-            x.sort_unstable_by(f64::total_cmp);
+            sort_by_bits(x);
             ln_into(x, lx);
         }
         Model::InverseGaussian => {
-            x.iter_mut().for_each(|v| *v = f.sample(rng));
-            x.sort_unstable_by(f64::total_cmp);
+            // Each value's normal and uniform in the order of `Fitted::sample` (the same stream and
+            // values), the transformation a slice at a time.
+            for (z, u) in x.iter_mut().zip(lx.iter_mut()) {
+                *z = rand_distr::StandardNormal.sample(rng);
+                *u = rng.random::<f64>();
+            }
+            map2_in_place(
+                x,
+                lx,
+                #[inline(always)]
+                |z, u| super::inverse_gaussian::from_normal_uniform(&f.params, z, u),
+            );
+            sort_by_bits(x);
             ln_into(x, lx);
         }
     }
+}
+
+/// Sort by the bit patterns read as unsigned integers: for non-negative doubles (and the keys of
+/// [`order_key`]) the same order as the numbers, with integer comparisons (about twice as fast as
+/// `f64::total_cmp` on 300 values, measured with a stand-alone loop).
+fn sort_by_bits(x: &mut [f64]) {
+    x.sort_unstable_by_key(|v| v.to_bits());
+}
+
+/// An unsigned integer key with the order of the double `v` (negative numbers: all bits flipped;
+/// the others: the sign bit set), the order of `f64::total_cmp`; [`from_order_key`] inverts it.
+fn order_key(v: f64) -> u64 {
+    let b = v.to_bits();
+    if b >> 63 == 1 {
+        !b
+    } else {
+        b | 1 << 63
+    }
+}
+
+/// The double whose [`order_key`] is `k`.
+fn from_order_key(k: u64) -> f64 {
+    f64::from_bits(if k >> 63 == 1 { k & !(1 << 63) } else { !k })
 }
 
 /// The order statistics of `y.len()` standard exponentials into `y` (Rényi); `tmp` is a buffer of
@@ -78,6 +113,38 @@ fn sorted_standard_exponentials(n: usize, rng: &mut McRng, y: &mut [f64], tmp: &
 mod tests {
     use super::*;
     use crate::montecarlo::replicate_rng;
+
+    #[test]
+    fn bit_order_is_the_numeric_order() {
+        // The integer keys sort as f64::total_cmp does (the standard library's total order), and
+        // round-trip exactly, on values of both signs, zeros, tiny and huge magnitudes.
+        let mut rng = replicate_rng(4, 0, 0);
+        let mut v: Vec<f64> = (0..2000).map(|_| rand_distr::StandardNormal.sample(&mut rng)).collect();
+        v.extend([0.0, -0.0, 1e-310, -1e-310, 1e300, -1e300, f64::MIN_POSITIVE, -f64::MIN_POSITIVE]);
+        let mut want = v.clone();
+        want.sort_unstable_by(f64::total_cmp);
+        let mut keys: Vec<f64> = v.iter().map(|&z| f64::from_bits(order_key(z))).collect();
+        sort_by_bits(&mut keys);
+        let got: Vec<f64> = keys.iter().map(|k| from_order_key(k.to_bits())).collect();
+        assert!(got.iter().zip(&want).all(|(a, b)| a.to_bits() == b.to_bits()));
+        let mut pos: Vec<f64> = v.iter().map(|z| z.abs()).collect();
+        let mut want = pos.clone();
+        want.sort_unstable_by(f64::total_cmp);
+        sort_by_bits(&mut pos);
+        assert!(pos.iter().zip(&want).all(|(a, b)| a.to_bits() == b.to_bits()));
+    }
+
+    #[test]
+    fn inverse_gaussian_slice_draws_are_the_scalar_ones() {
+        // The slice transformation gives the values of Fitted::sample on the same stream, bit for bit.
+        let f = Fitted { model: Model::InverseGaussian, params: [0.25, 0.4] };
+        let (mut x, mut lx) = (Vec::new(), Vec::new());
+        draw_sorted(&f, 301, &mut replicate_rng(5, 0, 0), &mut x, &mut lx);
+        let mut rng = replicate_rng(5, 0, 0);
+        let mut want: Vec<f64> = (0..301).map(|_| f.sample(&mut rng)).collect();
+        want.sort_unstable_by(f64::total_cmp);
+        assert!(x.iter().zip(&want).all(|(a, b)| a.to_bits() == b.to_bits()));
+    }
 
     #[test]
     fn sorted_draws_have_the_model_moments() {

@@ -75,8 +75,7 @@ impl EdfValues {
             }
             Model::Lognormal => {
                 self.a.iter_mut().zip(lx).for_each(|(w, &l)| *w = (l - p0) / p1);
-                norm_log_tails(&self.a, &mut self.ln_cdf, &mut self.ln_sf);
-                map_into(&self.ln_cdf, &mut self.cdf, exp_basic);
+                norm_log_tails(&self.a, &mut self.cdf, &mut self.ln_cdf, &mut self.ln_sf);
             }
             Model::InverseGaussian => self.inverse_gaussian(p0, p1, x),
             Model::Gamma => self.gamma(f, x),
@@ -114,7 +113,8 @@ impl EdfValues {
             *a = r * (x / m - 1.0);
             *b = r * (x / m + 1.0);
         }
-        norm_log_tails(&self.a, &mut self.ln_cdf, &mut self.ln_sf);
+        // cdf ← Φ(a), ln_cdf ← ln Φ(a), ln_sf ← ln Φ(−a); b ← 2λ/μ + ln Φ(−b).
+        norm_log_tails(&self.a, &mut self.cdf, &mut self.ln_cdf, &mut self.ln_sf);
         let shift = 2.0 * l / m;
         map_in_place(
             &mut self.b,
@@ -122,12 +122,13 @@ impl EdfValues {
             |b| shift + ln_upper_tail(b),
         );
         map2_into(
-            &self.ln_cdf,
+            &self.cdf,
             &self.b,
-            &mut self.cdf,
+            &mut self.a,
             #[inline(always)]
-            |t1, t2| (exp_basic(t1) + exp_basic(t2)).min(1.0),
+            |phi_a, t2| (phi_a + exp_basic(t2)).min(1.0),
         );
+        std::mem::swap(&mut self.a, &mut self.cdf);
         map2_into(
             &self.ln_sf,
             &self.b,

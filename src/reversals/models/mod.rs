@@ -371,52 +371,40 @@ pub(crate) fn maximise2<F: Fn(f64, f64) -> f64>(ll: F, start: [f64; 2], what: &'
     Ok(best)
 }
 
-/// Gradient and Hessian `[∂₀₀, ∂₀₁, ∂₁₁]` of the censored part Σ ln S(c) of a log-likelihood at `p`, by
-/// central differences (steps 10⁻⁵ · max(|pⱼ|, 0.1); nine evaluations). The censored lengths are one
-/// or two observations among hundreds, so the error of the differences (about 10⁻⁹ of the gradient)
-/// moves the maximum by far less than the Newton tolerance.
-///
-/// # References
-/// Abramowitz & Stegun (1964), 25.3.21 and 25.3.26 (central differences for first, second and mixed
-/// derivatives).
-fn censored_derivs<L: Fn([f64; 2]) -> f64>(cens: &L, p: [f64; 2]) -> ([f64; 2], [f64; 3]) {
-    let h = [1e-5 * p[0].abs().max(0.1), 1e-5 * p[1].abs().max(0.1)];
-    let at = |i: f64, j: f64| cens([p[0] + i * h[0], p[1] + j * h[1]]);
-    let f0 = cens(p);
-    let (fpx, fmx, fpy, fmy) = (at(1.0, 0.0), at(-1.0, 0.0), at(0.0, 1.0), at(0.0, -1.0));
-    let (fpp, fpm, fmp, fmm) = (at(1.0, 1.0), at(1.0, -1.0), at(-1.0, 1.0), at(-1.0, -1.0));
-    let g = [(fpx - fmx) / (2.0 * h[0]), (fpy - fmy) / (2.0 * h[1])];
-    let hxx = (fpx - 2.0 * f0 + fmx) / (h[0] * h[0]);
-    let hyy = (fpy - 2.0 * f0 + fmy) / (h[1] * h[1]);
-    let hxy = (fpp - fpm - fmp + fmm) / (4.0 * h[0] * h[1]);
-    (g, [hxx, hxy, hyy])
-}
-
 /// The censored maximum-likelihood estimate of a two-parameter model by Newton's method, started at
-/// the uncensored estimate `start`. `complete` gives the complete-data log-likelihood with its
-/// analytic gradient and Hessian, `ln_sf` the log survival at a censored length, `inside` the
-/// parameter domain. `None` when Newton does not converge (the caller falls back to Nelder–Mead).
-pub(crate) fn newton_censored<C, L, I>(
+/// the uncensored estimate `start`. `value` is the complete-data log-likelihood and `derivs` its
+/// analytic gradient and Hessian `[∂₀₀, ∂₀₁, ∂₁₁]`; `ln_sf` is the log survival at a censored length
+/// and `ln_sf_derivs` its gradient and Hessian in the parameters (analytic, or partly by differences
+/// where a model has no closed form); `inside` is the parameter domain. `None` when Newton does not
+/// converge (the caller falls back to Nelder–Mead).
+pub(crate) fn newton_censored<V, D, L, G, I>(
     s: &Sample,
-    complete: C,
+    value: V,
+    derivs: D,
     ln_sf: L,
+    ln_sf_derivs: G,
     inside: I,
     start: [f64; 2],
 ) -> Option<[f64; 2]>
 where
-    C: Fn([f64; 2]) -> (f64, [f64; 2], [f64; 3]),
+    V: Fn([f64; 2]) -> f64,
+    D: Fn([f64; 2]) -> ([f64; 2], [f64; 3]),
     L: Fn([f64; 2], f64) -> f64,
+    G: Fn([f64; 2], f64) -> ([f64; 2], [f64; 3]),
     I: Fn([f64; 2]) -> bool,
 {
-    let cens = |p: [f64; 2]| s.censored_lengths().map(|c| ln_sf(p, c)).sum::<f64>();
-    let f = |p: [f64; 2]| complete(p).0 + cens(p);
-    let derivs = |p: [f64; 2]| {
-        let (_, g, h) = complete(p);
-        let (gc, hc) = censored_derivs(&cens, p);
-        ([g[0] + gc[0], g[1] + gc[1]], [h[0] + hc[0], h[1] + hc[1], h[2] + hc[2]])
+    let f = |p: [f64; 2]| value(p) + s.censored_lengths().map(|c| ln_sf(p, c)).sum::<f64>();
+    let all_derivs = |p: [f64; 2]| {
+        let (mut g, mut h) = derivs(p);
+        for c in s.censored_lengths() {
+            let (gc, hc) = ln_sf_derivs(p, c);
+            g = [g[0] + gc[0], g[1] + gc[1]];
+            h = [h[0] + hc[0], h[1] + hc[1], h[2] + hc[2]];
+        }
+        (g, h)
     };
     // 10⁻¹³ of |ℓ|: far inside the 10⁻¹¹ of the Nelder–Mead tolerance.
-    super::optimize::newton_max2(f, derivs, inside, start, 1e-13, 50)
+    super::optimize::newton_max2(f, all_derivs, inside, start, 1e-13, 50)
 }
 
 #[cfg(test)]
