@@ -50,7 +50,7 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Presentation> {
         a.horizon,
         a.level,
         &ctx.monte_carlo(a.resamples),
-        100,
+        reversals::HAZARD_STREAM,
     ) {
         Ok(b) => est.interval = Some(b),
         Err(e) => notes.push(format!("No bootstrap interval for the averaged probability: {e}")),

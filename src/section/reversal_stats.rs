@@ -19,7 +19,7 @@ use crate::present::intervals::fits_sheet;
 use crate::present::rate::{rate_sheet, tests_sheet};
 use crate::reversals::{
     averaged_interval, fit_models, goodness_of_fits, hazard_at, intervals, rate_summary, IntervalOptions,
-    IntervalRecord, Model, RenewalFits, Sample,
+    IntervalRecord, Model, RenewalFits, Sample, HAZARD_STREAM,
 };
 
 /// Horizon of the reported P(reversal within the horizon | none so far), Myr (the `hazard` verb's
@@ -29,8 +29,6 @@ pub const HAZARD_HORIZON: f64 = 0.1;
 pub const RATE_WINDOW: f64 = 1.0;
 /// Confidence level of the hazard interval and the rate band (the verbs' default).
 pub const LEVEL: f64 = 0.95;
-/// Monte Carlo stream of the hazard bootstrap (the `hazard` verb's).
-const HAZARD_STREAM: u64 = 100;
 
 /// What the stage produced.
 pub(super) struct ReversalStats {
