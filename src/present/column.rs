@@ -180,3 +180,69 @@ struct ZoneView {
     top_high: f64,
     top_is_section_end: bool,
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::model::StratAxis;
+    use crate::strat::{zone_levels, Level};
+
+    /// Four invented levels: two normal, one intermediate, one reversed (VGP threshold 45°).
+    fn set() -> LevelSet {
+        let level = |position: f64, vgp_lat: f64, mad: Option<f64>| Level {
+            position,
+            vgp_lat,
+            direction: None,
+            n: 3,
+            a95: Some(5.0),
+            mad,
+            lines: vec![],
+        };
+        LevelSet {
+            source: "invented".into(),
+            axis: StratAxis::Height,
+            levels: vec![
+                level(1.0, 80.0, Some(2.0)),
+                level(2.0, 60.0, None),
+                level(3.0, 10.0, None),
+                level(4.0, -70.0, None),
+            ],
+            notes: vec![],
+        }
+    }
+
+    #[test]
+    fn the_sites_column_comes_first_and_the_rest_is_the_verbs_sheet() {
+        let s = set();
+        let (pol, _) = zone_levels(&s, 45.0, 2).unwrap();
+        let plain = levels_sheet(&s, &pol, "t", None);
+        let names: Vec<String> = ["a", "b", "c", "d"].map(String::from).to_vec();
+        let named = levels_sheet(&s, &pol, "t", Some(&names));
+        assert_eq!(named.columns[0], "site");
+        assert_eq!(&named.columns[1..], &plain.columns[..]);
+        for (n, p) in named.rows.iter().zip(&plain.rows) {
+            assert_eq!(&n[1..], &p[..]);
+        }
+        assert_eq!(named.rows[2][0], Cell::Text("c".into()));
+        assert_eq!(plain.rows[0][5], Cell::Num(2.0, 1));
+        assert_eq!(plain.rows[1][5], Cell::Empty);
+        let codes: Vec<&Cell> = plain.rows.iter().map(|r| &r[2]).collect();
+        assert_eq!(codes, ["N", "N", "I", "R"].map(|c| Cell::Text(c.into())).iter().collect::<Vec<_>>());
+    }
+
+    #[test]
+    fn json_puts_the_axis_first_in_every_level_and_follows_the_zones_sheet() {
+        let s = set();
+        let (pol, col) = zone_levels(&s, 45.0, 2).unwrap();
+        let p = column(&s, &pol, &col, ColumnLabels { file: "f.csv", threshold: 45.0, min_levels: 2 });
+        let first = p.json["levels"][0].as_object().unwrap();
+        assert_eq!(first.keys().next().map(String::as_str), Some("height"));
+        assert_eq!(first["mad"], 2.0);
+        assert!(p.json["levels"][1]["mad"].is_null());
+        let zones = &p.sheets[p.main_sheet];
+        assert_eq!(zones.columns, ZONE_COLUMNS);
+        assert_eq!(p.json["zones"].as_array().unwrap().len(), zones.rows.len());
+        assert_eq!(p.json["notes"].as_array().unwrap().len(), p.notes.len());
+        assert!(p.notes.iter().any(|n| n.contains("intermediate levels")), "{:?}", p.notes);
+    }
+}

@@ -229,3 +229,55 @@ impl<'a> IntervalView<'a> {
         IntervalView { young: iv.young, old: iv.old, length: iv.duration(), polarity: iv.polarity, chrons: &iv.names }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::montecarlo::MonteCarlo;
+    use crate::reversals::{fit_models, goodness_of_fits, hazard_at, intervals, IntervalOptions, Model};
+
+    /// An invented time scale: open chron 0.3 Myr, then complete intervals, the oldest censored.
+    fn fitted() -> (IntervalRecord, Sample, RenewalFits) {
+        let csv = "young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,1.0,N\n1.0,1.1,R\n1.1,1.5,N\n1.5,1.9,R\n1.9,2.6,N\n";
+        let t = crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap();
+        let ts = crate::model::TimeScale::from_table(&t).unwrap();
+        let rec = intervals(&ts, &IntervalOptions::default()).unwrap();
+        let sample = rec.sample().unwrap();
+        let fits = fit_models(&sample, &Model::ALL);
+        (rec, sample, fits)
+    }
+
+    #[test]
+    fn the_mean_column_sits_after_the_parameters_and_is_the_models_mean() {
+        let (_, sample, fits) = fitted();
+        let gof = goodness_of_fits(&fits, &sample, &MonteCarlo::new(1, 20));
+        let with = fits_sheet(&fits, &gof, "t", true);
+        let without = fits_sheet(&fits, &gof, "t", false);
+        let at = with.columns.iter().position(|c| c == "mean_interval_myr").unwrap();
+        assert_eq!(at, 1 + PARAM_COLUMNS.len());
+        for (w, (o, f)) in with.rows.iter().zip(without.rows.iter().zip(&fits.fits)) {
+            let mut w = w.clone();
+            assert_eq!(w.remove(at), Cell::Num(f.fitted.mean(), 4));
+            assert_eq!(&w, o);
+        }
+        // The exponential model's mean interval is the reciprocal of its rate (common practice).
+        let exp = &with.rows[0];
+        let (Cell::Num(rate, _), Cell::Num(mean, _)) = (&exp[1], &exp[at]) else { panic!("{exp:?}") };
+        assert!((rate * mean - 1.0).abs() < 1e-12, "{rate} × {mean}");
+    }
+
+    #[test]
+    fn the_interval_columns_hold_the_averaged_rows_interval_only() {
+        let (_, sample, fits) = fitted();
+        let mut est = hazard_at(&fits, &sample, 0.3, 0.1).unwrap();
+        est.interval = Some(crate::reversals::hazard::BootInterval { low: 0.1, high: 0.4, level: 0.95, resamples: 9 });
+        let with = super::super::hazard::hazard_sheet(&est, "t", true);
+        let without = super::super::hazard::hazard_sheet(&est, "t", false);
+        assert_eq!(&with.columns[..without.columns.len()], &without.columns[..]);
+        assert_eq!(&with.columns[without.columns.len()..], ["low", "high"]);
+        let (last, models) = with.rows.split_last().unwrap();
+        assert!(models.iter().all(|r| r[r.len() - 2..] == [Cell::Empty, Cell::Empty]));
+        assert_eq!(last[last.len() - 2..], [Cell::Num(0.1, 4), Cell::Num(0.4, 4)]);
+        assert_eq!(last[0], Cell::Text(super::super::hazard::AVERAGED.into()));
+    }
+}
