@@ -154,3 +154,25 @@ struct AveragedView {
     level: f64,
     resamples: Option<usize>,
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::present::intervals::tests::fitted;
+    use crate::reversals::hazard_at;
+
+    #[test]
+    fn the_interval_columns_hold_the_averaged_rows_interval_only() {
+        let (_, sample, fits) = fitted();
+        let mut est = hazard_at(&fits, &sample, 0.3, 0.1).unwrap();
+        est.interval = Some(crate::reversals::hazard::BootInterval { low: 0.1, high: 0.4, level: 0.95, resamples: 9 });
+        let with = hazard_sheet(&est, "t", true);
+        let without = hazard_sheet(&est, "t", false);
+        assert_eq!(&with.columns[..without.columns.len()], &without.columns[..]);
+        assert_eq!(&with.columns[without.columns.len()..], ["low", "high"]);
+        let (last, models) = with.rows.split_last().unwrap();
+        assert!(models.iter().all(|r| r[r.len() - 2..] == [Cell::Empty, Cell::Empty]));
+        assert_eq!(last[last.len() - 2..], [Cell::Num(0.1, 4), Cell::Num(0.4, 4)]);
+        assert_eq!(last[0], Cell::Text(AVERAGED.into()));
+    }
+}

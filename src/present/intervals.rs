@@ -231,13 +231,13 @@ impl<'a> IntervalView<'a> {
 }
 
 #[cfg(test)]
-mod tests {
+pub(super) mod tests {
     use super::*;
     use crate::montecarlo::MonteCarlo;
-    use crate::reversals::{fit_models, goodness_of_fits, hazard_at, intervals, IntervalOptions, Model};
+    use crate::reversals::{fit_models, goodness_of_fits, intervals, IntervalOptions, Model};
 
     /// An invented time scale: open chron 0.3 Myr, then complete intervals, the oldest censored.
-    fn fitted() -> (IntervalRecord, Sample, RenewalFits) {
+    pub(in crate::present) fn fitted() -> (IntervalRecord, Sample, RenewalFits) {
         let csv = "young,old,polarity\n0,0.3,N\n0.3,0.5,R\n0.5,1.0,N\n1.0,1.1,R\n1.1,1.5,N\n1.5,1.9,R\n1.9,2.6,N\n";
         let t = crate::table::Table::parse("ts.csv", csv.as_bytes()).unwrap();
         let ts = crate::model::TimeScale::from_table(&t).unwrap();
@@ -264,20 +264,5 @@ mod tests {
         let exp = &with.rows[0];
         let (Cell::Num(rate, _), Cell::Num(mean, _)) = (&exp[1], &exp[at]) else { panic!("{exp:?}") };
         assert!((rate * mean - 1.0).abs() < 1e-12, "{rate} × {mean}");
-    }
-
-    #[test]
-    fn the_interval_columns_hold_the_averaged_rows_interval_only() {
-        let (_, sample, fits) = fitted();
-        let mut est = hazard_at(&fits, &sample, 0.3, 0.1).unwrap();
-        est.interval = Some(crate::reversals::hazard::BootInterval { low: 0.1, high: 0.4, level: 0.95, resamples: 9 });
-        let with = super::super::hazard::hazard_sheet(&est, "t", true);
-        let without = super::super::hazard::hazard_sheet(&est, "t", false);
-        assert_eq!(&with.columns[..without.columns.len()], &without.columns[..]);
-        assert_eq!(&with.columns[without.columns.len()..], ["low", "high"]);
-        let (last, models) = with.rows.split_last().unwrap();
-        assert!(models.iter().all(|r| r[r.len() - 2..] == [Cell::Empty, Cell::Empty]));
-        assert_eq!(last[last.len() - 2..], [Cell::Num(0.1, 4), Cell::Num(0.4, 4)]);
-        assert_eq!(last[0], Cell::Text(super::super::hazard::AVERAGED.into()));
     }
 }
