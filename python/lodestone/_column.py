@@ -15,16 +15,13 @@ from ._tables import TableLike, _source
 THRESHOLD = 45.0
 MIN_LEVELS = 2
 
-#: Columns of the zones table, as ``column --format csv`` prints it.
-ZONE_COLUMNS = ["zone", "polarity", "n_levels", "status", "base", "base_low", "base_high",
-                "top", "top_low", "top_high", "axis"]
-
 Anchor = Union[Tuple[float, float], Tuple[float, float, float]]
 
 
-def _zones_frame(rows) -> pd.DataFrame:
-    df = pd.DataFrame([{c: r[c] for c in ZONE_COLUMNS} for r in rows], columns=ZONE_COLUMNS)
-    df.attrs["section_ends"] = [(r["top_is_section_end"], r["base_is_section_end"]) for r in rows]
+def _zones_frame(zones) -> pd.DataFrame:
+    """The zones table (the library's columns, as ``column --format csv`` prints it)."""
+    df = pd.DataFrame(zones["columns"])
+    df.attrs["section_ends"] = [tuple(e) for e in zones["section_ends"]]
     return df
 
 
@@ -105,31 +102,15 @@ def correlate(
     d = _native.correlate(_source(zones), _source(timescale), st)
     cands = json.loads(d["candidates"])
     axis = d["axis"]
-    summary = pd.DataFrame(
-        [
-            dict(rank=c["rank"], score=c["score"], mean_rate_cm_kyr=c["mean_rate"], ties=len(c["ties"]),
-                 missing_chrons=c["missing_chrons"], skipped_zones=c["skipped_zones"],
-                 top_age=c["age_model"][0]["age"], base_age=c["age_model"][-1]["age"])
-            for c in cands
-        ],
-        columns=["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
-    )
-    tie_cols = ["rank", axis, "low", "high", "age", "chron_above", "chron_below"]
-    ties = pd.DataFrame(
-        [dict(rank=c["rank"], **{axis: t["position"]}, **{k: t[k] for k in tie_cols[2:]})
-         for c in cands for t in c["ties"]],
-        columns=tie_cols,
-    )
-    run_cols = ["top", "base", "age_young", "age_old", "rate", "reading", "missing"]
-    runs = pd.DataFrame(
-        [{**{k: r[k] for k in run_cols[:-1]}, "missing": " ".join(r["missing"])} for r in cands[0]["runs"]],
-        columns=run_cols,
-    )
+    sheets = d["sheets"]
+    summary = pd.DataFrame(sheets["candidates"])
+    ties = pd.DataFrame(sheets["ties"])
+    runs = pd.DataFrame(sheets["runs"])
     runs["rate"] = runs["rate"].astype(float)
     ties.attrs["axis"] = axis
     return Correlation._from(
         dict(axis=axis, candidates=summary, ties=ties, age_model=runs, comparison=d["comparison"],
-             n_scored=d["n_scored"], details=cands, zones=_zones_frame(d["zones"]))
+             n_scored=d["n_scored"], details=cands, zones=_zones_frame(d["zones"]), caution=d["caution"])
     )
 
 

@@ -53,7 +53,7 @@ def reversal_rate(
         _source(timescale), young, old, float(min_length), bool(censor), old_edge, float(window),
         None if step is None else float(step), float(level),
     )
-    df = pd.DataFrame(d["rate"], columns=["age", "rate", "low", "high", "count"])
+    df = pd.DataFrame(d["rate"])
     for k in ("laplace", "clustering", "reversals", "n_intervals", "from", "to", "window", "step", "level"):
         df.attrs[k] = d[k]
     df.attrs["n_reversals"] = len(d["reversals"])

@@ -186,13 +186,6 @@ POLE_CAUTION = (
     "about the field itself. Local practice and the published literature decide."
 )
 
-#: The caution that goes with a correlation to the time scale.
-CORRELATION_CAUTION = (
-    "The ranking is a statistical statement about a steady-rate model, not proof of the correlation. "
-    "Independent age control (dated beds as anchors, biostratigraphy), local practice and the published "
-    "literature decide."
-)
-
 
 @dataclasses.dataclass(frozen=True)
 class Paleopole(_Result):
@@ -269,7 +262,7 @@ class Correlation(_Result):
     n_scored: int
     details: Any
     zones: Any
-    caution: str = CORRELATION_CAUTION
+    caution: str
 
 
 #: The caution that goes with an inclination-shallowing correction.

@@ -14,6 +14,7 @@ mod psv;
 mod reversals;
 mod section;
 mod shallowing;
+mod sheets;
 mod simulate;
 mod strat;
 

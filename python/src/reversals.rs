@@ -3,7 +3,8 @@
 use crate::{arg_error, invalid, run_detached, Outcome, Source};
 use lodestone::model::TimeScale;
 use lodestone::montecarlo::MonteCarlo;
-use lodestone::reversals::{self, EdgeReading, Fitted, IntervalOptions, IntervalRecord, Model, CAUTIONS};
+use lodestone::present::{cautions, rate::rate_sheet};
+use lodestone::reversals::{self, EdgeReading, Fitted, IntervalOptions, IntervalRecord, Model};
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 
@@ -134,8 +135,10 @@ pub fn hazard<'py>(
         let mut est = reversals::hazard_at(&fits, &sample, elapsed, horizon)?;
         if resamples > 0 {
             let mc = MonteCarlo::new(seed, resamples);
-            // Stream 100, as on the command line, so that both give the same interval for a seed.
-            est.interval = Some(reversals::averaged_interval(&sample, &Model::ALL, elapsed, horizon, level, &mc, 100)?);
+            // The stream of every front end, so that all give the same interval for a seed.
+            let stream = reversals::HAZARD_STREAM;
+            est.interval =
+                Some(reversals::averaged_interval(&sample, &Model::ALL, elapsed, horizon, level, &mc, stream)?);
         }
         Ok((rec, est))
     })?;
@@ -163,7 +166,7 @@ pub fn hazard<'py>(
     out.set_item("high", est.interval.map(|b| b.high))?;
     out.set_item("level", level)?;
     out.set_item("percentile", est.percentile)?;
-    out.set_item("cautions", CAUTIONS.to_vec())?;
+    out.set_item("cautions", cautions::REVERSALS.to_vec())?;
     Ok(out)
 }
 
@@ -193,14 +196,7 @@ pub fn reversal_rate<'py>(
         Ok((rec, sum))
     })?;
     let out = record_dict(py, &rec)?;
-    let p = &sum.points;
-    let rate = PyDict::new(py);
-    rate.set_item("age", p.iter().map(|x| x.age).collect::<Vec<_>>())?;
-    rate.set_item("rate", p.iter().map(|x| x.rate).collect::<Vec<_>>())?;
-    rate.set_item("low", p.iter().map(|x| x.low).collect::<Vec<_>>())?;
-    rate.set_item("high", p.iter().map(|x| x.high).collect::<Vec<_>>())?;
-    rate.set_item("count", p.iter().map(|x| x.count).collect::<Vec<_>>())?;
-    out.set_item("rate", rate)?;
+    out.set_item("rate", crate::sheets::columns(py, &rate_sheet(&sum.points, ""))?)?;
     out.set_item("reversals", rec.reversals.clone())?;
     out.set_item("window", window)?;
     out.set_item("step", sum.step)?;

@@ -4,9 +4,12 @@
 use crate::{arg_error, run_detached, Outcome, Source};
 use lodestone::figures::{render, ColumnFigure, FigureFormat};
 use lodestone::model::TimeScale;
+use lodestone::present::cautions;
+use lodestone::present::column::zones_sheet;
+use lodestone::present::correlation::{candidates_sheet, runs_sheet, ties_sheet};
 use lodestone::strat::{
-    comparison_sentence, correlate as lib_correlate, read_column, read_levels, status_word, zone_levels,
-    CorrelateOptions, Correlation, DatedLevel, LevelOptions, LevelSet, ZoneColumn, ZonePolarity, ZONE_COLUMNS,
+    comparison_sentence, correlate as lib_correlate, read_column, read_levels, zone_levels, CorrelateOptions,
+    Correlation, DatedLevel, LevelOptions, LevelSet, ZoneColumn, ZonePolarity,
 };
 use lodestone::table::Table;
 use pyo3::prelude::*;
@@ -17,34 +20,13 @@ fn short_name(t: &Table) -> String {
     std::path::Path::new(&t.name).file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default()
 }
 
-/// The zones as rows with the names of [`ZONE_COLUMNS`] (the table `column --format csv` prints).
-fn zone_rows<'py>(py: Python<'py>, col: &ZoneColumn) -> PyResult<Vec<Bound<'py, PyDict>>> {
-    col.zones
-        .iter()
-        .enumerate()
-        .map(|(i, z)| {
-            let d = PyDict::new(py);
-            let values: [Bound<'py, PyAny>; 11] = [
-                (i + 1).into_pyobject(py)?.into_any(),
-                z.polarity.code().into_pyobject(py)?.into_any(),
-                z.n_levels.into_pyobject(py)?.into_any(),
-                status_word(z).into_pyobject(py)?.into_any(),
-                z.base.mid.into_pyobject(py)?.into_any(),
-                z.base.low.into_pyobject(py)?.into_any(),
-                z.base.high.into_pyobject(py)?.into_any(),
-                z.top.mid.into_pyobject(py)?.into_any(),
-                z.top.low.into_pyobject(py)?.into_any(),
-                z.top.high.into_pyobject(py)?.into_any(),
-                col.axis.column().into_pyobject(py)?.into_any(),
-            ];
-            for (k, v) in ZONE_COLUMNS.iter().zip(values) {
-                d.set_item(*k, v)?;
-            }
-            d.set_item("base_is_section_end", !z.base.change)?;
-            d.set_item("top_is_section_end", !z.top.change)?;
-            Ok(d)
-        })
-        .collect()
+/// The zones as the columns of the zones table (the presenter's, as `column --format csv` prints
+/// it), with `section_ends`: (top, base) of each zone is an end of the section, not a reversal.
+fn zones_dict<'py>(py: Python<'py>, col: &ZoneColumn) -> PyResult<Bound<'py, PyDict>> {
+    let d = PyDict::new(py);
+    d.set_item("columns", crate::sheets::columns(py, &zones_sheet(col, ""))?)?;
+    d.set_item("section_ends", col.zones.iter().map(|z| (!z.top.change, !z.base.change)).collect::<Vec<_>>())?;
+    Ok(d)
 }
 
 /// The levels as columns: position, VGP latitude, polarity, n, a95, mad (None where unknown).
@@ -78,7 +60,7 @@ pub fn polarity_column<'py>(
     let out = PyDict::new(py);
     out.set_item("axis", set.axis.column())?;
     out.set_item("levels", level_columns(py, &set, &pol)?)?;
-    out.set_item("zones", zone_rows(py, &col)?)?;
+    out.set_item("zones", zones_dict(py, &col)?)?;
     out.set_item("notes", set.notes.clone())?;
     Ok(out)
 }
@@ -151,7 +133,13 @@ pub fn correlate<'py>(
     out.set_item("notes", c.levels.map(|l| l.notes).unwrap_or_default())?;
     let text = serde_json::to_string(&c.res.candidates).map_err(|e| arg_error(e.to_string()))?;
     out.set_item("candidates", text)?;
-    out.set_item("zones", zone_rows(py, &c.col)?)?;
+    let sheets = PyDict::new(py);
+    sheets.set_item("candidates", crate::sheets::columns(py, &candidates_sheet(&c.res, ""))?)?;
+    sheets.set_item("ties", crate::sheets::columns(py, &ties_sheet(&c.res, c.col.axis))?)?;
+    sheets.set_item("runs", crate::sheets::columns(py, &runs_sheet(&c.res.candidates[0]))?)?;
+    out.set_item("sheets", sheets)?;
+    out.set_item("caution", cautions::CORRELATION)?;
+    out.set_item("zones", zones_dict(py, &c.col)?)?;
     Ok(out)
 }
 

@@ -95,6 +95,8 @@ def check_correlation(got, want):
             assert g[k] == pytest.approx(r[k], rel=1e-12), k
         assert (np.isnan(g["rate"]) and r["rate"] is None) or g["rate"] == pytest.approx(r["rate"], rel=1e-12)
         assert g["reading"] == r["reading"] and g["missing"] == " ".join(r["missing"])
+    # One caution text (the library's), the last sentence the command line prints with the ranking.
+    assert got.caution == want["notes"][-1] and "not proof of the correlation" in got.caution
 
 
 def test_correlate_matches_the_command_line(cli):

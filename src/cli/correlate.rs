@@ -1,15 +1,13 @@
 //! `lodestone correlate`: rank correlations of a polarity column with a time scale.
 
-use super::{jnum, Cell, Ctx, Presentation, Sheet};
+use super::{Ctx, Presentation};
 use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::figures::ColumnFigure;
 use lodestone::model::TimeScale;
-use lodestone::strat::{
-    comparison_sentence, correlate, read_column, Candidate, CorrelateOptions, Correlation, DatedLevel, ZoneColumn,
-};
+use lodestone::present::{self, correlation::CorrelationLabels};
+use lodestone::strat::{correlate, read_column, CorrelateOptions, DatedLevel, ZoneColumn};
 use lodestone::table::Table;
-use serde_json::{json, Value};
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -75,35 +73,16 @@ pub fn run(a: CorrelateArgs, ctx: &mut Ctx) -> Result<Presentation> {
         anchors,
     };
     let res = correlate(&col, &ts, &opts)?;
-    let axis = col.axis.column();
-    let (summary, ties_sec) = candidate_sections(&a, axis, &res);
-    let cands: Vec<Value> = res.candidates.iter().map(|c| candidate_json(axis, c)).collect();
-    let best = &res.candidates[0];
-    let sentence = comparison_sentence(&res);
-    if res.candidates.len() < 5 {
-        notes.push(format!("Only {} distinct candidates fit this column and time scale.", res.candidates.len()));
-    }
-    notes.push(sentence.clone());
-    notes.push("End runs have no rate of their own: their ages are extrapolated at the candidate's mean rate. Rates between ties use boundary midpoints; each boundary may lie anywhere in its sampling gap.".into());
-    notes.push("Caution: the ranking is a statistical statement about a steady-rate model, not proof of the correlation. Independent age control (dated beds as --anchor, biostratigraphy), local practice and the published literature decide.".into());
+    let (zones, timescale) = (a.zones.display().to_string(), a.timescale.display().to_string());
+    let labels = CorrelationLabels { zones: &zones, timescale: &timescale };
+    let shown = present::correlation::correlation(&res, col.axis, &opts, labels, notes);
     if let Some(path) = &a.plot {
         let file_name = |p: &PathBuf| p.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default();
         let title = format!("{} against {}", file_name(&a.zones), file_name(&a.timescale));
-        let fig = ColumnFigure::of_correlation(title, &col, levels, a.threshold, &ts, best);
+        let fig = ColumnFigure::of_correlation(title, &col, levels, a.threshold, &ts, &res.candidates[0]);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Presentation {
-        json: json!({
-            "zones": a.zones.display().to_string(), "timescale": a.timescale.display().to_string(), "axis": axis,
-            "settings": {"miss_penalty": a.miss_penalty, "hiatus_penalty": a.hiatus_penalty, "skip_penalty": a.skip_penalty,
-                "rate_spread": a.rate_spread, "anchors": opts.anchors},
-            "n_scored": res.n_scored, "candidates": cands, "comparison": sentence, "notes": notes,
-        }),
-        sheets: vec![summary, ties_sec, runs_section(best)],
-        main_sheet: 1,
-        cautions: vec![],
-        notes,
-    })
+    Ok(shown)
 }
 
 /// Levels as (position, VGP latitude), for the figure.
@@ -124,73 +103,4 @@ fn column_of(a: &CorrelateArgs, notes: &mut Vec<String>) -> Result<(ZoneColumn, 
         a.min_levels
     ));
     Ok((col, ts, set.levels.iter().map(|l| (l.position, l.vgp_lat)).collect()))
-}
-
-/// The ranked candidates and the ties of every candidate.
-fn candidate_sections(a: &CorrelateArgs, axis: &str, res: &Correlation) -> (Sheet, Sheet) {
-    let mut summary = Sheet::new(
-        &format!("Correlations of {} with {} (lower score is better)", a.zones.display(), a.timescale.display()),
-        &["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
-    );
-    let mut ties_sec = Sheet::new(
-        "Tie points of every candidate",
-        &["rank", axis, "low", "high", "age", "chron_above", "chron_below"],
-    );
-    for c in &res.candidates {
-        let am = &c.age_model;
-        summary.rows.push(vec![
-            Cell::Int(c.rank as i64),
-            Cell::Num(c.score, 2),
-            Cell::Num(c.mean_rate, 2),
-            Cell::Int(c.ties.len() as i64),
-            Cell::Int(c.missing_chrons as i64),
-            Cell::Int(c.skipped_zones as i64),
-            Cell::Num(am[0].age, 3),
-            Cell::Num(am[am.len() - 1].age, 3),
-        ]);
-        for t in &c.ties {
-            ties_sec.rows.push(vec![
-                Cell::Int(c.rank as i64),
-                Cell::Num(t.position, 3),
-                Cell::Num(t.low, 3),
-                Cell::Num(t.high, 3),
-                Cell::Num(t.age, 3),
-                Cell::Text(t.chron_above.clone()),
-                Cell::Text(t.chron_below.clone()),
-            ]);
-        }
-    }
-    (summary, ties_sec)
-}
-
-fn candidate_json(axis: &str, c: &Candidate) -> Value {
-    json!({
-        "rank": c.rank, "score": c.score, "mean_rate": c.mean_rate, "rate_misfit": c.rate_misfit,
-        "missing_chrons": c.missing_chrons, "skipped_zones": c.skipped_zones,
-        "ties": c.ties.iter().map(|t| json!({axis: t.position, "low": t.low, "high": t.high, "age": t.age,
-            "chron_above": t.chron_above, "chron_below": t.chron_below})).collect::<Vec<_>>(),
-        "rates": c.runs.iter().map(|r| json!({"top": r.top, "base": r.base, "age_young": r.age_young, "age_old": r.age_old,
-            "rate": jnum(r.rate), "chrons": r.chrons, "missing": r.missing, "reading": r.reading,
-            "skipped_zones": r.skipped_zones, "section_end": r.end})).collect::<Vec<_>>(),
-        "age_model": c.age_model.iter().map(|p| json!({axis: p.position, "age": p.age})).collect::<Vec<_>>(),
-    })
-}
-
-fn runs_section(best: &Candidate) -> Sheet {
-    let mut runs = Sheet::new(
-        "Age model of the best candidate: runs and accumulation rates (cm/kyr)",
-        &["top", "base", "age_young", "age_old", "rate", "reading", "missing"],
-    );
-    for r in &best.runs {
-        runs.rows.push(vec![
-            Cell::Num(r.top, 3),
-            Cell::Num(r.base, 3),
-            Cell::Num(r.age_young, 3),
-            Cell::Num(r.age_old, 3),
-            Cell::opt(r.rate, 2),
-            Cell::Text(format!("{:?}", r.reading).to_lowercase()),
-            Cell::Text(r.missing.join(" ")),
-        ]);
-    }
-    runs
 }

@@ -1,11 +1,11 @@
 //! `lodestone hazard`: hazard and P(reversal within a horizon | none for the elapsed time).
 
-use super::intervals::{param_cells, params_json, record_notes, Window, PARAM_COLUMNS};
-use super::{jnum, Cell, Ctx, Presentation, Sheet};
+use super::intervals::{record_notes, Window};
+use super::{Ctx, Presentation};
 use anyhow::Result;
 use clap::Args;
-use lodestone::reversals::{self, Model, CAUTIONS};
-use serde_json::json;
+use lodestone::present::{self, hazard::HazardLabels};
+use lodestone::reversals::{self, Model};
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -50,77 +50,23 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Presentation> {
         a.horizon,
         a.level,
         &ctx.monte_carlo(a.resamples),
-        100,
+        reversals::HAZARD_STREAM,
     ) {
         Ok(b) => est.interval = Some(b),
         Err(e) => notes.push(format!("No bootstrap interval for the averaged probability: {e}")),
     }
-    let mut sec = Sheet::new(
-        &format!("Hazard at {elapsed} Myr since the last reversal; P(reversal within {} Myr | none so far)", a.horizon),
-        &[],
-    );
-    sec.columns = ["model"]
-        .iter()
-        .chain(PARAM_COLUMNS.iter())
-        .chain(["weight", "hazard", "survival", "p_within", "cdf"].iter())
-        .map(|s| s.to_string())
-        .collect();
-    let mut models = Vec::new();
-    for m in &est.models {
-        let mut row = vec![Cell::Text(m.fitted.model.name().into())];
-        row.extend(param_cells(&m.fitted));
-        row.extend([
-            Cell::Num(m.weight, 3),
-            Cell::Num(m.hazard, 3),
-            Cell::Num(m.survival, 4),
-            Cell::opt(m.p_within, 4),
-            Cell::Num(m.cdf, 3),
-        ]);
-        sec.rows.push(row);
-        models.push(json!({
-            "model": m.fitted.model.name(), "params": params_json(&m.fitted), "weight": m.weight,
-            "hazard": m.hazard, "survival": m.survival, "p_within": jnum(m.p_within), "cdf": m.cdf,
-        }));
-    }
-    let mut avg = vec![Cell::Text("averaged (Akaike weights)".into())];
-    avg.extend(std::iter::repeat_n(Cell::Empty, PARAM_COLUMNS.len()));
-    avg.extend([Cell::Num(1.0, 3), Cell::Empty, Cell::Empty, Cell::Num(est.averaged, 4), Cell::Empty]);
-    sec.rows.push(avg);
-    if let Some(b) = est.interval {
-        notes.push(format!(
-            "Akaike-weighted P(reversal within {} Myr) = {:.3}, {:.0} % bootstrap interval {:.3} – {:.3} ({} resamples of the intervals, all models refitted, seed {}).",
-            a.horizon, est.averaged, b.level * 100.0, b.low, b.high, b.resamples, ctx.global.seed
-        ));
-    }
-    notes.push(format!(
-        "{elapsed} Myr is longer than {:.0} % of the {} complete intervals.",
-        est.percentile,
-        sample.n()
-    ));
-    notes.extend(CAUTIONS.iter().map(|s| s.to_string()));
+    let file = a.window.timescale.display().to_string();
+    let labels = HazardLabels {
+        file: &file,
+        n_intervals: sample.n(),
+        censored: (rec.censored, rec.censored_old),
+        level: a.level,
+        seed: ctx.global.seed,
+    };
+    let shown = present::hazard::hazard(&est, labels, notes);
     if let Some(path) = &a.plot {
-        let fig = lodestone::figures::HazardFigure::new(&fits, elapsed, &a.window.timescale.display().to_string());
+        let fig = lodestone::figures::HazardFigure::new(&fits, elapsed, &file);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Presentation {
-        json: json!({
-            "file": a.window.timescale.display().to_string(),
-            "elapsed": elapsed, "horizon": a.horizon,
-            "n_intervals": sample.n(), "censored": jnum(rec.censored), "censored_old": jnum(rec.censored_old),
-            "models": models,
-            "averaged": {
-                "p_within": est.averaged,
-                "low": jnum(est.interval.map(|b| b.low)), "high": jnum(est.interval.map(|b| b.high)),
-                "level": a.level, "resamples": est.interval.map(|b| b.resamples),
-            },
-            "percentile": est.percentile,
-            "cautions": CAUTIONS,
-            "seed": ctx.global.seed,
-            "notes": notes,
-        }),
-        sheets: vec![sec],
-        main_sheet: 0,
-        cautions: vec![],
-        notes,
-    })
+    Ok(shown)
 }

@@ -1,12 +1,12 @@
 //! `lodestone intervals`: renewal-model fits to the polarity intervals of a time scale.
 
-use super::{jnum, Cell, Ctx, Presentation, Sheet};
+use super::{Ctx, Presentation};
 use anyhow::Result;
 use clap::Args;
 use lodestone::model::TimeScale;
-use lodestone::reversals::{self, goodness_of_fit, EdgeReading, IntervalOptions, IntervalRecord, Model, RenewalFits};
+use lodestone::present::{self, intervals::FitLabels};
+use lodestone::reversals::{self, EdgeReading, IntervalOptions, IntervalRecord, Model};
 use lodestone::table::Table;
-use serde_json::{json, Map, Value};
 use std::path::{Path, PathBuf};
 
 /// Options shared by `intervals`, `hazard` and `rate`: which part of the time scale, and how.
@@ -117,24 +117,6 @@ pub fn record_notes(rec: &IntervalRecord, file: &Path) -> Vec<String> {
     n
 }
 
-/// `params` as a JSON object with contract names.
-pub fn params_json(f: &lodestone::reversals::Fitted) -> Value {
-    let mut m = Map::new();
-    for (k, v) in f.named_params() {
-        m.insert(k.to_string(), json!(v));
-    }
-    Value::Object(m)
-}
-
-/// The parameter columns of text and CSV tables (sparse: each model fills its own).
-pub const PARAM_COLUMNS: [&str; 6] = ["rate", "shape", "scale", "mu", "sigma", "mean"];
-
-/// Cells for [`PARAM_COLUMNS`].
-pub fn param_cells(f: &lodestone::reversals::Fitted) -> Vec<Cell> {
-    let named = f.named_params();
-    PARAM_COLUMNS.iter().map(|c| Cell::opt(named.iter().find(|(k, _)| k == c).map(|p| p.1), 4)).collect()
-}
-
 #[derive(Debug, Args)]
 pub struct IntervalsArgs {
     #[command(flatten)]
@@ -154,97 +136,14 @@ pub fn run(a: IntervalsArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let rec = a.window.load(ctx)?;
     let sample = rec.sample()?;
     let fits = reversals::fit_models(&sample, &Model::ALL);
-    let mut sec = Sheet::new("Renewal models (maximum likelihood, open chron censored)", &[]);
-    sec.columns = ["model"]
-        .iter()
-        .chain(PARAM_COLUMNS.iter())
-        .chain(["loglik", "aic", "bic", "weight", "ks_d", "ks_p", "ad", "ad_p"].iter())
-        .map(|s| s.to_string())
-        .collect();
-    let mut models = Vec::new();
-    let mc = ctx.monte_carlo(a.resamples);
-    let mut notes = record_notes(&rec, &a.window.timescale);
-    for (i, f) in fits.fits.iter().enumerate() {
-        let g = goodness_of_fit(&f.fitted, &sample, &mc, i as u64);
-        let (d, dp, ad, adp) = match &g {
-            Ok(g) => (Some(g.ks_d), Some(g.ks_p), Some(g.ad), Some(g.ad_p)),
-            Err(e) => {
-                notes.push(format!("{}: goodness of fit unavailable: {e}", f.fitted.model.name()));
-                (None, None, None, None)
-            }
-        };
-        let mut row = vec![Cell::Text(f.fitted.model.name().into())];
-        row.extend(param_cells(&f.fitted));
-        row.extend([
-            Cell::Num(f.loglik, 3),
-            Cell::Num(f.aic, 3),
-            Cell::Num(f.bic, 3),
-            Cell::Num(f.weight, 3),
-            Cell::opt(d, 4),
-            Cell::opt(dp, 3),
-            Cell::opt(ad, 3),
-            Cell::opt(adp, 3),
-        ]);
-        sec.rows.push(row);
-        models.push(json!({
-            "model": f.fitted.model.name(), "params": params_json(&f.fitted),
-            "loglik": f.loglik, "aic": f.aic, "bic": f.bic, "weight": f.weight,
-            "ks_d": jnum(d), "ks_p": jnum(dp), "ad": jnum(ad), "ad_p": jnum(adp),
-            "mean_interval": f.fitted.mean(),
-        }));
-    }
-    for fail in &fits.failures {
-        notes.push(format!("{}: not fitted: {}", fail.model.name(), fail.reason));
-    }
-    let lr = lr_json(&fits, &mut notes);
-    notes.push(format!(
-        "Goodness-of-fit p-values come from a parametric bootstrap of {} replicates that refits the model each time (seed {}).",
-        a.resamples, ctx.global.seed
-    ));
+    let gof = reversals::goodness_of_fits(&fits, &sample, &ctx.monte_carlo(a.resamples));
+    let file = a.window.timescale.display().to_string();
+    let labels = FitLabels { file: &file, resamples: a.resamples, seed: ctx.global.seed };
+    let shown =
+        present::intervals::intervals(&rec, &sample, &fits, &gof, labels, record_notes(&rec, &a.window.timescale));
     if let Some(path) = &a.plot {
-        let fig = lodestone::figures::IntervalFigure::new(&sample, &fits, &a.window.timescale.display().to_string());
+        let fig = lodestone::figures::IntervalFigure::new(&sample, &fits, &file);
         super::write_figure(&fig, path, &ctx.inputs)?;
     }
-    Ok(Presentation {
-        json: json!({
-            "file": a.window.timescale.display().to_string(),
-            "from": rec.from, "to": rec.to,
-            "n_intervals": sample.n(),
-            "censored": jnum(rec.censored),
-            "censored_old": jnum(rec.censored_old), "old_edge": rec.old_reading.name(),
-            "merged_short": rec.merged_short, "joined": rec.joined, "left_out": rec.left_out,
-            "mean_complete": sample.complete.iter().sum::<f64>() / sample.n() as f64,
-            "models": models,
-            "lr_test": lr,
-            "intervals": rec.complete.iter().map(|iv| json!({
-                "young": iv.young, "old": iv.old, "length": iv.duration(), "polarity": iv.polarity, "chrons": iv.names,
-            })).collect::<Vec<_>>(),
-            "open_chron": rec.open.as_ref().map(|iv| json!({"young": iv.young, "old": iv.old, "length": iv.duration(), "polarity": iv.polarity, "chrons": iv.names})),
-            "resamples": a.resamples, "seed": ctx.global.seed,
-            "notes": notes,
-        }),
-        sheets: vec![sec],
-        main_sheet: 0,
-        cautions: vec![],
-        notes,
-    })
-}
-
-fn lr_json(fits: &RenewalFits, notes: &mut Vec<String>) -> Value {
-    match fits.lr_test {
-        Some(t) => {
-            notes.push(format!(
-                "Likelihood-ratio test of gamma against exponential (shape = 1): statistic {:.3}, p = {:.4}; {}",
-                t.statistic,
-                t.p_value,
-                if t.p_value < 0.05 {
-                    "a constant-rate (memoryless) process is rejected at the 5 % level."
-                } else {
-                    "a constant-rate (memoryless) process is not rejected at the 5 % level."
-                }
-            ));
-            json!({"null": "gamma shape = 1 (exponential)", "statistic": t.statistic, "df": t.df, "p_value": t.p_value})
-        }
-        None => Value::Null,
-    }
+    Ok(shown)
 }

@@ -15,6 +15,13 @@ mod cell;
 mod sheet;
 mod write;
 
+pub mod column;
+pub mod correlation;
+pub mod hazard;
+pub mod intervals;
+mod keyed;
+pub mod rate;
+
 pub use cell::Cell;
 pub use sheet::Sheet;
 pub use write::{

@@ -7,6 +7,7 @@
 //! statistic; the open chron, when present, is held at its observed length in every replicate.
 
 use super::models::{draw_sorted, EdfValues, Fitted, Sample};
+use super::renewal::RenewalFits;
 use crate::error::{Error, Result};
 use crate::montecarlo::MonteCarlo;
 
@@ -129,6 +130,12 @@ pub fn goodness_of_fit(f: &Fitted, s: &Sample, mc: &MonteCarlo<'_>, stream: u64)
     let ks_p = (1.0 + null.iter().filter(|t| t.0 >= d).count() as f64) / (b + 1.0);
     let ad_p = (1.0 + null.iter().filter(|t| t.1 >= a).count() as f64) / (b + 1.0);
     Ok(GoodnessOfFit { ks_d: d, ks_p, ad: a, ad_p, resamples: null.len() })
+}
+
+/// [`goodness_of_fit`] of every fitted model, in the order of `fits.fits`; the model at index i
+/// draws its replicates from Monte Carlo stream i (as every front end does, so their p-values agree).
+pub fn goodness_of_fits(fits: &RenewalFits, s: &Sample, mc: &MonteCarlo<'_>) -> Vec<Result<GoodnessOfFit>> {
+    fits.fits.iter().enumerate().map(|(i, f)| goodness_of_fit(&f.fitted, s, mc, i as u64)).collect()
 }
 
 #[cfg(test)]

@@ -17,6 +17,11 @@ pub const CAUTIONS: [&str; 3] = [
     "These numbers are a statistical statement about models fitted to the past record, not a forecast of the field; local practice and the published literature decide what they mean.",
 ];
 
+/// Monte Carlo stream of the bootstrap interval of the averaged probability: every front end (the
+/// `hazard` verb, the `section` run, the Python package) draws from this one, so a seed gives the
+/// same interval everywhere.
+pub const HAZARD_STREAM: u64 = 100;
+
 /// Hazard quantities of one model at the elapsed time.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct ModelHazard {

@@ -14,8 +14,8 @@ pub mod optimize;
 pub mod rate;
 pub mod renewal;
 
-pub use gof::{goodness_of_fit, GoodnessOfFit};
-pub use hazard::{averaged_interval, hazard_at, p_within, HazardEstimate, ModelHazard, CAUTIONS};
+pub use gof::{goodness_of_fit, goodness_of_fits, GoodnessOfFit};
+pub use hazard::{averaged_interval, hazard_at, p_within, HazardEstimate, ModelHazard, CAUTIONS, HAZARD_STREAM};
 pub use intervals::{intervals, EdgeReading, Interval, IntervalOptions, IntervalRecord};
 pub use models::{Fitted, Model, Sample};
 pub use rate::{

@@ -13,10 +13,13 @@ use super::{FigureOutput, Stage};
 use crate::figures::{HazardFigure, IntervalFigure, RateFigure};
 use crate::model::TimeScale;
 use crate::montecarlo::MonteCarlo;
-use crate::numbers::{fixed, fixed_or_empty};
+use crate::present::cautions;
+use crate::present::hazard::hazard_sheet;
+use crate::present::intervals::fits_sheet;
+use crate::present::rate::{rate_sheet, tests_sheet};
 use crate::reversals::{
-    averaged_interval, clustering_test, fit_models, goodness_of_fit, hazard_at, intervals, laplace_test, windowed_rate,
-    IntervalOptions, IntervalRecord, Model, RenewalFits, Sample, CAUTIONS,
+    averaged_interval, fit_models, goodness_of_fits, hazard_at, intervals, rate_summary, IntervalOptions,
+    IntervalRecord, Model, RenewalFits, Sample, HAZARD_STREAM,
 };
 
 /// Horizon of the reported P(reversal within the horizon | none so far), Myr (the `hazard` verb's
@@ -26,8 +29,6 @@ pub const HAZARD_HORIZON: f64 = 0.1;
 pub const RATE_WINDOW: f64 = 1.0;
 /// Confidence level of the hazard interval and the rate band (the verbs' default).
 pub const LEVEL: f64 = 0.95;
-/// Monte Carlo stream of the hazard bootstrap (the `hazard` verb's).
-const HAZARD_STREAM: u64 = 100;
 
 /// What the stage produced.
 pub(super) struct ReversalStats {
@@ -56,10 +57,6 @@ impl ReversalStats {
         self.stage.tables.push(t.stem.clone());
         self.tables.push(t);
     }
-}
-
-fn params(f: &crate::reversals::Fitted) -> String {
-    f.named_params().iter().map(|(k, v)| format!("{k}={}", fixed(*v, 4))).collect::<Vec<_>>().join(" ")
 }
 
 /// Fit the renewal models to the time scale's intervals, test their fit, evaluate the hazard and
@@ -130,32 +127,14 @@ fn skip(mut out: ReversalStats, why: String) -> ReversalStats {
 }
 
 fn renewal_table(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, mc: &MonteCarlo<'_>) {
-    let mut ft = CsvTable::new(
-        "renewal-fits",
-        "Renewal models fitted to the time scale's polarity intervals, with goodness of fit",
-        &["model", "params", "mean_interval_myr", "loglik", "aic", "bic", "weight", "ks_d", "ks_p", "ad", "ad_p"],
-    );
-    for (i, f) in fits.fits.iter().enumerate() {
-        let g = goodness_of_fit(&f.fitted, sample, mc, i as u64);
-        if let Err(e) = &g {
+    let gof = goodness_of_fits(fits, sample, mc);
+    for (f, g) in fits.fits.iter().zip(&gof) {
+        if let Err(e) = g {
             out.warnings.push(format!("{}: goodness of fit unavailable: {e}.", f.fitted.model.name()));
         }
-        let g = g.ok();
-        ft.push(vec![
-            f.fitted.model.name().into(),
-            params(&f.fitted),
-            fixed(f.fitted.mean(), 4),
-            fixed(f.loglik, 3),
-            fixed(f.aic, 3),
-            fixed(f.bic, 3),
-            fixed(f.weight, 3),
-            fixed_or_empty(g.map(|g| g.ks_d), 4),
-            fixed_or_empty(g.map(|g| g.ks_p), 3),
-            fixed_or_empty(g.map(|g| g.ad), 3),
-            fixed_or_empty(g.map(|g| g.ad_p), 3),
-        ]);
     }
-    out.add_table(ft);
+    let title = "Renewal models fitted to the time scale's polarity intervals, with goodness of fit";
+    out.add_table(CsvTable::from_sheet("renewal-fits", fits_sheet(fits, &gof, title, true)));
 }
 
 fn hazard(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, elapsed: f64, mc: &MonteCarlo<'_>, name: &str) {
@@ -167,31 +146,8 @@ fn hazard(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, elapsed:
         Ok(b) => h.interval = Some(b),
         Err(e) => out.warnings.push(format!("No bootstrap interval for the averaged probability: {e}.")),
     }
-    let mut ht = CsvTable::new(
-        "hazard",
-        &format!("Hazard at {elapsed:.3} Myr since the last reversal and P(reversal within {HAZARD_HORIZON} Myr | none so far): a statement about the fitted models, not a forecast"),
-        &["model", "weight", "hazard_per_myr", "survival", "p_within", "low", "high"],
-    );
-    for m in &h.models {
-        ht.push(vec![
-            m.fitted.model.name().into(),
-            fixed(m.weight, 3),
-            fixed(m.hazard, 3),
-            fixed(m.survival, 4),
-            fixed_or_empty(m.p_within, 4),
-            String::new(),
-            String::new(),
-        ]);
-    }
-    ht.push(vec![
-        "averaged (Akaike weights)".into(),
-        fixed(1.0, 3),
-        String::new(),
-        String::new(),
-        fixed(h.averaged, 4),
-        fixed_or_empty(h.interval.map(|b| b.low), 4),
-        fixed_or_empty(h.interval.map(|b| b.high), 4),
-    ]);
+    let title = format!("Hazard at {elapsed:.3} Myr since the last reversal and P(reversal within {HAZARD_HORIZON} Myr | none so far): a statement about the fitted models, not a forecast");
+    let ht = CsvTable::from_sheet("hazard", hazard_sheet(&h, &title, true));
     out.stage.result.push_str(&format!(
         " Under the fitted models, the Akaike-weighted P(reversal within {HAZARD_HORIZON} Myr | none in the last {elapsed:.3} Myr) is {:.3}{}; the elapsed length exceeds {:.0} % of the complete intervals.",
         h.averaged,
@@ -199,54 +155,33 @@ fn hazard(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, elapsed:
         h.percentile
     ));
     out.add_table(ht);
-    out.cautions.extend(CAUTIONS.iter().map(|s| s.to_string()));
+    out.cautions.extend(cautions::REVERSALS.iter().map(|s| s.to_string()));
     let fig = HazardFigure::new(fits, elapsed, name);
     out.add_figure(super::stage::draw(&fig, "hazard", format!("Hazard of each fitted renewal model against time since the last reversal, with the open chron's present length ({elapsed:.3} Myr) marked: curves of models, not a forecast.")));
 }
 
 fn rate(out: &mut ReversalStats, rec: &IntervalRecord) {
-    let points = match windowed_rate(&rec.reversals, rec.from, rec.to, RATE_WINDOW, RATE_WINDOW / 10.0, LEVEL) {
-        Ok(p) => p,
+    let sum = match rate_summary(&rec.reversals, rec.from, rec.to, RATE_WINDOW, None, LEVEL) {
+        Ok(s) => s,
         Err(e) => return out.warnings.push(format!("Rate through time skipped: {e}.")),
     };
-    let mut rt = CsvTable::new(
-        "rate",
-        &format!("Reversal rate through time ({RATE_WINDOW} Myr windows, exact Poisson {:.0} % limits)", LEVEL * 100.0),
-        &["age", "rate", "low", "high", "count"],
-    );
-    for p in &points {
-        rt.push(vec![fixed(p.age, 3), fixed(p.rate, 3), fixed(p.low, 3), fixed(p.high, 3), p.count.to_string()]);
-    }
-    out.add_table(rt);
-    let mut tt =
-        CsvTable::new("rate-tests", "Trend and clustering of the reversals", &["test", "n", "statistic", "value", "p"]);
-    match laplace_test(&rec.reversals, rec.from, rec.to) {
-        Ok(l) => {
-            tt.push(vec!["laplace trend".into(), l.n.to_string(), "U".into(), fixed(l.u, 3), fixed(l.p_value, 4)]);
-            out.stage.result.push_str(&format!(" Laplace trend test: U = {:.2}, p = {:.3}.", l.u, l.p_value));
-        }
+    let title =
+        format!("Reversal rate through time ({RATE_WINDOW} Myr windows, exact Poisson {:.0} % limits)", LEVEL * 100.0);
+    out.add_table(CsvTable::from_sheet("rate", rate_sheet(&sum.points, &title)));
+    match &sum.laplace {
+        Ok(l) => out.stage.result.push_str(&format!(" Laplace trend test: U = {:.2}, p = {:.3}.", l.u, l.p_value)),
         Err(e) => out.warnings.push(format!("Laplace trend test unavailable: {e}.")),
     }
-    match clustering_test(&rec.reversals) {
-        Ok(c) => {
-            let n = c.h.len().to_string();
-            tt.push(vec![
-                "clustering (mean H)".into(),
-                n.clone(),
-                "mean_h".into(),
-                fixed(c.mean_h, 3),
-                fixed(c.p_value, 4),
-            ]);
-            tt.push(vec!["clustering (H uniform)".into(), n, "ks_d".into(), fixed(c.ks_d, 3), fixed(c.ks_p, 4)]);
-        }
-        Err(e) => out.warnings.push(format!("Clustering test unavailable: {e}.")),
+    if let Err(e) = &sum.clustering {
+        out.warnings.push(format!("Clustering test unavailable: {e}."));
     }
-    if !tt.rows.is_empty() {
-        out.add_table(tt);
+    let tests = tests_sheet(&sum, "Trend and clustering of the reversals");
+    if !tests.rows.is_empty() {
+        out.add_table(CsvTable::from_sheet("rate-tests", tests));
     }
     let fig = RateFigure {
         title: "Reversal rate through time".into(),
-        points,
+        points: sum.points,
         reversals: rec.reversals.clone(),
         window: RATE_WINDOW,
     };

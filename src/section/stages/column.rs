@@ -5,11 +5,14 @@ use super::site_means::UsedSite;
 use super::RunLog;
 use crate::error::Result;
 use crate::figures::{ColumnFigure, ScalePanel};
-use crate::numbers::{fixed, fixed_or_empty};
+use crate::present::column::{levels_sheet, zones_sheet};
 use crate::section::stage::{draw, Stage};
 use crate::section::tables::CsvTable;
 use crate::section::Project;
-use crate::strat::{status_word, zone_levels, Level, LevelSet, ZoneColumn, ZonePolarity, ZONE_COLUMNS};
+use crate::strat::{zone_levels, Level, LevelSet, ZoneColumn, ZonePolarity};
+
+/// Title of the zones table.
+const ZONES_TITLE: &str = "Magnetozones (the zones table that `correlate` reads)";
 
 /// The column as later stages need it: its levels, its zones, and where its stage record sits in
 /// the run (the column figure, drawn after the correlation, is listed under it).
@@ -52,7 +55,7 @@ pub(in crate::section) fn polarity_column(p: &Project, inp: &Inputs, used: &[Use
             Ok((pol, col)) => {
                 let col_name = inp.axis.column();
                 log.table(&mut stage, levels_table(inp, used, &levels, &pol));
-                log.table(&mut stage, zones_table(col_name, &col));
+                log.table(&mut stage, CsvTable::from_sheet("zones", zones_sheet(&col, ZONES_TITLE)));
                 log.head.zones = col.zones.len();
                 let code: String = col.zones.iter().map(|z| z.polarity.code()).collect::<Vec<_>>().join(" ");
                 stage.result = format!(
@@ -71,42 +74,8 @@ pub(in crate::section) fn polarity_column(p: &Project, inp: &Inputs, used: &[Use
 }
 
 fn levels_table(inp: &Inputs, used: &[UsedSite], levels: &LevelSet, pol: &[ZonePolarity]) -> CsvTable {
-    let mut lt = CsvTable::new(
-        "levels",
-        "Polarity of each level",
-        &["site", inp.axis.column(), "vgp_lat", "polarity", "n", "a95"],
-    );
-    for ((u, l), pz) in used.iter().zip(&levels.levels).zip(pol) {
-        lt.push(vec![
-            inp.sites[u.idx].site.clone(),
-            fixed(l.position, 3),
-            fixed(l.vgp_lat, 2),
-            pz.code().into(),
-            l.n.to_string(),
-            fixed_or_empty(l.a95, 1),
-        ]);
-    }
-    lt
-}
-
-fn zones_table(col_name: &str, col: &ZoneColumn) -> CsvTable {
-    let mut zt = CsvTable::new("zones", "Magnetozones (the zones table that `correlate` reads)", &ZONE_COLUMNS);
-    for (i, z) in col.zones.iter().enumerate() {
-        zt.push(vec![
-            (i + 1).to_string(),
-            z.polarity.code().into(),
-            z.n_levels.to_string(),
-            status_word(z).into(),
-            fixed(z.base.mid, 3),
-            fixed(z.base.low, 3),
-            fixed(z.base.high, 3),
-            fixed(z.top.mid, 3),
-            fixed(z.top.low, 3),
-            fixed(z.top.high, 3),
-            col_name.into(),
-        ]);
-    }
-    zt
+    let sites: Vec<String> = used.iter().map(|u| inp.sites[u.idx].site.clone()).collect();
+    CsvTable::from_sheet("levels", levels_sheet(levels, pol, "Polarity of each level", Some(&sites)))
 }
 
 /// The column figure: VGP latitude of each level and the zones, with the time scale and the best

@@ -8,16 +8,13 @@ use super::RunLog;
 use crate::error::Result;
 use crate::figures::ScalePanel;
 use crate::model::TimeScale;
-use crate::numbers::{fixed, fixed_or_empty};
+use crate::numbers::fixed_or_empty;
+use crate::present::cautions;
+use crate::present::correlation::{ages_sheet, candidates_sheet, runs_sheet, ties_sheet, NamedLevel};
 use crate::section::stage::Stage;
 use crate::section::tables::CsvTable;
 use crate::section::Project;
-use crate::strat::{comparison_sentence, correlate, Candidate, CorrelateOptions, Correlation, ZoneColumn};
-
-/// Caution carried with the correlation.
-pub const CORRELATION_CAUTION: &str = "The ranking of correlations is a statistical statement about a steady-rate \
-model, not proof of the correlation: independent age control (dated beds, biostratigraphy), local practice and the \
-published literature decide.";
+use crate::strat::{comparison_sentence, correlate, CorrelateOptions, ZoneColumn};
 
 /// Correlate the column with the time scale, if the project has both; write the stage and its
 /// tables. Returns the time-scale panel of the column figure (the chrons the best candidate spans,
@@ -68,9 +65,14 @@ fn correlate_column(
         }
     };
     let best = &res.candidates[0];
-    let (ct, tt) = candidate_tables(inp.axis.column(), &res);
-    let at = age_table(inp, used, best);
-    let rt = rates_table(best);
+    let levels: Vec<NamedLevel> =
+        used.iter().map(|u| (inp.sites[u.idx].site.as_str(), inp.sites[u.idx].position, u.polarity)).collect();
+    let tables = [
+        CsvTable::from_sheet("correlations", candidates_sheet(&res, "Ranked correlations (lower score is better)")),
+        CsvTable::from_sheet("ties", ties_sheet(&res, inp.axis)),
+        CsvTable::from_sheet("age-model", ages_sheet(best, inp.axis, &levels)),
+        CsvTable::from_sheet("rates", runs_sheet(best)),
+    ];
     log.head.ties = best.ties.iter().map(|t| [t.position, t.age]).collect();
     log.head.scores = res.candidates.iter().take(2).map(|c| c.score).collect();
     stage.result = format!(
@@ -83,86 +85,9 @@ fn correlate_column(
         comparison_sentence(&res)
     );
     let panel = ScalePanel::of_candidate(&ts.chrons, best, "best candidate");
-    for t in [ct, tt, at, rt] {
+    for t in tables {
         log.table(stage, t);
     }
-    log.cautions.push(CORRELATION_CAUTION.into());
+    log.cautions.push(cautions::CORRELATION.into());
     Some(panel)
-}
-
-/// The ranked candidates, and the ties of every candidate.
-fn candidate_tables(col_name: &str, res: &Correlation) -> (CsvTable, CsvTable) {
-    let mut ct = CsvTable::new(
-        "correlations",
-        "Ranked correlations (lower score is better)",
-        &["rank", "score", "mean_rate_cm_kyr", "ties", "missing_chrons", "skipped_zones", "top_age", "base_age"],
-    );
-    let mut tt = CsvTable::new(
-        "ties",
-        "Tie points of every candidate",
-        &["rank", col_name, "low", "high", "age", "chron_above", "chron_below"],
-    );
-    for c in &res.candidates {
-        let am = &c.age_model;
-        ct.push(vec![
-            c.rank.to_string(),
-            fixed(c.score, 3),
-            fixed(c.mean_rate, 3),
-            c.ties.len().to_string(),
-            c.missing_chrons.to_string(),
-            c.skipped_zones.to_string(),
-            fixed_or_empty(am.first().map(|a| a.age), 4),
-            fixed_or_empty(am.last().map(|a| a.age), 4),
-        ]);
-        for t in &c.ties {
-            tt.push(vec![
-                c.rank.to_string(),
-                fixed(t.position, 3),
-                fixed(t.low, 3),
-                fixed(t.high, 3),
-                fixed(t.age, 4),
-                t.chron_above.clone(),
-                t.chron_below.clone(),
-            ]);
-        }
-    }
-    (ct, tt)
-}
-
-fn age_table(inp: &Inputs, used: &[UsedSite], best: &Candidate) -> CsvTable {
-    let mut at = CsvTable::new(
-        "age-model",
-        "Age of each level from the best correlation",
-        &["site", inp.axis.column(), "age", "polarity"],
-    );
-    for u in used {
-        let pos = inp.sites[u.idx].position;
-        at.push(vec![
-            inp.sites[u.idx].site.clone(),
-            fixed(pos, 3),
-            fixed_or_empty(best.age_at(pos, inp.axis), 4),
-            u.polarity.code().into(),
-        ]);
-    }
-    at
-}
-
-fn rates_table(best: &Candidate) -> CsvTable {
-    let mut rt = CsvTable::new(
-        "rates",
-        "Runs and accumulation rates of the best correlation",
-        &["top", "base", "age_young", "age_old", "rate_cm_kyr", "reading", "missing_chrons"],
-    );
-    for r in &best.runs {
-        rt.push(vec![
-            fixed(r.top, 3),
-            fixed(r.base, 3),
-            fixed(r.age_young, 4),
-            fixed(r.age_old, 4),
-            fixed_or_empty(r.rate, 3),
-            format!("{:?}", r.reading).to_lowercase(),
-            r.missing.join(" "),
-        ]);
-    }
-    rt
 }
