@@ -63,5 +63,11 @@ pub trait Streamed {
     fn write_json(&self, out: &mut dyn std::io::Write) -> std::io::Result<()>;
 }
 
+// Presenters of directions, field tests and poles.
+pub mod dipole;
+pub mod expected;
+pub mod psv;
+pub mod unflatten;
+
 #[cfg(test)]
 mod tests;
