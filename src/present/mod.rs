@@ -66,7 +66,12 @@ pub trait Streamed {
 // Presenters of directions, field tests and poles.
 pub mod dipole;
 pub mod expected;
+pub mod field_tests;
+pub mod fold_test;
+pub mod mean_comparison;
+pub mod poles;
 pub mod psv;
+pub mod randomness_test;
 pub mod unflatten;
 
 #[cfg(test)]
