@@ -64,6 +64,7 @@ pub trait Streamed {
 }
 
 // Presenters of directions, field tests and poles.
+pub mod components;
 pub mod dipole;
 pub mod expected;
 pub mod field_tests;
@@ -72,6 +73,7 @@ pub mod mean_comparison;
 pub mod poles;
 pub mod psv;
 pub mod randomness_test;
+pub mod site_means;
 pub mod unflatten;
 
 #[cfg(test)]
