@@ -68,6 +68,7 @@ pub mod components;
 pub mod dipole;
 pub mod expected;
 pub mod field_tests;
+pub mod fisher_means;
 pub mod fold_test;
 pub mod mean_comparison;
 pub mod poles;
