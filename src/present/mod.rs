@@ -78,4 +78,6 @@ pub mod site_means;
 pub mod unflatten;
 
 #[cfg(test)]
+mod direction_tests;
+#[cfg(test)]
 mod tests;
