@@ -8,13 +8,8 @@ from typing import Any, Dict, Optional
 import numpy as np
 import pandas as pd
 
-#: The caution that goes with every field test.
-FIELD_TEST_CAUTION = (
-    "A statistical statement about a model of these directions (Fisher distributions or bootstrap "
-    "resampling), not proof of when the rocks were magnetized; local practice and the published "
-    "literature decide."
-)
-
+# The caution that goes with every field test: the library's one wording (present::cautions).
+from ._native import FIELD_TEST_CAUTION
 
 #: The caution that goes with every present-field result.
 FIELD_CAUTION = (

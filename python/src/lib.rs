@@ -161,5 +161,7 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(simulate::simulate_timescale, m)?)?;
     m.add_function(wrap_pyfunction!(shallowing::unflatten, m)?)?;
     m.add_function(wrap_pyfunction!(psv::psv, m)?)?;
+    // The caution of the field tests, written once in the library.
+    m.add("FIELD_TEST_CAUTION", lodestone::present::cautions::FIELD_TESTS)?;
     Ok(())
 }

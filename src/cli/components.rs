@@ -1,14 +1,17 @@
 //! `lodestone components`: principal-component fits per specimen from a steps table.
 
-use super::{jnum, Cell, Ctx, Presentation, Sheet};
+use super::{Ctx, Presentation};
 use anyhow::{bail, Context, Result};
 use clap::Args;
 use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule, SpecimenFit};
 use lodestone::figures::VectorEndpointPlot;
 use lodestone::model::{Anchor, FitKind};
 use lodestone::model::{SpecimenSteps, StepSet, Treatment};
+use lodestone::present::{
+    self,
+    components::{ComponentFits, RuleView},
+};
 use lodestone::table::{read_picks, read_steps, Table};
-use serde_json::{json, Value};
 use std::path::{Path, PathBuf};
 
 #[derive(Debug, Args)]
@@ -104,20 +107,9 @@ fn unit_of(sp: &SpecimenSteps) -> &'static str {
     }
 }
 
-/// What the chosen method made of the specimens.
-struct Fitted {
-    method: &'static str,
-    fits: Vec<SpecimenFit>,
-    unfitted: Vec<(String, String)>,
-    /// (specimen, grade, reason) of the last-component rule's fits.
-    grades: Vec<(String, &'static str, String)>,
-    rule_json: Value,
-}
-
-impl Fitted {
-    fn new(method: &'static str) -> Self {
-        Fitted { method, fits: Vec::new(), unfitted: Vec::new(), grades: Vec::new(), rule_json: Value::Null }
-    }
+/// No fits yet, by `method`.
+fn fitted(method: &'static str) -> ComponentFits {
+    ComponentFits { method, ..Default::default() }
 }
 
 pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Presentation> {
@@ -137,43 +129,10 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Presentation> {
         None if a.auto => by_longest_run(&a, max_mad, &set, &mut notes),
         None => by_range(&a, &set)?,
     };
-    let (sec, fits_json) = fits_section(&a, &set, &fitted);
-    let mut sections = vec![sec];
-    let Fitted { method, fits, unfitted, rule_json, .. } = fitted;
-    if !unfitted.is_empty() {
-        let mut u = Sheet::new("Specimens not fitted", &["specimen", "reason"]);
-        for (s, why) in &unfitted {
-            u.rows.push(vec![Cell::Text(s.clone()), Cell::Text(why.clone())]);
-            notes.push(format!("{s}: not fitted: {why}."));
-        }
-        sections.push(u);
-    }
-    if fits.iter().any(|f| f.kind == FitKind::Line && f.anchor == Anchor::Free) {
-        notes.push("Free lines point from the last step used toward the first (the component removed over the range); anchored lines point from the origin toward the steps.".into());
-    }
-    if fits.iter().any(|f| f.kind == FitKind::Plane) {
-        notes.push(
-            "For planes, dec and inc give the pole of the great circle; `lodestone mean` combines them with lines."
-                .into(),
-        );
-    }
     if let Some(dir) = &a.plot {
-        write_plots(dir, &set, &fits, a.plot_format, a.force, ctx)?;
+        write_plots(dir, &set, &fitted.fits, a.plot_format, a.force, ctx)?;
     }
-    Ok(Presentation {
-        json: json!({
-            "file": a.steps.display().to_string(),
-            "method": method,
-            "rule": rule_json,
-            "fits": fits_json,
-            "unfitted": unfitted.iter().map(|(s, r)| json!({"specimen": s, "reason": r})).collect::<Vec<_>>(),
-            "notes": notes,
-        }),
-        sheets: sections,
-        main_sheet: 0,
-        cautions: vec![],
-        notes,
-    })
+    Ok(present::components::components(&set, &fitted, &a.steps.display().to_string(), notes))
 }
 
 fn anchor_of(a: &ComponentsArgs) -> Anchor {
@@ -185,8 +144,8 @@ fn anchor_of(a: &ComponentsArgs) -> Anchor {
 }
 
 /// One fit per pick; a pick that cannot be fitted is an error naming the picks file and line.
-fn by_picks(pp: &Path, set: &StepSet) -> Result<Fitted> {
-    let mut out = Fitted::new("picks");
+fn by_picks(pp: &Path, set: &StepSet) -> Result<ComponentFits> {
+    let mut out = fitted("picks");
     let pt = Table::read(pp)?;
     let picks = read_picks(&pt, set)?;
     for p in &picks {
@@ -203,8 +162,8 @@ fn by_picks(pp: &Path, set: &StepSet) -> Result<Fitted> {
     Ok(out)
 }
 
-fn by_last_rule(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> Result<Fitted> {
-    let mut out = Fitted::new("auto");
+fn by_last_rule(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> Result<ComponentFits> {
+    let mut out = fitted("auto");
     let anchor = anchor_of(a);
     let rule = LastComponentRule {
         min_steps: a.min_steps,
@@ -218,8 +177,14 @@ fn by_last_rule(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec
     notes.push(format!(
         "Automatic fits by the last-component rule: a {} line grown down from the last {} steps while each lower step lies on it within the noise (F-test at α = {}), accepted with MAD ≤ {}° and DANG ≤ {}°; otherwise a great circle through the origin (grade C). Check each choice on the figures (--plot).",
         anchor.as_str(), rule.min_steps, rule.alpha, rule.max_mad, rule.max_dang));
-    out.rule_json = json!({"rule": "last", "min_steps": rule.min_steps, "alpha": rule.alpha, "max_mad": rule.max_mad,
-                       "max_dang": rule.max_dang, "anchor": anchor});
+    out.rule = Some(RuleView {
+        rule: "last",
+        min_steps: rule.min_steps,
+        alpha: Some(rule.alpha),
+        max_mad: rule.max_mad,
+        max_dang: rule.max_dang,
+        anchor,
+    });
     for sp in &set.specimens {
         match last_component(sp, &rule) {
             Ok(c) => {
@@ -232,15 +197,22 @@ fn by_last_rule(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec
     Ok(out)
 }
 
-fn by_longest_run(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> Fitted {
-    let mut out = Fitted::new("auto");
+fn by_longest_run(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> ComponentFits {
+    let mut out = fitted("auto");
     let anchor = anchor_of(a);
     let rule = AutoRule { min_steps: a.min_steps, max_mad, max_dang: a.max_dang, anchor };
     notes.push(format!(
         "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
          among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
         rule.min_steps, anchor.as_str(), rule.max_mad, rule.max_dang));
-    out.rule_json = json!({"rule": "longest", "min_steps": rule.min_steps, "max_mad": rule.max_mad, "max_dang": rule.max_dang, "anchor": anchor});
+    out.rule = Some(RuleView {
+        rule: "longest",
+        min_steps: rule.min_steps,
+        alpha: None,
+        max_mad: rule.max_mad,
+        max_dang: rule.max_dang,
+        anchor,
+    });
     for sp in &set.specimens {
         match auto_line(sp, &rule) {
             AutoOutcome::Fitted(f) => out.fits.push(f),
@@ -250,8 +222,8 @@ fn by_longest_run(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut V
     out
 }
 
-fn by_range(a: &ComponentsArgs, set: &StepSet) -> Result<Fitted> {
-    let mut out = Fitted::new("range");
+fn by_range(a: &ComponentsArgs, set: &StepSet) -> Result<ComponentFits> {
+    let mut out = fitted("range");
     let (from, to) = (a.from.expect("clap"), a.to.expect("clap"));
     if from > to {
         bail!("--from {from} is above --to {to}");
@@ -267,67 +239,6 @@ fn by_range(a: &ComponentsArgs, set: &StepSet) -> Result<Fitted> {
         }
     }
     Ok(out)
-}
-
-/// The fits as the table (with the position, bedding and grade columns the input has) and as JSON.
-fn fits_section(a: &ComponentsArgs, set: &StepSet, fitted: &Fitted) -> (Sheet, Vec<Value>) {
-    let axis = set.axis;
-    let mut columns = vec!["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang"];
-    if let Some(ax) = axis {
-        columns.push(ax.column());
-    }
-    if set.has_bedding {
-        columns.extend(["bed_dip_dir", "bed_dip", "overturned"]);
-    }
-    let graded = fitted.method == "auto" && a.rule == RuleArg::Last;
-    if graded {
-        columns.push("grade");
-    }
-    let title = format!("Principal components of {} ({} fits)", a.steps.display(), fitted.method);
-    let mut sec = Sheet::new(&title, &columns);
-    let mut fits_json = Vec::new();
-    for f in &fitted.fits {
-        let sp = set.get(&f.specimen).expect("fitted specimen exists");
-        let grade = fitted.grades.iter().find(|(s, _, _)| s == &f.specimen);
-        let mut row = vec![
-            Cell::Text(f.specimen.clone()),
-            Cell::opt_text(sp.site.as_deref()),
-            Cell::Text(f.kind.as_str().into()),
-            Cell::Text(f.anchor.as_str().into()),
-            Cell::Int(f.n_steps as i64),
-            Cell::Num(f.from, 1),
-            Cell::Num(f.to, 1),
-            Cell::Azimuth(f.direction.dec, 1),
-            Cell::Num(f.direction.inc, 1),
-            Cell::Num(f.mad, 1),
-            Cell::opt(f.dang, 1),
-        ];
-        if axis.is_some() {
-            row.push(Cell::opt(sp.position, 2));
-        }
-        if set.has_bedding {
-            row.push(Cell::opt(sp.bedding.map(|b| b.dip_dir), 1));
-            row.push(Cell::opt(sp.bedding.map(|b| b.dip), 1));
-            row.push(Cell::Text(if sp.bedding.is_some_and(|b| b.overturned) { "yes" } else { "no" }.into()));
-        }
-        if graded {
-            row.push(Cell::Text(grade.map_or("", |(_, g, _)| g).into()));
-        }
-        sec.rows.push(row);
-        let mut j = json!({
-            "specimen": f.specimen, "site": sp.site, "kind": f.kind, "anchor": f.anchor, "n_steps": f.n_steps,
-            "from": f.from, "to": f.to, "dec": f.direction.dec, "inc": f.direction.inc, "mad": f.mad, "dang": jnum(f.dang),
-        });
-        if let Some(ax) = axis {
-            j[ax.column()] = jnum(sp.position);
-        }
-        if let Some((_, g, why)) = grade {
-            j["grade"] = json!(g);
-            j["reason"] = json!(why);
-        }
-        fits_json.push(j);
-    }
-    (sec, fits_json)
 }
 
 fn write_plots(

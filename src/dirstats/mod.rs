@@ -4,6 +4,7 @@
 
 mod bootstrap_ellipse;
 mod elongation;
+mod group_ellipses;
 mod kent;
 mod legendre;
 mod psv_groups;
@@ -14,6 +15,7 @@ mod unflatten;
 
 pub use bootstrap_ellipse::{bootstrap_ellipse, BootstrapKind};
 pub use elongation::{elongation_of, tk03_curve, Elongation};
+pub use group_ellipses::{group_ellipses, EllipseMethod, GroupEllipses};
 pub use kent::{chi2_2_quantile, kent_ellipse, KentEllipse};
 pub use legendre::{schmidt_legendre, SchmidtTable};
 pub use psv_groups::{psv_groups, psv_model, GroupRemark, PsvGroups, MIN_GROUP_SITES};

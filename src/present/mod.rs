@@ -70,5 +70,21 @@ pub trait Streamed {
     fn write_json(&self, out: &mut dyn std::io::Write) -> std::io::Result<()>;
 }
 
+// Presenters of directions, field tests and poles.
+pub mod components;
+pub mod dipole;
+pub mod expected;
+pub mod field_tests;
+pub mod fisher_means;
+pub mod fold_test;
+pub mod mean_comparison;
+pub mod poles;
+pub mod psv;
+pub mod randomness_test;
+pub mod site_means;
+pub mod unflatten;
+
+#[cfg(test)]
+mod direction_tests;
 #[cfg(test)]
 mod tests;

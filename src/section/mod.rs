@@ -27,8 +27,6 @@ pub use report::report_html;
 pub use reversal_stats::{HAZARD_HORIZON, LEVEL, RATE_WINDOW};
 pub use settings::{SectionSettings, KNOWN_KEYS};
 pub use stage::Stage;
-pub use stages::field_tests::FIELD_TEST_CAUTION;
-pub use stages::poles::POLE_CAUTION;
 pub use tables::CsvTable;
 
 /// One input file of a project folder: its name (as shown in messages) and its bytes.

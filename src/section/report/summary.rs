@@ -38,11 +38,13 @@ fn pole(run: &SectionRun) -> Option<String> {
     let t = run.table("paleopole")?;
     let r = t.rows.first()?;
     let c = |k: &str| t.cell(r, k).unwrap_or_default();
+    // The pole to two decimals, as the summary has always given it (the table shows one).
+    let two = |k: &str| t.number(r, k).map_or_else(String::new, |x| crate::numbers::fixed(x, 2));
     let mut s = format!(
         "{}°N, {}°E, A95 = {}° (K = {}, N = {} sites).",
-        v("pole-plat", c("plat")),
-        v("pole-plon", c("plon")),
-        v("pole-a95", c("a95")),
+        v("pole-plat", two("plat")),
+        v("pole-plon", t.number(r, "plon").map_or_else(String::new, |x| crate::numbers::azimuth(x, 2))),
+        v("pole-a95", two("a95")),
         v("pole-k", c("k")),
         v("pole-n", c("n"))
     );
@@ -77,9 +79,8 @@ fn field_tests(run: &SectionRun) -> Option<String> {
             _ => "open",
         };
         let vw = row(t, "quantity", "V_w").and_then(|r| t.cell(r, "outcome")).unwrap_or_else(|| "—".into());
-        let boot = row(t, "quantity", "bootstrap overlap x/y/z")
-            .and_then(|r| t.cell(r, "outcome"))
-            .unwrap_or_else(|| "—".into());
+        let boot =
+            row(t, "quantity", "bootstrap x/y/z").and_then(|r| t.cell(r, "outcome")).unwrap_or_else(|| "—".into());
         parts.push(format!(
             "Reversal: γ = {}° against γc = {}°, {} (V_w {}, bootstrap {}).",
             v("reversal-gamma", t.cell(r, "value").unwrap_or_default()),

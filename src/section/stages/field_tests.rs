@@ -4,23 +4,20 @@ use super::inputs::Inputs;
 use super::site_means::{bedding_or_flat, UsedSite};
 use super::RunLog;
 use crate::error::Result;
-use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions};
+use crate::fieldtests::{bedding_spread, fold_test, reversal_test, FoldOptions, FoldTest, MeanComparison};
 use crate::figures::FoldPlot;
 use crate::montecarlo::MonteCarlo;
-use crate::numbers::fixed;
+use crate::present::{cautions, field_tests::section_sheet};
 use crate::section::stage::{draw, Stage};
 use crate::section::tables::CsvTable;
 use crate::sphere::Bedding;
 use crate::strat::ZonePolarity;
 
-/// Caution carried with every field test.
-pub const FIELD_TEST_CAUTION: &str = "Field tests are statistical statements about a model of the directions \
-(Fisher distributions or bootstrap resampling), not proof of when the rocks were magnetized; local practice and \
-the published literature decide.";
-
-/// What the tests did and found, in words, and their table rows.
+/// What the tests did and found, in words, and the results for the table.
+#[derive(Default)]
 struct Found {
-    table: CsvTable,
+    reversal: Option<MeanComparison>,
+    fold: Option<FoldTest>,
     methods: Vec<String>,
     results: Vec<String>,
 }
@@ -36,24 +33,17 @@ pub(in crate::section) fn field_tests(
     log: &mut RunLog,
 ) -> Result<()> {
     let mut stage = Stage::new("Field tests");
-    let mut found = Found {
-        table: CsvTable::new(
-            "field-tests",
-            "Field tests (95 %)",
-            &["test", "quantity", "value", "critical", "outcome"],
-        ),
-        methods: Vec::new(),
-        results: Vec::new(),
-    };
+    let mut found = Found::default();
     reversal(inp, used, mc, &mut found, log);
     fold(inp, used, mc, &mut found, &mut stage, log)?;
-    let Found { table, methods, results } = found;
+    let Found { reversal, fold, methods, results } = found;
+    let table = CsvTable::from_sheet("field-tests", section_sheet(reversal.as_ref(), fold.as_ref()));
     stage.ran = !table.rows.is_empty();
     stage.method =
         if methods.is_empty() { "No field test could run (see the warnings).".into() } else { methods.join(" ") };
     stage.result = if results.is_empty() { "Skipped.".into() } else { results.join(" ") };
     if stage.ran {
-        log.cautions.push(FIELD_TEST_CAUTION.into());
+        log.cautions.push(cautions::FIELD_TESTS.into());
         log.table(&mut stage, table);
     }
     log.stages.push(stage);
@@ -77,29 +67,6 @@ fn reversal(inp: &Inputs, used: &[UsedSite], mc: &MonteCarlo<'_>, found: &mut Fo
     };
     let c = &t.comparison;
     found.methods.push(format!("Reversal test on the tilt-corrected site means: the set is split into two modes on its principal axis, mode 2 is flipped, and the means are compared by the angle γ against γc with the classes of McFadden & McElhinny (1990), by Watson's V_w against a critical value simulated from Fisher sets, and by a bootstrap of Cartesian bounds (Tauxe et al. 1991); {} resamples, seed {}.", s.resamples, s.seed));
-    let verdict = |passed: bool| if passed { "pass".to_string() } else { "fail".to_string() };
-    let tt = &mut found.table;
-    tt.push(vec![
-        "reversal".into(),
-        "gamma (deg)".into(),
-        fixed(c.mm90.gamma, 2),
-        fixed(c.mm90.gamma_c, 2),
-        format!("class {}", c.mm90.class.name()),
-    ]);
-    tt.push(vec![
-        "reversal".into(),
-        "V_w".into(),
-        fixed(c.watson.v_w, 2),
-        fixed(c.watson.v_crit, 2),
-        verdict(c.watson.passed),
-    ]);
-    tt.push(vec![
-        "reversal".into(),
-        "bootstrap overlap x/y/z".into(),
-        "".into(),
-        "".into(),
-        verdict(c.bootstrap.passed),
-    ]);
     found.results.push(format!(
         "Reversal test ({} and {} sites): γ = {:.1}° against γc = {:.1}°, class {}; V_w {}; bootstrap {}.",
         c.n1,
@@ -110,6 +77,7 @@ fn reversal(inp: &Inputs, used: &[UsedSite], mc: &MonteCarlo<'_>, found: &mut Fo
         if c.watson.passed { "passes" } else { "fails" },
         if c.bootstrap.passed { "passes" } else { "fails" }
     ));
+    found.reversal = Some(t.comparison);
 }
 
 fn fold(
@@ -140,23 +108,10 @@ fn fold(
         }
     };
     found.methods.push(format!("Fold test on the site means: bootstrap incremental untilting (Tauxe & Watson 1994) from −10 % to 150 %, {} resamples, seed {}; the classic precision ratio (McElhinny 1964) for comparison only.", s.resamples, s.seed));
-    found.table.push(vec![
-        "fold".into(),
-        "best untilting (%)".into(),
-        fixed(t.best_untilt, 0),
-        format!("{:.0} to {:.0}", t.ci_low, t.ci_high),
-        t.verdict.name().into(),
-    ]);
-    found.table.push(vec![
-        "fold".into(),
-        "k_tilt / k_geo".into(),
-        fixed(t.classic.ratio, 2),
-        fixed(t.classic.f_crit, 2),
-        "comparison only".into(),
-    ]);
     found.results.push(format!("Fold test: best untilting {:.0} % (95 % interval {:.0} to {:.0} %): {}. Bedding attitudes differ by up to {:.0}°.",
         t.best_untilt, t.ci_low, t.ci_high, t.verdict.name(), t.bedding_spread));
     let fig = FoldPlot::from_test(&t, "site means".into());
+    found.fold = Some(t);
     log.figure(stage, draw(&fig, "fold", "Fold test: the leading eigenvalue against percent untilting for the data and bootstrap resamples, and the distribution of the resamples' maxima.".into())?);
     Ok(())
 }

@@ -7,7 +7,7 @@ use crate::demag::{fit_range, SpecimenFit};
 use crate::error::Result;
 use crate::model::FitKind;
 use crate::model::Pick;
-use crate::numbers::{azimuth, fixed, fixed_or_empty};
+use crate::present::components::{fits_sheet, FitColumns};
 use crate::section::auto::{automatic_fit, rule_text};
 use crate::section::stage::Stage;
 use crate::section::tables::CsvTable;
@@ -88,27 +88,8 @@ fn fit_all(inp: &Inputs, picks: Option<(&str, &[Pick])>, log: &mut RunLog) -> Fi
 }
 
 fn components_table(inp: &Inputs, fits: &[SpecimenFit], grades: &BTreeMap<String, &'static str>) -> CsvTable {
-    let mut ft = CsvTable::new(
-        "components",
-        "Characteristic components per specimen (geographic coordinates)",
-        &["specimen", "site", "kind", "anchor", "n_steps", "from", "to", "dec", "inc", "mad", "dang", "grade"],
-    );
-    for f in fits {
-        let sp = inp.set.get(&f.specimen).expect("fitted specimen exists");
-        ft.push(vec![
-            f.specimen.clone(),
-            sp.site.clone().unwrap_or_default(),
-            f.kind.as_str().into(),
-            f.anchor.as_str().into(),
-            f.n_steps.to_string(),
-            fixed(f.from, 1),
-            fixed(f.to, 1),
-            azimuth(f.direction.dec, 2),
-            fixed(f.direction.inc, 2),
-            fixed(f.mad, 2),
-            fixed_or_empty(f.dang, 2),
-            grades.get(&f.specimen).map_or("pick", |g| g).to_string(),
-        ]);
-    }
-    ft
+    let grade = |s: &str| grades.get(s).map_or("pick", |g| g).to_string();
+    let cols = FitColumns { levels_and_bedding: false, grade: Some(&grade) };
+    let title = "Characteristic components per specimen (geographic coordinates)";
+    CsvTable::from_sheet("components", fits_sheet(title, &inp.set, fits, &cols))
 }

@@ -60,12 +60,3 @@ impl RunLog {
         self.warnings.push(format!("{what} skipped: {e}."));
     }
 }
-
-/// `yes` or `no`, as the tables write a flag.
-pub(super) fn yes_no(b: bool) -> String {
-    if b {
-        "yes".into()
-    } else {
-        "no".into()
-    }
-}

@@ -7,18 +7,15 @@ use super::RunLog;
 use crate::error::Result;
 use crate::figures::{MappedVgp, PolePlot};
 use crate::montecarlo::MonteCarlo;
-use crate::numbers::{azimuth, fixed, fixed_or_empty};
+use crate::numbers::{azimuth, fixed_or_empty};
 use crate::poles::{
-    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp_scatter, Paleopole, ScatterSite, WithinSite,
+    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp_scatter, Paleopole, ScatterSite, Vgp, WithinSite,
 };
+use crate::present::cautions;
+use crate::present::poles::{level_vgp_sheet, pole_scatter_sheet, LevelVgp};
 use crate::section::stage::{draw, Stage};
 use crate::section::tables::CsvTable;
 use crate::sphere::GeoPoint;
-
-/// Caution carried with the poles.
-pub const POLE_CAUTION: &str = "VGPs and the paleopole rest on a model: a geocentric dipole field at the locality, \
-averaged over enough time for secular variation to cancel. The scatter depends on the cutoff and on how sites were \
-chosen.";
 
 /// VGPs, paleopole and scatter; write the stage, its tables and the VGP map.
 ///
@@ -52,27 +49,22 @@ pub(in crate::section) fn poles(inp: &Inputs, used: &[UsedSite], mc: &MonteCarlo
 }
 
 fn vgp_table(inp: &Inputs, used: &[UsedSite]) -> CsvTable {
-    let mut vt = CsvTable::new(
-        "vgps",
-        "Virtual geomagnetic poles of the used sites (tilt-corrected)",
-        &["site", inp.axis.column(), "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "polarity"],
-    );
-    for u in used {
-        let oval = u.a95.map(|a| pole_oval(u.colat, a)).transpose().ok().flatten();
-        vt.push(vec![
-            inp.sites[u.idx].site.clone(),
-            fixed(inp.sites[u.idx].position, 3),
-            azimuth(u.tilt.dec, 1),
-            fixed(u.tilt.inc, 1),
-            fixed(u.vgp_lat, 2),
-            azimuth(u.vgp_lon, 2),
-            fixed_or_empty(oval.map(|o| o.dp), 1),
-            fixed_or_empty(oval.map(|o| o.dm), 1),
-            fixed(u.paleolat, 1),
-            u.polarity.code().into(),
-        ]);
-    }
-    vt
+    let rows: Vec<LevelVgp> = used
+        .iter()
+        .map(|u| LevelVgp {
+            site: &inp.sites[u.idx].site,
+            position: inp.sites[u.idx].position,
+            direction: u.tilt,
+            vgp: Vgp {
+                pole: GeoPoint::new(u.vgp_lat, u.vgp_lon).expect("valid VGP"),
+                colatitude: u.colat,
+                paleolat: u.paleolat,
+            },
+            oval: u.a95.map(|a| pole_oval(u.colat, a)).transpose().ok().flatten(),
+            polarity: u.polarity.code(),
+        })
+        .collect();
+    CsvTable::from_sheet("vgps", level_vgp_sheet(inp.axis.column(), &rows))
 }
 
 /// The sites as the scatter sees them: the aligned pole, and the within-site dispersion by the
@@ -95,21 +87,8 @@ fn pole_and_scatter(
 ) -> Result<()> {
     let s = &inp.settings;
     let sc_sites = scatter_sites(used, aligned)?;
-    let mut pt = CsvTable::new(
-        "paleopole",
-        "Paleopole and VGP scatter",
-        &["n", "plat", "plon", "k", "a95", "cutoff", "s", "s_low", "s_high", "s_total", "n_used", "n_removed"],
-    );
-    let mut row = vec![
-        pp.n.to_string(),
-        fixed(pp.pole.lat, 2),
-        azimuth(pp.pole.lon, 2),
-        fixed(pp.k.0, 1),
-        fixed_or_empty(pp.a95, 2),
-        s.scatter_cutoff.clone(),
-    ];
     let mut kept_flags = vec![true; used.len()];
-    match vgp_scatter(&sc_sites, s.cutoff()) {
+    let pt = match vgp_scatter(&sc_sites, s.cutoff()) {
         Ok(sc) => {
             kept_flags = sc.kept.clone();
             let kept: Vec<ScatterSite> = sc_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
@@ -118,23 +97,15 @@ fn pole_and_scatter(
             if let Err(e) = &boot {
                 log.warnings.push(format!("Scatter interval skipped: {e}."));
             }
-            row.extend([
-                fixed_or_empty(sc.s, 2),
-                fixed_or_empty(lo, 2),
-                fixed_or_empty(hi, 2),
-                fixed(sc.s_total, 2),
-                sc.n_used.to_string(),
-                sc.n_removed.to_string(),
-            ]);
             let s_b = sc.s.map_or_else(
                 || format!("undefined (the within-site scatter exceeds the total, {:.1}°)", sc.s_total),
                 |s| format!("{s:.1}°"),
             );
             stage.result = format!("Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
                 pp.n, pp.pole.lat, azimuth(pp.pole.lon, 1), pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
+            pole_scatter_sheet(pp, &s.scatter_cutoff, Some(&sc), boot.as_ref().ok())
         }
         Err(e) => {
-            row.extend(std::iter::repeat_n(String::new(), 6));
             log.warnings.push(format!("VGP scatter skipped: {e}."));
             stage.result = format!(
                 "Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}°.",
@@ -144,11 +115,11 @@ fn pole_and_scatter(
                 pp.k.0,
                 fixed_or_empty(pp.a95, 1)
             );
+            pole_scatter_sheet(pp, &s.scatter_cutoff, None, None)
         }
-    }
-    pt.push(row);
+    };
     log.head.pole = Some((pp.pole.lat, pp.pole.lon, pp.a95));
-    log.table(stage, pt);
+    log.table(stage, CsvTable::from_sheet("paleopole", pt));
     let fig = PolePlot {
         title: "VGPs and paleopole (polarity-aligned)".into(),
         centre: pp.pole,
@@ -157,6 +128,6 @@ fn pole_and_scatter(
         cutoff: None,
     };
     log.figure(stage, draw(&fig, "vgps", "VGPs of the used sites (polarity aligned by their principal axis) on an azimuthal equal-area map centred on the paleopole, with its A95 circle.".into())?);
-    log.cautions.push(POLE_CAUTION.into());
+    log.cautions.push(cautions::POLES.into());
     Ok(())
 }

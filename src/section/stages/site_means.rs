@@ -2,14 +2,14 @@
 //! the sites whose mean is usable go on to the field tests, the poles and the column.
 
 use super::inputs::{Inputs, SiteInfo};
-use super::{yes_no, RunLog};
+use super::RunLog;
 use crate::demag::SpecimenFit;
 use crate::error::Result;
 use crate::figures::{EqualAreaPlot, NetGroup};
 use crate::model::FitKind;
 use crate::model::{DirectionKind, DirectionRecord, DirectionSet};
-use crate::numbers::{azimuth_or_empty, fixed, fixed_or_empty};
 use crate::poles::vgp;
+use crate::present::site_means::{site_means_sheet, SiteMeans};
 use crate::section::stage::{draw, Stage};
 use crate::section::tables::CsvTable;
 use crate::section::Project;
@@ -69,31 +69,21 @@ pub(in crate::section) fn site_means(
     stage.method = format!(
         "Fisher (1953) mean of each site's components in geographic and in tilt-corrected coordinates (bedding from {}); great circles are combined with lines after McFadden & McElhinny (1988). Cones at {} % confidence. A site is used downstream when it has a mean and its tilt-corrected α{:.0} is at most {}°; a site of one specimen is used without a cone.",
         p.sampling.name, s.confidence * 100.0, s.confidence * 100.0, s.max_site_a95);
-    let col_name = inp.axis.column();
-    let mut mt = CsvTable::new(
-        "site-means",
-        "Site means, geographic and tilt-corrected",
-        &[
-            "site", col_name, "n", "planes", "dec_geo", "inc_geo", "k_geo", "a95_geo", "dec_tilt", "inc_tilt",
-            "k_tilt", "a95_tilt", "used",
-        ],
-    );
+    let mut rows = Vec::with_capacity(inp.sites.len());
     let mut used: Vec<UsedSite> = Vec::new();
     for (idx, site) in inp.sites.iter().enumerate() {
         let (Some(g), Some(t)) = (geo.get(&site.site), tilt.get(&site.site)) else {
             log.reject("site", &site.site, "site means", "no specimen with an accepted component".into());
-            let mut row = vec![site.site.clone(), fixed(site.position, 3), "0".into(), "0".into()];
-            row.extend(std::iter::repeat_n(String::new(), 8));
-            row.push("no".into());
-            mt.push(row);
+            rows.push(SiteMeans { site: &site.site, position: site.position, means: None, used: false });
             continue;
         };
         let ok = judge_site(inp, site, g, t, log);
-        mt.push(site_row(site, g, t, ok));
+        rows.push(SiteMeans { site: &site.site, position: site.position, means: Some((g, t)), used: ok });
         if ok {
             used.push(used_site(inp, idx, g, t));
         }
     }
+    let mt = CsvTable::from_sheet("site-means", site_means_sheet(inp.axis.column(), &rows));
     log.head.sites_used = used.len();
     stage.result = format!("{} of {} sites have a usable mean.", used.len(), inp.sites.len());
     log.table(&mut stage, mt);
@@ -150,24 +140,6 @@ fn judge_site(inp: &Inputs, site: &SiteInfo, g: &GroupMean, t: &GroupMean, log: 
 
 fn k_of(m: &GroupMean) -> Option<f64> {
     m.stats.k.map(|k| k.0)
-}
-
-fn site_row(site: &SiteInfo, g: &GroupMean, t: &GroupMean, ok: bool) -> Vec<String> {
-    vec![
-        site.site.clone(),
-        fixed(site.position, 3),
-        g.stats.n.to_string(),
-        g.planes.to_string(),
-        azimuth_or_empty(g.stats.mean.map(|m| m.dec), 1),
-        fixed_or_empty(g.stats.mean.map(|m| m.inc), 1),
-        fixed_or_empty(k_of(g), 1),
-        fixed_or_empty(g.stats.alpha, 1),
-        azimuth_or_empty(t.stats.mean.map(|m| m.dec), 1),
-        fixed_or_empty(t.stats.mean.map(|m| m.inc), 1),
-        fixed_or_empty(k_of(t), 1),
-        fixed_or_empty(t.stats.alpha, 1),
-        yes_no(ok),
-    ]
 }
 
 fn used_site(inp: &Inputs, idx: usize, g: &GroupMean, t: &GroupMean) -> UsedSite {
