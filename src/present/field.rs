@@ -199,7 +199,7 @@ struct ContextView<'a> {
 
 /// The present dipole of `model` beside the paleointensity record named `record`.
 pub fn field_context(model: &FieldModel, record: &str, c: &FieldContext) -> Presentation {
-    let window_years = c.window_myr * 1e6;
+    let window_years = crate::units::myr_to_years(c.window_myr);
     let mut notes = vec![
         format!("A comparison of a model of today's field with a record of the past, not a forecast: the record's changes are taken over windows as long as the model's span ({window_years:.0} years), but the record's ages are {:.4} Myr apart (median) and records are smoothed, which hides changes as fast as today's; an extreme percentile of the present change is expected for that reason alone.", c.record_spacing_myr),
         format!("drops_like_present counts separate episodes of the record with a {} of {:.2} % or more over {window_years:.0} years.", if c.present_change < 0.0 { "fall" } else { "rise" }, c.present_change.abs()),

@@ -14,8 +14,8 @@ mod truth;
 pub use accumulation::{parse_rates, AccumulationHistory, AccumulationSpan, RateSegment};
 pub use planning::{catch_probability, chron_thickness, sampling_plan, PlanRow, PLAN_LENGTHS};
 pub use project::{
-    sampling_csv, settings_text, steps_csv, timescale_csv, Setting, SettingValue, Settings, PICKS_FILE, SAMPLING_FILE,
-    SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+    project_files, sampling_csv, settings_text, steps_csv, timescale_csv, Setting, SettingValue, Settings, PICKS_FILE,
+    SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
 };
 pub use section::{
     simulate_section, treatment_defaults, Overprint, RecordedChron, SectionModel, SyntheticLevel, SyntheticSection,

@@ -13,6 +13,7 @@
 //! | `truth.json` | the model behind a synthetic folder (written by `simulate` only) | no |
 
 use super::section::{SectionModel, SyntheticSection};
+use super::{truth_document, TimeScaleSource};
 use crate::error::TableError;
 use crate::model::{StratAxis, TimeScale, Treatment};
 use crate::numbers::{fixed, scientific};
@@ -173,6 +174,35 @@ fn strip_comment(line: &str) -> &str {
         }
     }
     line
+}
+
+/// Every file of the project folder of a synthetic section `sec` drawn from `model` over `ts`
+/// (from `source`) with `seed`: (file name, text) for the steps, sampling, time scale, settings
+/// and truth files, in that order. Each file says in its comment lines that it is synthetic.
+pub fn project_files(
+    model: &SectionModel,
+    sec: &SyntheticSection,
+    ts: &TimeScale,
+    source: &TimeScaleSource,
+    seed: u64,
+) -> serde_json::Result<Vec<(&'static str, String)>> {
+    let what = format!(
+        "Synthetic data written by lodestone simulate section (seed {seed}): a model, not measurements.\nLocality {:.4}, {:.4}; {} levels, {} specimens each.",
+        model.site.lat,
+        model.site.lon,
+        sec.levels.len(),
+        model.specimens
+    );
+    let source_text = serde_json::to_string(source)?;
+    let ts_comment = format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source_text}");
+    let settings_comment = "Settings for lodestone section (flat key = value; see the README, 'Project folder').";
+    Ok(vec![
+        (STEPS_FILE, steps_csv(model, sec, &what)),
+        (SAMPLING_FILE, sampling_csv(model, sec, &what)),
+        (TIMESCALE_FILE, timescale_csv(ts, &ts_comment)),
+        (SETTINGS_FILE, settings_text(seed, settings_comment)),
+        (TRUTH_FILE, serde_json::to_string_pretty(&truth_document(model, sec, ts, source, seed))? + "\n"),
+    ])
 }
 
 /// The text of a timescale table (`name` column only when a chron is named). Ages with six decimals

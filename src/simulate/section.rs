@@ -288,6 +288,12 @@ impl SectionModel {
         if self.treatment == Treatment::Nrm {
             return Err(not_stepwise());
         }
+        if self.site_prefix.contains([',', '"', '\n', '\r']) {
+            return Err(Error::Invalid(format!(
+                "the site prefix {:?} may not contain commas, quotes or line breaks (it names the sites in the tables)",
+                self.site_prefix
+            )));
+        }
         if self.steps.len() < 2 {
             return Err(Error::TooFew { what: "demagnetization", needed: 2, got: self.steps.len(), unit: "steps" });
         }

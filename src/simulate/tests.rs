@@ -315,6 +315,30 @@ fn project_tables_pass_the_readers_and_repeat_byte_for_byte() {
 }
 
 #[test]
+fn the_project_folder_holds_every_file_and_the_truth_reads_back() {
+    let m = demo_model();
+    let ts = fixed_scale();
+    let sec = simulate_section(&m, &ts, &MonteCarlo::new(21, 0)).unwrap();
+    let source = TimeScaleSource::File("scales/ferrow.csv".into());
+    let files = project_files(&m, &sec, &ts, &source, 21).unwrap();
+    let names: Vec<_> = files.iter().map(|f| f.0).collect();
+    assert_eq!(names, [STEPS_FILE, SAMPLING_FILE, TIMESCALE_FILE, SETTINGS_FILE, TRUTH_FILE]);
+    assert_eq!(
+        files[0].1,
+        steps_csv(&m, &sec, &files[0].1.lines().take(2).map(|l| &l[2..]).collect::<Vec<_>>().join("\n"))
+    );
+    assert!(files[2].1.contains(r#"Source: {"file":"scales/ferrow.csv"}"#), "{}", files[2].1);
+    let back = TimeScale::from_table(&Table::parse(TIMESCALE_FILE, files[2].1.as_bytes()).unwrap()).unwrap();
+    assert_eq!(back.chrons.len(), ts.chrons.len());
+    let truth: serde_json::Value = serde_json::from_str(&files[4].1).unwrap();
+    assert_eq!(truth["seed"], 21);
+    assert_eq!(truth["levels"].as_array().unwrap().len(), sec.levels.len());
+    assert_eq!(truth["specimens"].as_array().unwrap().len(), sec.specimens.len());
+    assert_eq!(truth["model"]["treatment"], "thermal");
+    assert_eq!(truth["timescale"]["file"], "scales/ferrow.csv");
+}
+
+#[test]
 fn section_edges_are_refused_with_reasons() {
     let ts = fixed_scale();
     let mc = MonteCarlo::new(1, 0);
@@ -325,6 +349,8 @@ fn section_edges_are_refused_with_reasons() {
     assert!(bad(SectionModel { steps: vec![0.0, 300.0, 600.0], ..demo_model() }).contains("removes the whole"));
     assert!(bad(SectionModel { steps: vec![10.0, 300.0], ..demo_model() }).contains("start at 0"));
     assert!(bad(SectionModel { kappa: 0.0, ..demo_model() }).contains("kappa"));
+    assert!(bad(SectionModel { site_prefix: "K,R".into(), ..demo_model() }).contains("site prefix"));
+    assert!(bad(SectionModel { treatment: Treatment::Nrm, ..demo_model() }).contains("stepwise"));
     // One level, one specimen, flat bedding, no overprint, no noise: still fine.
     let one =
         SectionModel { spacing: 40.0, specimens: 1, bedding: vec![], overprint: None, noise: 0.0, ..demo_model() };

@@ -2,14 +2,13 @@
 
 use super::super::{write_atomic, Ctx, Presentation};
 use super::RenewalArgs;
-use anyhow::{bail, Context, Result};
+use anyhow::{Context, Result};
 use clap::{Args, ValueEnum};
 use lodestone::model::{StratAxis, TimeScale, Treatment};
 use lodestone::present::simulate as present;
 use lodestone::simulate::{
-    parse_rates, sampling_csv, settings_text, simulate_section, simulate_timescale, steps_csv, timescale_csv,
-    treatment_defaults, truth_document, Overprint, SectionModel, SyntheticSection, TimeScaleSource, Unblocking,
-    SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+    parse_rates, project_files, simulate_section, simulate_timescale, treatment_defaults, Overprint, SectionModel,
+    SyntheticSection, TimeScaleSource, Unblocking,
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::Table;
@@ -156,9 +155,6 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
             })
         }
     };
-    if a.site_prefix.contains([',', '"', '\n']) {
-        bail!("--site-prefix may not contain commas, quotes or line breaks");
-    }
     Ok(SectionModel {
         site: GeoPoint::new(a.lat, a.lon)?,
         base_age: a.base_age,
@@ -213,30 +209,7 @@ fn write_folder(
     ctx: &mut Ctx,
 ) -> Result<Vec<&'static str>> {
     crate::cli::prepare_out_dir(&a.out, a.force, &ctx.inputs)?;
-    let what = format!(
-        "Synthetic data written by lodestone simulate section (seed {seed}): a model, not measurements.\nLocality {:.4}, {:.4}; {} levels, {} specimens each.",
-        model.site.lat,
-        model.site.lon,
-        sec.levels.len(),
-        model.specimens
-    );
-    let source_text = serde_json::to_string(source)?;
-    let files = [
-        (STEPS_FILE, steps_csv(model, sec, &what)),
-        (SAMPLING_FILE, sampling_csv(model, sec, &what)),
-        (
-            TIMESCALE_FILE,
-            timescale_csv(
-                ts,
-                &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source_text}"),
-            ),
-        ),
-        (
-            SETTINGS_FILE,
-            settings_text(seed, "Settings for lodestone section (flat key = value; see the README, 'Project folder')."),
-        ),
-        (TRUTH_FILE, serde_json::to_string_pretty(&truth_document(model, sec, ts, source, seed))? + "\n"),
-    ];
+    let files = project_files(model, sec, ts, source, seed)?;
     for (name, text) in &files {
         write_atomic(&a.out.join(name), text.as_bytes(), &ctx.inputs)?;
     }
