@@ -3,7 +3,8 @@
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use lodestone::model::{Polarity, StratAxis, TimeScale};
-use lodestone::simulate::{simulate_timescale, FirstPolarity, RenewalModel, TimeScaleModel};
+use lodestone::reversals::{Fitted, Model};
+use lodestone::simulate::{simulate_timescale, FirstPolarity, TimeScaleModel};
 use lodestone::strat::{
     build_zones, classify, correlate, CorrelateOptions, ZoneColumn, DEFAULT_MIN_LEVELS, DEFAULT_THRESHOLD,
 };
@@ -13,7 +14,7 @@ use std::hint::black_box;
 /// time across the 40 chrons from the 100th on, at 12 m/Myr, 12 levels per chron on average.
 fn inputs() -> (TimeScale, ZoneColumn) {
     let m = TimeScaleModel {
-        model: RenewalModel::with_mean("gamma", 0.25, Some(1.5)).unwrap(),
+        model: Fitted::with_mean(Model::Gamma, 0.25, Some(1.5)).unwrap(),
         young: 0.0,
         span: 80.0,
         first: FirstPolarity::Fixed(Polarity::Normal),

@@ -1,18 +1,18 @@
 //! Timing of the synthetic generators: a renewal time scale and a sampled section.
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use lodestone::model::{Polarity, StratAxis};
+use lodestone::model::{Polarity, StratAxis, Treatment};
 use lodestone::montecarlo::MonteCarlo;
+use lodestone::reversals::{Fitted, Model};
 use lodestone::simulate::{
-    parse_rates, simulate_section, simulate_timescale, FirstPolarity, RenewalModel, SectionModel, TimeScaleModel,
-    Treatment,
+    parse_rates, simulate_section, simulate_timescale, treatment_defaults, FirstPolarity, SectionModel, TimeScaleModel,
 };
 use lodestone::sphere::{Bedding, GeoPoint};
 use std::hint::black_box;
 
 fn scale(span: f64) -> TimeScaleModel {
     TimeScaleModel {
-        model: RenewalModel::with_mean("gamma", 0.25, Some(1.5)).unwrap(),
+        model: Fitted::with_mean(Model::Gamma, 0.25, Some(1.5)).unwrap(),
         young: 0.0,
         span,
         first: FirstPolarity::Fixed(Polarity::Normal),
@@ -36,8 +36,8 @@ fn benches(c: &mut Criterion) {
         level_kappa: Some(50.0),
         bedding: vec![Bedding::from_dip_direction(120.0, 20.0, false).unwrap()],
         treatment: Treatment::Thermal,
-        steps: Treatment::Thermal.default_steps(),
-        characteristic: Treatment::Thermal.default_characteristic(),
+        steps: treatment_defaults(Treatment::Thermal).unwrap().steps,
+        characteristic: treatment_defaults(Treatment::Thermal).unwrap().characteristic,
         overprint: None,
         moment: 1e-8,
         moment_sigma: 0.25,

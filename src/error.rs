@@ -190,6 +190,15 @@ pub fn check_range(name: &'static str, value: f64, lo: f64, hi: f64, range: &'st
     }
 }
 
+/// Check that `value` is finite and above zero.
+pub fn check_positive(name: &'static str, value: f64) -> Result<f64> {
+    if value > 0.0 && value.is_finite() {
+        Ok(value)
+    } else {
+        Err(Error::OutOfRange { name, value, range: "(0, ∞)" })
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -62,11 +62,12 @@
 //! | reversal rate through time, Laplace trend test, clustering test | [`reversals::windowed_rate`], [`reversals::laplace_test`], [`reversals::clustering_test`] |
 //! | interval-length, hazard and rate figures | [`figures::IntervalFigure`], [`figures::HazardFigure`], [`figures::RateFigure`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |
-//! | synthetic time scale from a renewal model | [`simulate::simulate_timescale`], [`simulate::RenewalModel`] |
+//! | synthetic time scale from a renewal model (stated by its mean and shape: the fitted models' own type) | [`simulate::simulate_timescale`], [`reversals::Fitted::from_settings`] |
 //! | accumulation-rate history, height ↔ age | [`simulate::AccumulationHistory`], [`simulate::parse_rates`] |
 //! | synthetic section: levels, specimens, two-component demagnetization | [`simulate::simulate_section`] |
 //! | probability that a sampling grid catches a chron | [`simulate::catch_probability`] |
-//! | project folder: file names, settings file, table writers | [`simulate::Settings`], [`simulate::steps_csv`] |
+//! | project folder: file names, settings file, table writers, every file of a synthetic folder | [`simulate::Settings`], [`simulate::steps_csv`], [`simulate::project_files`] |
+//! | demagnetization kind; a synthetic section's default schedule | [`model::Treatment`], [`simulate::treatment_defaults`] |
 //! | whole chain on a project folder: tables, figures, HTML report | [`section::run`], [`section::SectionRun`] |
 //! | Kent (1982) elliptical confidence region; bootstrap ellipse (Tauxe et al. 1991) | [`dirstats::kent_ellipse`], [`dirstats::bootstrap_ellipse`] |
 //! | TK03 giant-Gaussian-process field model, simulated; Schmidt Legendre functions | [`dirstats::Tk03`], [`dirstats::schmidt_legendre`] |
@@ -79,8 +80,9 @@
 //! | a column from a zones or levels table (the stage `correlate` and Python share) | [`strat::read_column`] |
 //! | the truth file of a synthetic project folder | [`simulate::truth_document`] |
 //! | errors: kinds with the offending value; kinds of table faults | [`Error`], [`TableError`], [`TableFault`] |
-//! | accumulation-rate units (cm/kyr ↔ m/Myr) | [`units::cm_per_kyr_to_m_per_myr`], [`units::m_per_myr_to_cm_per_kyr`] |
-//! | the number formatter of every table, CSV file and report | [`numbers::fixed`], [`numbers::push_csv`] |
+//! | units: accumulation rates (cm/kyr ↔ m/Myr), years ↔ Myr | [`units::cm_per_kyr_to_m_per_myr`], [`units::m_per_myr_to_cm_per_kyr`], [`units::years_to_myr`] |
+//! | the number formatter of every table, CSV file and report | [`numbers::fixed`], [`numbers::push_csv`], [`numbers::scientific`] |
+//! | presenters: the present field, synthetic data, a run on a project folder | [`present::field`], [`present::simulate`], [`present::section_run`] |
 //!
 //! ## Where things go
 //! A computation lives in the module of its concept (the table above), with `# Units`, `# Formula` and

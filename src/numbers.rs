@@ -25,6 +25,12 @@ pub fn fixed(x: f64, decimals: usize) -> String {
     s
 }
 
+/// `x` in scientific notation with `digits` digits after the point (`1.2345e22`), for quantities
+/// that span many orders of magnitude (dipole moments, areas).
+pub fn scientific(x: f64, digits: usize) -> String {
+    format!("{x:.digits$e}")
+}
+
 /// An optional number as [`fixed`] writes it, or an empty string for `None`.
 pub fn fixed_or_empty(x: Option<f64>, decimals: usize) -> String {
     x.map_or(String::new(), |v| fixed(v, decimals))
@@ -108,6 +114,14 @@ mod tests {
         assert_eq!(fixed(f64::NEG_INFINITY, 3), "-inf");
         assert_eq!(fixed_or_empty(None, 2), "");
         assert_eq!(fixed_or_empty(Some(2.5), 0), "2");
+    }
+
+    #[test]
+    fn scientific_form() {
+        // The Earth's dipole moment is about 8e22 A·m² (common practice); four digits after the point.
+        assert_eq!(scientific(7.7123456e22, 4), "7.7123e22");
+        assert_eq!(scientific(1.0e-3, 2), "1.00e-3");
+        assert_eq!(scientific(f64::INFINITY, 4), "inf");
     }
 
     #[test]

@@ -1,5 +1,7 @@
 //! Units: the conversions between the units of the interface, in one place.
 //!
+//! Times of the present field are in years, those of the rock record in Myr (ages in Ma).
+//!
 //! Accumulation rates are given to people in cm/kyr (common practice in magnetostratigraphy) and used
 //! inside as m/Myr, since positions are in metres and ages in Ma: 1 cm/kyr = 0.01 m / 0.001 Myr = 10 m/Myr.
 
@@ -26,9 +28,30 @@ pub fn m_per_myr_to_cm_per_kyr(rate: f64) -> f64 {
     rate * 0.1
 }
 
+/// Years in one Myr.
+pub const YEARS_PER_MYR: f64 = 1e6;
+
+/// A length of time in years as Myr: `years` / 10⁶.
+pub fn years_to_myr(years: f64) -> f64 {
+    years / YEARS_PER_MYR
+}
+
+/// A length of time in Myr as years: `myr` × 10⁶.
+pub fn myr_to_years(myr: f64) -> f64 {
+    myr * YEARS_PER_MYR
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn years_and_myr() {
+        // Definition: 1 Myr = 10⁶ years (the model's span of 125 years is 0.000125 Myr).
+        assert_eq!(years_to_myr(125.0), 0.000125);
+        assert_eq!(myr_to_years(0.05), 50_000.0);
+        assert!((myr_to_years(years_to_myr(2025.0)) - 2025.0).abs() < 1e-9);
+    }
 
     #[test]
     fn the_conversions_are_inverse_and_match_the_definition() {

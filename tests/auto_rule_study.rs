@@ -6,11 +6,11 @@
 //! records it).
 
 use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule};
-use lodestone::model::{Anchor, FitKind};
+use lodestone::model::{Anchor, FitKind, Treatment};
 use lodestone::model::{Polarity, SpecimenSteps, StepRecord, StratAxis, TimeScale};
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::simulate::{
-    parse_rates, simulate_section, Overprint, SectionModel, SyntheticSpecimen, Treatment, Unblocking,
+    parse_rates, simulate_section, treatment_defaults, Overprint, SectionModel, SyntheticSpecimen, Unblocking,
 };
 use lodestone::sphere::{Direction, GeoPoint};
 use lodestone::table::{read_steps, Table};
@@ -127,8 +127,8 @@ fn model(treatment: Treatment, angle: f64, ratio: f64, overprint: Unblocking, no
         level_kappa: None,
         bedding: vec![],
         treatment,
-        steps: treatment.default_steps(),
-        characteristic: treatment.default_characteristic(),
+        steps: treatment_defaults(treatment).unwrap().steps,
+        characteristic: treatment_defaults(treatment).unwrap().characteristic,
         overprint: None,
         moment: 1e-8,
         moment_sigma: 0.25,
@@ -148,12 +148,14 @@ struct Scenario {
 
 fn scenarios() -> Vec<Scenario> {
     let mut out = Vec::new();
-    for treatment in [Treatment::Thermal, Treatment::Af] {
-        let (t_name, wide) = match treatment {
-            Treatment::Thermal => ("thermal", Unblocking { low: 0.0, high: 450.0 }),
-            Treatment::Af => ("af", Unblocking { low: 0.0, high: 50.0 }),
-        };
-        for (o_name, over) in [("usual", treatment.default_overprint()), ("overlapping", wide)] {
+    let kinds = [
+        (Treatment::Thermal, Unblocking { low: 0.0, high: 450.0 }),
+        (Treatment::Af, Unblocking { low: 0.0, high: 50.0 }),
+    ];
+    for (treatment, wide) in kinds {
+        let t_name = treatment.code();
+        let usual = treatment_defaults(treatment).unwrap().overprint;
+        for (o_name, over) in [("usual", usual), ("overlapping", wide)] {
             for angle in [10.0, 25.0, 40.0] {
                 for (ratio, noise) in [(0.6, 0.005), (2.0, 0.005), (0.6, 0.02)] {
                     out.push(Scenario {

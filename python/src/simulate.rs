@@ -2,7 +2,8 @@
 
 use crate::{arg_error, run_detached};
 use lodestone::model::Polarity;
-use lodestone::simulate::{simulate_timescale as lib_simulate, FirstPolarity, RenewalModel, TimeScaleModel};
+use lodestone::reversals::{Fitted, Model};
+use lodestone::simulate::{simulate_timescale as lib_simulate, FirstPolarity, TimeScaleModel};
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 
@@ -32,7 +33,7 @@ pub fn simulate_timescale<'py>(
     let model = model.to_string();
     let (m, ts) = run_detached(py, None, || {
         let m = TimeScaleModel {
-            model: RenewalModel::from_settings(&model, mean_interval, shape)?,
+            model: Fitted::from_settings(Model::from_name(&model)?, mean_interval, shape)?,
             young,
             span,
             first,

@@ -1,12 +1,11 @@
 //! `lodestone section`: the whole chain on a project folder, written as tables, figures and an HTML
 //! report into an output folder.
 
-use super::{Cell, Ctx, Presentation, Sheet};
+use super::{Ctx, Presentation};
 use anyhow::{bail, Context, Result};
 use clap::Args;
-use lodestone::section::{run_with_truth, Project, ProjectFile, SectionRun};
+use lodestone::section::{run_with_truth, Project, ProjectFile};
 use lodestone::simulate::{PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE};
-use serde_json::json;
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 
@@ -65,46 +64,7 @@ pub fn run_project(
     for f in &files {
         super::write_atomic(&out.join(&f.name), &f.bytes, &ctx.inputs)?;
     }
-    Ok(summary(&res, &project.title, out, files.len()))
-}
-
-fn summary(res: &SectionRun, title: &str, out: &Path, n_files: usize) -> Presentation {
-    let mut sec = Sheet::new(&format!("Section {title}: stages"), &["stage", "ran", "result"]);
-    for st in &res.stages {
-        sec.rows.push(vec![
-            Cell::Text(st.name.clone()),
-            Cell::Text(if st.ran { "yes" } else { "no" }.into()),
-            Cell::Text(st.result.clone()),
-        ]);
-    }
-    let mut notes: Vec<String> = res.warnings.clone();
-    if !res.rejected.is_empty() {
-        notes.push(format!(
-            "{} specimen(s) or site(s) rejected: see tables/rejected.csv and the report.",
-            res.rejected.len()
-        ));
-    }
-    notes.extend(res.cautions.iter().cloned());
-    notes.push(format!("Wrote {n_files} files to {} (open {}).", out.display(), out.join("report.html").display()));
-    Presentation {
-        json: json!({
-            "project": title,
-            "out": out.display().to_string(),
-            "report": out.join("report.html").display().to_string(),
-            "settings": res.settings,
-            "stages": res.stages,
-            "headline": res.headline,
-            "rejected": res.rejected,
-            "warnings": res.warnings,
-            "cautions": res.cautions,
-            "tables": res.tables.iter().map(|t| format!("tables/{}.csv", t.stem)).collect::<Vec<_>>(),
-            "figures": res.figures.iter().map(|f| format!("figures/{}", f.stem)).collect::<Vec<_>>(),
-        }),
-        sheets: vec![sec],
-        main_sheet: 0,
-        cautions: vec![],
-        notes,
-    }
+    Ok(lodestone::present::section_run::section_run(&res, &project.title, out, files.len()))
 }
 
 pub fn run_cli(a: SectionArgs, ctx: &mut Ctx) -> Result<Presentation> {

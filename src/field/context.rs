@@ -156,7 +156,7 @@ pub fn field_context(
     }
     let (m0, m1) = (moment(0)?, moment(last)?);
     let change = 100.0 * (m1 - m0) / m0;
-    let w = (model.epochs[last] - model.epochs[0]) / 1e6;
+    let w = crate::units::years_to_myr(model.epochs[last] - model.epochs[0]);
     let top = *record.ages.last().expect("two ages");
     let starts: Vec<f64> = record.ages.iter().copied().filter(|&t| t + w <= top).collect();
     if starts.len() < 2 {

@@ -13,6 +13,14 @@ pub enum Treatment {
 }
 
 impl Treatment {
+    /// The contract's treatment code, as the steps table writes it (`nrm`, `af`, `thermal`).
+    pub fn code(self) -> &'static str {
+        match self {
+            Treatment::Nrm => "nrm",
+            Treatment::Af => "af",
+            Treatment::Thermal => "thermal",
+        }
+    }
     /// Unit of the step value, for labels.
     pub fn unit(self) -> &'static str {
         match self {

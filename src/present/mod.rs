@@ -12,7 +12,10 @@
 
 pub mod cautions;
 mod cell;
+pub mod field;
+pub mod section_run;
 mod sheet;
+pub mod simulate;
 mod write;
 
 pub mod column;

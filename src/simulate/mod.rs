@@ -12,18 +12,19 @@ mod timescale;
 mod truth;
 
 pub use accumulation::{parse_rates, AccumulationHistory, AccumulationSpan, RateSegment};
-pub use planning::{catch_probability, chron_thickness};
+pub use planning::{catch_probability, chron_thickness, sampling_plan, PlanRow, PLAN_LENGTHS};
 pub use project::{
-    sampling_csv, settings_text, steps_csv, timescale_csv, Setting, SettingValue, Settings, PICKS_FILE, SAMPLING_FILE,
-    SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+    project_files, sampling_csv, settings_text, steps_csv, timescale_csv, Setting, SettingValue, Settings, PICKS_FILE,
+    SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
 };
 pub use section::{
-    simulate_section, Overprint, RecordedChron, SectionModel, SyntheticLevel, SyntheticSection, SyntheticSpecimen,
-    SyntheticStep, Treatment, TrueTie, Unblocking, LEVEL_STREAM, MAX_SPECIMENS, SPECIMEN_STREAM,
+    simulate_section, treatment_defaults, Overprint, RecordedChron, SectionModel, SyntheticLevel, SyntheticSection,
+    SyntheticSpecimen, SyntheticStep, TreatmentDefaults, TrueTie, Unblocking, LEVEL_STREAM, MAX_SPECIMENS,
+    SPECIMEN_STREAM,
 };
 pub use timescale::{
-    simulate_timescale, FirstPolarity, IntervalSampler, RenewalModel, TimeScaleModel, AGE_QUANTUM, BURN_IN_INTERVALS,
-    DEFAULT_SHAPE, MODEL_NAMES, TIMESCALE_STREAM,
+    simulate_timescale, FirstPolarity, TimeScaleModel, TimeScaleSource, AGE_QUANTUM, BURN_IN_INTERVALS,
+    TIMESCALE_STREAM,
 };
 pub use truth::truth_document;
 

@@ -26,6 +26,42 @@ pub fn chron_thickness(length: f64, rate: f64) -> f64 {
     crate::units::cm_per_kyr_to_m_per_myr(rate) * length
 }
 
+/// Chron lengths of a sampling plan, Myr: from 5 kyr (shorter than most resolved subchrons) to
+/// 0.2 Myr.
+pub const PLAN_LENGTHS: [f64; 6] = [0.005, 0.01, 0.02, 0.05, 0.1, 0.2];
+
+/// One row of a sampling plan: a chron length at a rate, its thickness and the chances that a grid
+/// of levels catches it once and twice.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct PlanRow {
+    /// Chron length, Myr.
+    pub length: f64,
+    /// Accumulation rate, cm/kyr.
+    pub rate: f64,
+    /// Thickness of the chron, m ([`chron_thickness`]).
+    pub thickness: f64,
+    /// Chance that it holds at least one level ([`catch_probability`]).
+    pub p_one: f64,
+    /// Chance that it holds at least two levels.
+    pub p_two: f64,
+}
+
+/// The sampling plan of levels every `spacing` m at each of `rates` (cm/kyr): one row per rate and
+/// each of [`PLAN_LENGTHS`], rate by rate.
+pub fn sampling_plan(spacing: f64, rates: &[f64]) -> Vec<PlanRow> {
+    let row = |rate: f64, length: f64| {
+        let thickness = chron_thickness(length, rate);
+        PlanRow {
+            length,
+            rate,
+            thickness,
+            p_one: catch_probability(thickness, spacing, 1),
+            p_two: catch_probability(thickness, spacing, 2),
+        }
+    };
+    rates.iter().flat_map(|&rate| PLAN_LENGTHS.iter().map(move |&length| row(rate, length))).collect()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -44,6 +80,15 @@ mod tests {
         assert_eq!(catch_probability(0.5, 1.0, 0), 1.0);
         // 2 cm/kyr for 0.05 Myr = 1 m (unit conversion, 1 cm/kyr = 10 m/Myr).
         assert!((chron_thickness(0.05, 2.0) - 1.0).abs() < 1e-12);
+        // The plan at 2 cm/kyr on a 1 m grid: 0.05 Myr is 1 m (caught once for sure, twice never);
+        // 0.1 Myr is 2 m (caught twice for sure); rows rate by rate.
+        let plan = sampling_plan(1.0, &[2.0, 4.0]);
+        assert_eq!(plan.len(), 2 * PLAN_LENGTHS.len());
+        let at = |rate: f64, length: f64| *plan.iter().find(|r| r.rate == rate && r.length == length).unwrap();
+        assert_eq!((at(2.0, 0.05).p_one, at(2.0, 0.05).p_two), (1.0, 0.0));
+        assert_eq!((at(2.0, 0.1).p_one, at(2.0, 0.1).p_two), (1.0, 1.0));
+        assert!((at(4.0, 0.02).thickness - 0.8).abs() < 1e-12);
+        assert!((plan[6].rate, plan[6].length) == (4.0, 0.005));
         // Simulation: drop an interval of 1.35 m at a uniform offset on a 0.5 m grid and count.
         let (d, s) = (1.35, 0.5);
         let counts = MonteCarlo::new(5, 4000).run("grid", 0, |rng, _| {

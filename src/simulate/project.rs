@@ -13,8 +13,10 @@
 //! | `truth.json` | the model behind a synthetic folder (written by `simulate` only) | no |
 
 use super::section::{SectionModel, SyntheticSection};
+use super::{truth_document, TimeScaleSource};
 use crate::error::TableError;
-use crate::model::{StratAxis, TimeScale};
+use crate::model::{StratAxis, TimeScale, Treatment};
+use crate::numbers::{fixed, scientific};
 use std::collections::BTreeMap;
 use std::fmt::Write as _;
 
@@ -174,14 +176,33 @@ fn strip_comment(line: &str) -> &str {
     line
 }
 
-/// Format a number with fixed decimals, without a negative zero.
-fn fx(x: f64, d: usize) -> String {
-    let s = format!("{x:.d$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
-        s[1..].to_string()
-    } else {
-        s
-    }
+/// Every file of the project folder of a synthetic section `sec` drawn from `model` over `ts`
+/// (from `source`) with `seed`: (file name, text) for the steps, sampling, time scale, settings
+/// and truth files, in that order. Each file says in its comment lines that it is synthetic.
+pub fn project_files(
+    model: &SectionModel,
+    sec: &SyntheticSection,
+    ts: &TimeScale,
+    source: &TimeScaleSource,
+    seed: u64,
+) -> serde_json::Result<Vec<(&'static str, String)>> {
+    let what = format!(
+        "Synthetic data written by lodestone simulate section (seed {seed}): a model, not measurements.\nLocality {:.4}, {:.4}; {} levels, {} specimens each.",
+        model.site.lat,
+        model.site.lon,
+        sec.levels.len(),
+        model.specimens
+    );
+    let source_text = serde_json::to_string(source)?;
+    let ts_comment = format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source_text}");
+    let settings_comment = "Settings for lodestone section (flat key = value; see the README, 'Project folder').";
+    Ok(vec![
+        (STEPS_FILE, steps_csv(model, sec, &what)),
+        (SAMPLING_FILE, sampling_csv(model, sec, &what)),
+        (TIMESCALE_FILE, timescale_csv(ts, &ts_comment)),
+        (SETTINGS_FILE, settings_text(seed, settings_comment)),
+        (TRUTH_FILE, serde_json::to_string_pretty(&truth_document(model, sec, ts, source, seed))? + "\n"),
+    ])
 }
 
 /// The text of a timescale table (`name` column only when a chron is named). Ages with six decimals
@@ -197,7 +218,7 @@ pub fn timescale_csv(ts: &TimeScale, comment: &str) -> String {
         if named {
             let _ = write!(s, "{},", c.name.as_deref().unwrap_or(""));
         }
-        let _ = writeln!(s, "{},{},{}", fx(c.young, 6), fx(c.old, 6), c.polarity.code());
+        let _ = writeln!(s, "{},{},{}", fixed(c.young, 6), fixed(c.old, 6), c.polarity.code());
     }
     s
 }
@@ -219,20 +240,20 @@ pub fn steps_csv(model: &SectionModel, sec: &SyntheticSection, comment: &str) ->
     let _ = writeln!(s, "specimen,site,step,treatment,dec,inc,moment,{}", model.axis.column());
     for sp in &sec.specimens {
         let lv = &sec.levels[sp.level];
-        let pos = fx(position(model, lv.height, lv.depth), 3);
+        let pos = fixed(position(model, lv.height, lv.depth), 3);
         for st in &sp.steps {
-            let t = if st.step == 0.0 { "nrm" } else { model.treatment.code() };
+            let t = if st.step == 0.0 { Treatment::Nrm } else { model.treatment }.code();
             // An exactly zero measured vector has no direction: written as 0, 0 with zero moment.
             let d = st.direction.unwrap_or(crate::sphere::Direction { dec: 0.0, inc: 0.0 });
             let _ = writeln!(
                 s,
-                "{},{},{},{t},{},{},{:.4e},{pos}",
+                "{},{},{},{t},{},{},{},{pos}",
                 sp.name,
                 lv.site,
-                fx(st.step, 1).trim_end_matches(".0"),
-                fx(d.dec, 2),
-                fx(d.inc, 2),
-                st.moment
+                fixed(st.step, 1).trim_end_matches(".0"),
+                fixed(d.dec, 2),
+                fixed(d.inc, 2),
+                scientific(st.moment, 4)
             );
         }
     }
@@ -249,16 +270,16 @@ pub fn sampling_csv(model: &SectionModel, sec: &SyntheticSection, comment: &str)
     let _ = writeln!(s, "site,lat,lon,{},bed_dip_dir,bed_dip", model.axis.column());
     for lv in &sec.levels {
         let (dd, dip) = match lv.bedding {
-            Some(b) => (fx(b.dip_dir, 1), fx(b.dip, 1)),
+            Some(b) => (fixed(b.dip_dir, 1), fixed(b.dip, 1)),
             None => (String::new(), String::new()),
         };
         let _ = writeln!(
             s,
             "{},{},{},{},{dd},{dip}",
             lv.site,
-            fx(model.site.lat, 4),
-            fx(model.site.lon, 4),
-            fx(position(model, lv.height, lv.depth), 3)
+            fixed(model.site.lat, 4),
+            fixed(model.site.lon, 4),
+            fixed(position(model, lv.height, lv.depth), 3)
         );
     }
     s

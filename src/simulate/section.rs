@@ -3,7 +3,7 @@
 
 use super::accumulation::{AccumulationHistory, RateSegment};
 use crate::error::{Error, Result};
-use crate::model::{Polarity, StratAxis, TimeScale};
+use crate::model::{Polarity, StratAxis, TimeScale, Treatment};
 use crate::montecarlo::{replicate_rng, McRng, MonteCarlo};
 use crate::poles::dipole_inclination;
 use crate::sphere::{Bedding, Direction, GeoPoint, Vec3};
@@ -15,47 +15,41 @@ pub const LEVEL_STREAM: u64 = 0x7153_0002;
 /// Random stream of the specimens.
 pub const SPECIMEN_STREAM: u64 = 0x7153_0003;
 
-/// Kind of stepwise demagnetization.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
-#[serde(rename_all = "lowercase")]
-pub enum Treatment {
-    /// Heating, steps in °C.
-    Thermal,
-    /// Alternating field, steps in mT.
-    Af,
+/// The default schedule of a demagnetization kind: its steps and where its components unblock.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TreatmentDefaults {
+    /// Steps, °C or mT, starting with 0 (the NRM).
+    pub steps: Vec<f64>,
+    /// Unblocking range of the characteristic component.
+    pub characteristic: Unblocking,
+    /// Unblocking range of the overprint.
+    pub overprint: Unblocking,
 }
 
-impl Treatment {
-    /// The contract's treatment code (`thermal` or `af`).
-    pub fn code(self) -> &'static str {
-        match self {
-            Treatment::Thermal => "thermal",
-            Treatment::Af => "af",
-        }
-    }
-    /// Default steps (first step 0 = NRM): °C or mT.
-    pub fn default_steps(self) -> Vec<f64> {
-        match self {
-            Treatment::Thermal => {
-                vec![0.0, 100.0, 150.0, 200.0, 250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 530.0, 560.0]
-            }
-            Treatment::Af => vec![0.0, 5.0, 10.0, 15.0, 20.0, 25.0, 30.0, 40.0, 50.0, 60.0, 80.0, 100.0],
-        }
-    }
-    /// Default unblocking range of the characteristic component.
-    pub fn default_characteristic(self) -> Unblocking {
-        match self {
-            Treatment::Thermal => Unblocking { low: 250.0, high: 590.0 },
-            Treatment::Af => Unblocking { low: 10.0, high: 150.0 },
-        }
-    }
-    /// Default unblocking range of the overprint.
-    pub fn default_overprint(self) -> Unblocking {
-        match self {
-            Treatment::Thermal => Unblocking { low: 0.0, high: 300.0 },
-            Treatment::Af => Unblocking { low: 0.0, high: 25.0 },
-        }
-    }
+/// The default schedule of a synthetic section demagnetized by `t` (thermal or AF; a section is
+/// not "demagnetized" by the NRM alone, which is refused). Illustrative values, not a standard.
+pub fn treatment_defaults(t: Treatment) -> Result<TreatmentDefaults> {
+    Ok(match t {
+        Treatment::Thermal => TreatmentDefaults {
+            steps: vec![0.0, 100.0, 150.0, 200.0, 250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 530.0, 560.0],
+            characteristic: Unblocking { low: 250.0, high: 590.0 },
+            overprint: Unblocking { low: 0.0, high: 300.0 },
+        },
+        Treatment::Af => TreatmentDefaults {
+            steps: vec![0.0, 5.0, 10.0, 15.0, 20.0, 25.0, 30.0, 40.0, 50.0, 60.0, 80.0, 100.0],
+            characteristic: Unblocking { low: 10.0, high: 150.0 },
+            overprint: Unblocking { low: 0.0, high: 25.0 },
+        },
+        Treatment::Nrm => return Err(not_stepwise()),
+    })
+}
+
+fn not_stepwise() -> Error {
+    Error::invalid(
+        "treatment",
+        "nrm",
+        "a synthetic section is demagnetized stepwise: the treatment is thermal or af, not nrm",
+    )
 }
 
 /// The range of treatment over which a component loses its moment.
@@ -295,6 +289,19 @@ impl SectionModel {
         crate::error::check_range("moment spread", self.moment_sigma, 0.0, 5.0, "[0, 5]")?;
         if self.specimens == 0 {
             return Err(Error::TooFew { what: "a level", needed: 1, got: 0, unit: "specimens" });
+        }
+        if self.treatment == Treatment::Nrm {
+            return Err(not_stepwise());
+        }
+        if self.site_prefix.contains([',', '"', '\n', '\r']) {
+            return Err(Error::invalid(
+                "site prefix",
+                &self.site_prefix,
+                format!(
+                "the site prefix {:?} may not contain commas, quotes or line breaks (it names the sites in the tables)",
+                self.site_prefix
+            ),
+            ));
         }
         if self.steps.len() < 2 {
             return Err(Error::TooFew { what: "demagnetization", needed: 2, got: self.steps.len(), unit: "steps" });

@@ -1,14 +1,16 @@
 //! Checks of the synthetic time scales, sections and project-folder writers.
 
 use super::*;
-use crate::model::{Polarity, StratAxis, TimeScale};
+use crate::model::{Polarity, StratAxis, TimeScale, Treatment};
 use crate::montecarlo::MonteCarlo;
+use crate::reversals::models::DEFAULT_SHAPE;
+use crate::reversals::{Fitted, Model};
 use crate::sphere::{Bedding, Direction, GeoPoint};
 use crate::stats::fisher_mean;
 use crate::table::{read_directions, GroupBy, Table};
 use approx::assert_abs_diff_eq;
 
-fn long_scale(model: RenewalModel, n_mean: f64, seed: u64) -> TimeScale {
+fn long_scale(model: Fitted, n_mean: f64, seed: u64) -> TimeScale {
     let m = TimeScaleModel {
         model,
         young: 0.0,
@@ -31,33 +33,33 @@ fn renewal_models_match_scipy_quantiles_and_means() {
     // stats.gamma(1.5, scale=0.25/1.5), stats.weibull_min(0.8, scale=0.3/special.gamma(1+1/0.8)),
     // stats.lognorm(s=0.9, scale=exp(log(0.25)-0.405)), stats.invgauss(mu=0.5, scale=0.5) (mean 0.25,
     // shape 0.5), stats.expon(scale=0.25); `.ppf([0.25, 0.5, 0.75])`, `.mean()`, `.std()`.
-    let cases: [(RenewalModel, [f64; 3], f64, f64); 5] = [
+    let cases: [(Fitted, [f64; 3], f64, f64); 5] = [
         (
-            RenewalModel::with_mean("gamma", 0.25, Some(1.5)).unwrap(),
+            Fitted::with_mean(Model::Gamma, 0.25, Some(1.5)).unwrap(),
             [0.10104440858713905, 0.19716449036461148, 0.3423620779693593],
             0.25,
             0.2041241452319315,
         ),
         (
-            RenewalModel::with_mean("weibull", 0.3, Some(0.8)).unwrap(),
+            Fitted::with_mean(Model::Weibull, 0.3, Some(0.8)).unwrap(),
             [0.05578676222491856, 0.16746420200265164, 0.3982992410596125],
             0.3,
             0.3781538360421324,
         ),
         (
-            RenewalModel::with_mean("lognormal", 0.25, Some(0.9)).unwrap(),
+            Fitted::with_mean(Model::Lognormal, 0.25, Some(0.9)).unwrap(),
             [0.09086911211161565, 0.1667442027146186, 0.30597447793681837],
             0.25,
             0.2792745050434778,
         ),
         (
-            RenewalModel::with_mean("inverse_gaussian", 0.25, Some(0.5)).unwrap(),
+            Fitted::with_mean(Model::InverseGaussian, 0.25, Some(0.5)).unwrap(),
             [0.12955950841078287, 0.20108476032400036, 0.31583830603997937],
             0.25,
             0.1767766952966369,
         ),
         (
-            RenewalModel::with_mean("exponential", 0.25, None).unwrap(),
+            Fitted::with_mean(Model::Exponential, 0.25, None).unwrap(),
             [0.07192051811294523, 0.17328679513998632, 0.34657359027997264],
             0.25,
             0.25,
@@ -68,36 +70,35 @@ fn renewal_models_match_scipy_quantiles_and_means() {
         let ts = long_scale(model, 4000.0, 100 + seed as u64);
         let x = complete_lengths(&ts);
         let n = x.len() as f64;
-        assert!(n > 3500.0, "{}: only {n} intervals", model.name());
+        assert!(n > 3500.0, "{}: only {n} intervals", model.model.name());
         // The empirical CDF at the reference quantile is binomial: within 4 standard errors.
         for (p, qv) in [0.25, 0.5, 0.75].into_iter().zip(q) {
             let f = x.iter().filter(|&&v| v <= qv).count() as f64 / n;
             let se = (p * (1.0 - p) / n).sqrt();
-            assert!((f - p).abs() < 4.0 * se, "{}: F({qv}) = {f}, expected {p} ± {}", model.name(), 4.0 * se);
+            assert!((f - p).abs() < 4.0 * se, "{}: F({qv}) = {f}, expected {p} ± {}", model.model.name(), 4.0 * se);
         }
         let m = x.iter().sum::<f64>() / n;
-        assert!((m - mean).abs() < 4.0 * sd / n.sqrt(), "{}: mean {m}, model {mean}", model.name());
+        assert!((m - mean).abs() < 4.0 * sd / n.sqrt(), "{}: mean {m}, model {mean}", model.model.name());
     }
 }
 
 #[test]
 fn weibull_scale_follows_the_gamma_function() {
     // SciPy 1.17.1: 0.3 / scipy.special.gamma(1 + 1/0.8) = 0.26478303631700095.
-    match RenewalModel::with_mean("weibull", 0.3, Some(0.8)).unwrap() {
-        RenewalModel::Weibull { scale, shape } => {
-            assert_abs_diff_eq!(scale, 0.26478303631700095, epsilon = 1e-12);
-            assert_eq!(shape, 0.8);
-        }
-        other => panic!("{other:?}"),
-    }
-    assert!(RenewalModel::with_mean("gamma", 0.25, None).is_err());
-    assert!(RenewalModel::with_mean("pareto", 0.25, Some(1.0)).is_err());
-    assert!(RenewalModel::with_mean("gamma", -1.0, Some(1.0)).is_err());
+    let w = Fitted::with_mean(Model::Weibull, 0.3, Some(0.8)).unwrap();
+    assert_eq!(w.model, Model::Weibull);
+    let [shape, scale] = w.params;
+    assert_abs_diff_eq!(scale, 0.26478303631700095, epsilon = 1e-12);
+    assert_eq!(shape, 0.8);
+    assert!(Fitted::with_mean(Model::Gamma, 0.25, None).is_err());
+    assert!(Model::from_name("pareto").is_err());
+    assert_eq!(Model::from_name("inverse_gaussian").unwrap(), Model::InverseGaussian);
+    assert!(Fitted::with_mean(Model::Gamma, -1.0, Some(1.0)).is_err());
 }
 
 #[test]
 fn timescale_alternates_tiles_and_reads_back_exactly() {
-    let model = RenewalModel::with_mean("gamma", 0.25, Some(1.5)).unwrap();
+    let model = Fitted::with_mean(Model::Gamma, 0.25, Some(1.5)).unwrap();
     let m = TimeScaleModel {
         model,
         young: 0.0,
@@ -138,7 +139,7 @@ fn youngest_chron_is_length_biased_not_a_fresh_interval() {
     // Renewal theory (Cox 1962, ch. 5): the part of the interval straddling a fixed time that lies on
     // one side of it (a recurrence time) has mean E[X²]/(2 E[X]) in a process already running.
     // Exponential model: memoryless, mean 1/rate = 0.25 Myr (a sanity check; a fresh start agrees).
-    let model = RenewalModel::with_mean("exponential", 0.25, None).unwrap();
+    let model = Fitted::with_mean(Model::Exponential, 0.25, None).unwrap();
     let m = TimeScaleModel {
         model,
         young: 0.0,
@@ -153,7 +154,7 @@ fn youngest_chron_is_length_biased_not_a_fresh_interval() {
     assert!((mean - 0.25).abs() < 0.041, "mean youngest chron {mean}");
     // For a gamma model with shape 4 the backward recurrence time has mean E[X²]/(2E[X]) =
     // (1 + 1/k)·mean/2 = 0.15625 Myr for mean 0.25 (Cox 1962, eq. 5.3), against 0.25 for a fresh start.
-    let g = TimeScaleModel { model: RenewalModel::with_mean("gamma", 0.25, Some(4.0)).unwrap(), ..m };
+    let g = TimeScaleModel { model: Fitted::with_mean(Model::Gamma, 0.25, Some(4.0)).unwrap(), ..m };
     let first: Vec<f64> = (0..n).map(|s| simulate_timescale(&g, 5000 + s).unwrap().chrons[0].duration()).collect();
     let mean = first.iter().sum::<f64>() / n as f64;
     let var = first.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (n - 1) as f64;
@@ -161,6 +162,7 @@ fn youngest_chron_is_length_biased_not_a_fresh_interval() {
 }
 
 fn demo_model() -> SectionModel {
+    let thermal = treatment_defaults(Treatment::Thermal).unwrap();
     SectionModel {
         site: GeoPoint::new(-38.2, 146.7).unwrap(),
         base_age: 2.6,
@@ -175,12 +177,12 @@ fn demo_model() -> SectionModel {
             Bedding::from_dip_direction(300.0, 35.0, false).unwrap(),
         ],
         treatment: Treatment::Thermal,
-        steps: Treatment::Thermal.default_steps(),
-        characteristic: Treatment::Thermal.default_characteristic(),
+        steps: thermal.steps,
+        characteristic: thermal.characteristic,
         overprint: Some(Overprint {
             direction: Direction::new(0.0, -56.0).unwrap(),
             ratio: 0.6,
-            unblocking: Treatment::Thermal.default_overprint(),
+            unblocking: thermal.overprint,
         }),
         moment: 2e-8,
         moment_sigma: 0.25,
@@ -313,6 +315,30 @@ fn project_tables_pass_the_readers_and_repeat_byte_for_byte() {
 }
 
 #[test]
+fn the_project_folder_holds_every_file_and_the_truth_reads_back() {
+    let m = demo_model();
+    let ts = fixed_scale();
+    let sec = simulate_section(&m, &ts, &MonteCarlo::new(21, 0)).unwrap();
+    let source = TimeScaleSource::File("scales/ferrow.csv".into());
+    let files = project_files(&m, &sec, &ts, &source, 21).unwrap();
+    let names: Vec<_> = files.iter().map(|f| f.0).collect();
+    assert_eq!(names, [STEPS_FILE, SAMPLING_FILE, TIMESCALE_FILE, SETTINGS_FILE, TRUTH_FILE]);
+    assert_eq!(
+        files[0].1,
+        steps_csv(&m, &sec, &files[0].1.lines().take(2).map(|l| &l[2..]).collect::<Vec<_>>().join("\n"))
+    );
+    assert!(files[2].1.contains(r#"Source: {"file":"scales/ferrow.csv"}"#), "{}", files[2].1);
+    let back = TimeScale::from_table(&Table::parse(TIMESCALE_FILE, files[2].1.as_bytes()).unwrap()).unwrap();
+    assert_eq!(back.chrons.len(), ts.chrons.len());
+    let truth: serde_json::Value = serde_json::from_str(&files[4].1).unwrap();
+    assert_eq!(truth["seed"], 21);
+    assert_eq!(truth["levels"].as_array().unwrap().len(), sec.levels.len());
+    assert_eq!(truth["specimens"].as_array().unwrap().len(), sec.specimens.len());
+    assert_eq!(truth["model"]["treatment"], "thermal");
+    assert_eq!(truth["timescale"]["file"], "scales/ferrow.csv");
+}
+
+#[test]
 fn section_edges_are_refused_with_reasons() {
     let ts = fixed_scale();
     let mc = MonteCarlo::new(1, 0);
@@ -323,6 +349,8 @@ fn section_edges_are_refused_with_reasons() {
     assert!(bad(SectionModel { steps: vec![0.0, 300.0, 600.0], ..demo_model() }).contains("removes the whole"));
     assert!(bad(SectionModel { steps: vec![10.0, 300.0], ..demo_model() }).contains("start at 0"));
     assert!(bad(SectionModel { kappa: 0.0, ..demo_model() }).contains("kappa"));
+    assert!(bad(SectionModel { site_prefix: "K,R".into(), ..demo_model() }).contains("site prefix"));
+    assert!(bad(SectionModel { treatment: Treatment::Nrm, ..demo_model() }).contains("stepwise"));
     // One level, one specimen, flat bedding, no overprint, no noise: still fine.
     let one =
         SectionModel { spacing: 40.0, specimens: 1, bedding: vec![], overprint: None, noise: 0.0, ..demo_model() };
@@ -352,14 +380,38 @@ fn settings_file_parses_and_names_lines() {
 }
 
 #[test]
+fn a_stated_model_writes_the_contract_names() {
+    // The contract's parameter names of each family (README, reversal statistics); the lognormal μ is
+    // ln(mean) − σ²/2 so that exp(μ + σ²/2) is the mean (Johnson, Kotz & Balakrishnan 1994, ch. 14).
+    let g = serde_json::to_value(Fitted::with_mean(Model::Gamma, 0.25, Some(2.0)).unwrap()).unwrap();
+    assert_eq!(g, serde_json::json!({"model": "gamma", "shape": 2.0, "scale": 0.125}));
+    let e = serde_json::to_value(Fitted::with_mean(Model::Exponential, 0.25, None).unwrap()).unwrap();
+    assert_eq!(e, serde_json::json!({"model": "exponential", "rate": 4.0}));
+    let l = Fitted::with_mean(Model::Lognormal, 0.25, Some(0.9)).unwrap();
+    let v = serde_json::to_value(l).unwrap();
+    assert_eq!(v.as_object().unwrap().keys().collect::<Vec<_>>(), ["model", "mu", "sigma"]);
+    assert_abs_diff_eq!(v["mu"].as_f64().unwrap(), 0.25f64.ln() - 0.405, epsilon = 1e-15);
+    // A model built by hand with a parameter outside its domain is refused before sampling.
+    let bad = TimeScaleModel {
+        model: Fitted { model: Model::Gamma, params: [-1.0, 0.1] },
+        young: 0.0,
+        span: 1.0,
+        first: FirstPolarity::Random,
+        name_prefix: None,
+    };
+    assert!(matches!(simulate_timescale(&bad, 1), Err(crate::Error::OutOfRange { name: "shape", .. })));
+    assert!(treatment_defaults(Treatment::Nrm).is_err());
+}
+
+#[test]
 fn settings_default_the_shape_and_refuse_it_for_the_exponential() {
-    let g = RenewalModel::from_settings("gamma", 0.25, None).unwrap();
-    assert_eq!(g, RenewalModel::with_mean("gamma", 0.25, Some(DEFAULT_SHAPE)).unwrap());
+    let g = Fitted::from_settings(Model::Gamma, 0.25, None).unwrap();
+    assert_eq!(g, Fitted::with_mean(Model::Gamma, 0.25, Some(DEFAULT_SHAPE)).unwrap());
     assert_abs_diff_eq!(g.mean(), 0.25, epsilon = 1e-12);
-    assert!(RenewalModel::from_settings("exponential", 0.25, None).is_ok());
+    assert!(Fitted::from_settings(Model::Exponential, 0.25, None).is_ok());
     assert!(matches!(
-        RenewalModel::from_settings("exponential", 0.25, Some(2.0)),
+        Fitted::from_settings(Model::Exponential, 0.25, Some(2.0)),
         Err(crate::Error::Invalid { quantity: "shape", .. })
     ));
-    assert!(RenewalModel::from_settings("weibull", -1.0, None).is_err());
+    assert!(Fitted::from_settings(Model::Weibull, -1.0, None).is_err());
 }

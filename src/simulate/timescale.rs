@@ -1,214 +1,13 @@
 //! Synthetic polarity time scales from a renewal model of polarity-interval lengths.
 
-use crate::error::{Error, Result};
+use crate::error::{check_positive, Error, Result};
 use crate::model::{Chron, Polarity, TimeScale};
 use crate::montecarlo::replicate_rng;
-use rand::Rng;
-use rand_distr::{Distribution, Exp, Gamma, InverseGaussian, LogNormal, Weibull};
-use statrs::function::gamma::gamma as gamma_fn;
+use crate::reversals::Fitted;
+use serde::ser::{Serialize, SerializeStruct, Serializer};
 
 /// Random stream used for synthetic time scales (see [`crate::montecarlo::replicate_rng`]).
 pub const TIMESCALE_STREAM: u64 = 0x7153_0001;
-
-/// Shape parameter of a synthetic time scale's model when none is given (gamma/Weibull shape, lognormal
-/// σ, inverse-Gaussian shape in Myr): an illustrative choice, not a fitted value.
-pub const DEFAULT_SHAPE: f64 = 1.5;
-
-/// A renewal model for the lengths of polarity intervals, with the contract's parameter names.
-///
-/// # Units
-/// Lengths in Myr; `rate` per Myr; `shape` of gamma and Weibull dimensionless; `mu`, `sigma` of the
-/// natural log of Myr; inverse-Gaussian `mean` and `shape` in Myr.
-///
-/// # Formula
-/// Means: exponential 1/rate; gamma shape·scale; Weibull scale·Γ(1 + 1/shape); lognormal
-/// exp(μ + σ²/2); inverse Gaussian `mean`.
-///
-/// # References
-/// Johnson, Kotz & Balakrishnan (1994), *Continuous Univariate Distributions*, vol. 1 (chs. 15, 17,
-/// 19, 21); Cox (1962), *Renewal Theory*, Methuen.
-#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
-#[serde(tag = "model", rename_all = "snake_case")]
-pub enum RenewalModel {
-    /// Exponential (Poisson process).
-    Exponential {
-        /// Events per Myr.
-        rate: f64,
-    },
-    /// Gamma with shape and scale.
-    Gamma {
-        /// Shape k.
-        shape: f64,
-        /// Scale θ, Myr.
-        scale: f64,
-    },
-    /// Weibull with shape and scale.
-    Weibull {
-        /// Shape k.
-        shape: f64,
-        /// Scale λ, Myr.
-        scale: f64,
-    },
-    /// Lognormal: ln(length) ~ Normal(μ, σ).
-    Lognormal {
-        /// Mean of ln(length / Myr).
-        mu: f64,
-        /// Standard deviation of ln(length / Myr).
-        sigma: f64,
-    },
-    /// Inverse Gaussian (Wald).
-    InverseGaussian {
-        /// Mean, Myr.
-        mean: f64,
-        /// Shape λ, Myr.
-        shape: f64,
-    },
-}
-
-/// The model families by their contract names.
-pub const MODEL_NAMES: [&str; 5] = ["exponential", "gamma", "weibull", "lognormal", "inverse_gaussian"];
-
-fn positive(name: &'static str, v: f64) -> Result<f64> {
-    if v > 0.0 && v.is_finite() {
-        Ok(v)
-    } else {
-        Err(Error::OutOfRange { name, value: v, range: "(0, ∞)" })
-    }
-}
-
-impl RenewalModel {
-    /// A model of family `name` with the given mean interval (Myr) and shape parameter.
-    ///
-    /// `shape` is the family's shape parameter in the contract's terms: gamma and Weibull `shape`
-    /// (dimensionless), lognormal `sigma`, inverse-Gaussian `shape` (Myr); it is ignored (and may be
-    /// `None`) for the exponential. The scale is chosen so that the model's mean equals `mean`.
-    ///
-    /// # Formula
-    /// gamma scale = mean/k; Weibull scale = mean/Γ(1 + 1/k); lognormal μ = ln(mean) − σ²/2.
-    pub fn with_mean(name: &str, mean: f64, shape: Option<f64>) -> Result<Self> {
-        let mean = positive("mean interval", mean)?;
-        let need = |s: Option<f64>| -> Result<f64> {
-            match s {
-                Some(v) => positive("shape", v),
-                None => Err(Error::invalid("shape", "none", format!("the {name} model needs a shape parameter"))),
-            }
-        };
-        Ok(match name {
-            "exponential" => RenewalModel::Exponential { rate: 1.0 / mean },
-            "gamma" => {
-                let k = need(shape)?;
-                RenewalModel::Gamma { shape: k, scale: mean / k }
-            }
-            "weibull" => {
-                let k = need(shape)?;
-                RenewalModel::Weibull { shape: k, scale: mean / gamma_fn(1.0 + 1.0 / k) }
-            }
-            "lognormal" => {
-                let s = need(shape)?;
-                RenewalModel::Lognormal { mu: mean.ln() - 0.5 * s * s, sigma: s }
-            }
-            "inverse_gaussian" => RenewalModel::InverseGaussian { mean, shape: need(shape)? },
-            other => {
-                return Err(Error::invalid(
-                    "renewal model",
-                    other,
-                    format!("'{other}' is not a renewal model; expected one of {}", MODEL_NAMES.join(", ")),
-                ))
-            }
-        })
-    }
-
-    /// As [`RenewalModel::with_mean`], with the settings' defaults: a shape is refused for the
-    /// exponential model, and the other models take [`DEFAULT_SHAPE`] when none is given.
-    pub fn from_settings(name: &str, mean: f64, shape: Option<f64>) -> Result<Self> {
-        let shape = match (name, shape) {
-            ("exponential", Some(_)) => {
-                return Err(Error::invalid("shape", "given", "a shape does not apply to the exponential model"))
-            }
-            ("exponential", None) => None,
-            (_, s) => Some(s.unwrap_or(DEFAULT_SHAPE)),
-        };
-        Self::with_mean(name, mean, shape)
-    }
-
-    /// The contract name of the family.
-    pub fn name(&self) -> &'static str {
-        match self {
-            RenewalModel::Exponential { .. } => "exponential",
-            RenewalModel::Gamma { .. } => "gamma",
-            RenewalModel::Weibull { .. } => "weibull",
-            RenewalModel::Lognormal { .. } => "lognormal",
-            RenewalModel::InverseGaussian { .. } => "inverse_gaussian",
-        }
-    }
-
-    /// The mean interval length, Myr (formulas in the type's documentation).
-    pub fn mean(&self) -> f64 {
-        match *self {
-            RenewalModel::Exponential { rate } => 1.0 / rate,
-            RenewalModel::Gamma { shape, scale } => shape * scale,
-            RenewalModel::Weibull { shape, scale } => scale * gamma_fn(1.0 + 1.0 / shape),
-            RenewalModel::Lognormal { mu, sigma } => (mu + 0.5 * sigma * sigma).exp(),
-            RenewalModel::InverseGaussian { mean, .. } => mean,
-        }
-    }
-
-    /// A sampler of interval lengths.
-    pub fn sampler(&self) -> Result<IntervalSampler> {
-        let bad = |e: String| Error::invalid("renewal model", self.name(), format!("{} model: {e}", self.name()));
-        Ok(match *self {
-            RenewalModel::Exponential { rate } => {
-                IntervalSampler::Exp(Exp::new(positive("rate", rate)?).map_err(|e| bad(e.to_string()))?)
-            }
-            RenewalModel::Gamma { shape, scale } => IntervalSampler::Gamma(
-                Gamma::new(positive("shape", shape)?, positive("scale", scale)?).map_err(|e| bad(e.to_string()))?,
-            ),
-            RenewalModel::Weibull { shape, scale } => IntervalSampler::Weibull(
-                Weibull::new(positive("scale", scale)?, positive("shape", shape)?).map_err(|e| bad(e.to_string()))?,
-            ),
-            RenewalModel::Lognormal { mu, sigma } => {
-                if !mu.is_finite() {
-                    return Err(Error::OutOfRange { name: "mu", value: mu, range: "a finite number" });
-                }
-                IntervalSampler::Lognormal(
-                    LogNormal::new(mu, positive("sigma", sigma)?).map_err(|e| bad(e.to_string()))?,
-                )
-            }
-            RenewalModel::InverseGaussian { mean, shape } => IntervalSampler::InverseGaussian(
-                InverseGaussian::new(positive("mean", mean)?, positive("shape", shape)?)
-                    .map_err(|e| bad(e.to_string()))?,
-            ),
-        })
-    }
-}
-
-/// Draws interval lengths (Myr) from a [`RenewalModel`].
-#[derive(Debug, Clone, Copy)]
-pub enum IntervalSampler {
-    /// Exponential.
-    Exp(Exp<f64>),
-    /// Gamma.
-    Gamma(Gamma<f64>),
-    /// Weibull.
-    Weibull(Weibull<f64>),
-    /// Lognormal.
-    Lognormal(LogNormal<f64>),
-    /// Inverse Gaussian.
-    InverseGaussian(InverseGaussian<f64>),
-}
-
-impl IntervalSampler {
-    /// One interval length, Myr.
-    pub fn sample<R: Rng + ?Sized>(&self, rng: &mut R) -> f64 {
-        match self {
-            IntervalSampler::Exp(d) => d.sample(rng),
-            IntervalSampler::Gamma(d) => d.sample(rng),
-            IntervalSampler::Weibull(d) => d.sample(rng),
-            IntervalSampler::Lognormal(d) => d.sample(rng),
-            IntervalSampler::InverseGaussian(d) => d.sample(rng),
-        }
-    }
-}
 
 /// Polarity of the youngest chron of a synthetic time scale.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
@@ -221,10 +20,10 @@ pub enum FirstPolarity {
 }
 
 /// What to simulate: a renewal model over a span of time.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct TimeScaleModel {
-    /// The interval-length model.
-    pub model: RenewalModel,
+    /// The interval-length model (stated, e.g. by [`Fitted::from_settings`], or fitted to a record).
+    pub model: Fitted,
     /// Age of the young end, Ma (usually 0, the present).
     pub young: f64,
     /// Length of time covered, Myr.
@@ -233,6 +32,31 @@ pub struct TimeScaleModel {
     pub first: FirstPolarity,
     /// If given, chrons are named `PREFIX1`, `PREFIX2`, … from young to old.
     pub name_prefix: Option<String>,
+}
+
+/// JSON form: the model with its mean, the young end, the span and the first polarity (the chron
+/// names are in the time scale itself).
+impl Serialize for TimeScaleModel {
+    fn serialize<S: Serializer>(&self, s: S) -> std::result::Result<S::Ok, S::Error> {
+        let mut st = s.serialize_struct("TimeScaleModel", 5)?;
+        st.serialize_field("model", &self.model)?;
+        st.serialize_field("mean", &self.model.mean())?;
+        st.serialize_field("young", &self.young)?;
+        st.serialize_field("span", &self.span)?;
+        st.serialize_field("first_polarity", &self.first)?;
+        st.end()
+    }
+}
+
+/// Where the time scale of a synthetic section came from: a table file, or a renewal model
+/// (JSON `{"file": PATH}` or `{"renewal": MODEL}`).
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum TimeScaleSource {
+    /// A timescale table, by its path as given.
+    File(String),
+    /// Simulated from this model.
+    Renewal(TimeScaleModel),
 }
 
 /// Intervals simulated (and thrown away) before the young end, so that the chron running at the
@@ -261,8 +85,8 @@ pub const AGE_QUANTUM: f64 = 1e-6;
 /// is why the burn-in is needed).
 pub fn simulate_timescale(m: &TimeScaleModel, seed: u64) -> Result<TimeScale> {
     crate::error::check_range("young", m.young, 0.0, f64::MAX, "[0, ∞)")?;
-    let span = positive("span", m.span)?;
-    let sampler = m.model.sampler()?;
+    let span = check_positive("span", m.span)?;
+    m.model.check()?;
     let mean = m.model.mean();
     let limit = 10_000_000usize;
     if span / mean > limit as f64 {
@@ -288,7 +112,7 @@ pub fn simulate_timescale(m: &TimeScaleModel, seed: u64) -> Result<TimeScale> {
     let mut t = m.young - BURN_IN_INTERVALS as f64 * mean;
     let mut edges = Vec::new();
     loop {
-        let len = sampler.sample(&mut rng);
+        let len = m.model.sample(&mut rng);
         // Lengths of zero (possible in floating point for tiny shapes) are not chrons: draw again.
         if !(len > 0.0) {
             continue;
@@ -343,7 +167,7 @@ pub fn simulate_timescale(m: &TimeScaleModel, seed: u64) -> Result<TimeScale> {
         })
         .collect();
     Ok(TimeScale {
-        source: format!("synthetic {} time scale (seed {seed})", m.model.name()),
+        source: format!("synthetic {} time scale (seed {seed})", m.model.model.name()),
         chrons,
         oldest_is_reversal: false,
     })

@@ -9,7 +9,8 @@ use lodestone::model::{SpecimenSteps, StepSet};
 use lodestone::section::{automatic_fit, rule_text, Project, ProjectFile, SectionSettings};
 use lodestone::simulate::{Settings, PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE};
 use lodestone::table::{read_picks, read_steps, Table};
-use serde_json::{json, Value};
+use serde::{de::DeserializeOwned, Deserialize, Deserializer, Serialize};
+use serde_json::Value;
 use std::path::{Path, PathBuf};
 
 /// A response: status, content type, body.
@@ -20,12 +21,140 @@ pub struct Reply {
 }
 
 impl Reply {
-    fn json(status: u16, v: &Value) -> Self {
-        Reply { status, content_type: "application/json; charset=utf-8", body: v.to_string().into_bytes() }
+    fn json<T: Serialize + ?Sized>(status: u16, v: &T) -> Self {
+        let body = serde_json::to_vec(v).expect("a reply body serializes");
+        Reply { status, content_type: "application/json; charset=utf-8", body }
     }
     fn error(status: u16, msg: impl Into<String>) -> Self {
-        Self::json(status, &json!({ "error": msg.into() }))
+        Self::json(status, &ErrorBody { error: msg.into() })
     }
+}
+
+/// The body of a refusal.
+#[derive(Serialize)]
+struct ErrorBody {
+    error: String,
+}
+
+/// A fit as the page sees it (the contract's keys: `dec`, `inc`, `mad`, `dang`, `n_steps`, with
+/// the range and the kind of fit).
+#[derive(Serialize)]
+struct FitBody {
+    kind: FitKind,
+    anchor: Anchor,
+    n_steps: usize,
+    from: f64,
+    to: f64,
+    dec: f64,
+    inc: f64,
+    mad: f64,
+    dang: Option<f64>,
+}
+
+impl From<&SpecimenFit> for FitBody {
+    fn from(f: &SpecimenFit) -> Self {
+        FitBody {
+            kind: f.kind,
+            anchor: f.anchor,
+            n_steps: f.n_steps,
+            from: f.from,
+            to: f.to,
+            dec: f.direction.dec,
+            inc: f.direction.inc,
+            mad: f.mad,
+            dang: f.dang,
+        }
+    }
+}
+
+/// A specimen's current fit: a saved pick, or the automatic rule's choice (with its grade).
+struct Current {
+    fit: Option<FitBody>,
+    source: &'static str,
+    grade: Option<&'static str>,
+    reason: String,
+}
+
+/// One row of `GET /api/specimens`.
+#[derive(Serialize)]
+struct SpecimenRow<'a> {
+    specimen: &'a str,
+    site: &'a Option<String>,
+    n_steps: usize,
+    fit: Option<FitBody>,
+    source: &'static str,
+    grade: Option<&'static str>,
+    reason: String,
+}
+
+/// One step of `GET /api/specimen/NAME`: the direction, moment and vector components.
+#[derive(Serialize)]
+struct StepBody {
+    step: f64,
+    dec: f64,
+    inc: f64,
+    moment: f64,
+    x: f64,
+    y: f64,
+    z: f64,
+}
+
+/// The body of `GET /api/specimen/NAME`.
+#[derive(Serialize)]
+struct SpecimenBody<'a> {
+    specimen: &'a str,
+    site: &'a Option<String>,
+    unit: Option<&'static str>,
+    steps: Vec<StepBody>,
+    fit: Option<FitBody>,
+    source: &'static str,
+    grade: Option<&'static str>,
+    reason: String,
+    rule: String,
+}
+
+/// A stage of `GET /api/effect`.
+#[derive(Serialize)]
+struct StageBody<'a> {
+    name: &'a str,
+    ran: bool,
+    result: &'a str,
+}
+
+/// The body of `GET /api/effect`: the stages the picks change, and the first caution.
+#[derive(Serialize)]
+struct EffectBody<'a> {
+    stages: Vec<StageBody<'a>>,
+    cautions: Vec<&'a String>,
+}
+
+/// The body of `DELETE /api/picks/NAME`: the automatic rule's fit that replaces the pick.
+#[derive(Serialize)]
+struct AfterDelete {
+    fit: Option<FitBody>,
+    grade: Option<&'static str>,
+    reason: String,
+}
+
+/// The body of `POST /api/fit` and `PUT /api/picks/NAME`. A field of the wrong type counts as
+/// missing, so that the refusal names it.
+#[derive(Deserialize)]
+struct FitRequest {
+    #[serde(default, deserialize_with = "lenient")]
+    specimen: Option<String>,
+    #[serde(default, deserialize_with = "lenient")]
+    from: Option<f64>,
+    #[serde(default, deserialize_with = "lenient")]
+    to: Option<f64>,
+    #[serde(default, deserialize_with = "lenient")]
+    kind: Option<String>,
+    #[serde(default, deserialize_with = "lenient")]
+    anchor: Option<String>,
+}
+
+/// A value of type `T`, or `None` when the JSON value is of another type.
+fn lenient<'de, D: Deserializer<'de>, T: DeserializeOwned>(d: D) -> std::result::Result<Option<T>, D::Error> {
+    Ok(serde_json::from_value(Value::deserialize(d)?).ok())
 }
 
 /// One saved pick.
@@ -76,47 +205,74 @@ impl State {
         Ok(State { dir: dir.to_path_buf(), set, settings, picks, backed_up: false })
     }
 
-    fn current(&self, sp: &SpecimenSteps) -> (Value, &'static str, Option<&'static str>, String) {
+    fn current(&self, sp: &SpecimenSteps) -> Current {
+        let pick = |fit, reason| Current { fit, source: "pick", grade: None, reason };
         if let Some((_, p)) = self.picks.iter().find(|(s, _)| s == &sp.specimen) {
             return match fit_range(sp, p.from, p.to, p.kind, p.anchor) {
-                Ok(f) => (fit_json(&f), "pick", None, "chosen on this page or in picks.csv".into()),
-                Err(e) => (Value::Null, "pick", None, e.to_string()),
+                Ok(f) => pick(Some(FitBody::from(&f)), "chosen on this page or in picks.csv".into()),
+                Err(e) => pick(None, e.to_string()),
             };
         }
         match automatic_fit(sp, &self.settings) {
-            Ok(c) => (fit_json(&c.fit), "auto", Some(c.grade.as_str()), c.reason),
-            Err(why) => (Value::Null, "auto", None, why),
+            Ok(c) => Current {
+                fit: Some(FitBody::from(&c.fit)),
+                source: "auto",
+                grade: Some(c.grade.as_str()),
+                reason: c.reason,
+            },
+            Err(why) => Current { fit: None, source: "auto", grade: None, reason: why },
         }
     }
 
-    fn specimens(&self) -> Value {
-        let list: Vec<Value> = self
-            .set
+    fn specimens(&self) -> Vec<SpecimenRow<'_>> {
+        self.set
             .specimens
             .iter()
             .map(|sp| {
-                let (fit, source, grade, reason) = self.current(sp);
-                json!({"specimen": sp.specimen, "site": sp.site, "n_steps": sp.steps.len(), "fit": fit,
-                       "source": source, "grade": grade, "reason": reason})
+                let c = self.current(sp);
+                SpecimenRow {
+                    specimen: &sp.specimen,
+                    site: &sp.site,
+                    n_steps: sp.steps.len(),
+                    fit: c.fit,
+                    source: c.source,
+                    grade: c.grade,
+                    reason: c.reason,
+                }
             })
-            .collect();
-        Value::Array(list)
+            .collect()
     }
 
-    fn specimen(&self, sp: &SpecimenSteps) -> Value {
-        let (fit, source, grade, reason) = self.current(sp);
-        let steps: Vec<Value> = sp
+    fn specimen<'a>(&self, sp: &'a SpecimenSteps) -> SpecimenBody<'a> {
+        let c = self.current(sp);
+        let steps = sp
             .steps
             .iter()
             .map(|s| {
                 let v = s.vector();
-                json!({"step": s.step, "dec": s.direction.dec, "inc": s.direction.inc, "moment": s.moment,
-                       "x": v.x, "y": v.y, "z": v.z})
+                StepBody {
+                    step: s.step,
+                    dec: s.direction.dec,
+                    inc: s.direction.inc,
+                    moment: s.moment,
+                    x: v.x,
+                    y: v.y,
+                    z: v.z,
+                }
             })
             .collect();
         let unit = sp.steps.iter().find_map(|s| s.treatment.map(|t| t.unit()).filter(|u| !u.is_empty()));
-        json!({"specimen": sp.specimen, "site": sp.site, "unit": unit, "steps": steps, "fit": fit,
-               "source": source, "grade": grade, "reason": reason, "rule": rule_text(&self.settings)})
+        SpecimenBody {
+            specimen: &sp.specimen,
+            site: &sp.site,
+            unit,
+            steps,
+            fit: c.fit,
+            source: c.source,
+            grade: c.grade,
+            reason: c.reason,
+            rule: rule_text(&self.settings),
+        }
     }
 
     /// Handle one request (already past the key and Host checks).
@@ -125,11 +281,11 @@ impl State {
         match (method, path) {
             ("GET", "/api/specimens") => Reply::json(200, &self.specimens()),
             ("GET", "/api/effect") => match self.effect() {
-                Ok(v) => Reply::json(200, &v),
+                Ok(r) => r,
                 Err(e) => Reply::error(500, format!("{e:#}")),
             },
             ("POST", "/api/fit") => match self.parse_fit(body, None) {
-                Ok((_, f)) => Reply::json(200, &fit_json(&f)),
+                Ok((_, f)) => Reply::json(200, &FitBody::from(&f)),
                 Err(e) => Reply::error(400, e),
             },
             ("GET", p) if p.starts_with("/api/specimen/") => match spec_of(&p["/api/specimen/".len()..]) {
@@ -144,7 +300,7 @@ impl State {
                     return Reply::error(400, "the specimen name is not valid percent-encoded UTF-8");
                 };
                 match self.parse_fit(body, Some(&name)) {
-                    Ok((row, f)) => self.save_with(&name, Some(row), fit_json(&f)),
+                    Ok((row, f)) => self.save_with(&name, Some(row), &FitBody::from(&f)),
                     Err(e) => Reply::error(400, e),
                 }
             }
@@ -156,7 +312,7 @@ impl State {
                     return Reply::error(400, format!("no specimen '{name}' in {STEPS_FILE}"));
                 };
                 let now = self.specimen_after_delete(sp);
-                self.save_with(&name, None, now)
+                self.save_with(&name, None, &now)
             }
             (_, p) if p.starts_with("/api/") => Reply::error(404, format!("no {method} {p}")),
             _ => Reply::error(404, "not found"),
@@ -166,7 +322,7 @@ impl State {
     /// The site means and field tests with the current picks (and the automatic rule for the
     /// rest): the `section` chain run in memory without the time scale (no correlation), nothing
     /// written.
-    fn effect(&self) -> Result<Value> {
+    fn effect(&self) -> Result<Reply> {
         let file = |name: &str| -> Result<Option<ProjectFile>> {
             let p = self.dir.join(name);
             Ok(if p.is_file() {
@@ -184,33 +340,36 @@ impl State {
             settings: file(SETTINGS_FILE)?,
         };
         let run = lodestone::section::run(&project, &lodestone::montecarlo::Silent, &mut |_| {})?;
-        let stages: Vec<Value> = run
+        let stages = run
             .stages
             .iter()
             .filter(|s| ["Characteristic components", "Site means", "Field tests"].contains(&s.name.as_str()))
-            .map(|s| json!({"name": s.name, "ran": s.ran, "result": s.result}))
+            .map(|s| StageBody { name: &s.name, ran: s.ran, result: &s.result })
             .collect();
-        Ok(json!({"stages": stages, "cautions": run.cautions.iter().take(1).collect::<Vec<_>>()}))
+        Ok(Reply::json(200, &EffectBody { stages, cautions: run.cautions.iter().take(1).collect() }))
     }
 
-    fn specimen_after_delete(&self, sp: &SpecimenSteps) -> Value {
+    fn specimen_after_delete(&self, sp: &SpecimenSteps) -> AfterDelete {
         match automatic_fit(sp, &self.settings) {
-            Ok(c) => json!({"fit": fit_json(&c.fit), "grade": c.grade.as_str(), "reason": c.reason}),
-            Err(why) => json!({"fit": null, "grade": null, "reason": why}),
+            Ok(c) => AfterDelete { fit: Some(FitBody::from(&c.fit)), grade: Some(c.grade.as_str()), reason: c.reason },
+            Err(why) => AfterDelete { fit: None, grade: None, reason: why },
         }
     }
 
     /// Validate a fit request: JSON object with from, to (step values of the specimen), kind, anchor.
     fn parse_fit(&self, body: &[u8], name: Option<&str>) -> std::result::Result<(PickRow, SpecimenFit), String> {
         let v: Value = serde_json::from_slice(body).map_err(|e| format!("the body is not valid JSON: {e}"))?;
-        let obj = v.as_object().ok_or("the body must be a JSON object")?;
+        if !v.is_object() {
+            return Err("the body must be a JSON object".into());
+        }
+        let req: FitRequest = serde_json::from_value(v).map_err(|e| format!("the body is not a fit request: {e}"))?;
         let specimen = match name {
             Some(n) => n.to_string(),
-            None => obj.get("specimen").and_then(Value::as_str).ok_or("'specimen' (a string) is required")?.to_string(),
+            None => req.specimen.ok_or("'specimen' (a string) is required")?,
         };
         let sp = self.set.get(&specimen).ok_or_else(|| format!("no specimen '{specimen}' in {STEPS_FILE}"))?;
-        let step = |key: &str| -> std::result::Result<f64, String> {
-            let x = obj.get(key).and_then(Value::as_f64).ok_or(format!("'{key}' (a number) is required"))?;
+        let step = |key: &str, x: Option<f64>| -> std::result::Result<f64, String> {
+            let x = x.ok_or(format!("'{key}' (a number) is required"))?;
             let tol = 1e-9 * x.abs().max(1.0);
             if sp.steps.iter().any(|s| (s.step - x).abs() <= tol) {
                 Ok(x)
@@ -218,16 +377,16 @@ impl State {
                 Err(format!("{key} = {x} is not a step of specimen {specimen}"))
             }
         };
-        let (from, to) = (step("from")?, step("to")?);
+        let (from, to) = (step("from", req.from)?, step("to", req.to)?);
         if from > to {
             return Err(format!("from = {from} is above to = {to}"));
         }
-        let kind = match obj.get("kind").and_then(Value::as_str).unwrap_or("line") {
+        let kind = match req.kind.as_deref().unwrap_or("line") {
             "line" => FitKind::Line,
             "plane" => FitKind::Plane,
             o => return Err(format!("kind '{o}' is not 'line' or 'plane'")),
         };
-        let anchor = match obj.get("anchor").and_then(Value::as_str).unwrap_or("free") {
+        let anchor = match req.anchor.as_deref().unwrap_or("free") {
             "free" => Anchor::Free,
             "origin" => Anchor::Origin,
             o => return Err(format!("anchor '{o}' is not 'free' or 'origin'")),
@@ -238,7 +397,7 @@ impl State {
 
     /// Replace (or remove) a specimen's pick and write the picks file; the state changes only if
     /// the write succeeds.
-    fn save_with(&mut self, name: &str, row: Option<PickRow>, answer: Value) -> Reply {
+    fn save_with<T: Serialize>(&mut self, name: &str, row: Option<PickRow>, answer: &T) -> Reply {
         let mut next: Vec<(String, PickRow)> = self.picks.iter().filter(|(s, _)| s != name).cloned().collect();
         if let Some(r) = row {
             next.push((name.to_string(), r));
@@ -248,7 +407,7 @@ impl State {
         match self.write(&next) {
             Ok(()) => {
                 self.picks = next;
-                Reply::json(200, &answer)
+                Reply::json(200, answer)
             }
             Err(e) => Reply::error(500, format!("{e:#}")),
         }
@@ -282,11 +441,6 @@ pub fn picks_csv(picks: &[(String, PickRow)]) -> String {
         s.push_str(&format!("{quoted},{},{},{},{}\n", p.from, p.to, p.kind.as_str(), p.anchor.as_str()));
     }
     s
-}
-
-fn fit_json(f: &SpecimenFit) -> Value {
-    json!({"kind": f.kind, "anchor": f.anchor, "n_steps": f.n_steps, "from": f.from, "to": f.to,
-           "dec": f.direction.dec, "inc": f.direction.inc, "mad": f.mad, "dang": f.dang})
 }
 
 /// Decode `%XX` escapes of a URL path segment; `None` for bad escapes or invalid UTF-8.

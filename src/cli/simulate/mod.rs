@@ -2,13 +2,14 @@
 
 mod section;
 
-use super::{write_atomic, Cell, Ctx, Presentation, Sheet};
+use super::{write_atomic, Ctx, Presentation};
 use anyhow::{bail, Result};
 use clap::{Args, Subcommand, ValueEnum};
 use lodestone::model::Polarity;
-use lodestone::simulate::{simulate_timescale, timescale_csv, FirstPolarity, RenewalModel, TimeScaleModel};
+use lodestone::present::simulate as present;
+use lodestone::reversals::{Fitted, Model};
+use lodestone::simulate::{simulate_timescale, timescale_csv, FirstPolarity, TimeScaleModel};
 pub use section::SectionArgs;
-use serde_json::json;
 use std::path::PathBuf;
 
 #[derive(Debug, Args)]
@@ -36,13 +37,13 @@ pub enum ModelArg {
 }
 
 impl ModelArg {
-    fn name(self) -> &'static str {
+    fn model(self) -> Model {
         match self {
-            ModelArg::Exponential => "exponential",
-            ModelArg::Gamma => "gamma",
-            ModelArg::Weibull => "weibull",
-            ModelArg::Lognormal => "lognormal",
-            ModelArg::InverseGaussian => "inverse_gaussian",
+            ModelArg::Exponential => Model::Exponential,
+            ModelArg::Gamma => Model::Gamma,
+            ModelArg::Weibull => Model::Weibull,
+            ModelArg::Lognormal => Model::Lognormal,
+            ModelArg::InverseGaussian => Model::InverseGaussian,
         }
     }
 }
@@ -78,7 +79,7 @@ pub struct RenewalArgs {
 impl RenewalArgs {
     fn model(&self, young: f64, span: f64) -> Result<TimeScaleModel> {
         Ok(TimeScaleModel {
-            model: RenewalModel::from_settings(self.model.name(), self.mean_interval, self.shape)?,
+            model: Fitted::from_settings(self.model.model(), self.mean_interval, self.shape)?,
             young,
             span,
             first: match self.first_polarity {
@@ -116,37 +117,9 @@ pub fn run(a: SimulateArgs, ctx: &mut Ctx) -> Result<Presentation> {
     }
 }
 
-pub(super) fn timescale_model_json(m: &TimeScaleModel) -> serde_json::Value {
-    json!({ "model": m.model, "mean": m.model.mean(), "young": m.young, "span": m.span, "first_polarity": m.first })
-}
-
 fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let m = a.renewal.model(a.young, a.span)?;
     let ts = simulate_timescale(&m, ctx.global.seed)?;
-    let named = ts.chrons.iter().any(|c| c.name.is_some());
-    let mut cols = vec!["young", "old", "polarity"];
-    if named {
-        cols.insert(0, "name");
-    }
-    let mut sec = Sheet::new(&format!("Synthetic {} time scale, seed {}", m.model.name(), ctx.global.seed), &cols);
-    for c in &ts.chrons {
-        let mut row = vec![Cell::Num(c.young, 6), Cell::Num(c.old, 6), Cell::Text(c.polarity.code().into())];
-        if named {
-            row.insert(0, Cell::opt_text(c.name.as_deref()));
-        }
-        sec.rows.push(row);
-    }
-    let n = ts.chrons.len();
-    let complete: Vec<f64> = if n > 2 { ts.chrons[1..n - 1].iter().map(|c| c.duration()).collect() } else { vec![] };
-    let sample_mean = (!complete.is_empty()).then(|| complete.iter().sum::<f64>() / complete.len() as f64);
-    let mut notes = vec![format!(
-        "{n} chrons over {} Myr; {} complete intervals (the youngest and oldest chrons are cut by the ends of the span){}; model mean {:.4} Myr.",
-        a.span,
-        complete.len(),
-        sample_mean.map(|x| format!(", mean length {x:.4} Myr")).unwrap_or_default(),
-        m.model.mean()
-    )];
-    notes.push("Synthetic: a draw from the stated renewal model, not a record of the geomagnetic field.".into());
     if let Some(path) = &a.out {
         if path.exists() && !a.force {
             bail!("{} exists; add --force to replace it", path.display());
@@ -157,27 +130,6 @@ fn run_timescale(a: TimescaleArgs, ctx: &mut Ctx) -> Result<Presentation> {
             serde_json::to_string(&m.model)?
         );
         write_atomic(path, timescale_csv(&ts, &comment).as_bytes(), &ctx.inputs)?;
-        notes.push(format!("Wrote {}.", path.display()));
     }
-    let chrons: Vec<_> = ts
-        .chrons
-        .iter()
-        .map(|c| json!({"name": c.name, "young": c.young, "old": c.old, "polarity": c.polarity}))
-        .collect();
-    Ok(Presentation {
-        json: json!({
-            "seed": ctx.global.seed,
-            "model": timescale_model_json(&m),
-            "n_chrons": n,
-            "n_complete": complete.len(),
-            "mean_complete": sample_mean,
-            "chrons": chrons,
-            "out": a.out.as_ref().map(|p| p.display().to_string()),
-            "notes": notes,
-        }),
-        sheets: vec![sec],
-        main_sheet: 0,
-        cautions: vec![],
-        notes,
-    })
+    Ok(present::synthetic_timescale(&ts, &m, ctx.global.seed, a.out.as_deref()))
 }

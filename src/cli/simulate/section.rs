@@ -1,19 +1,17 @@
 //! `lodestone simulate section`: write a project folder for a synthetic section.
 
-use super::super::{write_atomic, Cell, Ctx, Presentation, Sheet};
-use super::{timescale_model_json, RenewalArgs};
-use anyhow::{bail, Context, Result};
+use super::super::{write_atomic, Ctx, Presentation};
+use super::RenewalArgs;
+use anyhow::{Context, Result};
 use clap::{Args, ValueEnum};
-use lodestone::model::{StratAxis, TimeScale};
+use lodestone::model::{StratAxis, TimeScale, Treatment};
+use lodestone::present::simulate as present;
 use lodestone::simulate::{
-    catch_probability, chron_thickness, parse_rates, sampling_csv, settings_text, simulate_section, simulate_timescale,
-    steps_csv, timescale_csv, truth_document, Overprint, SectionModel, SyntheticSection, Treatment, Unblocking,
-    SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE, TIMESCALE_FILE, TRUTH_FILE,
+    parse_rates, project_files, simulate_section, simulate_timescale, treatment_defaults, Overprint, SectionModel,
+    SyntheticSection, TimeScaleSource, Unblocking,
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::Table;
-use lodestone::units::cm_per_kyr_to_m_per_myr;
-use serde_json::json;
 use std::path::PathBuf;
 
 #[derive(Debug, Clone, Copy, ValueEnum)]
@@ -128,8 +126,9 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
         TreatmentArg::Thermal => Treatment::Thermal,
         TreatmentArg::Af => Treatment::Af,
     };
+    let defaults = treatment_defaults(treatment)?;
     let steps = match &a.steps {
-        None => treatment.default_steps(),
+        None => defaults.steps,
         Some(s) => s
             .split(',')
             .map(|x| x.trim().parse::<f64>().with_context(|| format!("--steps: '{}' is not a number", x.trim())))
@@ -152,13 +151,10 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
             Some(Overprint {
                 direction: Direction::new(d, i)?,
                 ratio: a.overprint_ratio,
-                unblocking: unblocking(&a.overprint_range, treatment.default_overprint(), "--overprint-range")?,
+                unblocking: unblocking(&a.overprint_range, defaults.overprint, "--overprint-range")?,
             })
         }
     };
-    if a.site_prefix.contains([',', '"', '\n']) {
-        bail!("--site-prefix may not contain commas, quotes or line breaks");
-    }
     Ok(SectionModel {
         site: GeoPoint::new(a.lat, a.lon)?,
         base_age: a.base_age,
@@ -171,7 +167,7 @@ fn build_model(a: &SectionArgs) -> Result<SectionModel> {
         bedding,
         treatment,
         steps,
-        characteristic: unblocking(&a.characteristic, treatment.default_characteristic(), "--characteristic")?,
+        characteristic: unblocking(&a.characteristic, defaults.characteristic, "--characteristic")?,
         overprint,
         moment: a.moment,
         moment_sigma: a.moment_spread,
@@ -187,62 +183,19 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Presentation>
     let (ts, source) = match &a.timescale {
         Some(p) => {
             ctx.inputs.add(p);
-            (TimeScale::from_table(&Table::read(p)?)?, json!({"file": p.display().to_string()}))
+            (TimeScale::from_table(&Table::read(p)?)?, TimeScaleSource::File(p.display().to_string()))
         }
         None => {
             // Cover the section with one mean interval to spare below its base.
             let span = a.base_age + a.renewal.mean_interval;
             let m = a.renewal.model(0.0, span)?;
-            (simulate_timescale(&m, seed)?, json!({"renewal": timescale_model_json(&m)}))
+            (simulate_timescale(&m, seed)?, TimeScaleSource::Renewal(m))
         }
     };
     let mc = ctx.monte_carlo(0);
     let sec = simulate_section(&model, &ts, &mc)?;
     let files = write_folder(&a, &model, &sec, &ts, &source, seed, ctx)?;
-    let (table, missed, thin) = chron_table(&model, &sec);
-    let mut notes = vec![format!("Wrote {} (steps, sampling, time scale, settings, truth).", a.out.display())];
-    let complete = sec.chrons.iter().filter(|c| c.complete).count();
-    notes.push(format!(
-        "Sampling check: {} of {complete} complete chrons hold no level and {} hold only one (a single level cannot make a magnetozone).{}",
-        missed.len(),
-        thin.len(),
-        if missed.is_empty() { String::new() } else { format!(" Missed: {}.", missed.join(", ")) }
-    ));
-    let spans = &sec.history.spans;
-    let min_rate = spans.iter().filter(|s| s.rate > 0.0).map(|s| s.rate).fold(f64::INFINITY, f64::min);
-    let max_rate = spans.iter().map(|s| s.rate).fold(0.0, f64::max);
-    // A chron of length t Myr at r cm/kyr is chron_thickness(t, r) m thick: it holds at least one
-    // level for sure only if that exceeds the spacing, and at least two only if it exceeds twice it.
-    notes.push(format!(
-        "At the slowest rate ({min_rate} cm/kyr) chrons shorter than {:.4} Myr can fall between levels, and chrons shorter than {:.4} Myr hold fewer than two.",
-        model.spacing / cm_per_kyr_to_m_per_myr(min_rate),
-        2.0 * model.spacing / cm_per_kyr_to_m_per_myr(min_rate)
-    ));
-    let (plan, plan_json) = sampling_plan(&model, min_rate, max_rate);
-    if spans.iter().any(|s| s.rate == 0.0) {
-        notes.push("The rate history has a hiatus: chrons inside it leave no rock and no record.".into());
-    }
-    notes.push("The data are synthetic draws from the stated model, for planning and testing; they say nothing about any real section.".into());
-    Ok(Presentation {
-        json: json!({
-            "out": a.out.display().to_string(),
-            "seed": seed,
-            "files": files,
-            "thickness": sec.history.thickness(),
-            "n_levels": sec.levels.len(),
-            "n_specimens": sec.specimens.len(),
-            "chrons": sec.chrons,
-            "ties": sec.ties,
-            "missed": missed,
-            "plan": plan_json,
-            "single_level": thin,
-            "notes": notes,
-        }),
-        sheets: vec![table, plan],
-        main_sheet: 0,
-        cautions: vec![],
-        notes,
-    })
+    Ok(present::synthetic_section(&model, &sec, seed, &a.out, &files))
 }
 
 /// Write the project folder (steps, sampling, time scale, settings, truth); returns the file names.
@@ -251,100 +204,14 @@ fn write_folder(
     model: &SectionModel,
     sec: &SyntheticSection,
     ts: &TimeScale,
-    source: &serde_json::Value,
+    source: &TimeScaleSource,
     seed: u64,
     ctx: &mut Ctx,
 ) -> Result<Vec<&'static str>> {
     crate::cli::prepare_out_dir(&a.out, a.force, &ctx.inputs)?;
-    let what = format!(
-        "Synthetic data written by lodestone simulate section (seed {seed}): a model, not measurements.\nLocality {:.4}, {:.4}; {} levels, {} specimens each.",
-        model.site.lat,
-        model.site.lon,
-        sec.levels.len(),
-        model.specimens
-    );
-    let files = [
-        (STEPS_FILE, steps_csv(model, sec, &what)),
-        (SAMPLING_FILE, sampling_csv(model, sec, &what)),
-        (
-            TIMESCALE_FILE,
-            timescale_csv(ts, &format!("Time scale used by the synthetic section (seed {seed}).\nSource: {source}")),
-        ),
-        (
-            SETTINGS_FILE,
-            settings_text(seed, "Settings for lodestone section (flat key = value; see the README, 'Project folder')."),
-        ),
-        (TRUTH_FILE, serde_json::to_string_pretty(&truth_document(model, sec, ts, source, seed))? + "\n"),
-    ];
+    let files = project_files(model, sec, ts, source, seed)?;
     for (name, text) in &files {
         write_atomic(&a.out.join(name), text.as_bytes(), &ctx.inputs)?;
     }
     Ok(files.iter().map(|f| f.0).collect())
-}
-
-/// The chrons of the section with their status, and the complete chrons that hold no level or one.
-fn chron_table(model: &SectionModel, sec: &SyntheticSection) -> (Sheet, Vec<String>, Vec<String>) {
-    let mut table = Sheet::new(
-        &format!(
-            "Chrons in the synthetic section ({} m, {} levels every {} m)",
-            round3(sec.history.thickness()),
-            sec.levels.len(),
-            model.spacing
-        ),
-        &["chron", "polarity", "young", "old", "base", "top", "thickness", "n_levels", "status"],
-    );
-    let mut missed = Vec::new();
-    let mut thin = Vec::new();
-    for c in &sec.chrons {
-        let label = c.name.clone().unwrap_or_else(|| format!("#{}", c.index + 1));
-        if c.complete && c.n_levels == 0 {
-            missed.push(label.clone());
-        } else if c.complete && c.n_levels == 1 {
-            thin.push(label.clone());
-        }
-        table.rows.push(vec![
-            Cell::Text(label),
-            Cell::Text(c.polarity.code().into()),
-            Cell::Num(c.young, 4),
-            Cell::Num(c.old, 4),
-            Cell::Num(c.base, 2),
-            Cell::Num(c.top, 2),
-            Cell::Num(c.top - c.base, 2),
-            Cell::Int(c.n_levels as i64),
-            Cell::Text(c.status(model.top_age, model.base_age).into()),
-        ]);
-    }
-    (table, missed, thin)
-}
-
-/// The chance that a chron of a given length holds one / two levels, at the slowest and fastest rates.
-fn sampling_plan(model: &SectionModel, min_rate: f64, max_rate: f64) -> (Sheet, Vec<serde_json::Value>) {
-    let mut plan = Sheet::new(
-        &format!("Sampling plan: chance that a chron holds at least one / two levels every {} m (random position against the grid)", model.spacing),
-        &["length", "rate", "thickness", "p_one", "p_two"],
-    );
-    let mut plan_json = Vec::new();
-    let mut rates = vec![min_rate];
-    if max_rate > min_rate {
-        rates.push(max_rate);
-    }
-    for &rate in &rates {
-        for length in [0.005, 0.01, 0.02, 0.05, 0.1, 0.2] {
-            let d = chron_thickness(length, rate);
-            let (p1, p2) = (catch_probability(d, model.spacing, 1), catch_probability(d, model.spacing, 2));
-            plan.rows.push(vec![
-                Cell::Num(length, 3),
-                Cell::Num(rate, 2),
-                Cell::Num(d, 3),
-                Cell::Num(p1, 3),
-                Cell::Num(p2, 3),
-            ]);
-            plan_json.push(json!({"length": length, "rate": rate, "thickness": d, "p_one": p1, "p_two": p2}));
-        }
-    }
-    (plan, plan_json)
-}
-
-fn round3(x: f64) -> f64 {
-    (x * 1000.0).round() / 1000.0
 }

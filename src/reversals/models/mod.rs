@@ -12,10 +12,12 @@ mod gamma;
 mod incomplete_gamma;
 mod inverse_gaussian;
 mod lognormal;
+mod stated;
 mod weibull;
 
 pub(crate) use draw_sorted::draw_sorted;
 pub(crate) use edf::EdfValues;
+pub use stated::DEFAULT_SHAPE;
 
 use crate::error::{Error, Result};
 use crate::montecarlo::McRng;

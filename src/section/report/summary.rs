@@ -154,7 +154,7 @@ fn reversal_stats(run: &SectionRun) -> Option<String> {
                 s,
                 "<br>Model-averaged P(reversal within {} Myr | none in the last {} Myr) = {} ({:.0} % bootstrap interval {}–{}): a statement about the fitted models, not a forecast.",
                 crate::section::HAZARD_HORIZON,
-                v("elapsed", format!("{e:.3}")),
+                v("elapsed", crate::numbers::fixed(e, 3)),
                 v("p-within", h.cell(r, "p_within").unwrap_or_default()),
                 crate::section::LEVEL * 100.0,
                 v("p-within-low", h.cell(r, "low").unwrap_or_default()),
