@@ -82,13 +82,15 @@
 //! | errors: kinds with the offending value; kinds of table faults | [`Error`], [`TableError`], [`TableFault`] |
 //! | units: accumulation rates (cm/kyr ↔ m/Myr), years ↔ Myr | [`units::cm_per_kyr_to_m_per_myr`], [`units::m_per_myr_to_cm_per_kyr`], [`units::years_to_myr`] |
 //! | the number formatter of every table, CSV file and report | [`numbers::fixed`], [`numbers::push_csv`], [`numbers::scientific`] |
-//! | presenters: the present field, synthetic data, a run on a project folder | [`present::field`], [`present::simulate`], [`present::section_run`] |
+//! | what people read of a result: sheets, notes, cautions, JSON; the text/CSV/JSON writers | [`present::Presentation`], [`present::write_text`], [`present::write_csv`], [`present::write_json`] |
+//! | one presenter per result type (directions, field tests, poles, column, correlation, renewal fits, hazard, rate, the present field, synthetic data, a section run) | [`present::mean_comparison`], [`present::poles`], [`present::correlation`], [`present::intervals`], [`present::field`], [`present::section_run`] |
+//! | each caution written once | [`present::cautions`] |
 //!
 //! ## Where things go
 //! A computation lives in the module of its concept (the table above), with `# Units`, `# Formula` and
 //! `# References` and a test against an outside source. `model` holds the domain types (no file reading);
 //! `table` reads tables into them; the command layer (`src/cli/`, not part of the library) parses arguments,
-//! calls the library and writes a report; the whole-output snapshot tests (`tests/snapshot_*.rs`) pin every
+//! calls the library and hands the result to its presenter in `present`, whose sheets `section` also writes; the whole-output snapshot tests (`tests/snapshot_*.rs`) pin every
 //! verb's output.
 //!
 //! ## References used throughout

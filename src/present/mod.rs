@@ -8,22 +8,39 @@
 //! - [`write_text`], [`write_csv`], [`write_json`], [`write_sheet_csv`]: the writers, one number
 //!   format each (text at the sheet's decimals, CSV at full precision).
 //! - [`cautions`]: the cautions, each written once.
+//! - One module per result type (e.g. [`mean_comparison`] for the reversal and common-mean tests,
+//!   [`correlation`] for the ranking, ties and age model): the presenter the verb, the section's
+//!   tables and report, and the Python package share.
 //! - [`Streamed`]: a presentation whose rows are produced while they are written (constant memory).
 
-pub mod cautions;
 mod cell;
-pub mod field;
-pub mod section_run;
+mod keyed;
 mod sheet;
-pub mod simulate;
 mod write;
 
+pub mod cautions;
+
+// Presenters, one per result type, in the order of the job.
 pub mod column;
+pub mod components;
 pub mod correlation;
+pub mod dipole;
+pub mod expected;
+pub mod field;
+pub mod field_tests;
+pub mod fisher_means;
+pub mod fold_test;
 pub mod hazard;
 pub mod intervals;
-mod keyed;
+pub mod mean_comparison;
+pub mod poles;
+pub mod psv;
+pub mod randomness_test;
 pub mod rate;
+pub mod section_run;
+pub mod simulate;
+pub mod site_means;
+pub mod unflatten;
 
 pub use cell::Cell;
 pub use sheet::Sheet;
@@ -72,20 +89,6 @@ pub trait Streamed {
     /// Write the JSON document (with [`write_json`], for the same layout as a [`Presentation`]'s).
     fn write_json(&self, out: &mut dyn std::io::Write) -> std::io::Result<()>;
 }
-
-// Presenters of directions, field tests and poles.
-pub mod components;
-pub mod dipole;
-pub mod expected;
-pub mod field_tests;
-pub mod fisher_means;
-pub mod fold_test;
-pub mod mean_comparison;
-pub mod poles;
-pub mod psv;
-pub mod randomness_test;
-pub mod site_means;
-pub mod unflatten;
 
 #[cfg(test)]
 mod direction_tests;
