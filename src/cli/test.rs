@@ -6,7 +6,7 @@ use anyhow::Result;
 use clap::{Args, Subcommand};
 use lodestone::fieldtests::{self, FoldOptions};
 use lodestone::model::{DirectionKind, DirectionSet};
-use lodestone::present::{self, field_tests::TestLabels};
+use lodestone::present::{self, test_labels::TestLabels};
 use lodestone::sphere::{Bedding, Vec3};
 use lodestone::stats::Frame;
 use lodestone::table::{read_directions, GroupBy, Table};

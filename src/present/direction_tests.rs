@@ -3,7 +3,8 @@
 //! in the JSON notes). The numbers themselves are checked against published values in the tests of
 //! `fieldtests` and `poles`; here only their presentation is.
 
-use super::field_tests::{section_sheet, TestLabels};
+use super::field_tests::section_sheet;
+use super::test_labels::TestLabels;
 use super::{cautions, Cell};
 use crate::fieldtests::reversal_test;
 use crate::model::{SiteRecord, SiteSet};

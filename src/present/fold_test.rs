@@ -1,7 +1,7 @@
 //! Presenter of the fold test: bootstrap incremental untilting, with the classic precision ratio
 //! shown for comparison.
 
-use super::field_tests::json_notes;
+use super::test_labels::json_notes;
 use super::{cautions, json_num, Cell, Presentation, Sheet};
 use crate::fieldtests::{FoldOptions, FoldTest, FoldVerdict};
 use serde::Serialize;

@@ -2,7 +2,7 @@
 //! of one set) and the common-mean test (two sets), by the angle test with its classes, Watson's
 //! V_w and a bootstrap.
 
-use super::field_tests::{json_notes, pass_fail, TestLabels};
+use super::test_labels::{json_notes, pass_fail, TestLabels};
 use super::{cautions, Cell, Presentation, Sheet};
 use crate::fieldtests::{MeanComparison, Mm90Class, ReversalTest};
 use serde::Serialize;

@@ -40,6 +40,7 @@ pub mod rate;
 pub mod section_run;
 pub mod simulate;
 pub mod site_means;
+pub mod test_labels;
 pub mod unflatten;
 
 pub use cell::Cell;

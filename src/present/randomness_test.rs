@@ -1,6 +1,6 @@
 //! Presenter of the randomness test of a set of directions (Watson 1956).
 
-use super::field_tests::json_notes;
+use super::test_labels::json_notes;
 use super::{cautions, Cell, Presentation, Sheet};
 use crate::fieldtests::{R0Route, RandomnessTest};
 use serde::Serialize;
