@@ -12,6 +12,7 @@
 //! *J. Geophys. Res.* 89, 3363–3372. Minka, T. P. (2002), Estimating a gamma distribution (Newton
 //! iteration and starting value). Lawless (2003), §5.1.
 
+use super::refine_censored;
 use super::{maximise2, trigamma, Sample};
 use crate::error::{Error, Result};
 use crate::montecarlo::McRng;
@@ -43,13 +44,7 @@ pub(super) fn fit_complete(s: &Sample) -> Result<[f64; 2]> {
 
 pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
     let start = fit_complete(s)?;
-    if s.censored_lengths().next().is_none() {
-        return Ok(start);
-    }
-    if let Some(p) = fit_newton(s, start) {
-        return Ok(p);
-    }
-    fit_nelder_mead(s, start)
+    refine_censored(s, start, fit_newton, fit_nelder_mead)
 }
 
 /// The analytic gradient and Hessian in (a, θ) of the complete-data log-likelihood.

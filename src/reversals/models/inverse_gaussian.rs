@@ -13,6 +13,7 @@
 //! earthquakes. *Bull. Seismol. Soc. Am.* 92, 2233–2250; Michael, J. R., Schucany, W. R. & Haas, R. W.
 //! (1976), *Am. Stat.* 30, 88–90 (sampler).
 
+use super::refine_censored;
 use super::{ln_norm_cdf, maximise2, Sample};
 use crate::error::{Error, Result};
 use crate::montecarlo::McRng;
@@ -28,13 +29,7 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
         return Err(Error::Undefined("the inverse Gaussian fit needs intervals of different lengths".into()));
     }
     let start = [mu, 1.0 / inv];
-    if s.censored_lengths().next().is_none() {
-        return Ok(start);
-    }
-    if let Some(p) = fit_newton(s, start) {
-        return Ok(p);
-    }
-    fit_nelder_mead(s, start)
+    refine_censored(s, start, fit_newton, fit_nelder_mead)
 }
 
 /// The analytic gradient and Hessian in (μ, λ) of the complete-data log-likelihood.

@@ -10,6 +10,7 @@
 //! Lawless (2003), §5.3; Johnson, N. L., Kotz, S. & Balakrishnan, N. (1994), *Continuous Univariate
 //! Distributions* vol. 1, ch. 14.
 
+use super::refine_censored;
 use super::{ln_norm_cdf, maximise2, Sample};
 use crate::error::{Error, Result};
 use crate::montecarlo::McRng;
@@ -24,13 +25,7 @@ pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
         return Err(Error::Undefined("the lognormal fit needs intervals of different lengths".into()));
     }
     let start = [mu, var.sqrt()];
-    if s.censored_lengths().next().is_none() {
-        return Ok(start);
-    }
-    if let Some(p) = fit_newton(s, start) {
-        return Ok(p);
-    }
-    fit_nelder_mead(s, start)
+    refine_censored(s, start, fit_newton, fit_nelder_mead)
 }
 
 /// The analytic gradient and Hessian in (μ, σ) of the complete-data log-likelihood.

@@ -373,6 +373,24 @@ pub(crate) fn maximise2<F: Fn(f64, f64) -> f64>(ll: F, start: [f64; 2], what: &'
     Ok(best)
 }
 
+/// The censored fit from the complete-data estimate `start`: `start` itself when nothing is
+/// censored, else the Newton refit from it (`newton`), else the Nelder–Mead one (`fallback`) when
+/// Newton does not converge.
+pub(super) fn refine_censored(
+    s: &Sample,
+    start: [f64; 2],
+    newton: fn(&Sample, [f64; 2]) -> Option<[f64; 2]>,
+    fallback: fn(&Sample, [f64; 2]) -> Result<[f64; 2]>,
+) -> Result<[f64; 2]> {
+    if s.censored_lengths().next().is_none() {
+        return Ok(start);
+    }
+    match newton(s, start) {
+        Some(p) => Ok(p),
+        None => fallback(s, start),
+    }
+}
+
 /// The censored maximum-likelihood estimate of a two-parameter model by Newton's method, started at
 /// the uncensored estimate `start`. `value` is the complete-data log-likelihood and `derivs` its
 /// analytic gradient and Hessian `[∂₀₀, ∂₀₁, ∂₁₁]`; `ln_sf` is the log survival at a censored length
