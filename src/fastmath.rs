@@ -183,31 +183,6 @@ unsafe fn in_place_avx2<F: Fn(f64) -> f64>(xs: &mut [f64], f: F) {
     in_place_portable(xs, f)
 }
 
-/// `out[i] = f(a[i], b[i])`; see [`map_into`].
-#[inline(always)]
-pub(crate) fn map2_into<F: Fn(f64, f64) -> f64 + Copy>(a: &[f64], b: &[f64], out: &mut [f64], f: F) {
-    assert!(a.len() == out.len() && b.len() == out.len(), "map2_into: input and output lengths differ");
-    #[cfg(target_arch = "x86_64")]
-    if std::arch::is_x86_feature_detected!("avx2") {
-        // SAFETY: the processor supports AVX2 (checked just above).
-        return unsafe { map2_avx2(a, b, out, f) };
-    }
-    map2_portable(a, b, out, f)
-}
-
-#[inline(always)]
-fn map2_portable<F: Fn(f64, f64) -> f64>(a: &[f64], b: &[f64], out: &mut [f64], f: F) {
-    for ((o, &x), &y) in out.iter_mut().zip(a).zip(b) {
-        *o = f(x, y);
-    }
-}
-
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx2")]
-unsafe fn map2_avx2<F: Fn(f64, f64) -> f64>(a: &[f64], b: &[f64], out: &mut [f64], f: F) {
-    map2_portable(a, b, out, f)
-}
-
 /// `a[i] ← f(a[i], b[i])` in place; see [`map_into`].
 #[inline(always)]
 pub(crate) fn map2_in_place<F: Fn(f64, f64) -> f64 + Copy>(a: &mut [f64], b: &[f64], f: F) {

@@ -48,29 +48,71 @@ const ERFCX_CHEB: [f64; 25] = [
 /// Clenshaw, C. W. (1955), *Math. Tables Aids Comput.* 9, 118–120.
 #[inline(always)]
 pub(crate) fn ln_upper_tail(u: f64) -> f64 {
-    let z = u * std::f64::consts::FRAC_1_SQRT_2;
-    let t = 2.0 / (2.0 + z);
-    let y = 2.0 * t - 1.0;
-    let (mut b1, mut b2) = (0.0, 0.0);
-    for &c in ERFCX_CHEB[1..].iter().rev() {
-        let b0 = c + 2.0 * y * b1 - b2;
-        b2 = b1;
-        b1 = b0;
+    let mut one = [0.0];
+    tail_lanes::<1>(&[u], &mut one, |v| v);
+    one[0]
+}
+
+/// Values evaluated side by side in [`ln_upper_tail_into`]: the recurrence is a chain of 24 dependent
+/// steps, so one vector at a time waits on each step; sixteen values (four 256-bit vectors) keep the
+/// arithmetic units busy (measured on 300 values: 33 → 18 ns a value).
+const LANES: usize = 16;
+
+/// [`ln_upper_tail`] of `pre(u)` for `LANES` (or fewer, at the end) values at once: the same operations
+/// in the same order for every value, so the same bits as one at a time.
+#[inline(always)]
+fn tail_lanes<const L: usize>(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64) {
+    let (mut y, mut t, mut uu) = ([0.0f64; L], [0.0f64; L], [0.0f64; L]);
+    for l in 0..u.len().min(L) {
+        uu[l] = pre(u[l]);
+        let z = uu[l] * std::f64::consts::FRAC_1_SQRT_2;
+        t[l] = 2.0 / (2.0 + z);
+        y[l] = 2.0 * t[l] - 1.0;
     }
-    let h = ERFCX_CHEB[0] + y * b1 - b2;
-    ln_basic(0.5 * t * h) - 0.5 * u * u
+    let (mut b1, mut b2) = ([0.0f64; L], [0.0f64; L]);
+    for &c in ERFCX_CHEB[1..].iter().rev() {
+        for l in 0..L {
+            let b0 = c + 2.0 * y[l] * b1[l] - b2[l];
+            b2[l] = b1[l];
+            b1[l] = b0;
+        }
+    }
+    for (l, o) in out.iter_mut().enumerate().take(L) {
+        let h = ERFCX_CHEB[0] + y[l] * b1[l] - b2[l];
+        *o = ln_basic(0.5 * t[l] * h) - 0.5 * uu[l] * uu[l];
+    }
+}
+
+/// `out[i] = ln_upper_tail(pre(u[i]))` over a slice, [`LANES`] values at a time (AVX2 when the
+/// processor has it; the same bits either way).
+pub(crate) fn ln_upper_tail_into(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64 + Copy) {
+    assert_eq!(u.len(), out.len(), "ln_upper_tail_into: input and output lengths differ");
+    #[cfg(target_arch = "x86_64")]
+    if std::arch::is_x86_feature_detected!("avx2") {
+        // SAFETY: the processor supports AVX2 (checked just above).
+        return unsafe { tail_slice_avx2(u, out, pre) };
+    }
+    tail_slice(u, out, pre)
+}
+
+#[inline(always)]
+fn tail_slice(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64 + Copy) {
+    for (u, o) in u.chunks(LANES).zip(out.chunks_mut(LANES)) {
+        tail_lanes::<LANES>(u, o, pre);
+    }
+}
+
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx2")]
+unsafe fn tail_slice_avx2(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64 + Copy) {
+    tail_slice(u, out, pre)
 }
 
 /// Φ(w) into `cdf`, ln Φ(w) into `ln_cdf` and ln Φ(−w) into `ln_sf` for every w: the smaller tail's
 /// log from [`ln_upper_tail`] and its value e by one exponential, the larger tail as 1 − e and its log
 /// as ln(1 − e).
 pub(crate) fn norm_log_tails(w: &[f64], cdf: &mut [f64], ln_cdf: &mut [f64], ln_sf: &mut [f64]) {
-    map_into(
-        w,
-        ln_sf,
-        #[inline(always)]
-        |w| ln_upper_tail(w.abs()),
-    );
+    ln_upper_tail_into(w, ln_sf, f64::abs);
     map_into(ln_sf, cdf, exp_basic);
     map_into(
         cdf,
@@ -117,6 +159,19 @@ mod tests {
             // Φ itself: 10⁻¹³ relative to e^(SciPy's ln Φ), or 2.3 · 10⁻¹⁶ absolute.
             assert!((cdf[i] - c.exp()).abs() <= 1e-13 * c.exp() + 2.3e-16, "Φ({w}) = {}, SciPy e^{c}", cdf[i]);
         }
+    }
+
+    #[test]
+    fn slice_tails_are_the_one_point_ones_bit_for_bit() {
+        // Sixteen values side by side (and a partial chunk of 11 at the end) against one at a time,
+        // whichever path the dispatch takes; with the absolute value applied on the way in.
+        let w: Vec<f64> = (0..43).map(|i| -9.0 + 0.43 * i as f64 + 0.01 * (i as f64).sin()).collect();
+        let mut out = vec![0.0; w.len()];
+        ln_upper_tail_into(&w, &mut out, f64::abs);
+        assert!(w.iter().zip(&out).all(|(&w, &o)| o.to_bits() == ln_upper_tail(w.abs()).to_bits()));
+        let mut portable = vec![0.0; w.len()];
+        tail_slice(&w, &mut portable, f64::abs);
+        assert_eq!(out, portable);
     }
 
     #[test]

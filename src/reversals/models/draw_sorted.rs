@@ -7,7 +7,8 @@ use crate::montecarlo::McRng;
 use rand::RngExt;
 use rand_distr::Distribution;
 
-/// `n` lengths from `f`, ascending, into `x`, and their natural logarithms into `lx`.
+/// `n` lengths from `f`, ascending, into `x`, and their natural logarithms into `lx` (left empty for
+/// the exponential model, whose refit and statistics use none).
 ///
 /// Exponential and Weibull samples come sorted from the Rényi representation (no sort); the others
 /// are drawn and then sorted (inverse Gaussian: the normals and uniforms drawn one by one, the
@@ -22,8 +23,7 @@ use rand_distr::Distribution;
 /// Rényi, A. (1953), On the theory of order statistics. *Acta Math. Acad. Sci. Hung.* 4, 191–231;
 /// David, H. A. & Nagaraja, H. N. (2003), *Order Statistics*, 3rd ed., §2.5.
 pub(crate) fn draw_sorted(f: &Fitted, n: usize, rng: &mut McRng, x: &mut Vec<f64>, lx: &mut Vec<f64>) {
-    x.clear();
-    lx.clear();
+    // Every element is written below: only the lengths are set here.
     x.resize(n, 0.0);
     lx.resize(n, 0.0);
     let [p0, p1] = f.params;
@@ -31,7 +31,8 @@ pub(crate) fn draw_sorted(f: &Fitted, n: usize, rng: &mut McRng, x: &mut Vec<f64
         Model::Exponential => {
             sorted_standard_exponentials(n, rng, x, lx);
             x.iter_mut().for_each(|v| *v /= p0);
-            ln_into(x, lx);
+            // The exponential refit and statistics need no logarithms.
+            lx.clear();
         }
         Model::Weibull => {
             sorted_standard_exponentials(n, rng, lx, x);
@@ -102,9 +103,11 @@ fn sorted_standard_exponentials(n: usize, rng: &mut McRng, y: &mut [f64], tmp: &
     // Uniforms on (0, 1]: 1 − U avoids ln 0.
     tmp.iter_mut().for_each(|u| *u = 1.0 - rng.random::<f64>());
     ln_into(tmp, y);
+    // The divisions a slice at a time (vector instructions), then the running sum.
+    y.iter_mut().enumerate().for_each(|(j, v)| *v /= (n - j) as f64);
     let mut acc = 0.0;
-    for (j, v) in y.iter_mut().enumerate() {
-        acc -= *v / (n - j) as f64;
+    for v in y.iter_mut() {
+        acc -= *v;
         *v = acc;
     }
 }

@@ -3,8 +3,8 @@
 //! bootstrap, where they are evaluated for every replicate.
 
 use super::{incomplete_gamma, Fitted, Model};
-use crate::fastmath::{exp_basic, ln_basic, map2_into, map_in_place, map_into};
-use crate::reversals::normal_tail::{ln_upper_tail, norm_log_tails};
+use crate::fastmath::{exp_basic, ln_basic, map_in_place, map_into};
+use crate::reversals::normal_tail::{ln_upper_tail_into, norm_log_tails};
 
 /// ln 10⁻³⁰⁰: ln F is floored here (F underflows far in the lower tail).
 const LN_F_FLOOR: f64 = -690.775_527_898_213_7;
@@ -28,12 +28,13 @@ pub(crate) struct EdfValues {
 /// 1 − e^(−t) for t ≥ 0 without cancellation for small t.
 ///
 /// # Formula
-/// Below t = 0.01 the series t(1 − t/2(1 − t/3(1 − ⋯ (1 − t/7)))) (remainder below 3 · 10⁻¹⁹ relative),
-/// above it 1 − e^(−t) (relative error below 10⁻¹⁴).
+/// Below t = 0.01 the series Σₖ (−1)ᵏ⁺¹ tᵏ/k!, k = 1 … 7, by Horner's scheme with the coefficients
+/// 1/k! (remainder below 3 · 10⁻¹⁹ relative; multiplications only, no division), above it 1 − e^(−t)
+/// (relative error below 10⁻¹⁴).
 #[inline(always)]
 fn one_minus_exp_neg(t: f64) -> f64 {
-    let small =
-        t * (1.0 - t / 2.0 * (1.0 - t / 3.0 * (1.0 - t / 4.0 * (1.0 - t / 5.0 * (1.0 - t / 6.0 * (1.0 - t / 7.0))))));
+    const C: [f64; 6] = [1.0 / 2.0, 1.0 / 6.0, 1.0 / 24.0, 1.0 / 120.0, 1.0 / 720.0, 1.0 / 5040.0];
+    let small = t * (1.0 - t * (C[0] - t * (C[1] - t * (C[2] - t * (C[3] - t * (C[4] - t * C[5]))))));
     let big = 1.0 - exp_basic(-t);
     if t < 0.01 {
         small
@@ -49,12 +50,16 @@ fn ln_floored(c: f64) -> f64 {
 }
 
 impl EdfValues {
-    /// Evaluate `f` at the ascending lengths `x` whose natural logarithms are `lx`.
+    /// Evaluate `f` at the ascending lengths `x` whose natural logarithms are `lx` (not read, and may be
+    /// empty, for the exponential model).
     pub(crate) fn fill(&mut self, f: &Fitted, x: &[f64], lx: &[f64]) {
         let n = x.len();
-        assert_eq!(lx.len(), n, "EdfValues::fill: lengths and logarithms differ in number");
+        assert!(
+            lx.len() == n || f.model == Model::Exponential,
+            "EdfValues::fill: lengths and logarithms differ in number"
+        );
+        // Every element is written below: only the lengths are set here.
         for v in [&mut self.cdf, &mut self.ln_cdf, &mut self.ln_sf, &mut self.a, &mut self.b] {
-            v.clear();
             v.resize(n, 0.0);
         }
         let [p0, p1] = f.params;
@@ -104,47 +109,43 @@ impl EdfValues {
         );
     }
 
-    /// Inverse Gaussian with mean `m` and shape `l`: F = Φ(a) + e^(2λ/μ) Φ(−b) and
-    /// S = Φ(−a) − e^(2λ/μ) Φ(−b), a = √(λ/x)(x/μ − 1), b = √(λ/x)(x/μ + 1), in log space
-    /// (the formulas of the model's own file).
+    /// Inverse Gaussian with mean `m` and shape `l`: F = Φ(a) + B and S = Φ(−a) − B with
+    /// B = e^(2λ/μ) Φ(−b), a = √(λ/x)(x/μ − 1), b = √(λ/x)(x/μ + 1) (the formulas of the model's own
+    /// file); the tails' logarithms from [`ln_upper_tail_into`], B = exp(2λ/μ + ln Φ(−b)), and S formed
+    /// as a difference of values (two exponentials and two logarithms per point).
     fn inverse_gaussian(&mut self, m: f64, l: f64, x: &[f64]) {
         for ((a, b), &x) in self.a.iter_mut().zip(self.b.iter_mut()).zip(x) {
             let r = (l / x).sqrt();
             *a = r * (x / m - 1.0);
             *b = r * (x / m + 1.0);
         }
-        // cdf ← Φ(a), ln_cdf ← ln Φ(a), ln_sf ← ln Φ(−a); b ← 2λ/μ + ln Φ(−b).
-        norm_log_tails(&self.a, &mut self.cdf, &mut self.ln_cdf, &mut self.ln_sf);
+        // ln_sf ← ln Φ(−|a|), inv ← ln Φ(−b); then b ← e^(2λ/μ) Φ(−b), ln_sf ← Φ(−|a|).
         let shift = 2.0 * l / m;
-        map_in_place(
+        self.inv.resize(x.len(), 0.0);
+        ln_upper_tail_into(&self.a, &mut self.ln_sf, f64::abs);
+        ln_upper_tail_into(&self.b, &mut self.inv, |b| b);
+        map_into(
+            &self.inv,
             &mut self.b,
             #[inline(always)]
-            |b| shift + ln_upper_tail(b),
+            |t| exp_basic(shift + t),
         );
-        map2_into(
-            &self.cdf,
-            &self.b,
-            &mut self.a,
-            #[inline(always)]
-            |phi_a, t2| (phi_a + exp_basic(t2)).min(1.0),
-        );
-        std::mem::swap(&mut self.a, &mut self.cdf);
-        map2_into(
-            &self.ln_sf,
-            &self.b,
-            &mut self.a,
-            #[inline(always)]
-            |u, t2| {
-                let d = t2 - u;
-                if d < 0.0 {
-                    u + ln_basic(1.0 - exp_basic(d))
-                } else {
-                    f64::NEG_INFINITY
-                }
-            },
-        );
-        std::mem::swap(&mut self.a, &mut self.ln_sf);
+        map_in_place(&mut self.ln_sf, exp_basic);
+        // F = Φ(a) + B (at most 1) into cdf, S = Φ(−a) − B into inv, with Φ(±a) from the smaller tail.
+        for ((((c, sf), &a), &small), &bb) in
+            self.cdf.iter_mut().zip(self.inv.iter_mut()).zip(&self.a).zip(&self.ln_sf).zip(&self.b)
+        {
+            let (phi_a, phi_minus_a) = if a < 0.0 { (small, 1.0 - small) } else { (1.0 - small, small) };
+            *c = (phi_a + bb).min(1.0);
+            *sf = phi_minus_a - bb;
+        }
         map_into(&self.cdf, &mut self.ln_cdf, ln_floored);
+        map_into(
+            &self.inv,
+            &mut self.ln_sf,
+            #[inline(always)]
+            |sf| if sf > 0.0 { ln_basic(sf) } else { f64::NEG_INFINITY },
+        );
     }
 
     /// Gamma: P(a, x/θ) by [`incomplete_gamma::gamma_p_sorted`]; ln S = ln(1 − P) except where P is

@@ -15,8 +15,13 @@ use crate::montecarlo::McRng;
 use rand::RngExt;
 
 pub(super) fn fit(s: &Sample) -> Result<[f64; 2]> {
-    let total = s.sum_x + s.censored_lengths().sum::<f64>();
-    Ok([s.n() as f64 / total, f64::NAN])
+    Ok(rate(s.n(), s.sum_x, s))
+}
+
+/// λ = r / (Σx + Σc) from the number `r` and sum `sum_x` of complete lengths and the censored lengths
+/// of `like`.
+pub(super) fn rate(r: usize, sum_x: f64, like: &Sample) -> [f64; 2] {
+    [r as f64 / (sum_x + like.censored_lengths().sum::<f64>()), f64::NAN]
 }
 
 pub(super) fn ln_pdf(p: &[f64; 2], x: f64) -> f64 {

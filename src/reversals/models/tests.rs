@@ -307,3 +307,65 @@ fn censored_derivatives_match_scipy_and_differences() {
         }
     }
 }
+
+#[test]
+fn weibull_refit_from_the_generating_shape_is_the_fit() {
+    // 400 censored bootstrap-like samples of 300 drawn from an invented Weibull fit: the refit (Newton
+    // from the generating shape, the replicate's own logarithms, stopped at 10⁻¹⁰) gives the bracketed
+    // fit's parameters within 10⁻⁹ relative; the times it falls back to the bracketed search are counted
+    // (0 expected).
+    let near = Fitted { model: Model::Weibull, params: [1.54, 0.28] };
+    let mut fallbacks = 0;
+    for i in 0..400u64 {
+        let mut rng = crate::montecarlo::replicate_rng(12, 0, i);
+        let (mut x, mut lx) = (Vec::new(), Vec::new());
+        draw_sorted(&near, 300, &mut rng, &mut x, &mut lx);
+        let s = Sample::from_sorted_logs(x, &lx, &Sample::new(vec![1.0, 2.0], Some(C)).unwrap()).unwrap();
+        let want = Model::Weibull.fit(&s).unwrap().params;
+        let got = Model::Weibull.refit(&s, &lx, &near).unwrap().params;
+        assert!(rel(got[0], want[0]) < 1e-9 && rel(got[1], want[1]) < 1e-9, "{got:?} against {want:?}");
+        let mut ly: Vec<f64> = lx.clone();
+        ly.push(C.ln());
+        let r = s.n() as f64;
+        ly.iter_mut().for_each(|l| *l -= s.sum_ln / r);
+        let top = ly.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        let mean = ly[..s.n()].iter().sum::<f64>() / r;
+        fallbacks += usize::from(weibull::newton_near(&ly, top, mean, near.params[0], 1e-3, 1e3).is_none());
+    }
+    eprintln!("Weibull refit: {fallbacks} of 400 fell back to the bracketed search");
+    assert_eq!(fallbacks, 0);
+}
+
+#[test]
+fn weibull_weighted_moments_are_the_plain_sums() {
+    // The one-pass, eight-lane sums against a running sum of exp(k (l − top)) l^j with the standard
+    // library's exponential: 10⁻¹⁴ relative, on 301 values (a partial chunk at the end).
+    let ly: Vec<f64> = (0..301).map(|i| -3.0 + 0.02 * i as f64 + 0.3 * (i as f64).sin()).collect();
+    let top = ly.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    for k in [0.4, 1.5, 7.0] {
+        let (s0, s1, s2) = weibull::weighted_moments(&ly, k, top);
+        let w: Vec<f64> = ly.iter().map(|l| (k * (l - top)).exp()).collect();
+        let want0: f64 = w.iter().sum();
+        let want1: f64 = w.iter().zip(&ly).map(|(w, l)| w * l).sum();
+        let want2: f64 = w.iter().zip(&ly).map(|(w, l)| w * l * l).sum();
+        assert!(rel(s0, want0) < 1e-14 && rel(s1, want1) < 1e-14 && rel(s2, want2) < 1e-14, "k {k}");
+    }
+}
+
+#[test]
+fn lane_sums_are_the_running_sums() {
+    // Σx, Σ ln x, Σ ln² x, Σ 1/x in eight lanes against running sums: 10⁻¹⁴ relative (19 values: two
+    // chunks and a remainder); with no logarithms only Σx.
+    let x: Vec<f64> = (1..20).map(|i| 0.05 * i as f64 + 0.01 * (i as f64).cos()).collect();
+    let lx: Vec<f64> = x.iter().map(|v| v.ln()).collect();
+    let got = lane_sums(&x, &lx);
+    let want = [
+        x.iter().sum::<f64>(),
+        lx.iter().sum::<f64>(),
+        lx.iter().map(|l| l * l).sum::<f64>(),
+        x.iter().map(|v| 1.0 / v).sum::<f64>(),
+    ];
+    assert!(got.iter().zip(&want).all(|(g, w)| rel(*g, *w) < 1e-14), "{got:?} against {want:?}");
+    assert_eq!(lane_sums(&x, &[])[1..], [0.0; 3]);
+    assert!(rel(lane_sums(&x, &[])[0], want[0]) < 1e-14);
+}
