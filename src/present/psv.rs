@@ -1,7 +1,8 @@
 //! Presenter of the VGP scatter per group against paleolatitude and the fitted latitude model
 //! S(λ)² = a² + (bλ)².
 
-use super::{Cell, Presentation, Sheet};
+use super::test_labels::json_notes;
+use super::{cautions, Cell, Presentation, Sheet};
 use crate::dirstats::{GroupRemark, LatitudeFit, LatitudeModelInterval, PsvGroups, MIN_GROUP_SITES};
 use serde::Serialize;
 
@@ -50,12 +51,13 @@ struct PsvJson<'a> {
     model: ModelJson,
     resamples: usize,
     seed: u64,
-    notes: &'a [String],
+    notes: Vec<String>,
 }
 
 /// The groups `pg`, the fitted model `fit` and its bootstrap intervals `ci`.
 pub fn psv(pg: &PsvGroups, fit: &LatitudeFit, ci: &LatitudeModelInterval, l: &PsvLabels) -> Presentation {
     let notes = notes(pg, ci, l.seed);
+    let cautions = vec![cautions::PSV.to_string()];
     let mut gsec = Sheet::new(
         &format!("VGP scatter per group of {} (by '{}', cutoff {})", l.file, l.by, l.cutoff),
         &["group", "paleolat", "s", "s_low", "s_high", "n_used"],
@@ -98,18 +100,18 @@ pub fn psv(pg: &PsvGroups, fit: &LatitudeFit, ci: &LatitudeModelInterval, l: &Ps
         },
         resamples: ci.resamples,
         seed: l.seed,
-        notes: &notes,
+        notes: json_notes(&notes, &cautions),
     };
     Presentation {
         json: serde_json::to_value(json).expect("plain data"),
         sheets: vec![gsec, model_sheet(fit, ci)],
         main_sheet: 0,
         notes,
-        cautions: vec![],
+        cautions,
     }
 }
 
-/// The remarks on groups, the flipped VGPs, and what the model is.
+/// The remarks on groups, the flipped VGPs, and how the model and its intervals were fitted.
 fn notes(pg: &PsvGroups, ci: &LatitudeModelInterval, seed: u64) -> Vec<String> {
     let mut notes: Vec<String> = pg
         .remarks
@@ -137,7 +139,7 @@ fn notes(pg: &PsvGroups, ci: &LatitudeModelInterval, seed: u64) -> Vec<String> {
         ));
     }
     notes.push(format!(
-        "S(λ)² = a² + (bλ)² is a statistical model of paleosecular variation fitted by least squares of S² on λ² (a, b ≥ 0); groups of different ages, cutoffs or site selections are not comparable without care, and the fit describes these groups, not the field itself. Intervals: seeded bootstrap of sites within each group (seed {seed}, {} pseudo-samples, 2.5–97.5 %), group paleolatitudes held fixed.",
+        "The latitude model is fitted by least squares of S² on λ² (a, b ≥ 0). Intervals: seeded bootstrap of sites within each group (seed {seed}, {} pseudo-samples, 2.5–97.5 %), group paleolatitudes held fixed.",
         ci.resamples
     ));
     notes
