@@ -70,3 +70,15 @@ def unflatten(
 def psv(
     sites: Source, by: str, cutoff: str = "none", seed: int = 1, resamples: int = 1000, threads: Optional[int] = None
 ) -> Dict[str, Any]: ...
+
+# The cautions, each written once in the library (present::cautions).
+FIELD_TEST_CAUTION: str
+POLE_CAUTION: str
+ONE_VGP_CAUTION: str
+PSV_CAUTION: str
+SHALLOWING_CAUTION: str
+CORRELATION_CAUTION: str
+FIELD_CAUTION: str
+RATE_CAUTION: str
+SYNTHETIC_CAUTION: str
+SYNTHETIC_SECTION_CAUTION: str

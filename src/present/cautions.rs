@@ -41,5 +41,13 @@ published literature decide.";
 pub const PRESENT_FIELD: &str = "These numbers describe a model of the observed field (smoothed to its highest \
 degree); they are not a forecast of a reversal. Local practice and the published literature decide what they mean.";
 
+/// With a synthetic time scale (closing its notes).
+pub const SYNTHETIC_TIMESCALE: &str =
+    "Synthetic: a draw from the stated renewal model, not a record of the geomagnetic field.";
+
+/// With a synthetic section (closing its notes).
+pub const SYNTHETIC_SECTION: &str = "The data are synthetic draws from the stated model, for planning and testing; \
+they say nothing about any real section.";
+
 /// With the renewal fits, the hazard and the rate of reversals.
 pub use crate::reversals::CAUTIONS as REVERSALS;

@@ -114,23 +114,37 @@ pub fn missing_ovals<'a>(set: &'a SiteSet, sum: &PoleSummary) -> Vec<&'a str> {
     set.records.iter().zip(&sum.sites).filter(|(_, sp)| sp.a95.is_none()).map(|(r, _)| r.site.as_str()).collect()
 }
 
-/// The VGPs, paleopole and scatter `sum` of the sites `set`.
-pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
+/// The sheet of the sites' VGPs (`poles`' main sheet, and the Python package's `vgps` columns):
+/// `site`, `lat`, `lon`, `dec`, `inc`, `plat`, `plon`, `dp`, `dm`, `paleolat`, `paleolat_low`,
+/// `paleolat_high`.
+pub fn sites_sheet(set: &SiteSet, sum: &PoleSummary, title: &str) -> Sheet {
     let mut sites = Sheet::new(
-        &format!("Virtual geomagnetic poles of {}", l.file),
+        title,
         &["site", "lat", "lon", "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "paleolat_low", "paleolat_high"],
     );
-    // Sites kept by the cutoff (all of them when there is no scatter).
-    let kept: Option<&[bool]> = match (&sum.pole, &sum.scatter, &sum.interval) {
-        (Some(_), Some(sc), Some(_)) => Some(&sc.kept),
-        _ => None,
-    };
-    let mut sites_json = Vec::new();
-    for (i, (r, sp)) in set.records.iter().zip(&sum.sites).enumerate() {
+    for (r, sp) in set.records.iter().zip(&sum.sites) {
         let mut row = vec![Cell::Text(r.site.clone()), Cell::Num(r.location.lat, 2), Cell::Azimuth(r.location.lon, 2)];
         row.extend(vgp_cells(r.direction, &sp.vgp, sp.oval));
         row.extend([Cell::opt(sp.range.map(|x| x.low), 1), Cell::opt(sp.range.map(|x| x.high), 1)]);
         sites.push(row);
+    }
+    sites
+}
+
+/// Which sites the cutoff kept (all of them when there is no scatter).
+pub fn kept_sites(sum: &PoleSummary) -> Vec<bool> {
+    match (&sum.pole, &sum.scatter, &sum.interval) {
+        (Some(_), Some(sc), Some(_)) => sc.kept.clone(),
+        _ => vec![true; sum.sites.len()],
+    }
+}
+
+/// The VGPs, paleopole and scatter `sum` of the sites `set`.
+pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
+    let sites = sites_sheet(set, sum, &format!("Virtual geomagnetic poles of {}", l.file));
+    let kept = kept_sites(sum);
+    let mut sites_json = Vec::new();
+    for (i, (r, sp)) in set.records.iter().zip(&sum.sites).enumerate() {
         sites_json.push(SiteJson {
             site: &r.site,
             line: r.line,
@@ -147,7 +161,7 @@ pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
             paleolat_low: sp.range.map(|x| x.low),
             paleolat_high: sp.range.map(|x| x.high),
             colatitude: sp.vgp.colatitude,
-            kept: kept.is_none_or(|k| k[i]),
+            kept: kept[i],
         });
     }
     let missing = missing_ovals(set, sum);

@@ -58,20 +58,10 @@ struct PsvJson<'a> {
 pub fn psv(pg: &PsvGroups, fit: &LatitudeFit, ci: &LatitudeModelInterval, l: &PsvLabels) -> Presentation {
     let notes = notes(pg, ci, l.seed);
     let cautions = vec![cautions::PSV.to_string()];
-    let mut gsec = Sheet::new(
-        &format!("VGP scatter per group of {} (by '{}', cutoff {})", l.file, l.by, l.cutoff),
-        &["group", "paleolat", "s", "s_low", "s_high", "n_used"],
-    );
+    let title = format!("VGP scatter per group of {} (by '{}', cutoff {})", l.file, l.by, l.cutoff);
+    let gsec = groups_sheet(pg, ci, &title);
     let mut groups = Vec::new();
     for (((g, b), n_used), within) in pg.groups.iter().zip(&ci.s_bounds).zip(&pg.n_used).zip(&pg.within_corrected) {
-        gsec.push(vec![
-            Cell::Text(g.name.clone()),
-            Cell::Num(g.paleolat, 1),
-            Cell::Num(g.s, 2),
-            Cell::Num(b.0, 2),
-            Cell::Num(b.1, 2),
-            Cell::Int(*n_used as i64),
-        ]);
         groups.push(GroupJson {
             group: &g.name,
             paleolat: g.paleolat,
@@ -111,6 +101,23 @@ pub fn psv(pg: &PsvGroups, fit: &LatitudeFit, ci: &LatitudeModelInterval, l: &Ps
     }
 }
 
+/// The sheet of the groups (`psv`'s main sheet, and the Python package's columns): `group`,
+/// `paleolat`, `s`, `s_low`, `s_high`, `n_used`.
+pub fn groups_sheet(pg: &PsvGroups, ci: &LatitudeModelInterval, title: &str) -> Sheet {
+    let mut gsec = Sheet::new(title, &["group", "paleolat", "s", "s_low", "s_high", "n_used"]);
+    for ((g, b), n_used) in pg.groups.iter().zip(&ci.s_bounds).zip(&pg.n_used) {
+        gsec.push(vec![
+            Cell::Text(g.name.clone()),
+            Cell::Num(g.paleolat, 1),
+            Cell::Num(g.s, 2),
+            Cell::Num(b.0, 2),
+            Cell::Num(b.1, 2),
+            Cell::Int(*n_used as i64),
+        ]);
+    }
+    gsec
+}
+
 /// The remarks on groups, the flipped VGPs, and how the model and its intervals were fitted.
 fn notes(pg: &PsvGroups, ci: &LatitudeModelInterval, seed: u64) -> Vec<String> {
     let mut notes: Vec<String> = pg
@@ -145,7 +152,9 @@ fn notes(pg: &PsvGroups, ci: &LatitudeModelInterval, seed: u64) -> Vec<String> {
     notes
 }
 
-fn model_sheet(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Sheet {
+/// The sheet of the latitude model: `a`, `a_low`, `a_high`, `b`, `b_low`, `b_high`, `rms`,
+/// `n_groups` (one row).
+pub fn model_sheet(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Sheet {
     let mut msec = Sheet::new(
         "Latitude model S(λ)² = a² + (bλ)² (λ in degrees)",
         &["a", "a_low", "a_high", "b", "b_low", "b_high", "rms", "n_groups"],
