@@ -159,6 +159,7 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(strat::column_figure, m)?)?;
     m.add_function(wrap_pyfunction!(reversals::reversal_rate, m)?)?;
     m.add_function(wrap_pyfunction!(simulate::simulate_timescale, m)?)?;
+    m.add_function(wrap_pyfunction!(simulate::simulate_section, m)?)?;
     m.add_function(wrap_pyfunction!(shallowing::unflatten, m)?)?;
     m.add_function(wrap_pyfunction!(psv::psv, m)?)?;
     // The cautions, each written once in the library (present::cautions).
