@@ -108,6 +108,17 @@ fn unflatten_outputs() {
     let f: serde_json::Value = serde_json::from_str(&factor).unwrap();
     assert!(f["f_low"].is_null());
     assert!(f["notes"].as_array().unwrap().iter().any(|n| n.as_str().unwrap().contains("is an assumption")));
+    // Both methods close with the library's one caution, stated once.
+    for d in [&v, &f] {
+        assert_last_once(d, lodestone::present::cautions::UNFLATTEN);
+    }
+}
+
+/// The JSON notes of `v` end with `caution`, which appears only there.
+fn assert_last_once(v: &serde_json::Value, caution: &str) {
+    let notes = v["notes"].as_array().unwrap();
+    assert_eq!(notes.last().unwrap(), caution, "{notes:?}");
+    assert_eq!(notes.iter().filter(|n| *n == caution).count(), 1, "{notes:?}");
 }
 
 #[test]
@@ -125,6 +136,7 @@ fn psv_outputs() {
     // Made with a = 13°, b = 0.22 (see make_demo_records).
     assert!(m["a_low"].as_f64().unwrap() <= 13.0 && 13.0 <= m["a_high"].as_f64().unwrap(), "{m}");
     assert!(m["b_low"].as_f64().unwrap() <= 0.22 && 0.22 <= m["b_high"].as_f64().unwrap(), "{m}");
+    assert_last_once(&v, lodestone::present::cautions::PSV);
 }
 
 fn figure_ok(args: &[&str], out: &Path) {

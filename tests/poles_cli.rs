@@ -64,6 +64,9 @@ fn cutoffs_report_what_they_removed_and_results_repeat_with_the_seed() {
             v["scatter"]["s_high"].as_f64().unwrap(),
         );
         assert!(lo < s && s < hi, "{lo} {s} {hi}");
+        assert_eq!(one_caution(v), lodestone::present::cautions::POLES);
+        let notes = v["notes"].to_string();
+        assert!(notes.contains("the cutoff applies to the scatter only"), "{notes}");
     }
     let again = json(&["poles", demo, "--northern", "--resamples", "100", "--threads", "1"]);
     assert_eq!(none["scatter"], again["scatter"]);
@@ -187,4 +190,14 @@ fn one_site_gives_its_vgp_and_says_why_there_is_no_paleopole() {
     assert!((s["dm"].as_f64().unwrap() - 6.0 * 2.5f64.sqrt()).abs() < 1e-9);
     assert!(v["pole"].is_null() && v["scatter"].is_null());
     assert!(v["notes"][0].as_str().unwrap().contains("one site"), "{}", v["notes"]);
+    // The model caveat is the library's one wording, stated once, last.
+    assert_eq!(one_caution(&v), lodestone::present::cautions::ONE_VGP);
+}
+
+/// The last JSON note, checked to appear only once.
+fn one_caution(v: &serde_json::Value) -> &str {
+    let notes = v["notes"].as_array().unwrap();
+    let last = notes.last().unwrap();
+    assert_eq!(notes.iter().filter(|n| *n == last).count(), 1, "{notes:?}");
+    last.as_str().unwrap()
 }

@@ -136,6 +136,21 @@ fn specimens_and_preview_fits() {
     for k in ["dec", "inc", "mad", "dang"] {
         assert!(f[k].is_number(), "{k}");
     }
+    // The page's fit is the `components` verb's fit of the same range, field for field and byte for
+    // byte (one view of a fit in the library).
+    let verb = Command::new(env!("CARGO_BIN_EXE_lodestone"))
+        .args(["components", "--from", "300", "--to", "560", "--format", "json"])
+        .arg(s.dir.path().join("steps.csv"))
+        .output()
+        .unwrap();
+    assert!(verb.status.success(), "{}", String::from_utf8_lossy(&verb.stderr));
+    let verb: serde_json::Value = serde_json::from_slice(&verb.stdout).unwrap();
+    let same = verb["fits"].as_array().unwrap().iter().find(|x| x["specimen"] == "SG001-1").unwrap();
+    let obj = f.as_object().unwrap();
+    assert_eq!(obj.len(), 9, "{body}");
+    for (k, v) in obj {
+        assert_eq!(v.to_string(), same[k].to_string(), "{k}");
+    }
     let (st, body) =
         call(&s, "POST", "/api/fit", r#"{"specimen":"SG001-1","from":0,"to":560,"kind":"plane","anchor":"origin"}"#);
     assert_eq!(st, 200, "{body}");

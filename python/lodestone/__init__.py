@@ -35,6 +35,7 @@ from ._poles import paleopole
 from ._psv import psv
 from ._rates import reversal_rate, simulate_timescale
 from ._shallowing import unflatten
+from ._synthetic import simulate_section
 from ._results import (
     FIELD_CAUTION,
     Correlation,
@@ -79,6 +80,7 @@ __all__ = [
     "column_figure",
     "reversal_rate",
     "simulate_timescale",
+    "simulate_section",
     "unflatten",
     "psv",
 ]

@@ -70,3 +70,26 @@ def unflatten(
 def psv(
     sites: Source, by: str, cutoff: str = "none", seed: int = 1, resamples: int = 1000, threads: Optional[int] = None
 ) -> Dict[str, Any]: ...
+
+# The cautions, each written once in the library (present::cautions).
+FIELD_TEST_CAUTION: str
+POLE_CAUTION: str
+ONE_VGP_CAUTION: str
+PSV_CAUTION: str
+SHALLOWING_CAUTION: str
+CORRELATION_CAUTION: str
+FIELD_CAUTION: str
+RATE_CAUTION: str
+SYNTHETIC_CAUTION: str
+SYNTHETIC_SECTION_CAUTION: str
+def simulate_section(
+    out: str, base_age: float, lat: float, lon: float, timescale: Optional[str] = None, top_age: float = 0.0,
+    rates: str = "2", spacing: float = 1.0, specimens: int = 3, kappa: float = 40.0,
+    level_kappa: Optional[float] = None, bedding: List[Tuple[float, float]] = ..., treatment: str = "thermal",
+    steps: Optional[List[float]] = None, characteristic: Optional[Tuple[float, float]] = None,
+    overprint: Optional[Tuple[float, float]] = None, overprint_ratio: float = 0.5,
+    overprint_range: Optional[Tuple[float, float]] = None, moment: float = 1e-8, moment_spread: float = 0.25,
+    noise: float = 0.005, site_prefix: str = "L", core: bool = False, model: str = "gamma",
+    shape: Optional[float] = None, mean_interval: float = 0.25, first_polarity: str = "N",
+    name_prefix: Optional[str] = None, seed: int = 1, force: bool = False,
+) -> Dict[str, Any]: ...

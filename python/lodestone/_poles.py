@@ -7,11 +7,9 @@ from typing import Optional, Union
 import pandas as pd
 
 from . import _native
+from ._native import ONE_VGP_CAUTION
 from ._results import Paleopole
 from ._tables import TableLike, _source
-
-#: Columns of ``poles --format csv``; ``a95``, ``kept`` and ``flipped`` follow them in ``vgps``.
-VGP_COLUMNS = ["site", "lat", "lon", "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "paleolat_low", "paleolat_high"]
 
 
 def paleopole(
@@ -45,7 +43,10 @@ def paleopole(
     Returns a :class:`Paleopole` (``vgps`` DataFrame; pole and scatter fields None for one site).
     """
     d = _native.paleopole(_source(sites), str(cutoff), bool(northern), int(seed), int(resamples), threads)
-    vgps = pd.DataFrame(d["sites"], columns=VGP_COLUMNS + ["a95", "kept", "flipped"])
+    # The columns of ``poles --format csv`` (the library's presenter), then ``a95``, ``kept``, ``flipped``.
+    vgps = pd.DataFrame(d["sites"])
+    for c in ("dp", "dm", "paleolat_low", "paleolat_high"):
+        vgps[c] = vgps[c].astype(float)
     pole = d.get("pole") or {}
     sc = d.get("scatter") or {}
     values = dict(
@@ -55,4 +56,6 @@ def paleopole(
     values.update({k: pole.get(k) for k in ("n", "plat", "plon", "k", "a95")})
     values.update({k: sc.get(k) for k in ("s", "s_low", "s_high", "s_total", "within_term", "n_used", "n_removed",
                                            "threshold")})
+    if not pole:
+        values["caution"] = ONE_VGP_CAUTION
     return Paleopole._from(values)

@@ -9,12 +9,8 @@ import pandas as pd
 from . import _native
 from ._tables import TableLike, _source
 
-#: What the latitude model is (and is not).
-PSV_CAUTION = (
-    "S(λ)² = a² + (bλ)² is a statistical model of paleosecular variation fitted to these groups; groups "
-    "of different ages, cutoffs or site selections are not comparable without care, and the fit describes "
-    "these groups, not the field itself. Local practice and the published literature decide."
-)
+#: What the latitude model is (and is not): the library's one wording (present::cautions).
+from ._native import PSV_CAUTION
 
 
 def psv(
@@ -44,9 +40,10 @@ def psv(
     McElhinny & McFadden (1997), Geophys. J. Int. 131, 240–252 (S_B); Vandamme (1994).
     """
     d = _native.psv(_source(sites), str(by), str(cutoff), int(seed), int(resamples), threads)
-    cols = ["group", "paleolat", "s", "s_low", "s_high", "n_used", "within_site_corrected"]
-    df = pd.DataFrame(d["groups"], columns=cols)
-    df.attrs["model"] = d["model"]
+    # The columns of the verb's sheet (the library's presenter), then within_site_corrected.
+    df = pd.DataFrame(d["groups"])
+    # The latitude model: one row of the verb's model sheet.
+    df.attrs["model"] = {k: v[0] for k, v in d["model"].items()}
     df.attrs["remarks"] = [{"group": g, "remark": r, "sites": n} for g, r, n in d["remarks"]]
     df.attrs["flipped"] = d["flipped"]
     df.attrs["resamples"] = d["resamples"]

@@ -9,15 +9,9 @@ import pandas as pd
 from . import _native
 from ._tables import TableLike, _source
 
-#: What a rate and its tests are (and are not).
-RATE_CAUTION = (
-    "The rate and the tests describe the reversals of this time scale in this window under a Poisson "
-    "model; they are not a forecast of the next reversal. Local practice and the published literature "
-    "decide how to read them."
-)
-
-#: What a synthetic time scale is.
-SYNTHETIC_CAUTION = "Synthetic: a draw from the stated renewal model, not a record of the geomagnetic field."
+# What a rate and its tests are (and are not), and what a synthetic time scale is: the library's one
+# wording of each (present::cautions).
+from ._native import RATE_CAUTION, SYNTHETIC_CAUTION
 
 
 def reversal_rate(

@@ -8,14 +8,11 @@ from typing import Any, Dict, Optional
 import numpy as np
 import pandas as pd
 
-# The caution that goes with every field test: the library's one wording (present::cautions).
-from ._native import FIELD_TEST_CAUTION
-
-#: The caution that goes with every present-field result.
-FIELD_CAUTION = (
-    "These numbers describe a model of the observed field (smoothed to its highest degree); they are "
-    "not a forecast of a reversal. Local practice and the published literature decide what they mean."
-)
+# The cautions: the library's one wording of each (present::cautions). FIELD_TEST_CAUTION goes with
+# every field test, FIELD_CAUTION with every present-field result, POLE_CAUTION with the paleopole
+# and the VGP scatter (ONE_VGP_CAUTION with the VGP of a single site), SHALLOWING_CAUTION with an
+# inclination-shallowing correction.
+from ._native import FIELD_CAUTION, FIELD_TEST_CAUTION, ONE_VGP_CAUTION, POLE_CAUTION, SHALLOWING_CAUTION
 
 
 def _plain(value: Any) -> Any:
@@ -173,15 +170,6 @@ class FieldElements(_Result):
     caution: str = FIELD_CAUTION
 
 
-#: The caution that goes with the paleopole and the VGP scatter.
-POLE_CAUTION = (
-    "VGPs and the paleopole rest on a model: a geocentric axial dipole at each site, averaged over enough "
-    "time for secular variation to cancel. The scatter interval is a seeded bootstrap over these sites; it "
-    "depends on the cutoff and on how the sites were chosen, and is a statement about this sample, not "
-    "about the field itself. Local practice and the published literature decide."
-)
-
-
 @dataclasses.dataclass(frozen=True)
 class Paleopole(_Result):
     """VGPs of the sites, the paleopole and the VGP scatter S_B (as ``poles`` gives them).
@@ -193,7 +181,7 @@ class Paleopole(_Result):
     ``s`` (S_B, None when the within-site term exceeds the total), ``s_low``/``s_high`` (bootstrap
     95 % interval), ``s_total``, ``within_term``, ``n_used``, ``n_removed``, ``threshold`` (the
     cutoff angle used, None without a cutoff) and ``cutoff``: the scatter of the polarity-aligned
-    VGPs. ``caution`` says what these numbers are.
+    VGPs. ``caution`` says what these numbers are (for a single site, what its VGP is).
     """
 
     vgps: Any
@@ -258,14 +246,6 @@ class Correlation(_Result):
     details: Any
     zones: Any
     caution: str
-
-
-#: The caution that goes with an inclination-shallowing correction.
-SHALLOWING_CAUTION = (
-    "The correction rests on a model: that the scatter of the directions is that of the TK03 field "
-    "model (or, with a given factor, that the factor applies to every direction). It is a statistical "
-    "estimate, not a measurement of compaction; local practice and the published literature decide."
-)
 
 
 @dataclasses.dataclass(frozen=True)

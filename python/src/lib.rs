@@ -159,9 +159,24 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add_function(wrap_pyfunction!(strat::column_figure, m)?)?;
     m.add_function(wrap_pyfunction!(reversals::reversal_rate, m)?)?;
     m.add_function(wrap_pyfunction!(simulate::simulate_timescale, m)?)?;
+    m.add_function(wrap_pyfunction!(simulate::simulate_section, m)?)?;
     m.add_function(wrap_pyfunction!(shallowing::unflatten, m)?)?;
     m.add_function(wrap_pyfunction!(psv::psv, m)?)?;
-    // The caution of the field tests, written once in the library.
-    m.add("FIELD_TEST_CAUTION", lodestone::present::cautions::FIELD_TESTS)?;
+    // The cautions, each written once in the library (present::cautions).
+    use lodestone::present::cautions;
+    for (name, text) in [
+        ("FIELD_TEST_CAUTION", cautions::FIELD_TESTS),
+        ("POLE_CAUTION", cautions::POLES),
+        ("ONE_VGP_CAUTION", cautions::ONE_VGP),
+        ("PSV_CAUTION", cautions::PSV),
+        ("SHALLOWING_CAUTION", cautions::UNFLATTEN),
+        ("CORRELATION_CAUTION", cautions::CORRELATION),
+        ("FIELD_CAUTION", cautions::PRESENT_FIELD),
+        ("RATE_CAUTION", cautions::RATE),
+        ("SYNTHETIC_CAUTION", cautions::SYNTHETIC_TIMESCALE),
+        ("SYNTHETIC_SECTION_CAUTION", cautions::SYNTHETIC_SECTION),
+    ] {
+        m.add(name, text)?;
+    }
     Ok(())
 }

@@ -3,40 +3,21 @@
 use crate::{cutoff_arg, run_detached, Source};
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::poles::pole_summary;
+use lodestone::present::poles::{kept_sites, sites_sheet};
 use lodestone::table::read_sites;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 
-/// The columns of the sites: name, location, direction, VGP, oval, paleolatitude range, kept.
+/// The columns of the sites: those of the `poles` verb's sheet (the library's presenter), then the
+/// α95 used, whether the cutoff kept the site and whether its VGP was flipped for the scatter.
 fn site_columns<'py>(
     py: Python<'py>,
     set: &lodestone::model::SiteSet,
     sum: &lodestone::poles::PoleSummary,
 ) -> PyResult<Bound<'py, PyDict>> {
-    let d = PyDict::new(py);
-    let r = &set.records;
-    let s = &sum.sites;
-    let opt = |f: &dyn Fn(&lodestone::poles::SitePole) -> Option<f64>| -> Vec<f64> {
-        s.iter().map(|x| f(x).unwrap_or(f64::NAN)).collect()
-    };
-    d.set_item("site", r.iter().map(|x| x.site.clone()).collect::<Vec<_>>())?;
-    d.set_item("lat", r.iter().map(|x| x.location.lat).collect::<Vec<_>>())?;
-    d.set_item("lon", r.iter().map(|x| x.location.lon).collect::<Vec<_>>())?;
-    d.set_item("dec", r.iter().map(|x| x.direction.dec).collect::<Vec<_>>())?;
-    d.set_item("inc", r.iter().map(|x| x.direction.inc).collect::<Vec<_>>())?;
-    d.set_item("plat", s.iter().map(|x| x.vgp.pole.lat).collect::<Vec<_>>())?;
-    d.set_item("plon", s.iter().map(|x| x.vgp.pole.lon).collect::<Vec<_>>())?;
-    d.set_item("dp", opt(&|x| x.oval.map(|o| o.dp)))?;
-    d.set_item("dm", opt(&|x| x.oval.map(|o| o.dm)))?;
-    d.set_item("paleolat", s.iter().map(|x| x.vgp.paleolat).collect::<Vec<_>>())?;
-    d.set_item("paleolat_low", opt(&|x| x.range.map(|o| o.low)))?;
-    d.set_item("paleolat_high", opt(&|x| x.range.map(|o| o.high)))?;
-    d.set_item("a95", opt(&|x| x.a95))?;
-    let kept: Vec<bool> = match &sum.scatter {
-        Some(sc) => sc.kept.clone(),
-        None => vec![true; s.len()],
-    };
-    d.set_item("kept", kept)?;
+    let d = crate::sheets::columns(py, &sites_sheet(set, sum, ""))?;
+    d.set_item("a95", sum.sites.iter().map(|x| x.a95.unwrap_or(f64::NAN)).collect::<Vec<_>>())?;
+    d.set_item("kept", kept_sites(sum))?;
     d.set_item("flipped", sum.alignment.flipped.clone())?;
     Ok(d)
 }

@@ -4,6 +4,7 @@
 use crate::{cutoff_arg, run_detached, Source};
 use lodestone::dirstats::{psv_groups, psv_model, GroupRemark};
 use lodestone::montecarlo::MonteCarlo;
+use lodestone::present::psv::{groups_sheet, model_sheet};
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
 
@@ -26,27 +27,11 @@ pub fn psv<'py>(
         let (fit, ci) = psv_model(&pg, &MonteCarlo::new(seed, resamples))?;
         Ok((pg, fit, ci))
     })?;
-    let g = PyDict::new(py);
-    g.set_item("group", pg.groups.iter().map(|x| x.name.clone()).collect::<Vec<_>>())?;
-    g.set_item("paleolat", pg.groups.iter().map(|x| x.paleolat).collect::<Vec<_>>())?;
-    g.set_item("s", pg.groups.iter().map(|x| x.s).collect::<Vec<_>>())?;
-    g.set_item("s_low", ci.s_bounds.iter().map(|b| b.0).collect::<Vec<_>>())?;
-    g.set_item("s_high", ci.s_bounds.iter().map(|b| b.1).collect::<Vec<_>>())?;
-    g.set_item("n_used", pg.n_used.clone())?;
+    // The columns of the `psv` verb's sheets (the library's presenter), and which groups had the
+    // within-site correction.
+    let g = crate::sheets::columns(py, &groups_sheet(&pg, &ci, ""))?;
     g.set_item("within_site_corrected", pg.within_corrected.clone())?;
-    let m = PyDict::new(py);
-    for (k, v) in [
-        ("a", fit.a),
-        ("b", fit.b),
-        ("a_low", ci.a_low),
-        ("a_high", ci.a_high),
-        ("b_low", ci.b_low),
-        ("b_high", ci.b_high),
-        ("rms", fit.rms),
-    ] {
-        m.set_item(k, v)?;
-    }
-    m.set_item("n_groups", fit.n_groups)?;
+    let m = crate::sheets::columns(py, &model_sheet(&fit, &ci))?;
     let remarks: Vec<(String, &str, Option<usize>)> = pg
         .remarks
         .iter()

@@ -26,8 +26,9 @@ fn read(dir: &Path, name: &str, required: bool, inputs: &mut Vec<PathBuf>) -> Ou
     Ok(Some(ProjectFile::new(name, bytes)))
 }
 
-/// Check (and create) the output folder; see the module documentation for the rules.
-fn prepare(out: &Path, force: bool, inputs: &[PathBuf]) -> Outcome<()> {
+/// Check (and create) the output folder and its `subfolders`; see the module documentation for the
+/// rules.
+pub(crate) fn prepare(out: &Path, force: bool, inputs: &[PathBuf], subfolders: &[&str]) -> Outcome<()> {
     if out.exists() && !out.is_dir() {
         return invalid(format!("{} exists and is not a folder", out.display()));
     }
@@ -44,7 +45,8 @@ fn prepare(out: &Path, force: bool, inputs: &[PathBuf]) -> Outcome<()> {
             ));
         }
     }
-    for sub in ["tables", "figures"] {
+    std::fs::create_dir_all(out).or_else(|e| invalid(format!("cannot create {}: {e}", out.display())))?;
+    for sub in subfolders {
         std::fs::create_dir_all(out.join(sub)).or_else(|e| invalid(format!("cannot create {}: {e}", out.display())))?;
     }
     Ok(())
@@ -52,11 +54,15 @@ fn prepare(out: &Path, force: bool, inputs: &[PathBuf]) -> Outcome<()> {
 
 /// Write one output file through a temporary name in the same folder.
 fn write(out: &Path, f: &OutputFile) -> Outcome<()> {
-    let path = out.join(&f.name);
+    write_file(&out.join(&f.name), &f.bytes)
+}
+
+/// Write `bytes` to `path` through a temporary name in the same folder and a rename.
+pub(crate) fn write_file(path: &Path, bytes: &[u8]) -> Outcome<()> {
     let name = path.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default();
     let tmp = path.with_file_name(format!(".{name}.tmp-{}", std::process::id()));
-    std::fs::write(&tmp, &f.bytes).or_else(|e| invalid(format!("cannot write {}: {e}", tmp.display())))?;
-    std::fs::rename(&tmp, &path).or_else(|e| {
+    std::fs::write(&tmp, bytes).or_else(|e| invalid(format!("cannot write {}: {e}", tmp.display())))?;
+    std::fs::rename(&tmp, path).or_else(|e| {
         let _ = std::fs::remove_file(&tmp);
         invalid(format!("cannot move the finished file into place at {}: {e}", path.display()))
     })
@@ -95,7 +101,7 @@ pub fn run_section(
         };
         let out = out.unwrap_or_else(|| folder.parent().unwrap_or(Path::new("")).join(format!("{title}-report")));
         let res = run(&project, &Silent, &mut |_| {})?;
-        prepare(&out, force, &inputs)?;
+        prepare(&out, force, &inputs, &["tables", "figures"])?;
         for f in res.files() {
             write(&out, &f)?;
         }

@@ -47,6 +47,8 @@ def test_paleopole_matches_the_command_line(cli, args):
         else:
             assert getattr(got, key) == pytest.approx(sc[key], rel=1e-12), key
     assert (got.n_used, got.n_removed, got.cutoff) == (sc["n_used"], sc["n_removed"], sc["cutoff"])
+    # One caution text (the library's), the last sentence the command line gives.
+    assert got.caution == want["notes"][-1] and "rest on a model" in got.caution
 
 
 def test_paleopole_follows_the_published_formulas():
@@ -109,6 +111,7 @@ def test_paleopole_is_seeded_and_thread_independent():
 def test_paleopole_of_one_site_gives_its_vgp_only():
     one = lodestone.paleopole(read_table(SITES).head(1))
     assert len(one.vgps) == 1 and one.plat is None and one.s is None
+    assert "one site records one moment" in one.caution and one.caution != lodestone.paleopole(record(SITES), resamples=50).caution
 
 
 def test_paleopole_bad_input_raises():

@@ -20,6 +20,8 @@ def test_psv_matches_the_command_line(cli, cutoff):
         np.testing.assert_allclose(got[key], [g[key] for g in want["groups"]], rtol=1e-12, err_msg=key)
     for key in ("a", "b", "a_low", "a_high", "b_low", "b_high", "rms", "n_groups"):
         assert got.attrs["model"][key] == pytest.approx(want["model"][key], rel=1e-12), key
+    # One caution text (the library's), the last sentence the command line gives.
+    assert got.attrs["caution"] == want["notes"][-1]
 
 
 def test_latitude_model_is_the_nonnegative_least_squares_fit():

@@ -24,6 +24,8 @@ def test_rate_matches_the_command_line(cli, args):
         assert got.attrs["laplace"][key] == pytest.approx(want["laplace"][key], rel=1e-12), key
     for key in ("n", "mean_h", "z", "p_value", "ks_d", "ks_p"):
         assert got.attrs["clustering"][key] == pytest.approx(want["clustering"][key], rel=1e-12), key
+    # One caution text (the library's), the last sentence the command line gives.
+    assert got.attrs["caution"] == want["notes"][-1]
 
 
 def test_rate_follows_garwood_and_the_laplace_formula():

@@ -36,6 +36,8 @@ def test_unflatten_matches_the_command_line(cli):
     want = cli("unflatten", record(BEDS), "--factor", 0.6)
     for key in ("n", "f", "inc_observed", "inc_corrected", "inc_low", "inc_high", "elongation", "a95_corrected"):
         assert getattr(given, key) == pytest.approx(want[key], rel=1e-12), key
+    # One caution text (the library's), the last sentence the command line gives with either method.
+    assert got.caution == given.caution == want["notes"][-1] and "not measurements" in got.caution
 
 
 def test_given_factor_follows_king_and_fisher():

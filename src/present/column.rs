@@ -17,15 +17,28 @@ pub struct ColumnLabels<'a> {
     pub min_levels: usize,
 }
 
-/// The levels sheet: position, VGP latitude, polarity class, n, α95 and MAD of each level; with
-/// `sites`, a first column names each level's site.
-pub fn levels_sheet(set: &LevelSet, pol: &[ZonePolarity], title: &str, sites: Option<&[String]>) -> Sheet {
+/// Which columns beyond the position, VGP latitude, polarity, n and α95 a levels sheet has.
+#[derive(Debug, Clone, Copy)]
+pub struct LevelColumns<'a> {
+    /// A first `site` column with these names, one per level.
+    pub sites: Option<&'a [String]>,
+    /// A last `mad` column (the levels table's MAD; a section's levels are site means, which have
+    /// none).
+    pub mad: bool,
+}
+
+/// The levels sheet: position, VGP latitude, polarity class, n, α95 (and MAD) of each level; with
+/// `cols.sites`, a first column names each level's site.
+pub fn levels_sheet(set: &LevelSet, pol: &[ZonePolarity], title: &str, cols: LevelColumns) -> Sheet {
     let axis = set.axis.column();
-    let mut cols = vec![axis, "vgp_lat", "polarity", "n", "a95", "mad"];
-    if sites.is_some() {
-        cols.insert(0, "site");
+    let mut names = vec![axis, "vgp_lat", "polarity", "n", "a95"];
+    if cols.mad {
+        names.push("mad");
     }
-    let mut sheet = Sheet::new(title, &cols);
+    if cols.sites.is_some() {
+        names.insert(0, "site");
+    }
+    let mut sheet = Sheet::new(title, &names);
     for (i, (l, p)) in set.levels.iter().zip(pol).enumerate() {
         let mut row = vec![
             Cell::Num(l.position, 3),
@@ -33,9 +46,11 @@ pub fn levels_sheet(set: &LevelSet, pol: &[ZonePolarity], title: &str, sites: Op
             Cell::Text(p.code().into()),
             Cell::Int(l.n as i64),
             Cell::opt(l.a95, 1),
-            Cell::opt(l.mad, 1),
         ];
-        if let Some(names) = sites {
+        if cols.mad {
+            row.push(Cell::opt(l.mad, 1));
+        }
+        if let Some(names) = cols.sites {
             row.insert(0, Cell::opt_text(names.get(i).map(String::as_str)));
         }
         sheet.push(row);
@@ -87,7 +102,8 @@ pub fn column_notes(set: &LevelSet, col: &ZoneColumn, threshold: f64, min_levels
 /// one), the reading notes after the level reader's notes.
 pub fn column(set: &LevelSet, pol: &[ZonePolarity], col: &ZoneColumn, labels: ColumnLabels<'_>) -> Presentation {
     let axis = set.axis.column();
-    let lev = levels_sheet(set, pol, &format!("Levels of {} (VGP threshold {}°)", labels.file, labels.threshold), None);
+    let title = format!("Levels of {} (VGP threshold {}°)", labels.file, labels.threshold);
+    let lev = levels_sheet(set, pol, &title, LevelColumns { sites: None, mad: true });
     let zones = zones_sheet(col, &format!("Magnetozones (listed by increasing {axis})"));
     let mut notes = set.notes.clone();
     notes.extend(column_notes(set, col, labels.threshold, labels.min_levels));
@@ -215,9 +231,9 @@ mod tests {
     fn the_sites_column_comes_first_and_the_rest_is_the_verbs_sheet() {
         let s = set();
         let (pol, _) = zone_levels(&s, 45.0, 2).unwrap();
-        let plain = levels_sheet(&s, &pol, "t", None);
+        let plain = levels_sheet(&s, &pol, "t", LevelColumns { sites: None, mad: true });
         let names: Vec<String> = ["a", "b", "c", "d"].map(String::from).to_vec();
-        let named = levels_sheet(&s, &pol, "t", Some(&names));
+        let named = levels_sheet(&s, &pol, "t", LevelColumns { sites: Some(&names), mad: true });
         assert_eq!(named.columns[0], "site");
         assert_eq!(&named.columns[1..], &plain.columns[..]);
         for (n, p) in named.rows.iter().zip(&plain.rows) {
@@ -228,6 +244,12 @@ mod tests {
         assert_eq!(plain.rows[1][5], Cell::Empty);
         let codes: Vec<&Cell> = plain.rows.iter().map(|r| &r[2]).collect();
         assert_eq!(codes, ["N", "N", "I", "R"].map(|c| Cell::Text(c.into())).iter().collect::<Vec<_>>());
+        // Without the MAD column the sheet is the same less its last column.
+        let no_mad = levels_sheet(&s, &pol, "t", LevelColumns { sites: None, mad: false });
+        assert_eq!(no_mad.columns, plain.columns[..5]);
+        for (a, b) in no_mad.rows.iter().zip(&plain.rows) {
+            assert_eq!(&a[..], &b[..5]);
+        }
     }
 
     #[test]

@@ -58,20 +58,53 @@ impl Serialize for Level {
     }
 }
 
+/// A fit's own fields as every front end gives them in JSON (the `components` verb's `fits[]`, the
+/// review page's API): the kind of fit, its range and its direction with MAD and DANG (degrees).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct FitView {
+    /// `line` or `plane`.
+    pub kind: FitKind,
+    /// `free` or `origin`.
+    pub anchor: Anchor,
+    /// Steps used.
+    pub n_steps: usize,
+    /// First step of the range (mT or °C, as the steps table gives them).
+    pub from: f64,
+    /// Last step of the range.
+    pub to: f64,
+    /// Declination of the line, or of the plane's pole, degrees.
+    pub dec: f64,
+    /// Inclination, degrees.
+    pub inc: f64,
+    /// Maximum angular deviation, degrees.
+    pub mad: f64,
+    /// Deviation angle of a free line from the origin, degrees (none for planes and anchored lines).
+    #[serde(serialize_with = "json_num::opt")]
+    pub dang: Option<f64>,
+}
+
+impl From<&SpecimenFit> for FitView {
+    fn from(f: &SpecimenFit) -> Self {
+        FitView {
+            kind: f.kind,
+            anchor: f.anchor,
+            n_steps: f.n_steps,
+            from: f.from,
+            to: f.to,
+            dec: f.direction.dec,
+            inc: f.direction.inc,
+            mad: f.mad,
+            dang: f.dang,
+        }
+    }
+}
+
 #[derive(Serialize)]
 struct FitJson<'a> {
     specimen: &'a str,
     site: Option<&'a str>,
-    kind: FitKind,
-    anchor: Anchor,
-    n_steps: usize,
-    from: f64,
-    to: f64,
-    dec: f64,
-    inc: f64,
-    mad: f64,
-    #[serde(serialize_with = "json_num::opt")]
-    dang: Option<f64>,
+    #[serde(flatten)]
+    fit: FitView,
     #[serde(flatten)]
     level: Option<Level>,
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -184,15 +217,7 @@ pub fn components(set: &StepSet, r: &ComponentFits, file: &str, mut notes: Vec<S
             FitJson {
                 specimen: &f.specimen,
                 site: sp.and_then(|s| s.site.as_deref()),
-                kind: f.kind,
-                anchor: f.anchor,
-                n_steps: f.n_steps,
-                from: f.from,
-                to: f.to,
-                dec: f.direction.dec,
-                inc: f.direction.inc,
-                mad: f.mad,
-                dang: f.dang,
+                fit: FitView::from(f),
                 level: set.axis.map(|a| Level(a.column(), sp.and_then(|s| s.position))),
                 grade: g.map(|(_, g, _)| *g),
                 reason: g.map(|(_, _, why)| why.as_str()),

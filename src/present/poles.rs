@@ -2,7 +2,8 @@
 //! range, the paleopole of the VGPs (K, A95) and the VGP scatter S_B with its bootstrap interval.
 //! The section's VGP and paleopole tables are built here too, from the same cells.
 
-use super::{json_num, Cell, Presentation, Sheet};
+use super::test_labels::json_notes;
+use super::{cautions, json_num, Cell, Presentation, Sheet};
 use crate::model::SiteSet;
 use crate::poles::{Paleopole, PoleOval, PoleSummary, Scatter, ScatterInterval, Vgp};
 use crate::sphere::Direction;
@@ -92,7 +93,7 @@ struct PolesJson<'a> {
     sites: Vec<SiteJson<'a>>,
     pole: Option<PoleJson>,
     scatter: Option<ScatterJson<'a>>,
-    notes: &'a [String],
+    notes: Vec<String>,
 }
 
 /// The VGP cells `dec`, `inc`, `plat`, `plon`, `dp`, `dm`, `paleolat` of a site.
@@ -113,23 +114,37 @@ pub fn missing_ovals<'a>(set: &'a SiteSet, sum: &PoleSummary) -> Vec<&'a str> {
     set.records.iter().zip(&sum.sites).filter(|(_, sp)| sp.a95.is_none()).map(|(r, _)| r.site.as_str()).collect()
 }
 
-/// The VGPs, paleopole and scatter `sum` of the sites `set`.
-pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
+/// The sheet of the sites' VGPs (`poles`' main sheet, and the Python package's `vgps` columns):
+/// `site`, `lat`, `lon`, `dec`, `inc`, `plat`, `plon`, `dp`, `dm`, `paleolat`, `paleolat_low`,
+/// `paleolat_high`.
+pub fn sites_sheet(set: &SiteSet, sum: &PoleSummary, title: &str) -> Sheet {
     let mut sites = Sheet::new(
-        &format!("Virtual geomagnetic poles of {}", l.file),
+        title,
         &["site", "lat", "lon", "dec", "inc", "plat", "plon", "dp", "dm", "paleolat", "paleolat_low", "paleolat_high"],
     );
-    // Sites kept by the cutoff (all of them when there is no scatter).
-    let kept: Option<&[bool]> = match (&sum.pole, &sum.scatter, &sum.interval) {
-        (Some(_), Some(sc), Some(_)) => Some(&sc.kept),
-        _ => None,
-    };
-    let mut sites_json = Vec::new();
-    for (i, (r, sp)) in set.records.iter().zip(&sum.sites).enumerate() {
+    for (r, sp) in set.records.iter().zip(&sum.sites) {
         let mut row = vec![Cell::Text(r.site.clone()), Cell::Num(r.location.lat, 2), Cell::Azimuth(r.location.lon, 2)];
         row.extend(vgp_cells(r.direction, &sp.vgp, sp.oval));
         row.extend([Cell::opt(sp.range.map(|x| x.low), 1), Cell::opt(sp.range.map(|x| x.high), 1)]);
         sites.push(row);
+    }
+    sites
+}
+
+/// Which sites the cutoff kept (all of them when there is no scatter).
+pub fn kept_sites(sum: &PoleSummary) -> Vec<bool> {
+    match (&sum.pole, &sum.scatter, &sum.interval) {
+        (Some(_), Some(sc), Some(_)) => sc.kept.clone(),
+        _ => vec![true; sum.sites.len()],
+    }
+}
+
+/// The VGPs, paleopole and scatter `sum` of the sites `set`.
+pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
+    let sites = sites_sheet(set, sum, &format!("Virtual geomagnetic poles of {}", l.file));
+    let kept = kept_sites(sum);
+    let mut sites_json = Vec::new();
+    for (i, (r, sp)) in set.records.iter().zip(&sum.sites).enumerate() {
         sites_json.push(SiteJson {
             site: &r.site,
             line: r.line,
@@ -146,25 +161,27 @@ pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
             paleolat_low: sp.range.map(|x| x.low),
             paleolat_high: sp.range.map(|x| x.high),
             colatitude: sp.vgp.colatitude,
-            kept: kept.is_none_or(|k| k[i]),
+            kept: kept[i],
         });
     }
     let missing = missing_ovals(set, sum);
     let (Some(pp), Some(sc), Some(boot)) = (sum.pole.as_ref(), sum.scatter.as_ref(), sum.interval.as_ref()) else {
         let notes = one_site_notes(l.file, &missing);
+        let cautions = vec![cautions::ONE_VGP.to_string()];
         let json = PolesJson {
             file: l.file,
             northern: l.northern,
             sites: sites_json,
             pole: None,
             scatter: None,
-            notes: &notes,
+            notes: json_notes(&notes, &cautions),
         };
-        return presentation(&json, vec![sites]);
+        return presentation(&json, vec![sites], notes, cautions);
     };
     let removed: Vec<&str> =
         set.records.iter().zip(&sc.kept).filter(|(_, k)| !**k).map(|(r, _)| r.site.as_str()).collect();
     let notes = notes(sum, sc, boot, &removed, &missing, l);
+    let cautions = vec![cautions::POLES.to_string()];
     let pole = pole_sheet(pp);
     let mut scatter = Sheet::new(
         "VGP scatter about the mean pole (polarity-aligned VGPs)",
@@ -192,14 +209,16 @@ pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
             seed: l.seed,
             polarity_aligned: true,
         }),
-        notes: &notes,
+        notes: json_notes(&notes, &cautions),
     };
-    presentation(&json, vec![sites, pole, scatter])
+    presentation(&json, vec![sites, pole, scatter], notes, cautions)
 }
 
-fn presentation(json: &PolesJson, sheets: Vec<Sheet>) -> Presentation {
+/// The presentation of `json` with its sheets, notes and cautions ([`cautions::POLES`], or
+/// [`cautions::ONE_VGP`] for one site).
+fn presentation(json: &PolesJson, sheets: Vec<Sheet>, notes: Vec<String>, cautions: Vec<String>) -> Presentation {
     let json_value = serde_json::to_value(json).expect("plain data");
-    Presentation { json: json_value, sheets, main_sheet: 0, notes: json.notes.to_vec(), cautions: vec![] }
+    Presentation { json: json_value, sheets, main_sheet: 0, notes, cautions }
 }
 
 /// The paleopole's row: `n`, `plat`, `plon`, `k`, `a95`.
@@ -240,7 +259,6 @@ fn one_site_notes(file: &str, missing: &[&str]) -> Vec<String> {
     let mut notes = vec![format!(
         "{file} holds one site: its VGP is given, but a paleopole (a Fisher mean of VGPs) and the VGP scatter need at least two sites, so none is computed."
     )];
-    notes.push("A VGP rests on a model: a geocentric dipole field at the site; one site records one moment of the field, not a time average.".into());
     if !missing.is_empty() {
         notes.push("dp, dm and the paleolatitude range are empty: the site has no a95 (or n and k).".into());
     }
@@ -274,7 +292,7 @@ fn notes(
     notes
 }
 
-/// Notes on the VGPs of the other polarity and on the model behind the poles.
+/// Notes on the VGPs of the other polarity and on which sites the paleopole uses.
 fn polarity_notes(sum: &PoleSummary, northern: bool, n_sites: usize, notes: &mut Vec<String>) {
     let alignment = &sum.alignment;
     let n_south = alignment.flipped.iter().filter(|f| **f).count();
@@ -289,7 +307,7 @@ fn polarity_notes(sum: &PoleSummary, northern: bool, n_sites: usize, notes: &mut
     if !northern && n_south > 0 && n_south < n_sites {
         notes.push("The paleopole averages VGPs of both hemispheres as given; with mixed polarity it is not meaningful without --northern.".into());
     }
-    notes.push("VGPs and the paleopole rest on a model: a geocentric dipole field at each site, averaged over enough time for secular variation to cancel; the paleopole uses every site (the cutoff applies to the scatter only).".into());
+    notes.push("The paleopole uses every site; the cutoff applies to the scatter only.".into());
 }
 
 /// Notes on the scatter: the cutoff, the within-site correction, negative bootstrap values.

@@ -1,7 +1,8 @@
 //! Presenter of the VGP scatter per group against paleolatitude and the fitted latitude model
 //! S(λ)² = a² + (bλ)².
 
-use super::{Cell, Presentation, Sheet};
+use super::test_labels::json_notes;
+use super::{cautions, Cell, Presentation, Sheet};
 use crate::dirstats::{GroupRemark, LatitudeFit, LatitudeModelInterval, PsvGroups, MIN_GROUP_SITES};
 use serde::Serialize;
 
@@ -50,26 +51,17 @@ struct PsvJson<'a> {
     model: ModelJson,
     resamples: usize,
     seed: u64,
-    notes: &'a [String],
+    notes: Vec<String>,
 }
 
 /// The groups `pg`, the fitted model `fit` and its bootstrap intervals `ci`.
 pub fn psv(pg: &PsvGroups, fit: &LatitudeFit, ci: &LatitudeModelInterval, l: &PsvLabels) -> Presentation {
     let notes = notes(pg, ci, l.seed);
-    let mut gsec = Sheet::new(
-        &format!("VGP scatter per group of {} (by '{}', cutoff {})", l.file, l.by, l.cutoff),
-        &["group", "paleolat", "s", "s_low", "s_high", "n_used"],
-    );
+    let cautions = vec![cautions::PSV.to_string()];
+    let title = format!("VGP scatter per group of {} (by '{}', cutoff {})", l.file, l.by, l.cutoff);
+    let gsec = groups_sheet(pg, ci, &title);
     let mut groups = Vec::new();
     for (((g, b), n_used), within) in pg.groups.iter().zip(&ci.s_bounds).zip(&pg.n_used).zip(&pg.within_corrected) {
-        gsec.push(vec![
-            Cell::Text(g.name.clone()),
-            Cell::Num(g.paleolat, 1),
-            Cell::Num(g.s, 2),
-            Cell::Num(b.0, 2),
-            Cell::Num(b.1, 2),
-            Cell::Int(*n_used as i64),
-        ]);
         groups.push(GroupJson {
             group: &g.name,
             paleolat: g.paleolat,
@@ -98,18 +90,35 @@ pub fn psv(pg: &PsvGroups, fit: &LatitudeFit, ci: &LatitudeModelInterval, l: &Ps
         },
         resamples: ci.resamples,
         seed: l.seed,
-        notes: &notes,
+        notes: json_notes(&notes, &cautions),
     };
     Presentation {
         json: serde_json::to_value(json).expect("plain data"),
         sheets: vec![gsec, model_sheet(fit, ci)],
         main_sheet: 0,
         notes,
-        cautions: vec![],
+        cautions,
     }
 }
 
-/// The remarks on groups, the flipped VGPs, and what the model is.
+/// The sheet of the groups (`psv`'s main sheet, and the Python package's columns): `group`,
+/// `paleolat`, `s`, `s_low`, `s_high`, `n_used`.
+pub fn groups_sheet(pg: &PsvGroups, ci: &LatitudeModelInterval, title: &str) -> Sheet {
+    let mut gsec = Sheet::new(title, &["group", "paleolat", "s", "s_low", "s_high", "n_used"]);
+    for ((g, b), n_used) in pg.groups.iter().zip(&ci.s_bounds).zip(&pg.n_used) {
+        gsec.push(vec![
+            Cell::Text(g.name.clone()),
+            Cell::Num(g.paleolat, 1),
+            Cell::Num(g.s, 2),
+            Cell::Num(b.0, 2),
+            Cell::Num(b.1, 2),
+            Cell::Int(*n_used as i64),
+        ]);
+    }
+    gsec
+}
+
+/// The remarks on groups, the flipped VGPs, and how the model and its intervals were fitted.
 fn notes(pg: &PsvGroups, ci: &LatitudeModelInterval, seed: u64) -> Vec<String> {
     let mut notes: Vec<String> = pg
         .remarks
@@ -137,13 +146,15 @@ fn notes(pg: &PsvGroups, ci: &LatitudeModelInterval, seed: u64) -> Vec<String> {
         ));
     }
     notes.push(format!(
-        "S(λ)² = a² + (bλ)² is a statistical model of paleosecular variation fitted by least squares of S² on λ² (a, b ≥ 0); groups of different ages, cutoffs or site selections are not comparable without care, and the fit describes these groups, not the field itself. Intervals: seeded bootstrap of sites within each group (seed {seed}, {} pseudo-samples, 2.5–97.5 %), group paleolatitudes held fixed.",
+        "The latitude model is fitted by least squares of S² on λ² (a, b ≥ 0). Intervals: seeded bootstrap of sites within each group (seed {seed}, {} pseudo-samples, 2.5–97.5 %), group paleolatitudes held fixed.",
         ci.resamples
     ));
     notes
 }
 
-fn model_sheet(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Sheet {
+/// The sheet of the latitude model: `a`, `a_low`, `a_high`, `b`, `b_low`, `b_high`, `rms`,
+/// `n_groups` (one row).
+pub fn model_sheet(fit: &LatitudeFit, ci: &LatitudeModelInterval) -> Sheet {
     let mut msec = Sheet::new(
         "Latitude model S(λ)² = a² + (bλ)² (λ in degrees)",
         &["a", "a_low", "a_high", "b", "b_low", "b_high", "rms", "n_groups"],

@@ -1,7 +1,8 @@
 //! The reversal rate through time with its trend and clustering tests, as the `rate` verb prints it
 //! and the `section` run writes it (`rate` and `rate-tests` tables).
 
-use super::{Cell, Presentation, Sheet};
+use super::test_labels::json_notes;
+use super::{cautions, Cell, Presentation, Sheet};
 use crate::reversals::{ClusteringTest, RatePoint, RateSummary};
 
 /// Title of the verb's rate sheet.
@@ -80,7 +81,8 @@ pub struct RateLabels<'a> {
 }
 
 /// The rate as the `rate` verb shows it: the rate sheet (the main one) and the tests; `notes` (how
-/// the intervals were cut) come first, then the counting and the tests.
+/// the intervals were cut) come first, then the counting and the tests; the caution is
+/// [`cautions::RATE`].
 pub fn rate(sum: &RateSummary, reversals: &[f64], labels: RateLabels<'_>, mut notes: Vec<String>) -> Presentation {
     notes.push(format!(
         "{} reversals in the window; rates counted in {} Myr windows every {} Myr, with exact Poisson {:.0} % limits.",
@@ -90,6 +92,7 @@ pub fn rate(sum: &RateSummary, reversals: &[f64], labels: RateLabels<'_>, mut no
         labels.level * 100.0
     ));
     notes.extend(tests_notes(sum));
+    let cautions = vec![cautions::RATE.to_string()];
     let view = RateView {
         file: labels.file,
         from: labels.span.0,
@@ -101,11 +104,11 @@ pub fn rate(sum: &RateSummary, reversals: &[f64], labels: RateLabels<'_>, mut no
         rate: &sum.points,
         laplace: sum.laplace.as_ref().ok(),
         clustering: sum.clustering.as_ref().ok().map(ClusteringView::of),
-        notes: &notes,
+        notes: json_notes(&notes, &cautions),
     };
     let json = serde_json::to_value(&view).expect("a rate view serializes");
     let sheets = vec![rate_sheet(&sum.points, RATE_TITLE), tests_sheet(sum, TESTS_TITLE)];
-    Presentation { json, sheets, main_sheet: 0, notes, cautions: vec![] }
+    Presentation { json, sheets, main_sheet: 0, notes, cautions }
 }
 
 #[derive(serde::Serialize)]
@@ -120,7 +123,7 @@ struct RateView<'a> {
     rate: &'a [RatePoint],
     laplace: Option<&'a crate::reversals::LaplaceTest>,
     clustering: Option<ClusteringView<'a>>,
-    notes: &'a [String],
+    notes: Vec<String>,
 }
 
 #[derive(serde::Serialize)]

@@ -8,10 +8,7 @@ use crate::units::cm_per_kyr_to_m_per_myr;
 use serde::Serialize;
 use std::path::Path;
 
-/// What a synthetic result is not, closing each of its notes.
-const SYNTHETIC_TIMESCALE: &str =
-    "Synthetic: a draw from the stated renewal model, not a record of the geomagnetic field.";
-const SYNTHETIC_SECTION: &str = "The data are synthetic draws from the stated model, for planning and testing; they say nothing about any real section.";
+use super::cautions::{SYNTHETIC_SECTION, SYNTHETIC_TIMESCALE};
 
 #[derive(Serialize)]
 struct ChronView<'a> {

@@ -25,7 +25,8 @@ pub(super) fn pass_fail(b: bool) -> &'static str {
     }
 }
 
-/// The notes followed by the cautions: the `notes` array of a field test's JSON.
+/// The notes followed by the cautions: the `notes` array of a presenter's JSON (field tests, poles,
+/// psv, unflatten, rate).
 pub(super) fn json_notes(notes: &[String], cautions: &[String]) -> Vec<String> {
     notes.iter().chain(cautions).cloned().collect()
 }

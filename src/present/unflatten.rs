@@ -1,7 +1,8 @@
 //! Presenters of the inclination-shallowing correction: the elongation/inclination search and the
 //! correction by a given factor.
 
-use super::{json_num, Cell, Presentation, Sheet};
+use super::test_labels::json_notes;
+use super::{cautions, json_num, Cell, Presentation, Sheet};
 use crate::dirstats::{FactorResult, Tk03, UnflattenResult, RECOMMENDED_DIRECTIONS};
 use crate::sphere::Direction;
 use serde::Serialize;
@@ -41,7 +42,7 @@ struct SearchJson<'a> {
     no_crossing: usize,
     seed: u64,
     model: ModelJson,
-    notes: &'a [String],
+    notes: Vec<String>,
 }
 
 #[derive(Serialize)]
@@ -70,7 +71,7 @@ struct FactorJson<'a> {
     k_observed: Option<f64>,
     #[serde(serialize_with = "json_num::opt")]
     k_corrected: Option<f64>,
-    notes: &'a [String],
+    notes: Vec<String>,
 }
 
 /// The search `r` on the directions of `file` (bootstrap seeded by `seed`); `notes` come first
@@ -118,16 +119,18 @@ pub fn search(r: &UnflattenResult, file: &str, seed: u64, mut notes: Vec<String>
             beta: m.beta,
             core_ratio: m.core_ratio,
         },
-        notes: &notes,
+        notes: json_notes(&notes, &[cautions::UNFLATTEN.to_string()]),
     };
     one_sheet(serde_json::to_value(json).expect("plain data"), sec, notes)
 }
 
+/// One sheet with its notes and the caution [`cautions::UNFLATTEN`].
 fn one_sheet(json: serde_json::Value, sheet: Sheet, notes: Vec<String>) -> Presentation {
-    Presentation { json, sheets: vec![sheet], main_sheet: 0, notes, cautions: vec![] }
+    Presentation { json, sheets: vec![sheet], main_sheet: 0, notes, cautions: vec![cautions::UNFLATTEN.to_string()] }
 }
 
-/// The cautions of the elongation/inclination search.
+/// The notes of the elongation/inclination search: too few directions, no crossing, the
+/// elongation's axis and the bootstrap.
 fn search_notes(r: &UnflattenResult, notes: &mut Vec<String>, seed: u64) {
     if r.n < RECOMMENDED_DIRECTIONS {
         notes.push(format!(
@@ -153,7 +156,7 @@ fn search_notes(r: &UnflattenResult, notes: &mut Vec<String>, seed: u64) {
         ));
     }
     notes.push(format!(
-        "The correction assumes that the TK03 statistical field model describes the ancient field's scatter and that shallowing follows tan I_f = f tan I₀; f and the corrected inclination are statements about that model, not measurements. Local practice and the published literature decide whether it applies. Intervals: seeded bootstrap of directions (seed {seed}, {} pseudo-samples, 2.5–97.5 %).",
+        "Intervals: seeded bootstrap of directions (seed {seed}, {} pseudo-samples, 2.5–97.5 %).",
         r.resamples
     ));
 }
@@ -213,7 +216,7 @@ pub fn by_factor(r: &FactorResult, g: &GivenFactor, mut notes: Vec<String>) -> P
         a95_corrected: r.corrected.alpha,
         k_observed: r.observed.k.map(|k| k.0),
         k_corrected: r.corrected.k.map(|k| k.0),
-        notes: &notes,
+        notes: json_notes(&notes, &[cautions::UNFLATTEN.to_string()]),
     };
     one_sheet(serde_json::to_value(json).expect("plain data"), sec, notes)
 }

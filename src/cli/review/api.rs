@@ -6,6 +6,9 @@ use anyhow::{Context, Result};
 use lodestone::demag::{fit_range, SpecimenFit};
 use lodestone::model::{Anchor, FitKind};
 use lodestone::model::{SpecimenSteps, StepSet};
+// A fit as the page sees it (the contract's keys `dec`, `inc`, `mad`, `dang`, `n_steps`, with the
+// range and the kind of fit) is the `components` presenter's view, so both give the same fields.
+use lodestone::present::components::FitView;
 use lodestone::section::{automatic_fit, rule_text, Project, ProjectFile, SectionSettings};
 use lodestone::simulate::{Settings, PICKS_FILE, SAMPLING_FILE, SETTINGS_FILE, STEPS_FILE};
 use lodestone::table::{read_picks, read_steps, Table};
@@ -36,40 +39,9 @@ struct ErrorBody {
     error: String,
 }
 
-/// A fit as the page sees it (the contract's keys: `dec`, `inc`, `mad`, `dang`, `n_steps`, with
-/// the range and the kind of fit).
-#[derive(Serialize)]
-struct FitBody {
-    kind: FitKind,
-    anchor: Anchor,
-    n_steps: usize,
-    from: f64,
-    to: f64,
-    dec: f64,
-    inc: f64,
-    mad: f64,
-    dang: Option<f64>,
-}
-
-impl From<&SpecimenFit> for FitBody {
-    fn from(f: &SpecimenFit) -> Self {
-        FitBody {
-            kind: f.kind,
-            anchor: f.anchor,
-            n_steps: f.n_steps,
-            from: f.from,
-            to: f.to,
-            dec: f.direction.dec,
-            inc: f.direction.inc,
-            mad: f.mad,
-            dang: f.dang,
-        }
-    }
-}
-
 /// A specimen's current fit: a saved pick, or the automatic rule's choice (with its grade).
 struct Current {
-    fit: Option<FitBody>,
+    fit: Option<FitView>,
     source: &'static str,
     grade: Option<&'static str>,
     reason: String,
@@ -81,7 +53,7 @@ struct SpecimenRow<'a> {
     specimen: &'a str,
     site: &'a Option<String>,
     n_steps: usize,
-    fit: Option<FitBody>,
+    fit: Option<FitView>,
     source: &'static str,
     grade: Option<&'static str>,
     reason: String,
@@ -106,7 +78,7 @@ struct SpecimenBody<'a> {
     site: &'a Option<String>,
     unit: Option<&'static str>,
     steps: Vec<StepBody>,
-    fit: Option<FitBody>,
+    fit: Option<FitView>,
     source: &'static str,
     grade: Option<&'static str>,
     reason: String,
@@ -131,7 +103,7 @@ struct EffectBody<'a> {
 /// The body of `DELETE /api/picks/NAME`: the automatic rule's fit that replaces the pick.
 #[derive(Serialize)]
 struct AfterDelete {
-    fit: Option<FitBody>,
+    fit: Option<FitView>,
     grade: Option<&'static str>,
     reason: String,
 }
@@ -209,13 +181,13 @@ impl State {
         let pick = |fit, reason| Current { fit, source: "pick", grade: None, reason };
         if let Some((_, p)) = self.picks.iter().find(|(s, _)| s == &sp.specimen) {
             return match fit_range(sp, p.from, p.to, p.kind, p.anchor) {
-                Ok(f) => pick(Some(FitBody::from(&f)), "chosen on this page or in picks.csv".into()),
+                Ok(f) => pick(Some(FitView::from(&f)), "chosen on this page or in picks.csv".into()),
                 Err(e) => pick(None, e.to_string()),
             };
         }
         match automatic_fit(sp, &self.settings) {
             Ok(c) => Current {
-                fit: Some(FitBody::from(&c.fit)),
+                fit: Some(FitView::from(&c.fit)),
                 source: "auto",
                 grade: Some(c.grade.as_str()),
                 reason: c.reason,
@@ -285,7 +257,7 @@ impl State {
                 Err(e) => Reply::error(500, format!("{e:#}")),
             },
             ("POST", "/api/fit") => match self.parse_fit(body, None) {
-                Ok((_, f)) => Reply::json(200, &FitBody::from(&f)),
+                Ok((_, f)) => Reply::json(200, &FitView::from(&f)),
                 Err(e) => Reply::error(400, e),
             },
             ("GET", p) if p.starts_with("/api/specimen/") => match spec_of(&p["/api/specimen/".len()..]) {
@@ -300,7 +272,7 @@ impl State {
                     return Reply::error(400, "the specimen name is not valid percent-encoded UTF-8");
                 };
                 match self.parse_fit(body, Some(&name)) {
-                    Ok((row, f)) => self.save_with(&name, Some(row), &FitBody::from(&f)),
+                    Ok((row, f)) => self.save_with(&name, Some(row), &FitView::from(&f)),
                     Err(e) => Reply::error(400, e),
                 }
             }
@@ -351,7 +323,7 @@ impl State {
 
     fn specimen_after_delete(&self, sp: &SpecimenSteps) -> AfterDelete {
         match automatic_fit(sp, &self.settings) {
-            Ok(c) => AfterDelete { fit: Some(FitBody::from(&c.fit)), grade: Some(c.grade.as_str()), reason: c.reason },
+            Ok(c) => AfterDelete { fit: Some(FitView::from(&c.fit)), grade: Some(c.grade.as_str()), reason: c.reason },
             Err(why) => AfterDelete { fit: None, grade: None, reason: why },
         }
     }

@@ -5,7 +5,7 @@ use super::site_means::UsedSite;
 use super::RunLog;
 use crate::error::Result;
 use crate::figures::{ColumnFigure, ScalePanel};
-use crate::present::column::{levels_sheet, zones_sheet};
+use crate::present::column::{levels_sheet, zones_sheet, LevelColumns};
 use crate::section::stage::{draw, Stage};
 use crate::section::tables::CsvTable;
 use crate::section::Project;
@@ -75,7 +75,9 @@ pub(in crate::section) fn polarity_column(p: &Project, inp: &Inputs, used: &[Use
 
 fn levels_table(inp: &Inputs, used: &[UsedSite], levels: &LevelSet, pol: &[ZonePolarity]) -> CsvTable {
     let sites: Vec<String> = used.iter().map(|u| inp.sites[u.idx].site.clone()).collect();
-    CsvTable::from_sheet("levels", levels_sheet(levels, pol, "Polarity of each level", Some(&sites)))
+    // A section's levels are site means: they have no MAD, so the sheet has no `mad` column.
+    let cols = LevelColumns { sites: Some(&sites), mad: false };
+    CsvTable::from_sheet("levels", levels_sheet(levels, pol, "Polarity of each level", cols))
 }
 
 /// The column figure: VGP latitude of each level and the zones, with the time scale and the best
