@@ -9,6 +9,7 @@ pub mod gof;
 pub mod hazard;
 pub mod intervals;
 pub mod models;
+mod normal_quantile;
 mod normal_tail;
 pub mod optimize;
 pub mod rate;

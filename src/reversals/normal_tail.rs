@@ -62,17 +62,19 @@ const LANES: usize = 16;
 /// in the same order for every value, so the same bits as one at a time.
 #[inline(always)]
 fn tail_lanes<const L: usize>(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64) {
-    let (mut y, mut t, mut uu) = ([0.0f64; L], [0.0f64; L], [0.0f64; L]);
+    let (mut y, mut y2, mut t, mut uu) = ([0.0f64; L], [0.0f64; L], [0.0f64; L], [0.0f64; L]);
     for l in 0..u.len().min(L) {
         uu[l] = pre(u[l]);
         let z = uu[l] * std::f64::consts::FRAC_1_SQRT_2;
         t[l] = 2.0 / (2.0 + z);
         y[l] = 2.0 * t[l] - 1.0;
+        y2[l] = 2.0 * y[l];
     }
     let (mut b1, mut b2) = ([0.0f64; L], [0.0f64; L]);
     for &c in ERFCX_CHEB[1..].iter().rev() {
         for l in 0..L {
-            let b0 = c + 2.0 * y[l] * b1[l] - b2[l];
+            // (2y) b₁ with 2y formed once: the same operations, so the same bits.
+            let b0 = c + y2[l] * b1[l] - b2[l];
             b2[l] = b1[l];
             b1[l] = b0;
         }
