@@ -133,6 +133,24 @@ pub(crate) fn exp_basic(x: f64) -> f64 {
     }
 }
 
+/// `f()` compiled for AVX2 when the processor has it (the closure is inlined into a function with the
+/// feature enabled; the same operations, so the same bits), else as it is.
+#[inline(always)]
+pub(crate) fn with_avx2<R, F: FnOnce() -> R>(f: F) -> R {
+    #[cfg(target_arch = "x86_64")]
+    if std::arch::is_x86_feature_detected!("avx2") {
+        // SAFETY: the processor supports AVX2 (checked just above).
+        return unsafe { run_avx2(f) };
+    }
+    f()
+}
+
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx2")]
+unsafe fn run_avx2<R, F: FnOnce() -> R>(f: F) -> R {
+    f()
+}
+
 /// `out[i] = f(xs[i])` for a kernel `f` built from basic operations, compiled for AVX2 when the
 /// processor has it (the same operations, so the same bits).
 #[inline(always)]

@@ -1,7 +1,7 @@
 //! Both tails of the standard normal distribution in log space, over a slice at a time, for the
 //! goodness-of-fit statistics of the lognormal and inverse Gaussian models.
 
-use crate::fastmath::{exp_basic, ln_basic, map_into};
+use crate::fastmath::{exp_basic, ln_basic, map_into, with_avx2};
 
 /// Chebyshev coefficients of h(y) = erfcx(z) / t on y ∈ [−1, 1], with t = 2/(2 + z), y = 2t − 1 and
 /// erfcx(z) = e^(z²) erfc(z) (so z ∈ [0, ∞) maps to y ∈ (−1, 1]). Obtained by interpolation at the
@@ -89,12 +89,10 @@ fn tail_lanes<const L: usize>(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f
 /// processor has it; the same bits either way).
 pub(crate) fn ln_upper_tail_into(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64 + Copy) {
     assert_eq!(u.len(), out.len(), "ln_upper_tail_into: input and output lengths differ");
-    #[cfg(target_arch = "x86_64")]
-    if std::arch::is_x86_feature_detected!("avx2") {
-        // SAFETY: the processor supports AVX2 (checked just above).
-        return unsafe { tail_slice_avx2(u, out, pre) };
-    }
-    tail_slice(u, out, pre)
+    with_avx2(
+        #[inline(always)]
+        || tail_slice(u, out, pre),
+    )
 }
 
 #[inline(always)]
@@ -102,12 +100,6 @@ fn tail_slice(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64 + Copy) {
     for (u, o) in u.chunks(LANES).zip(out.chunks_mut(LANES)) {
         tail_lanes::<LANES>(u, o, pre);
     }
-}
-
-#[cfg(target_arch = "x86_64")]
-#[target_feature(enable = "avx2")]
-unsafe fn tail_slice_avx2(u: &[f64], out: &mut [f64], pre: impl Fn(f64) -> f64 + Copy) {
-    tail_slice(u, out, pre)
 }
 
 /// Φ(w) into `cdf`, ln Φ(w) into `ln_cdf` and ln Φ(−w) into `ln_sf` for every w: the smaller tail's

@@ -83,7 +83,8 @@ pub(super) fn newton_near(ly: &[f64], top: f64, mean_lc: f64, k0: f64, lo: f64, 
 
 /// (Σ w, Σ w l, Σ w l²) with w = exp(k (l − top)) over the logarithms `ly`: eight values side by side
 /// (AVX2 when the processor has it; the same bits either way), the exponentials and the three sums in
-/// one pass.
+/// one pass. An explicit AVX2 function rather than `fastmath::with_avx2`: the closure form ran the
+/// Weibull bootstrap 10 % slower (0.297 against 0.271 s on one thread).
 pub(super) fn weighted_moments(ly: &[f64], k: f64, top: f64) -> (f64, f64, f64) {
     #[cfg(target_arch = "x86_64")]
     if std::arch::is_x86_feature_detected!("avx2") {
