@@ -69,8 +69,9 @@ fn tail(p: f64) -> f64 {
 ///
 /// # References
 /// Acklam, P. J. (2003), An algorithm for computing the inverse normal cumulative distribution function
-/// (technical note; the coefficients). Devroye, L. (1986), *Non-Uniform Random Variate Generation*,
-/// Springer, §2.1 (inversion).
+/// (technical note; the coefficients, written here from memory of that note and checked against SciPy's
+/// `ndtri` in the test below, where a wrong digit that mattered would show). Devroye, L. (1986),
+/// *Non-Uniform Random Variate Generation*, Springer, §2.1 (inversion).
 pub(crate) fn quantiles_sorted(p: &mut [f64], upper: &[f64]) {
     assert_eq!(p.len(), upper.len(), "quantiles_sorted: lengths differ");
     let lo = p.partition_point(|&v| v < P_LOW);
