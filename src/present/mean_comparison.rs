@@ -5,6 +5,7 @@
 use super::test_labels::{json_notes, pass_fail, TestLabels};
 use super::{cautions, Cell, Presentation, Sheet};
 use crate::fieldtests::{MeanComparison, Mm90Class, ReversalTest};
+use crate::sphere::Direction;
 use serde::Serialize;
 
 #[derive(Serialize)]
@@ -195,21 +196,31 @@ fn finish(
     Presentation { json: serde_json::to_value(json).expect("plain data"), sheets, main_sheet: 0, notes, cautions }
 }
 
-/// The reversal test `t`; `lines[i]` is the file line of direction `i`.
-pub fn reversal(t: &ReversalTest, lines: &[usize], l: &TestLabels) -> Presentation {
-    let c = &t.comparison;
-    let title = format!("Reversal test of {} ({} coordinates)", l.file, l.frame);
-    let (sec, mut notes) = comparison(c, "The two polarity modes", &title);
-    let mut modes = Sheet::new("Polarity modes (split on the principal axis)", &["mode", "n", "dec", "inc", "k"]);
-    for (name, n, m, k) in [("1", c.n1, c.mean1, c.k1), ("2", c.n2, t.mode2_mean, c.k2)] {
-        modes.push(vec![
-            Cell::Text(name.into()),
+/// The two means being compared, one row each: `label` (named by `first`), n, dec, inc, k.
+fn two_means_sheet(title: &str, first: &str, rows: [(&str, usize, Direction, f64); 2]) -> Sheet {
+    let mut sheet = Sheet::new(title, &[first, "n", "dec", "inc", "k"]);
+    for (label, n, m, k) in rows {
+        sheet.push(vec![
+            Cell::Text(label.to_string()),
             Cell::Int(n as i64),
             Cell::Azimuth(m.dec, 1),
             Cell::Num(m.inc, 1),
             Cell::Num(k, 1),
         ]);
     }
+    sheet
+}
+
+/// The reversal test `t`; `lines[i]` is the file line of direction `i`.
+pub fn reversal(t: &ReversalTest, lines: &[usize], l: &TestLabels) -> Presentation {
+    let c = &t.comparison;
+    let title = format!("Reversal test of {} ({} coordinates)", l.file, l.frame);
+    let (sec, mut notes) = comparison(c, "The two polarity modes", &title);
+    let modes = two_means_sheet(
+        "Polarity modes (split on the principal axis)",
+        "mode",
+        [("1", c.n1, c.mean1, c.k1), ("2", c.n2, t.mode2_mean, c.k2)],
+    );
     let line_of = |idx: &[usize]| idx.iter().map(|&i| lines[i]).collect::<Vec<_>>();
     let split = SplitJson {
         axis_dec: t.split.axis.dec,
@@ -229,15 +240,6 @@ pub fn reversal(t: &ReversalTest, lines: &[usize], l: &TestLabels) -> Presentati
 pub fn common_mean(c: &MeanComparison, files: [&str; 2], l: &TestLabels) -> Presentation {
     let title = format!("Common-mean test of {} and {} ({} coordinates)", files[0], files[1], l.frame);
     let (sec, notes) = comparison(c, "The two mean directions", &title);
-    let mut means = Sheet::new("Means", &["file", "n", "dec", "inc", "k"]);
-    for (p, n, m, k) in [(files[0], c.n1, c.mean1, c.k1), (files[1], c.n2, c.mean2, c.k2)] {
-        means.push(vec![
-            Cell::Text(p.to_string()),
-            Cell::Int(n as i64),
-            Cell::Azimuth(m.dec, 1),
-            Cell::Num(m.inc, 1),
-            Cell::Num(k, 1),
-        ]);
-    }
+    let means = two_means_sheet("Means", "file", [(files[0], c.n1, c.mean1, c.k1), (files[1], c.n2, c.mean2, c.k2)]);
     finish(c, None, vec![sec, means], notes, l)
 }
