@@ -58,7 +58,7 @@
 //! | renewal models (exponential, gamma, Weibull, lognormal, inverse Gaussian): censored MLE, CDF, hazard, sampler | [`reversals::Model`], [`reversals::Fitted`] |
 //! | AIC, BIC, Akaike weights, likelihood-ratio test | [`reversals::fit_models`] |
 //! | KS and AD goodness of fit, parametric bootstrap (Lilliefors) | [`reversals::goodness_of_fit`] |
-//! | hazard, P(reversal within Δ \| none for T), model averaging | [`reversals::hazard_at`], [`reversals::averaged_interval`] |
+//! | hazard, P(reversal within Δ \| none for T), model averaging | [`reversals::hazard_at`], [`reversals::averaged_interval`]; the stage `hazard`, `section` and Python share: [`reversals::assess_hazard`], [`reversals::IntervalRecord::elapsed`] |
 //! | reversal rate through time, Laplace trend test, clustering test | [`reversals::windowed_rate`], [`reversals::laplace_test`], [`reversals::clustering_test`] |
 //! | interval-length, hazard and rate figures | [`figures::IntervalFigure`], [`figures::HazardFigure`], [`figures::RateFigure`] |
 //! | equal-area projection and figures | [`figures::project`], [`figures::EqualAreaPlot`], [`figures::render`] |

@@ -212,6 +212,12 @@ fn bad_input_names_file_line_and_column_and_writes_nothing() {
         .assert()
         .code(1)
         .stderr(predicate::str::contains("--elapsed"));
+    // A level outside (0, 1) is refused, not turned into a missing interval.
+    cmd()
+        .args(["hazard", s.to_str().unwrap(), "--level", "1.5"])
+        .assert()
+        .code(1)
+        .stderr(predicate::str::contains("level").and(predicate::str::contains("1.5")));
     cmd().args(["hazard", s.to_str().unwrap(), "--horizon"]).assert().code(2);
 }
 

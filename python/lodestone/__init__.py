@@ -288,7 +288,8 @@ def hazard(
     ``hazard`` in reversals per Myr. ``survival`` is S(elapsed); ``p_within`` is
     1 − S(elapsed + horizon)/S(elapsed) (NaN where S underflows); ``cdf`` is F(elapsed).
     ``df.attrs["averaged"]`` holds the Akaike-weighted probability with its bootstrap interval
-    (``resamples`` refits of resampled intervals; ``resamples=0`` skips it).
+    (``resamples`` refits of resampled intervals; ``resamples=0`` skips it). Where the bootstrap gives
+    no interval, ``low`` and ``high`` are None and ``df.attrs["notes"]`` says why.
 
     This is a statistical statement about renewal models fitted to a time scale, not a forecast:
     the record cannot tell when the next reversal comes, and local practice and the published
@@ -302,7 +303,7 @@ def hazard(
     )
     df = _model_rows(d["models"], ["weight", "hazard", "survival", "p_within", "cdf"])
     df.attrs["averaged"] = {k: d[k] for k in ("averaged", "low", "high", "level")}
-    for k in ("elapsed", "horizon", "percentile", "n_intervals", "censored", "censored_old", "cautions"):
+    for k in ("elapsed", "horizon", "percentile", "n_intervals", "censored", "censored_old", "notes", "cautions"):
         df.attrs[k] = d[k]
     return df
 

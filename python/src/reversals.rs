@@ -123,25 +123,20 @@ pub fn hazard<'py>(
 ) -> PyResult<Bound<'py, PyDict>> {
     let input = timescale.input();
     let opt = options(young, old, min_length, censor, old_edge)?;
-    let (rec, est) = run_detached(py, threads, || {
+    let (rec, assessed) = run_detached(py, threads, || {
         let rec = load(&input, &opt)?;
-        let elapsed = match (elapsed, &rec.open) {
-            (Some(t), _) => t,
-            (None, Some(o)) => o.duration(),
-            (None, None) => return invalid("elapsed is needed: the window holds no open chron at the present"),
+        let elapsed = match rec.elapsed(elapsed) {
+            Ok(t) => t,
+            Err(e) => return invalid(format!("elapsed is needed: {e}")),
         };
         let sample = rec.sample()?;
         let fits = reversals::fit_models(&sample, &Model::ALL);
-        let mut est = reversals::hazard_at(&fits, &sample, elapsed, horizon)?;
-        if resamples > 0 {
-            let mc = MonteCarlo::new(seed, resamples);
-            // The stream of every front end, so that all give the same interval for a seed.
-            let stream = reversals::HAZARD_STREAM;
-            est.interval =
-                Some(reversals::averaged_interval(&sample, &Model::ALL, elapsed, horizon, level, &mc, stream)?);
-        }
-        Ok((rec, est))
+        // The stream and rule of every front end, so that all give the same interval for a seed.
+        let mc = (resamples > 0).then(|| MonteCarlo::new(seed, resamples));
+        let assessed = reversals::assess_hazard(&fits, &sample, elapsed, horizon, level, mc.as_ref())?;
+        Ok((rec, assessed))
     })?;
+    let est = &assessed.estimate;
     let out = record_dict(py, &rec)?;
     let models = est
         .models
@@ -167,6 +162,7 @@ pub fn hazard<'py>(
     out.set_item("level", level)?;
     out.set_item("percentile", est.percentile)?;
     out.set_item("cautions", cautions::REVERSALS.to_vec())?;
+    out.set_item("notes", assessed.interval_note().into_iter().collect::<Vec<_>>())?;
     Ok(out)
 }
 

@@ -142,6 +142,7 @@ def test_hazard_quantities_agree_with_scipy():
         assert row["p_within"] == pytest.approx(1 - dist.sf(elapsed + horizon) / dist.sf(elapsed), rel=1e-8)
         assert row["cdf"] == pytest.approx(dist.cdf(elapsed), rel=1e-9)
     assert got.attrs["averaged"]["low"] is None
+    assert got.attrs["notes"] == []  # skipped on request: not a failed bootstrap
     assert np.sum(got["weight"] * got["p_within"]) == pytest.approx(got.attrs["averaged"]["averaged"], rel=1e-12)
 
 
@@ -160,3 +161,6 @@ def test_renewal_bad_input_raises():
         lodestone.hazard(t, horizon=-1.0, resamples=0)
     with pytest.raises(lodestone.LodestoneError, match="elapsed"):
         lodestone.hazard(t, young=1.0, resamples=0)
+    # The level is checked whether or not the bootstrap runs (the rule the command line shares).
+    with pytest.raises(lodestone.LodestoneError, match="level"):
+        lodestone.hazard(t, level=1.5, resamples=0)

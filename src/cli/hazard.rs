@@ -34,27 +34,13 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Presentation> {
         anyhow::bail!("--resamples must be at least 1");
     }
     let rec = a.window.load(ctx)?;
-    let elapsed = match (a.elapsed, &rec.open) {
-        (Some(t), _) => t,
-        (None, Some(o)) => o.duration(),
-        (None, None) => anyhow::bail!("--elapsed is needed: the window holds no open chron at the present"),
-    };
+    let elapsed = rec.elapsed(a.elapsed).map_err(|e| anyhow::anyhow!("--elapsed is needed: {e}"))?;
     let sample = rec.sample()?;
     let fits = reversals::fit_models(&sample, &Model::ALL);
-    let mut est = reversals::hazard_at(&fits, &sample, elapsed, a.horizon)?;
+    let mc = ctx.monte_carlo(a.resamples);
+    let assessed = reversals::assess_hazard(&fits, &sample, elapsed, a.horizon, a.level, Some(&mc))?;
     let mut notes = record_notes(&rec, &a.window.timescale);
-    match reversals::averaged_interval(
-        &sample,
-        &Model::ALL,
-        elapsed,
-        a.horizon,
-        a.level,
-        &ctx.monte_carlo(a.resamples),
-        reversals::HAZARD_STREAM,
-    ) {
-        Ok(b) => est.interval = Some(b),
-        Err(e) => notes.push(format!("No bootstrap interval for the averaged probability: {e}")),
-    }
+    notes.extend(assessed.interval_note());
     let file = a.window.timescale.display().to_string();
     let labels = HazardLabels {
         file: &file,
@@ -63,7 +49,7 @@ pub fn run(a: HazardArgs, ctx: &mut Ctx) -> Result<Presentation> {
         level: a.level,
         seed: ctx.global.seed,
     };
-    let shown = present::hazard::hazard(&est, labels, notes);
+    let shown = present::hazard::hazard(&assessed.estimate, labels, notes);
     if let Some(path) = &a.plot {
         let fig = lodestone::figures::HazardFigure::new(&fits, elapsed, &file);
         super::write_figure(&fig, path, &ctx.inputs)?;

@@ -135,6 +135,51 @@ pub fn hazard_at(fits: &RenewalFits, s: &Sample, elapsed: f64, horizon: f64) -> 
     })
 }
 
+/// The hazard stage as every front end runs it (the `hazard` verb, the `section` run, the Python
+/// package): [`hazard_at`] at `elapsed`, then, when `mc` is given, the bootstrap interval of the
+/// averaged probability on [`HAZARD_STREAM`]. A bootstrap that gives no interval does not fail the
+/// stage: the estimate keeps `interval: None` and the reason travels in `interval_failure`.
+#[derive(Debug)]
+pub struct HazardAssessment {
+    /// The estimate, with its interval where the bootstrap gave one.
+    pub estimate: HazardEstimate,
+    /// Why the bootstrap gave no interval, when it was asked for and failed.
+    pub interval_failure: Option<Error>,
+}
+
+impl HazardAssessment {
+    /// The note that says why the averaged probability has no interval, when the bootstrap failed.
+    pub fn interval_note(&self) -> Option<String> {
+        self.interval_failure.as_ref().map(|e| format!("No bootstrap interval for the averaged probability: {e}."))
+    }
+}
+
+/// See [`HazardAssessment`].
+///
+/// # Units
+/// `elapsed` and `horizon` in Myr; `level` a fraction in (0, 1).
+pub fn assess_hazard(
+    fits: &RenewalFits,
+    s: &Sample,
+    elapsed: f64,
+    horizon: f64,
+    level: f64,
+    mc: Option<&MonteCarlo<'_>>,
+) -> Result<HazardAssessment> {
+    if !(level > 0.0 && level < 1.0) {
+        return Err(Error::OutOfRange { name: "level", value: level, range: "(0, 1)" });
+    }
+    let mut estimate = hazard_at(fits, s, elapsed, horizon)?;
+    let mut interval_failure = None;
+    if let Some(mc) = mc {
+        match averaged_interval(s, &Model::ALL, elapsed, horizon, level, mc, HAZARD_STREAM) {
+            Ok(b) => estimate.interval = Some(b),
+            Err(e) => interval_failure = Some(e),
+        }
+    }
+    Ok(HazardAssessment { estimate, interval_failure })
+}
+
 /// Bootstrap percentile interval of the Akaike-weighted P(within horizon): the complete intervals are
 /// resampled with replacement (the censored length kept), all `models` refitted, weights recomputed.
 ///
@@ -213,6 +258,33 @@ mod tests {
         assert!(b.low <= h.averaged + 0.05 && b.high >= h.averaged - 0.05 && b.low <= b.high, "{b:?} {}", h.averaged);
         assert!(hazard_at(&fits, &s, -1.0, 0.1).is_err());
         assert!(hazard_at(&fits, &s, 0.3, 0.0).is_err());
+    }
+
+    #[test]
+    fn the_stage_is_the_estimate_and_the_interval_on_the_shared_stream() {
+        // One rule for every front end: `assess_hazard` gives what `hazard_at` and `averaged_interval`
+        // on HAZARD_STREAM give, bit for bit; a failed bootstrap leaves the estimate and says why.
+        let xs: Vec<f64> = (1..=40).map(|i| 0.02 * i as f64).collect();
+        let s = Sample::new(xs, Some(0.5)).unwrap();
+        let fits = fit_models(&s, &Model::ALL);
+        let mc = MonteCarlo::new(3, 50);
+        let a = assess_hazard(&fits, &s, 0.3, 0.1, 0.9, Some(&mc)).unwrap();
+        let mut want = hazard_at(&fits, &s, 0.3, 0.1).unwrap();
+        want.interval = Some(averaged_interval(&s, &Model::ALL, 0.3, 0.1, 0.9, &mc, HAZARD_STREAM).unwrap());
+        // Debug forms (shortest round-trip digits) compare equal where `==` cannot: the exponential's
+        // unused second parameter is NaN.
+        assert_eq!(format!("{:?}", a.estimate), format!("{want:?}"));
+        assert!(a.interval_failure.is_none() && a.interval_note().is_none());
+        let none = assess_hazard(&fits, &s, 0.3, 0.1, 0.9, None).unwrap();
+        assert_eq!(none.estimate.interval, None);
+        assert_eq!(none.estimate.averaged.to_bits(), want.averaged.to_bits());
+        let failed = assess_hazard(&fits, &s, 0.3, 0.1, 0.9, Some(&MonteCarlo::new(3, 0))).unwrap();
+        assert_eq!(failed.estimate.interval, None);
+        assert!(matches!(failed.interval_failure, Some(Error::Undefined(_))));
+        assert!(failed.interval_note().unwrap().starts_with("No bootstrap interval"));
+        // A level outside (0, 1) is a fault of the request, not a failed bootstrap.
+        let bad = assess_hazard(&fits, &s, 0.3, 0.1, 1.5, Some(&mc)).unwrap_err();
+        assert!(matches!(bad, Error::OutOfRange { name: "level", value, .. } if value == 1.5));
     }
 
     #[test]

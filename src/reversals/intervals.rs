@@ -114,6 +114,23 @@ pub struct IntervalRecord {
 }
 
 impl IntervalRecord {
+    /// The time since the last reversal at which a hazard is evaluated: `given`, or else the length so
+    /// far of the open chron at the present (0 Ma), whatever the censoring setting.
+    ///
+    /// # Errors
+    /// [`Error::Invalid`] (quantity `elapsed`) when none is given and the window holds no open chron.
+    pub fn elapsed(&self, given: Option<f64>) -> Result<f64> {
+        match (given, &self.open) {
+            (Some(t), _) => Ok(t),
+            (None, Some(o)) => Ok(o.duration()),
+            (None, None) => Err(Error::Invalid {
+                quantity: "elapsed",
+                value: "none given".into(),
+                reason: "the window holds no open chron at the present".into(),
+            }),
+        }
+    }
+
     /// The interval lengths as a [`Sample`] for fitting.
     pub fn sample(&self) -> Result<Sample> {
         Sample::new(self.complete.iter().map(Interval::duration).collect(), self.censored)?
@@ -290,6 +307,22 @@ mod tests {
     // An invented scale: the open chron, a short event, same-polarity parts.
     const SCALE: &str =
         "young,old,polarity,name\n0,0.7,N,a\n0.7,1.0,R,b\n1.0,1.02,N,ev\n1.02,1.5,R,c\n1.5,1.8,N,d1\n1.8,2.0,N,d2\n2.0,2.6,R,e\n";
+
+    #[test]
+    fn elapsed_is_given_or_the_open_chron_so_far() {
+        let scale = "young,old,polarity\n0,0.78,N\n0.78,0.99,R\n0.99,1.07,N\n1.07,1.77,R\n";
+        let rec = intervals(&ts(scale), &IntervalOptions::default()).unwrap();
+        assert_eq!(rec.elapsed(None).unwrap(), 0.78);
+        assert_eq!(rec.elapsed(Some(0.1)).unwrap(), 0.1);
+        // Censoring off: the open chron is still the time since the last reversal.
+        let off = IntervalOptions { censor: false, ..IntervalOptions::default() };
+        assert_eq!(intervals(&ts(scale), &off).unwrap().elapsed(None).unwrap(), 0.78);
+        // A window that starts after the present holds no open chron: the elapsed time must be given.
+        let later = IntervalOptions { from: Some(0.5), ..IntervalOptions::default() };
+        let cut = intervals(&ts(scale), &later).unwrap();
+        assert!(matches!(cut.elapsed(None), Err(Error::Invalid { quantity: "elapsed", .. })));
+        assert_eq!(cut.elapsed(Some(0.2)).unwrap(), 0.2);
+    }
 
     #[test]
     fn joins_censors_and_counts() {

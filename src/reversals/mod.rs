@@ -16,7 +16,10 @@ pub mod rate;
 pub mod renewal;
 
 pub use gof::{goodness_of_fit, goodness_of_fits, GoodnessOfFit};
-pub use hazard::{averaged_interval, hazard_at, p_within, HazardEstimate, ModelHazard, CAUTIONS, HAZARD_STREAM};
+pub use hazard::{
+    assess_hazard, averaged_interval, hazard_at, p_within, HazardAssessment, HazardEstimate, ModelHazard, CAUTIONS,
+    HAZARD_STREAM,
+};
 pub use intervals::{intervals, EdgeReading, Interval, IntervalOptions, IntervalRecord};
 pub use models::{Fitted, Model, Sample};
 pub use rate::{

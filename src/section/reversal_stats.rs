@@ -18,8 +18,8 @@ use crate::present::hazard::hazard_sheet;
 use crate::present::intervals::fits_sheet;
 use crate::present::rate::{rate_sheet, tests_sheet};
 use crate::reversals::{
-    averaged_interval, fit_models, goodness_of_fits, hazard_at, intervals, rate_summary, IntervalOptions,
-    IntervalRecord, Model, RenewalFits, Sample, HAZARD_STREAM,
+    assess_hazard, fit_models, goodness_of_fits, intervals, rate_summary, IntervalOptions, IntervalRecord, Model,
+    RenewalFits, Sample,
 };
 
 /// Horizon of the reported P(reversal within the horizon | none so far), Myr (the `hazard` verb's
@@ -89,7 +89,7 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale, mc: &MonteCarlo<'_
         out.warnings.push(format!("Renewal fit failed: {}: {}.", f.model.name(), f.reason));
     }
     out.n_intervals = sample.n();
-    out.elapsed = rec.censored;
+    out.elapsed = rec.elapsed(None).ok();
     renewal_table(&mut out, &fits, &sample, mc);
     let best = fits.fits.iter().max_by(|a, b| a.weight.total_cmp(&b.weight)).expect("non-empty");
     out.stage.result = format!(
@@ -111,9 +111,9 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale, mc: &MonteCarlo<'_
     }
     let fig = IntervalFigure::new(&sample, &fits, name);
     out.add_figure(super::stage::draw(&fig, "intervals", "Lengths of the complete polarity intervals (empirical distribution) with the distribution functions of the fitted renewal models; the open chron's present length is marked.".into()));
-    match rec.censored {
-        Some(elapsed) => hazard(&mut out, &fits, &sample, elapsed, mc, name),
-        None => out.warnings.push("Hazard skipped: the time scale has no open chron at its young end.".into()),
+    match rec.elapsed(None) {
+        Ok(elapsed) => hazard(&mut out, &fits, &sample, elapsed, mc, name),
+        Err(e) => out.warnings.push(format!("Hazard skipped: {e}.")),
     }
     rate(&mut out, &rec);
     out
@@ -138,14 +138,12 @@ fn renewal_table(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, m
 }
 
 fn hazard(out: &mut ReversalStats, fits: &RenewalFits, sample: &Sample, elapsed: f64, mc: &MonteCarlo<'_>, name: &str) {
-    let mut h = match hazard_at(fits, sample, elapsed, HAZARD_HORIZON) {
-        Ok(h) => h,
+    let assessed = match assess_hazard(fits, sample, elapsed, HAZARD_HORIZON, LEVEL, Some(mc)) {
+        Ok(a) => a,
         Err(e) => return out.warnings.push(format!("Hazard skipped: {e}.")),
     };
-    match averaged_interval(sample, &Model::ALL, elapsed, HAZARD_HORIZON, LEVEL, mc, HAZARD_STREAM) {
-        Ok(b) => h.interval = Some(b),
-        Err(e) => out.warnings.push(format!("No bootstrap interval for the averaged probability: {e}.")),
-    }
+    out.warnings.extend(assessed.interval_note());
+    let h = assessed.estimate;
     let title = format!("Hazard at {elapsed:.3} Myr since the last reversal and P(reversal within {HAZARD_HORIZON} Myr | none so far): a statement about the fitted models, not a forecast");
     let ht = CsvTable::from_sheet("hazard", hazard_sheet(&h, &title, true));
     out.stage.result.push_str(&format!(
