@@ -163,7 +163,7 @@ def fit_components(
     optional ``kind``, ``anchor``) each specimen is fitted over its chosen range. Otherwise, with
     ``auto=True``, an automatic rule with the command line's defaults chooses each fit:
     ``rule="last"`` (as ``components --auto``) grows a line down from the last steps while each
-    lower step lies on it within the noise (F-test at α = 0.05; MAD ≤ 5°, DANG ≤ 10°), else fits a
+    lower step lies on it within the noise (F-test at α = 0.05; MAD ≤ 15°, DANG ≤ 10°), else fits a
     great circle, and grades each fit A, B or C (column ``grade``; the reasons in
     ``df.attrs["reasons"]``); ``rule="longest"`` (as ``--rule longest``) takes the longest run of at
     least 3 steps with MAD ≤ 5° and DANG ≤ 10°. A free line points from the last step used toward

@@ -1,7 +1,7 @@
 //! Principal-component fits per specimen from a steps table (picks or the automatic rule).
 
 use crate::{arg_error, run_detached, Outcome, Source};
-use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule, SpecimenFit};
+use lodestone::demag::{fit_automatically, fit_range, AutomaticRule, SpecimenFit};
 use lodestone::model::StepSet;
 use lodestone::table::{read_picks, read_steps};
 use pyo3::prelude::*;
@@ -30,36 +30,6 @@ fn by_picks(set: &StepSet, picks: &lodestone::table::Table) -> Outcome<Fits> {
     Ok((fits, unfitted, Vec::new()))
 }
 
-/// The longest straight run heading for the origin (`components --auto --rule longest`, its defaults).
-fn by_longest_run(set: &StepSet) -> Fits {
-    let rule = AutoRule::default();
-    let (mut fits, mut unfitted) = (Vec::new(), Vec::new());
-    for sp in &set.specimens {
-        match auto_line(sp, &rule) {
-            AutoOutcome::Fitted(f) => fits.push(f),
-            AutoOutcome::Unfitted(why) => unfitted.push((sp.specimen.clone(), why)),
-        }
-    }
-    (fits, unfitted, Vec::new())
-}
-
-/// The last-component rule with the command line's defaults (`components --auto`: MAD ≤ 5°, DANG ≤ 10°,
-/// α = 0.05, at least 3 steps, free lines, great circles allowed).
-fn by_last_component(set: &StepSet) -> Fits {
-    let rule = LastComponentRule { max_mad: 5.0, ..LastComponentRule::default() };
-    let (mut fits, mut unfitted, mut grades) = (Vec::new(), Vec::new(), Vec::new());
-    for sp in &set.specimens {
-        match last_component(sp, &rule) {
-            Ok(c) => {
-                grades.push((sp.specimen.clone(), c.grade.as_str(), c.reason));
-                fits.push(c.fit);
-            }
-            Err(why) => unfitted.push((sp.specimen.clone(), why)),
-        }
-    }
-    (fits, unfitted, grades)
-}
-
 /// Principal-component fits (see `lodestone.fit_components`): a dict with `fits` (rows in the
 /// columns of `components --format csv`), `unfitted` and `columns`.
 #[pyfunction]
@@ -74,17 +44,20 @@ pub fn fit_components<'py>(
     if picks.is_none() && !auto {
         return Err(arg_error("give picks, or auto=True for the automatic rule"));
     }
-    let automatic: fn(&StepSet) -> Fits = match rule {
-        "last" => by_last_component,
-        "longest" => by_longest_run,
-        other => return Err(arg_error(format!("rule must be 'last' or 'longest', got '{other}'"))),
+    // The rule with the library's defaults, as `components --auto [--rule longest]` takes it.
+    let automatic = match AutomaticRule::by_name(rule) {
+        Ok(r) => r,
+        Err(_) => return Err(arg_error(format!("rule must be 'last' or 'longest', got '{rule}'"))),
     };
     let (si, pi) = (steps.input(), picks.as_ref().map(|p| p.input()));
     let (set, (fits, unfitted, grades)) = run_detached(py, None, || {
         let set = read_steps(&si.table()?)?;
         let fits = match &pi {
             Some(p) => by_picks(&set, &p.table()?)?,
-            None => automatic(&set),
+            None => {
+                let auto = fit_automatically(&set, &automatic)?;
+                (auto.fits, auto.unfitted, auto.grades)
+            }
         };
         Ok((set, fits))
     })?;

@@ -37,6 +37,23 @@ def test_automatic_fits_match_the_command_line(cli):
     np.testing.assert_allclose(got["height"], [w["height"] for w in want["fits"]])
 
 
+def test_noisy_automatic_fits_use_the_command_lines_limits(cli, tmp_path):
+    # The last-component rule accepts lines up to MAD 15° by default (the library's default, which
+    # `components --auto` uses); with seeded noise on every step some lines fall between 5° and 15°.
+    steps = read_table(STEPS)
+    rng = np.random.default_rng(11)
+    steps["dec"] = (steps["dec"] + rng.normal(0.0, 6.0, len(steps))) % 360.0
+    steps["inc"] = np.clip(steps["inc"] + rng.normal(0.0, 6.0, len(steps)), -90.0, 90.0)
+    path = tmp_path / "noisy-steps.csv"
+    steps.to_csv(path, index=False)
+    got = lodestone.fit_components(steps)
+    want = cli("components", path, "--auto")
+    compare(got, want["fits"])
+    assert list(got["grade"]) == [w["grade"] for w in want["fits"]]
+    assert got.attrs["unfitted"] == want["unfitted"]
+    assert any(5.0 < w["mad"] <= 15.0 for w in want["fits"] if w["kind"] == "line")
+
+
 def test_longest_run_fits_match_the_command_line(cli):
     got = lodestone.fit_components(record(STEPS), rule="longest")
     want = cli("components", record(STEPS), "--auto", "--rule", "longest")

@@ -3,7 +3,9 @@
 use super::{Ctx, Presentation};
 use anyhow::{bail, Context, Result};
 use clap::Args;
-use lodestone::demag::{auto_line, fit_range, last_component, AutoOutcome, AutoRule, LastComponentRule, SpecimenFit};
+use lodestone::demag::{
+    fit_automatically, fit_range, AutoRule, AutomaticFits, AutomaticRule, LastComponentRule, SpecimenFit,
+};
 use lodestone::figures::VectorEndpointPlot;
 use lodestone::model::{Anchor, FitKind};
 use lodestone::model::{SpecimenSteps, StepSet, Treatment};
@@ -113,7 +115,9 @@ fn fitted(method: &'static str) -> ComponentFits {
 }
 
 pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Presentation> {
-    let max_mad = a.max_mad.unwrap_or(if a.rule == RuleArg::Last { 15.0 } else { 5.0 });
+    // The rule's own default limit (the library's), unless given.
+    let rule_name = if a.rule == RuleArg::Last { "last" } else { "longest" };
+    let max_mad = a.max_mad.unwrap_or(AutomaticRule::by_name(rule_name)?.max_mad());
     if a.auto && (a.min_steps < 2 || !(max_mad >= 0.0) || !(a.max_dang >= 0.0)) {
         bail!("--min-steps must be at least 2 and --max-mad, --max-dang non-negative");
     }
@@ -126,7 +130,7 @@ pub fn run(a: ComponentsArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let fitted = match &a.picks {
         Some(pp) => by_picks(pp, &set)?,
         None if a.auto && a.rule == RuleArg::Last => by_last_rule(&a, max_mad, &set, &mut notes)?,
-        None if a.auto => by_longest_run(&a, max_mad, &set, &mut notes),
+        None if a.auto => by_longest_run(&a, max_mad, &set, &mut notes)?,
         None => by_range(&a, &set)?,
     };
     if let Some(dir) = &a.plot {
@@ -163,7 +167,6 @@ fn by_picks(pp: &Path, set: &StepSet) -> Result<ComponentFits> {
 }
 
 fn by_last_rule(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> Result<ComponentFits> {
-    let mut out = fitted("auto");
     let anchor = anchor_of(a);
     let rule = LastComponentRule {
         min_steps: a.min_steps,
@@ -173,53 +176,42 @@ fn by_last_rule(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec
         anchor,
         planes: true,
     };
-    rule.validate()?;
+    let auto = fit_automatically(set, &AutomaticRule::Last(rule))?;
     notes.push(format!(
         "Automatic fits by the last-component rule: a {} line grown down from the last {} steps while each lower step lies on it within the noise (F-test at α = {}), accepted with MAD ≤ {}° and DANG ≤ {}°; otherwise a great circle through the origin (grade C). Check each choice on the figures (--plot).",
         anchor.as_str(), rule.min_steps, rule.alpha, rule.max_mad, rule.max_dang));
-    out.rule = Some(RuleView {
+    let view = RuleView {
         rule: "last",
         min_steps: rule.min_steps,
         alpha: Some(rule.alpha),
         max_mad: rule.max_mad,
         max_dang: rule.max_dang,
         anchor,
-    });
-    for sp in &set.specimens {
-        match last_component(sp, &rule) {
-            Ok(c) => {
-                out.grades.push((sp.specimen.clone(), c.grade.as_str(), c.reason));
-                out.fits.push(c.fit)
-            }
-            Err(why) => out.unfitted.push((sp.specimen.clone(), why)),
-        }
-    }
-    Ok(out)
+    };
+    Ok(automatic(auto, view))
 }
 
-fn by_longest_run(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> ComponentFits {
-    let mut out = fitted("auto");
+fn by_longest_run(a: &ComponentsArgs, max_mad: f64, set: &StepSet, notes: &mut Vec<String>) -> Result<ComponentFits> {
     let anchor = anchor_of(a);
     let rule = AutoRule { min_steps: a.min_steps, max_mad, max_dang: a.max_dang, anchor };
     notes.push(format!(
         "Automatic segments: for each specimen, the longest run of at least {} consecutive steps whose {} line has MAD ≤ {}° and DANG ≤ {}°; \
          among runs of equal length the smaller MAD, then the earlier run. Check each choice on the figures (--plot).",
         rule.min_steps, anchor.as_str(), rule.max_mad, rule.max_dang));
-    out.rule = Some(RuleView {
+    let view = RuleView {
         rule: "longest",
         min_steps: rule.min_steps,
         alpha: None,
         max_mad: rule.max_mad,
         max_dang: rule.max_dang,
         anchor,
-    });
-    for sp in &set.specimens {
-        match auto_line(sp, &rule) {
-            AutoOutcome::Fitted(f) => out.fits.push(f),
-            AutoOutcome::Unfitted(why) => out.unfitted.push((sp.specimen.clone(), why)),
-        }
-    }
-    out
+    };
+    Ok(automatic(fit_automatically(set, &AutomaticRule::Longest(rule))?, view))
+}
+
+/// The library's automatic fits as the presenter takes them.
+fn automatic(auto: AutomaticFits, view: RuleView) -> ComponentFits {
+    ComponentFits { fits: auto.fits, unfitted: auto.unfitted, grades: auto.grades, rule: Some(view), ..fitted("auto") }
 }
 
 fn by_range(a: &ComponentsArgs, set: &StepSet) -> Result<ComponentFits> {
