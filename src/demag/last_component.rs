@@ -62,6 +62,16 @@ pub enum Grade {
 }
 
 impl Grade {
+    /// The grade of an accepted line: A for five or more steps with MAD and DANG both ≤ 5°, else B
+    /// (the one rule for every automatic line, whichever rule chose it).
+    pub fn of_line(f: &SpecimenFit) -> Grade {
+        if f.n_steps >= 5 && f.mad <= 5.0 && f.dang.is_some_and(|d| d <= 5.0) {
+            Grade::A
+        } else {
+            Grade::B
+        }
+    }
+
     /// The letter used in tables.
     pub fn as_str(self) -> &'static str {
         match self {
@@ -204,14 +214,6 @@ fn stop_words(sp: &SpecimenSteps, g: &Growth, what: &str) -> String {
     }
 }
 
-fn line_grade(f: &SpecimenFit) -> Grade {
-    if f.n_steps >= 5 && f.mad <= 5.0 && f.dang.is_some_and(|d| d <= 5.0) {
-        Grade::A
-    } else {
-        Grade::B
-    }
-}
-
 /// Choose the characteristic (last) component of one specimen.
 ///
 /// 1. Drop trailing steps that scatter about the origin: the segment ends at the highest step
@@ -250,7 +252,7 @@ pub fn last_component(sp: &SpecimenSteps, rule: &LastComponentRule) -> LastOutco
                 stop_words(sp, &g, "line"),
                 f.mad
             );
-            return Ok(AutoChoice { grade: line_grade(&f), fit: f, reason });
+            return Ok(AutoChoice { grade: Grade::of_line(&f), fit: f, reason });
         }
         refusal = format!(
             "the last line (steps {}–{}) has MAD {:.1}° and DANG {:.1}° (limits {}° and {}°)",

@@ -179,3 +179,18 @@ fn auto_rule_finds_the_characteristic_segment() {
     sp.steps.truncate(2);
     assert!(matches!(auto_line(&sp, &rule), AutoOutcome::Unfitted(w) if w.contains("at least 3")));
 }
+
+#[test]
+fn a_line_is_graded_a_on_five_steps_within_five_degrees() {
+    // One grade rule for the last-component rule's lines and the section's longest-run lines; its
+    // thresholds (5 steps, MAD and DANG ≤ 5°) are the ones the reports print.
+    let (sp, _) = synthetic(0.0, 0);
+    let base = fit_range(&sp, 20.0, 90.0, FitKind::Line, Anchor::Free).unwrap();
+    let at = |n_steps, mad, dang| SpecimenFit { n_steps, mad, dang, ..base.clone() };
+    assert_eq!(Grade::of_line(&at(5, 5.0, Some(5.0))), Grade::A);
+    assert_eq!(Grade::of_line(&at(4, 1.0, Some(1.0))), Grade::B);
+    assert_eq!(Grade::of_line(&at(8, 5.0 + 1e-9, Some(1.0))), Grade::B);
+    assert_eq!(Grade::of_line(&at(8, 1.0, Some(5.0 + 1e-9))), Grade::B);
+    assert_eq!(Grade::of_line(&at(8, 1.0, None)), Grade::B);
+    assert_eq!(Grade::of_line(&at(8, f64::NAN, Some(1.0))), Grade::B);
+}

@@ -29,9 +29,8 @@ pub fn automatic_fit(sp: &SpecimenSteps, s: &SectionSettings) -> LastOutcome {
         let rule = AutoRule { min_steps: s.min_steps, max_mad: s.max_mad, max_dang: s.max_dang, anchor: Anchor::Free };
         return match auto_line(sp, &rule) {
             AutoOutcome::Fitted(f) => {
-                let a = f.n_steps >= 5 && f.mad <= 5.0 && f.dang.is_some_and(|d| d <= 5.0);
                 let reason = format!("longest straight run heading for the origin: steps {}–{}", f.from, f.to);
-                Ok(AutoChoice { grade: if a { Grade::A } else { Grade::B }, fit: f, reason })
+                Ok(AutoChoice { grade: Grade::of_line(&f), fit: f, reason })
             }
             AutoOutcome::Unfitted(why) => Err(why),
         };
