@@ -201,3 +201,23 @@ fn one_caution(v: &serde_json::Value) -> &str {
     assert_eq!(notes.iter().filter(|n| *n == last).count(), 1, "{notes:?}");
     last.as_str().unwrap()
 }
+
+#[test]
+fn a_cutoff_that_keeps_too_few_sites_leaves_the_paleopole_and_says_why() {
+    // The scatter stage the section also runs: a 1° cutoff about the mean pole keeps no site, so
+    // there is no scatter, but the paleopole of every site stands and a note says why (the section
+    // writes the same sentence as a warning).
+    let demo = concat!(env!("CARGO_MANIFEST_DIR"), "/records/kestrel-ridge-sites.csv");
+    let all = json(&["poles", demo, "--northern", "--resamples", "100"]);
+    let tight = json(&["poles", demo, "--northern", "--cutoff", "1", "--resamples", "100"]);
+    assert_eq!(tight["pole"], all["pole"]);
+    assert!(tight["scatter"].is_null());
+    let notes: Vec<String> = serde_json::from_value(tight["notes"].clone()).unwrap();
+    assert!(
+        notes.iter().any(|n| n.starts_with("VGP scatter skipped: ") && n.contains("after the cutoff")),
+        "{notes:?}"
+    );
+    assert!(!notes.iter().any(|n| n.contains("bootstrap over sites")), "{notes:?}");
+    // A cutoff angle outside [0, 180] is still a fault of the request.
+    cmd().args(["poles", demo, "--cutoff", "200"]).assert().failure().stderr(predicate::str::contains("cutoff"));
+}

@@ -40,6 +40,9 @@ def paleopole(
     astr. Soc. 20, 253–269; Vandamme (1994), Phys. Earth
     Planet. Inter. 85, 131–142 (the cutoff); Efron & Tibshirani (1993), ch. 13 (the bootstrap).
 
+    Where the data give a paleopole but no scatter (a cutoff that keeps fewer than two sites) or no
+    interval, those fields are None and ``scatter_note`` says why (as the verb's note).
+
     Returns a :class:`Paleopole` (``vgps`` DataFrame; pole and scatter fields None for one site).
     """
     d = _native.paleopole(_source(sites), str(cutoff), bool(northern), int(seed), int(resamples), threads)
@@ -51,7 +54,7 @@ def paleopole(
     sc = d.get("scatter") or {}
     values = dict(
         vgps=vgps, northern=bool(northern), seed=int(seed), resamples=int(resamples),
-        cutoff=sc.get("cutoff", str(cutoff)),
+        cutoff=sc.get("cutoff", str(cutoff)), scatter_note=d["scatter_note"],
     )
     values.update({k: pole.get(k) for k in ("n", "plat", "plon", "k", "a95")})
     values.update({k: sc.get(k) for k in ("s", "s_low", "s_high", "s_total", "within_term", "n_used", "n_removed",

@@ -181,7 +181,8 @@ class Paleopole(_Result):
     ``s`` (S_B, None when the within-site term exceeds the total), ``s_low``/``s_high`` (bootstrap
     95 % interval), ``s_total``, ``within_term``, ``n_used``, ``n_removed``, ``threshold`` (the
     cutoff angle used, None without a cutoff) and ``cutoff``: the scatter of the polarity-aligned
-    VGPs. ``caution`` says what these numbers are (for a single site, what its VGP is).
+    VGPs. ``caution`` says what these numbers are (for a single site, what its VGP is);
+    ``scatter_note`` why the scatter or its interval is missing although there is a paleopole.
     """
 
     vgps: Any
@@ -203,6 +204,7 @@ class Paleopole(_Result):
     seed: int
     resamples: int
     caution: str = POLE_CAUTION
+    scatter_note: Optional[str] = None
 
 
 @dataclasses.dataclass(frozen=True)

@@ -56,12 +56,15 @@ pub fn paleopole<'py>(
         p.set_item("a95", pp.a95)?;
         out.set_item("pole", p)?;
     }
-    if let (Some(sc), Some(b)) = (&sum.scatter, &sum.interval) {
+    // What the scatter stage could not give (the library's note), as the verb notes it.
+    out.set_item("scatter_note", sum.scatter_note())?;
+    if let Some(sc) = &sum.scatter {
+        let b = sum.interval.as_ref();
         let s = PyDict::new(py);
         s.set_item("cutoff", cut.name())?;
         s.set_item("s", sc.s)?;
-        s.set_item("s_low", b.low)?;
-        s.set_item("s_high", b.high)?;
+        s.set_item("s_low", b.map(|b| b.low))?;
+        s.set_item("s_high", b.map(|b| b.high))?;
         s.set_item("s_total", sc.s_total)?;
         s.set_item("within_term", sc.within_term)?;
         s.set_item("n_used", sc.n_used)?;
@@ -69,8 +72,8 @@ pub fn paleopole<'py>(
         s.set_item("threshold", sc.threshold)?;
         s.set_item("mean_plat", sc.mean_pole.lat)?;
         s.set_item("mean_plon", sc.mean_pole.lon)?;
-        s.set_item("resamples", b.resamples)?;
-        s.set_item("n_negative", b.n_negative)?;
+        s.set_item("resamples", b.map(|b| b.resamples))?;
+        s.set_item("n_negative", b.map(|b| b.n_negative))?;
         out.set_item("scatter", s)?;
     }
     Ok(out)

@@ -132,3 +132,13 @@ def test_paleopole_bad_input_raises():
         lodestone.paleopole(t, cutoff="tight")
     with pytest.raises(TypeError):
         lodestone.paleopole(pd.Series([1.0]))
+
+
+def test_a_cutoff_that_keeps_too_few_sites_is_a_note_as_on_the_command_line(cli):
+    # A 1° cutoff keeps no site: the paleopole stands, the scatter is None, and the note is the verb's.
+    got = lodestone.paleopole(record(SITES), cutoff=1, northern=True, resamples=100)
+    want = cli("poles", record(SITES), "--cutoff", "1", "--northern", "--resamples", 100)
+    assert got.plat == pytest.approx(want["pole"]["plat"], abs=1e-12) and got.n == want["pole"]["n"]
+    assert got.s is None and got.s_low is None and want["scatter"] is None
+    assert got.scatter_note.startswith("VGP scatter skipped: ") and got.scatter_note in want["notes"]
+    assert list(got.vgps["kept"]) == [True] * len(got.vgps)

@@ -5,7 +5,10 @@ use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
 use lodestone::poles::{pole_summary, PoleSummary};
-use lodestone::present::{self, poles::PoleLabels};
+use lodestone::present::{
+    self,
+    poles::{kept_sites, PoleLabels},
+};
 use lodestone::table::{read_sites, Table};
 use std::path::PathBuf;
 
@@ -51,7 +54,7 @@ pub fn run(a: PolesArgs, ctx: &mut Ctx) -> Result<Presentation> {
 /// The map of the VGPs and the paleopole (or of the one VGP).
 fn figure(a: &PolesArgs, sum: &PoleSummary) -> PolePlot {
     let name = a.file.file_name().map(|s| s.to_string_lossy().to_string()).unwrap_or_default();
-    let (Some(pp), Some(sc), Some(_)) = (sum.pole, sum.scatter.as_ref(), sum.interval) else {
+    let Some(pp) = sum.pole else {
         let pole = sum.averaged[0];
         return PolePlot {
             title: format!("VGP — {name}"),
@@ -68,11 +71,14 @@ fn figure(a: &PolesArgs, sum: &PoleSummary) -> PolePlot {
         vgps: sum
             .averaged
             .iter()
-            .zip(&sc.kept)
+            .zip(kept_sites(sum))
             .zip(&sum.alignment.flipped)
-            .map(|((p, k), f)| MappedVgp { pole: *p, kept: *k, flipped: a.northern && *f })
+            .map(|((p, kept), f)| MappedVgp { pole: *p, kept, flipped: a.northern && *f })
             .collect(),
         mean: Some((pp.pole, pp.a95)),
-        cutoff: if a.northern || n_south == 0 { sc.threshold.map(|t| (sc.mean_pole, t)) } else { None },
+        cutoff: match &sum.scatter {
+            Some(sc) if a.northern || n_south == 0 => sc.threshold.map(|t| (sc.mean_pole, t)),
+            _ => None,
+        },
     }
 }

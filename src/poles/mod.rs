@@ -8,6 +8,7 @@ mod dipole;
 mod oval;
 mod paleopole;
 mod scatter;
+mod scatter_stage;
 mod sites;
 #[cfg(test)]
 mod tests;
@@ -20,4 +21,5 @@ pub use scatter::{
     bootstrap_scatter, precision_from_a95, vgp_scatter, within_site_sw, Cutoff, Scatter, ScatterInterval, ScatterSite,
     WithinSite,
 };
+pub use scatter_stage::{assess_scatter, ScatterAssessment, MIN_SCATTER_RESAMPLES};
 pub use sites::{pole_summary, site_a95, site_pole, PoleSummary, SitePole};

@@ -2,6 +2,7 @@
 //! within-site scatter, with the cutoffs in common use and a seeded bootstrap interval.
 
 use super::paleopole::paleopole;
+use super::scatter_stage::MIN_SCATTER_RESAMPLES;
 use crate::error::{check_range, Error, Result};
 use crate::montecarlo::{quantile_sorted, MonteCarlo};
 use crate::sphere::{angle_between, GeoPoint};
@@ -263,6 +264,18 @@ pub struct ScatterInterval {
     pub n_negative: usize,
 }
 
+/// Refuse a bootstrap of fewer than [`MIN_SCATTER_RESAMPLES`] resamples.
+pub(super) fn check_resamples(mc: &MonteCarlo<'_>) -> Result<()> {
+    if mc.resamples < MIN_SCATTER_RESAMPLES {
+        return Err(Error::invalid(
+            "resamples",
+            mc.resamples,
+            format!("a bootstrap needs at least {MIN_SCATTER_RESAMPLES} resamples, got {}", mc.resamples),
+        ));
+    }
+    Ok(())
+}
+
 /// Seeded bootstrap interval for S_B over the kept sites: resample sites with replacement, recompute the
 /// mean pole, S_T and the within-site term (the cutoff is not re-applied).
 ///
@@ -275,13 +288,7 @@ pub fn bootstrap_scatter(kept: &[ScatterSite], confidence: f64, mc: &MonteCarlo<
     if n < 2 {
         return Err(Error::TooFew { what: "a bootstrap of the VGP scatter", needed: 2, got: n, unit: "sites" });
     }
-    if mc.resamples < 10 {
-        return Err(Error::invalid(
-            "resamples",
-            mc.resamples,
-            format!("a bootstrap needs at least 10 resamples, got {}", mc.resamples),
-        ));
-    }
+    check_resamples(mc)?;
     let draws: Vec<Option<f64>> = mc.run("VGP scatter bootstrap", 0x5B_5CA7, |rng, _| {
         let pick: Vec<&ScatterSite> = (0..n).map(|_| &kept[rng.random_range(0..n)]).collect();
         let poles: Vec<GeoPoint> = pick.iter().map(|s| s.pole).collect();

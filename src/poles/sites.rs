@@ -2,10 +2,10 @@
 //! that the command line and the Python package give the same numbers.
 
 use super::{
-    align_polarity, bootstrap_scatter, paleolatitude_range, paleopole, pole_oval, vgp, vgp_scatter, Cutoff,
-    PaleolatitudeRange, Paleopole, PolarityAlignment, PoleOval, Scatter, ScatterInterval, ScatterSite, Vgp, WithinSite,
+    align_polarity, assess_scatter, paleolatitude_range, paleopole, pole_oval, vgp, Cutoff, PaleolatitudeRange,
+    Paleopole, PolarityAlignment, PoleOval, Scatter, ScatterAssessment, ScatterInterval, ScatterSite, Vgp, WithinSite,
 };
-use crate::error::Result;
+use crate::error::{Error, Result};
 use crate::model::{SiteRecord, SiteSet};
 use crate::montecarlo::MonteCarlo;
 use crate::sphere::GeoPoint;
@@ -68,9 +68,24 @@ pub struct PoleSummary {
     pub scatter: Option<Scatter>,
     /// Bootstrap interval of S_B over the sites kept; None for a single site.
     pub interval: Option<ScatterInterval>,
+    /// The cutoff asked for the scatter.
+    pub cutoff: Cutoff,
+    /// Why the scatter or its interval is missing although there is a paleopole (the stage
+    /// [`assess_scatter`]: a cutoff that leaves fewer than two sites, for instance).
+    pub scatter_failure: Option<Error>,
 }
 
 impl PoleSummary {
+    /// The note that says why the scatter or its interval is missing, when one is.
+    pub fn scatter_note(&self) -> Option<String> {
+        ScatterAssessment {
+            scatter: self.scatter.clone(),
+            interval: self.interval,
+            failure: self.scatter_failure.clone(),
+        }
+        .note()
+    }
+
     /// Sites lacking the within-site terms (n and k, or n and α95).
     pub fn missing_within(&self) -> usize {
         self.sites.iter().filter(|s| s.within.is_none()).count()
@@ -81,7 +96,9 @@ impl PoleSummary {
 ///
 /// The paleopole is the Fisher mean of every VGP (aligned to one polarity when `northern`); the
 /// scatter always uses the polarity-aligned VGPs, with `cutoff` applied, corrected for the
-/// within-site dispersion where n and k are known, with a bootstrap interval (`mc`, 95 %).
+/// within-site dispersion where n and k are known, with a bootstrap interval (`mc`, 95 %), by the
+/// stage the section also runs ([`assess_scatter`]): a scatter or interval the data cannot give
+/// leaves the paleopole standing, with the reason in `scatter_failure`.
 ///
 /// # References
 /// McElhinny & McFadden (1997), Geophys. J. Int. 131, 240–252 (S_B with the within-site term);
@@ -93,13 +110,29 @@ pub fn pole_summary(set: &SiteSet, northern: bool, cutoff: Cutoff, mc: &MonteCar
     let alignment = align_polarity(&raw)?;
     let averaged = if northern { alignment.poles.clone() } else { raw };
     if sites.len() < 2 {
-        return Ok(PoleSummary { sites, alignment, averaged, pole: None, scatter: None, interval: None });
+        return Ok(PoleSummary {
+            sites,
+            alignment,
+            averaged,
+            pole: None,
+            scatter: None,
+            interval: None,
+            cutoff,
+            scatter_failure: None,
+        });
     }
     let pole = paleopole(&averaged)?;
     let scatter_sites: Vec<ScatterSite> =
         sites.iter().zip(&alignment.poles).map(|(s, p)| ScatterSite { pole: *p, within: s.within }).collect();
-    let sc = vgp_scatter(&scatter_sites, cutoff)?;
-    let kept: Vec<ScatterSite> = scatter_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
-    let interval = bootstrap_scatter(&kept, LEVEL, mc)?;
-    Ok(PoleSummary { sites, alignment, averaged, pole: Some(pole), scatter: Some(sc), interval: Some(interval) })
+    let a = assess_scatter(&scatter_sites, cutoff, LEVEL, mc)?;
+    Ok(PoleSummary {
+        sites,
+        alignment,
+        averaged,
+        pole: Some(pole),
+        scatter: a.scatter,
+        interval: a.interval,
+        cutoff,
+        scatter_failure: a.failure,
+    })
 }

@@ -133,9 +133,9 @@ pub fn sites_sheet(set: &SiteSet, sum: &PoleSummary, title: &str) -> Sheet {
 
 /// Which sites the cutoff kept (all of them when there is no scatter).
 pub fn kept_sites(sum: &PoleSummary) -> Vec<bool> {
-    match (&sum.pole, &sum.scatter, &sum.interval) {
-        (Some(_), Some(sc), Some(_)) => sc.kept.clone(),
-        _ => vec![true; sum.sites.len()],
+    match &sum.scatter {
+        Some(sc) => sc.kept.clone(),
+        None => vec![true; sum.sites.len()],
     }
 }
 
@@ -165,7 +165,7 @@ pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
         });
     }
     let missing = missing_ovals(set, sum);
-    let (Some(pp), Some(sc), Some(boot)) = (sum.pole.as_ref(), sum.scatter.as_ref(), sum.interval.as_ref()) else {
+    let Some(pp) = sum.pole.as_ref() else {
         let notes = one_site_notes(l.file, &missing);
         let cautions = vec![cautions::ONE_VGP.to_string()];
         let json = PolesJson {
@@ -178,40 +178,47 @@ pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
         };
         return presentation(&json, vec![sites], notes, cautions);
     };
-    let removed: Vec<&str> =
-        set.records.iter().zip(&sc.kept).filter(|(_, k)| !**k).map(|(r, _)| r.site.as_str()).collect();
-    let notes = notes(sum, sc, boot, &removed, &missing, l);
+    let (sc, boot) = (sum.scatter.as_ref(), sum.interval.as_ref());
+    let removed: Vec<&str> = sc.map_or_else(Vec::new, |sc| {
+        set.records.iter().zip(&sc.kept).filter(|(_, k)| !**k).map(|(r, _)| r.site.as_str()).collect()
+    });
+    let notes = notes(sum, &removed, &missing, l);
     let cautions = vec![cautions::POLES.to_string()];
     let pole = pole_sheet(pp);
     let mut scatter = Sheet::new(
         "VGP scatter about the mean pole (polarity-aligned VGPs)",
         &["cutoff", "s", "s_low", "s_high", "s_total", "n_used", "n_removed", "threshold"],
     );
-    scatter.push(scatter_row(&sc.cutoff.name(), Some(sc), Some(boot)));
+    scatter.push(scatter_row(&sum.cutoff.name(), sc, boot));
     let json = PolesJson {
         file: l.file,
         northern: l.northern,
         sites: sites_json,
         pole: Some(PoleJson { n: pp.n, plat: pp.pole.lat, plon: pp.pole.lon, r: pp.r, k: pp.k.0, a95: pp.a95 }),
-        scatter: Some(ScatterJson {
-            cutoff: sc.cutoff.name(),
-            s: sc.s,
-            s_low: boot.low,
-            s_high: boot.high,
-            s_total: sc.s_total,
-            within_term: sc.within_term,
-            n_used: sc.n_used,
-            n_removed: sc.n_removed,
-            removed,
-            threshold: sc.threshold,
-            mean_pole: MeanPoleJson { plat: sc.mean_pole.lat, plon: sc.mean_pole.lon },
-            resamples: boot.resamples,
-            seed: l.seed,
-            polarity_aligned: true,
-        }),
+        scatter: sc.zip(boot).map(|(sc, boot)| scatter_json(sc, boot, removed, l.seed)),
         notes: json_notes(&notes, &cautions),
     };
     presentation(&json, vec![sites, pole, scatter], notes, cautions)
+}
+
+/// The scatter and its interval as JSON.
+fn scatter_json<'a>(sc: &Scatter, boot: &ScatterInterval, removed: Vec<&'a str>, seed: u64) -> ScatterJson<'a> {
+    ScatterJson {
+        cutoff: sc.cutoff.name(),
+        s: sc.s,
+        s_low: boot.low,
+        s_high: boot.high,
+        s_total: sc.s_total,
+        within_term: sc.within_term,
+        n_used: sc.n_used,
+        n_removed: sc.n_removed,
+        removed,
+        threshold: sc.threshold,
+        mean_pole: MeanPoleJson { plat: sc.mean_pole.lat, plon: sc.mean_pole.lon },
+        resamples: boot.resamples,
+        seed,
+        polarity_aligned: true,
+    }
 }
 
 /// The presentation of `json` with its sheets, notes and cautions ([`cautions::POLES`], or
@@ -266,14 +273,7 @@ fn one_site_notes(file: &str, missing: &[&str]) -> Vec<String> {
 }
 
 /// Notes on the polarity, the missing ovals, the scatter and its interval.
-fn notes(
-    sum: &PoleSummary,
-    sc: &Scatter,
-    boot: &ScatterInterval,
-    removed: &[&str],
-    missing: &[&str],
-    l: &PoleLabels,
-) -> Vec<String> {
+fn notes(sum: &PoleSummary, removed: &[&str], missing: &[&str], l: &PoleLabels) -> Vec<String> {
     let mut notes = Vec::new();
     let n_sites = sum.sites.len();
     polarity_notes(sum, l.northern, n_sites, &mut notes);
@@ -284,11 +284,16 @@ fn notes(
             missing.join(", ")
         ));
     }
-    scatter_notes(sc, boot, removed, n_sites, sum.missing_within(), &mut notes);
-    notes.push(format!(
-        "The scatter interval is a seeded bootstrap over sites (seed {}, {} resamples, 95 % percentile); it depends on the cutoff and on how sites were chosen, and is a statement about this sample, not about the field itself.",
-        l.seed, l.resamples
-    ));
+    if let Some(sc) = &sum.scatter {
+        scatter_notes(sc, sum.interval.as_ref(), removed, n_sites, sum.missing_within(), &mut notes);
+    }
+    notes.extend(sum.scatter_note());
+    if sum.interval.is_some() {
+        notes.push(format!(
+            "The scatter interval is a seeded bootstrap over sites (seed {}, {} resamples, 95 % percentile); it depends on the cutoff and on how sites were chosen, and is a statement about this sample, not about the field itself.",
+            l.seed, l.resamples
+        ));
+    }
     notes
 }
 
@@ -313,7 +318,7 @@ fn polarity_notes(sum: &PoleSummary, northern: bool, n_sites: usize, notes: &mut
 /// Notes on the scatter: the cutoff, the within-site correction, negative bootstrap values.
 fn scatter_notes(
     sc: &Scatter,
-    boot: &ScatterInterval,
+    boot: Option<&ScatterInterval>,
     removed: &[&str],
     n_sites: usize,
     missing_within: usize,
@@ -333,7 +338,7 @@ fn scatter_notes(
         (Some(_), None) => notes.push("The within-site term exceeds the total scatter: S_B is undefined (the sites are too dispersed internally for this estimate).".into()),
         _ => {}
     }
-    if boot.n_negative > 0 {
+    if let Some(boot) = boot.filter(|b| b.n_negative > 0) {
         notes.push(format!(
             "{} of {} bootstrap resamples had a negative S_B² and count as 0.",
             boot.n_negative, boot.resamples

@@ -9,7 +9,7 @@ use crate::figures::{MappedVgp, PolePlot};
 use crate::montecarlo::MonteCarlo;
 use crate::numbers::{azimuth, fixed_or_empty};
 use crate::poles::{
-    align_polarity, bootstrap_scatter, paleopole, pole_oval, vgp_scatter, Paleopole, ScatterSite, Vgp, WithinSite,
+    align_polarity, assess_scatter, paleopole, pole_oval, Paleopole, ScatterAssessment, ScatterSite, Vgp, WithinSite,
 };
 use crate::present::cautions;
 use crate::present::poles::{level_vgp_sheet, pole_scatter_sheet, LevelVgp};
@@ -87,26 +87,26 @@ fn pole_and_scatter(
 ) -> Result<()> {
     let s = &inp.settings;
     let sc_sites = scatter_sites(used, aligned)?;
-    let mut kept_flags = vec![true; used.len()];
-    let pt = match vgp_scatter(&sc_sites, s.cutoff()) {
-        Ok(sc) => {
-            kept_flags = sc.kept.clone();
-            let kept: Vec<ScatterSite> = sc_sites.iter().zip(&sc.kept).filter(|(_, k)| **k).map(|(s, _)| *s).collect();
-            let boot = bootstrap_scatter(&kept, s.confidence, mc);
-            let (lo, hi) = boot.as_ref().map_or((None, None), |b| (Some(b.low), Some(b.high)));
-            if let Err(e) = &boot {
-                log.warnings.push(format!("Scatter interval skipped: {e}."));
-            }
+    // The scatter stage of every front end; what the data cannot give is a warning here.
+    let a = assess_scatter(&sc_sites, s.cutoff(), s.confidence, mc).unwrap_or_else(|e| ScatterAssessment {
+        scatter: None,
+        interval: None,
+        failure: Some(e),
+    });
+    log.warnings.extend(a.note());
+    let kept_flags = a.kept(used.len());
+    let pt = match &a.scatter {
+        Some(sc) => {
+            let (lo, hi) = a.interval.map_or((None, None), |b| (Some(b.low), Some(b.high)));
             let s_b = sc.s.map_or_else(
                 || format!("undefined (the within-site scatter exceeds the total, {:.1}°)", sc.s_total),
                 |s| format!("{s:.1}°"),
             );
             stage.result = format!("Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}. VGP scatter S_B = {s_b} ({}–{}°, {} sites used, {} removed by the cutoff).",
                 pp.n, pp.pole.lat, azimuth(pp.pole.lon, 1), pp.k.0, fixed_or_empty(pp.a95, 1) + "°", fixed_or_empty(lo, 1), fixed_or_empty(hi, 1), sc.n_used, sc.n_removed);
-            pole_scatter_sheet(pp, &s.scatter_cutoff, Some(&sc), boot.as_ref().ok())
+            pole_scatter_sheet(pp, &s.scatter_cutoff, Some(sc), a.interval.as_ref())
         }
-        Err(e) => {
-            log.warnings.push(format!("VGP scatter skipped: {e}."));
+        None => {
             stage.result = format!(
                 "Paleopole from {} sites: {:.1}°N, {}°E, K = {:.1}, A95 = {}°.",
                 pp.n,
