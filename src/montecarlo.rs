@@ -17,6 +17,27 @@ pub type McRng = rand::rngs::Xoshiro256PlusPlus;
 /// Default seed for every random result (contract: `--seed`, default 1).
 pub const DEFAULT_SEED: u64 = 1;
 
+/// Fewest resamples of the field tests' Monte Carlo and of the shallowing search's intervals, in every
+/// front end (the verbs, the `section` settings, the Python package): with fewer, the 2.5 % and
+/// 97.5 % percentiles rest on two or three draws.
+pub const MIN_RESAMPLES: usize = 100;
+
+/// `n`, when it is at least [`MIN_RESAMPLES`].
+///
+/// # Errors
+/// [`crate::Error::TooFew`] (unit `resamples`) below it.
+pub fn check_resamples(n: usize) -> crate::error::Result<usize> {
+    if n < MIN_RESAMPLES {
+        return Err(crate::Error::TooFew {
+            what: "a percentile interval",
+            needed: MIN_RESAMPLES,
+            got: n,
+            unit: "resamples",
+        });
+    }
+    Ok(n)
+}
+
 /// SplitMix64 finaliser (Steele, Lea & Flood 2014): a bijective 64-bit mixer.
 pub fn splitmix64(mut z: u64) -> u64 {
     z = z.wrapping_add(0x9E37_79B9_7F4A_7C15);
@@ -291,6 +312,15 @@ pub(crate) fn quantiles_of_keys(keys: &mut [u64], qs: &[f64]) -> Vec<f64> {
 
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn the_resample_floor_is_one_rule() {
+        assert_eq!(check_resamples(MIN_RESAMPLES).unwrap(), 100);
+        assert_eq!(check_resamples(1000).unwrap(), 1000);
+        let e = check_resamples(99).unwrap_err();
+        assert!(matches!(e, crate::Error::TooFew { needed: 100, got: 99, unit: "resamples", .. }), "{e:?}");
+        assert!(check_resamples(0).is_err());
+    }
+
     use super::*;
     use rand::RngExt;
 

@@ -13,12 +13,14 @@ use pyo3::types::PyDict;
 /// Confidence level of the field tests (the published classes and tables are at 95 %).
 const CONFIDENCE: f64 = 0.95;
 
-/// The command line's floor on resamples: fewer cannot place 95 % quantiles.
+/// The library's floor on resamples (the command line's and the section's): fewer cannot place 95 % quantiles.
 pub(crate) fn check_resamples(n: usize) -> PyResult<()> {
-    if n < 100 {
-        return Err(arg_error(format!("resamples must be at least 100, got {n}")));
+    match lodestone::montecarlo::check_resamples(n) {
+        Ok(_) => Ok(()),
+        Err(_) => {
+            Err(arg_error(format!("resamples must be at least {}, got {n}", lodestone::montecarlo::MIN_RESAMPLES)))
+        }
     }
-    Ok(())
 }
 
 /// Unit vectors of equal-length dec/inc arrays, each validated.

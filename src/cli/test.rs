@@ -131,10 +131,10 @@ fn vectors(set: &DirectionSet, frame: FrameArg) -> Result<Vec<Vec3>> {
 }
 
 fn check_resamples(n: usize) -> Result<()> {
-    if n < 100 {
-        anyhow::bail!("--resamples must be at least 100, got {n}");
+    match lodestone::montecarlo::check_resamples(n) {
+        Ok(_) => Ok(()),
+        Err(_) => anyhow::bail!("--resamples must be at least {}, got {n}", lodestone::montecarlo::MIN_RESAMPLES),
     }
-    Ok(())
 }
 
 /// The labels of a test run on `file` in `frame`.

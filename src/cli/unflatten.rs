@@ -7,6 +7,7 @@ use lodestone::dirstats::{
     elongation_of, shallowing_directions, unflatten_given, unflatten_search, MIN_DIRECTIONS, RECOMMENDED_DIRECTIONS,
 };
 use lodestone::figures::UnflattenFigure;
+use lodestone::montecarlo::MIN_RESAMPLES;
 use lodestone::present::{self, unflatten::GivenFactor};
 use lodestone::sphere::Direction;
 use lodestone::table::{read_directions, GroupBy, Table};
@@ -61,8 +62,8 @@ pub fn run(a: UnflattenArgs, ctx: &mut Ctx) -> Result<Presentation> {
         }
         return by_factor(&dirs, f, &fname, notes);
     }
-    if a.resamples < 100 {
-        bail!("--resamples must be at least 100 for the intervals, got {}", a.resamples);
+    if lodestone::montecarlo::check_resamples(a.resamples).is_err() {
+        bail!("--resamples must be at least {MIN_RESAMPLES} for the intervals, got {}", a.resamples);
     }
     if dirs.len() < MIN_DIRECTIONS {
         bail!(

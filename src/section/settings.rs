@@ -92,7 +92,10 @@ impl SectionSettings {
         let out = SectionSettings {
             seed: s.integer("seed", u64::MAX >> 11)?.unwrap_or(d.seed),
             confidence: s.number("confidence", 0.5, 0.999)?.unwrap_or(d.confidence),
-            resamples: s.integer("resamples", 1_000_000)?.map_or(d.resamples, |x| x as usize).max(100),
+            resamples: s
+                .integer("resamples", 1_000_000)?
+                .map_or(d.resamples, |x| x as usize)
+                .max(crate::montecarlo::MIN_RESAMPLES),
             vgp_threshold: s.number("vgp_threshold", 0.0, 89.0)?.unwrap_or(d.vgp_threshold),
             min_levels: s.integer("min_levels", 1000)?.map_or(d.min_levels, |x| (x as usize).max(1)),
             max_mad: s.number("max_mad", 0.0, 90.0)?.unwrap_or(d.max_mad),
