@@ -93,9 +93,7 @@ pub fn field_series<'py>(
 ) -> PyResult<Bound<'py, PyDict>> {
     let (m, rows) = run_detached(py, None, || {
         let m = load(&model)?;
-        let from = start.unwrap_or(m.epochs[0]);
-        let to = end.unwrap_or(*m.epochs.last().expect("a model has an epoch"));
-        let opts = SeriesOptions::new(from, to, every, low_threshold).map_err(failed)?;
+        let opts = SeriesOptions::within(&m, start, end, every, low_threshold).map_err(failed)?;
         let rows = lib_field_series(&m, &opts).map_err(failed)?;
         Ok((m, rows))
     })?;

@@ -118,9 +118,8 @@ fn at(a: AtArgs, ctx: &mut Ctx) -> Result<Presentation> {
 
 fn series(a: SeriesArgs, ctx: &mut Ctx) -> Result<Presentation> {
     let model = load_model(&a.model, ctx)?;
-    let from = a.from.unwrap_or(model.epochs[0]);
-    let to = a.to.unwrap_or(*model.epochs.last().expect("an epoch"));
-    let opts = SeriesOptions::new(from, to, a.every, a.low_threshold)?;
+    let opts = SeriesOptions::within(&model, a.from, a.to, a.every, a.low_threshold)?;
+    let to = opts.to;
     let rows = field_series(&model, &opts)?;
     if let Some(p) = &a.plot {
         let title =

@@ -42,6 +42,23 @@ impl SeriesOptions {
         Ok(SeriesOptions { from, to, every, low_threshold, grid_step: 1.0 })
     }
 
+    /// Options over `model`'s epochs: `from` and `to` as given, else the model's first and last
+    /// epoch (the default window of the `field series` verb and the Python package alike).
+    ///
+    /// # Errors
+    /// As [`SeriesOptions::new`].
+    pub fn within(
+        model: &FieldModel,
+        from: Option<f64>,
+        to: Option<f64>,
+        every: f64,
+        low_threshold: f64,
+    ) -> FieldResult<Self> {
+        let from = from.unwrap_or(model.epochs[0]);
+        let to = to.unwrap_or(*model.epochs.last().expect("a model has an epoch"));
+        SeriesOptions::new(from, to, every, low_threshold)
+    }
+
     /// The years of the series.
     pub fn years(&self) -> Vec<f64> {
         let n = ((self.to - self.from) / self.every + 1e-9).floor() as usize + 1;

@@ -190,3 +190,21 @@ fn context_counts_drops_in_a_hand_worked_record() {
     // Percentile: one window (−20 %) below −10 %, four above: 20 %.
     assert_abs_diff_eq!(c.change_percentile, 20.0, epsilon = 1e-9);
 }
+
+#[test]
+fn the_series_window_defaults_to_the_models_epochs() {
+    // One default window for the `field series` verb and the Python package: the model's first and
+    // last epoch unless given; the same checks as SeriesOptions::new on the edges.
+    let m = igrf();
+    let (first, last) = (m.epochs[0], *m.epochs.last().unwrap());
+    let d = SeriesOptions::within(&m, None, None, 5.0, DEFAULT_LOW_THRESHOLD).unwrap();
+    assert_eq!(d, SeriesOptions::new(first, last, 5.0, DEFAULT_LOW_THRESHOLD).unwrap());
+    let part = SeriesOptions::within(&m, Some(1950.0), None, 5.0, DEFAULT_LOW_THRESHOLD).unwrap();
+    assert_eq!((part.from, part.to), (1950.0, last));
+    // A start after the model's last epoch leaves `to` before `from`: refused, as by `new`.
+    assert!(matches!(
+        SeriesOptions::within(&m, Some(last + 10.0), None, 5.0, DEFAULT_LOW_THRESHOLD),
+        Err(FieldError::OutOfRange { name: "to", .. })
+    ));
+    assert!(SeriesOptions::within(&m, None, None, 0.0, DEFAULT_LOW_THRESHOLD).is_err());
+}
