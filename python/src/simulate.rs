@@ -7,8 +7,9 @@ use lodestone::montecarlo::MonteCarlo;
 use lodestone::present::simulate as present;
 use lodestone::reversals::{Fitted, Model};
 use lodestone::simulate::{
-    parse_rates, project_files, simulate_section as simulate_section_lib, simulate_timescale as lib_simulate,
-    treatment_defaults, FirstPolarity, Overprint, SectionModel, TimeScaleModel, TimeScaleSource, Unblocking,
+    parse_rates, project_files, section_timescale_span, simulate_section as simulate_section_lib,
+    simulate_timescale as lib_simulate, treatment_defaults, FirstPolarity, Overprint, SectionModel, TimeScaleModel,
+    TimeScaleSource, Unblocking,
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::Table;
@@ -226,7 +227,7 @@ pub fn simulate_section<'py>(
             None => Some(TimeScaleModel {
                 model: Fitted::from_settings(Model::from_name(&model)?, mean_interval, shape)?,
                 young: 0.0,
-                span: base_age + mean_interval,
+                span: section_timescale_span(base_age, mean_interval),
                 first,
                 name_prefix,
             }),

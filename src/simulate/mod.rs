@@ -23,8 +23,8 @@ pub use section::{
     SPECIMEN_STREAM,
 };
 pub use timescale::{
-    simulate_timescale, FirstPolarity, TimeScaleModel, TimeScaleSource, AGE_QUANTUM, BURN_IN_INTERVALS,
-    TIMESCALE_STREAM,
+    section_timescale_span, simulate_timescale, FirstPolarity, TimeScaleModel, TimeScaleSource, AGE_QUANTUM,
+    BURN_IN_INTERVALS, TIMESCALE_STREAM,
 };
 pub use truth::truth_document;
 

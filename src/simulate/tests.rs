@@ -415,3 +415,21 @@ fn settings_default_the_shape_and_refuse_it_for_the_exponential() {
     ));
     assert!(Fitted::from_settings(Model::Weibull, -1.0, None).is_err());
 }
+
+#[test]
+fn a_section_without_a_time_scale_gets_one_mean_interval_below_its_base() {
+    // The one rule of the verb and the Python package: the drawn scale spans base + one mean interval,
+    // and so reaches below the section's base for every seed.
+    assert_eq!(section_timescale_span(2.5, 0.25), 2.75);
+    for seed in 1..20 {
+        let m = TimeScaleModel {
+            model: Fitted::from_settings(Model::Gamma, 0.25, None).unwrap(),
+            young: 0.0,
+            span: section_timescale_span(2.5, 0.25),
+            first: FirstPolarity::Fixed(Polarity::Normal),
+            name_prefix: None,
+        };
+        let ts = simulate_timescale(&m, seed).unwrap();
+        assert!(ts.chrons.last().unwrap().old >= 2.5, "seed {seed}");
+    }
+}

@@ -34,6 +34,16 @@ pub struct TimeScaleModel {
     pub name_prefix: Option<String>,
 }
 
+/// The span of the time scale drawn for a synthetic section that is given none (the `simulate
+/// section` verb and the Python package alike): from the present to one mean interval below the
+/// section's base, so that the base falls inside the scale whatever the draw near it.
+///
+/// # Units
+/// `base_age` in Ma, `mean_interval` and the result in Myr.
+pub fn section_timescale_span(base_age: f64, mean_interval: f64) -> f64 {
+    base_age + mean_interval
+}
+
 /// JSON form: the model with its mean, the young end, the span and the first polarity (the chron
 /// names are in the time scale itself).
 impl Serialize for TimeScaleModel {

@@ -7,8 +7,8 @@ use clap::{Args, ValueEnum};
 use lodestone::model::{StratAxis, TimeScale, Treatment};
 use lodestone::present::simulate as present;
 use lodestone::simulate::{
-    parse_rates, project_files, simulate_section, simulate_timescale, treatment_defaults, Overprint, SectionModel,
-    SyntheticSection, TimeScaleSource, Unblocking,
+    parse_rates, project_files, section_timescale_span, simulate_section, simulate_timescale, treatment_defaults,
+    Overprint, SectionModel, SyntheticSection, TimeScaleSource, Unblocking,
 };
 use lodestone::sphere::{Bedding, Direction, GeoPoint};
 use lodestone::table::Table;
@@ -186,8 +186,8 @@ pub(super) fn run_section(a: SectionArgs, ctx: &mut Ctx) -> Result<Presentation>
             (TimeScale::from_table(&Table::read(p)?)?, TimeScaleSource::File(p.display().to_string()))
         }
         None => {
-            // Cover the section with one mean interval to spare below its base.
-            let span = a.base_age + a.renewal.mean_interval;
+            // Cover the section with one mean interval to spare below its base (the library's rule).
+            let span = section_timescale_span(a.base_age, a.renewal.mean_interval);
             let m = a.renewal.model(0.0, span)?;
             (simulate_timescale(&m, seed)?, TimeScaleSource::Renewal(m))
         }
