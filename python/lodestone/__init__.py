@@ -382,7 +382,7 @@ def field_series(
     start: Optional[float] = None,
     end: Optional[float] = None,
     every: float = 5.0,
-    low_threshold: float = 32000.0,
+    low_threshold: float = _native.LOW_THRESHOLD,
     model: Optional[Union[str, "os.PathLike[str]"]] = None,
 ) -> pd.DataFrame:
     """The present field through time, one row per year: the columns of ``field series --format csv``.

@@ -11,9 +11,9 @@ from . import _native
 from ._results import Correlation, PolarityColumn
 from ._tables import TableLike, _source
 
-#: Defaults of the command line (``column`` and ``correlate``).
-THRESHOLD = 45.0
-MIN_LEVELS = 2
+#: Defaults of the command line (``column`` and ``correlate``), as the library decides them.
+THRESHOLD = _native.VGP_THRESHOLD
+MIN_LEVELS = _native.MIN_LEVELS
 
 Anchor = Union[Tuple[float, float], Tuple[float, float, float]]
 
@@ -71,11 +71,11 @@ def correlate(
     zones: TableLike,
     timescale: TableLike,
     anchors: Optional[Sequence[Anchor]] = None,
-    miss_penalty: float = 2.0,
-    hiatus_penalty: float = 6.0,
-    skip_penalty: float = 2.0,
-    rate_spread: float = 0.25,
-    candidates: int = 5,
+    miss_penalty: float = _native.MISS_PENALTY,
+    hiatus_penalty: float = _native.HIATUS_PENALTY,
+    skip_penalty: float = _native.SKIP_PENALTY,
+    rate_spread: float = _native.RATE_SPREAD,
+    candidates: int = _native.CANDIDATES,
     threshold: float = THRESHOLD,
     min_levels: int = MIN_LEVELS,
 ) -> Correlation:
@@ -137,9 +137,10 @@ def column_figure(
     notebook, ``IPython.display.SVG(svg)`` shows it.
     """
     st = _settings(
-        anchors, correlate_settings.pop("miss_penalty", 2.0), correlate_settings.pop("hiatus_penalty", 6.0),
-        correlate_settings.pop("skip_penalty", 2.0), correlate_settings.pop("rate_spread", 0.25),
-        correlate_settings.pop("candidates", 5), threshold, min_levels,
+        anchors, correlate_settings.pop("miss_penalty", _native.MISS_PENALTY),
+        correlate_settings.pop("hiatus_penalty", _native.HIATUS_PENALTY),
+        correlate_settings.pop("skip_penalty", _native.SKIP_PENALTY), correlate_settings.pop("rate_spread", _native.RATE_SPREAD),
+        correlate_settings.pop("candidates", _native.CANDIDATES), threshold, min_levels,
     )
     if correlate_settings:
         raise TypeError(f"unknown keyword(s): {', '.join(sorted(correlate_settings))}")

@@ -73,6 +73,14 @@ def psv(
 
 # The cautions, each written once in the library (present::cautions).
 FIELD_TEST_CAUTION: str
+VGP_THRESHOLD: float
+MIN_LEVELS: int
+MISS_PENALTY: float
+HIATUS_PENALTY: float
+SKIP_PENALTY: float
+RATE_SPREAD: float
+CANDIDATES: int
+LOW_THRESHOLD: float
 POLE_CAUTION: str
 ONE_VGP_CAUTION: str
 PSV_CAUTION: str

@@ -82,7 +82,7 @@ pub fn field_at<'py>(
 
 /// Per epoch: dipole, dip poles, the surface-intensity low and the spectrum (see `lodestone.field_series`).
 #[pyfunction]
-#[pyo3(signature = (start = None, end = None, every = 5.0, low_threshold = 32000.0, model = None))]
+#[pyo3(signature = (start = None, end = None, every = 5.0, low_threshold = lodestone::field::DEFAULT_LOW_THRESHOLD, model = None))]
 pub fn field_series<'py>(
     py: Python<'py>,
     start: Option<f64>,

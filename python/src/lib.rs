@@ -178,5 +178,15 @@ fn _native(m: &Bound<'_, PyModule>) -> PyResult<()> {
     ] {
         m.add(name, text)?;
     }
+    // The defaults decided in the library, so that the Python signatures take the verbs' values.
+    let c = lodestone::strat::CorrelateOptions::default();
+    m.add("VGP_THRESHOLD", lodestone::strat::DEFAULT_THRESHOLD)?;
+    m.add("MIN_LEVELS", lodestone::strat::DEFAULT_MIN_LEVELS)?;
+    m.add("MISS_PENALTY", c.miss_penalty)?;
+    m.add("HIATUS_PENALTY", c.hiatus_penalty)?;
+    m.add("SKIP_PENALTY", c.skip_penalty)?;
+    m.add("RATE_SPREAD", c.rate_spread)?;
+    m.add("CANDIDATES", c.candidates)?;
+    m.add("LOW_THRESHOLD", lodestone::field::DEFAULT_LOW_THRESHOLD)?;
     Ok(())
 }

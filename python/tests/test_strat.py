@@ -176,3 +176,31 @@ def test_correlation_figure_is_the_command_lines_figure(cli, tmp_path):
         lodestone.column_figure(record(LEVELS), format="gif")
     with pytest.raises(TypeError, match="unknown"):
         lodestone.column_figure(record(LEVELS), colour="red")
+
+
+def test_the_defaults_are_the_command_lines(cli):
+    # The Python signatures take the library's defaults, as the verbs do: read the defaults that
+    # `correlate --help` and `field series --help` print and compare them with the signatures.
+    import inspect
+    import re
+
+    def defaults(*verb):
+        text = subprocess.run([str(cli.binary), *verb, "--help"], capture_output=True, text=True, check=True).stdout
+        found, option = {}, None
+        for line in text.splitlines():
+            start = re.match(r"\s+(?:-\w, )?--([a-z-]+)", line)
+            if start:
+                option = start.group(1).replace("-", "_")
+            default = re.search(r"\[default: ([^\]]+)\]", line)
+            if default and option:
+                found.setdefault(option, default.group(1))
+        return found
+
+    c = defaults("correlate")
+    sig = inspect.signature(lodestone.correlate).parameters
+    for name in ("miss_penalty", "hiatus_penalty", "skip_penalty", "rate_spread", "candidates", "threshold",
+                 "min_levels"):
+        assert float(c[name]) == float(sig[name].default), name
+    assert float(defaults("field", "series")["low_threshold"]) == float(
+        inspect.signature(lodestone.field_series).parameters["low_threshold"].default
+    )

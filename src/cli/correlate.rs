@@ -20,19 +20,19 @@ pub struct CorrelateArgs {
     #[arg(long = "anchor", value_name = "POS:AGE[:ERR]")]
     pub anchors: Vec<String>,
     /// Score added per chron missing from the column (hiatus or too short to be sampled).
-    #[arg(long, default_value_t = 2.0)]
+    #[arg(long, default_value_t = CorrelateOptions::default().miss_penalty)]
     pub miss_penalty: f64,
     /// Score added once per run read as containing a hiatus.
-    #[arg(long, default_value_t = 6.0)]
+    #[arg(long, default_value_t = CorrelateOptions::default().hiatus_penalty)]
     pub hiatus_penalty: f64,
     /// Score added per single-level zone left out of a correlation.
-    #[arg(long, default_value_t = 2.0)]
+    #[arg(long, default_value_t = CorrelateOptions::default().skip_penalty)]
     pub skip_penalty: f64,
     /// Accepted spread of the natural log of the accumulation rate.
-    #[arg(long, default_value_t = 0.25)]
+    #[arg(long, default_value_t = CorrelateOptions::default().rate_spread)]
     pub rate_spread: f64,
     /// Number of ranked candidates to show.
-    #[arg(long, default_value_t = 5)]
+    #[arg(long, default_value_t = CorrelateOptions::default().candidates)]
     pub candidates: usize,
     /// VGP threshold when ZONES is a levels table.
     #[arg(long, default_value_t = lodestone::strat::DEFAULT_THRESHOLD)]
