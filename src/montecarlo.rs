@@ -312,6 +312,9 @@ pub(crate) fn quantiles_of_keys(keys: &mut [u64], qs: &[f64]) -> Vec<f64> {
 
 #[cfg(test)]
 mod tests {
+    use super::*;
+    use rand::RngExt;
+
     #[test]
     fn the_resample_floor_is_one_rule() {
         assert_eq!(check_resamples(MIN_RESAMPLES).unwrap(), 100);
@@ -320,9 +323,6 @@ mod tests {
         assert!(matches!(e, crate::Error::TooFew { needed: 100, got: 99, unit: "resamples", .. }), "{e:?}");
         assert!(check_resamples(0).is_err());
     }
-
-    use super::*;
-    use rand::RngExt;
 
     #[test]
     fn batched_runs_equal_one_at_a_time() {

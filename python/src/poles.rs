@@ -3,7 +3,7 @@
 use crate::{cutoff_arg, run_detached, Source};
 use lodestone::montecarlo::MonteCarlo;
 use lodestone::poles::pole_summary;
-use lodestone::present::poles::{kept_sites, sites_sheet};
+use lodestone::present::poles::sites_sheet;
 use lodestone::table::read_sites;
 use pyo3::prelude::*;
 use pyo3::types::PyDict;
@@ -17,7 +17,7 @@ fn site_columns<'py>(
 ) -> PyResult<Bound<'py, PyDict>> {
     let d = crate::sheets::columns(py, &sites_sheet(set, sum, ""))?;
     d.set_item("a95", sum.sites.iter().map(|x| x.a95.unwrap_or(f64::NAN)).collect::<Vec<_>>())?;
-    d.set_item("kept", kept_sites(sum))?;
+    d.set_item("kept", sum.kept_sites())?;
     d.set_item("flipped", sum.alignment.flipped.clone())?;
     Ok(d)
 }

@@ -5,10 +5,7 @@ use anyhow::{bail, Result};
 use clap::Args;
 use lodestone::figures::{MappedVgp, PolePlot};
 use lodestone::poles::{pole_summary, PoleSummary};
-use lodestone::present::{
-    self,
-    poles::{kept_sites, PoleLabels},
-};
+use lodestone::present::{self, poles::PoleLabels};
 use lodestone::table::{read_sites, Table};
 use std::path::PathBuf;
 
@@ -71,7 +68,7 @@ fn figure(a: &PolesArgs, sum: &PoleSummary) -> PolePlot {
         vgps: sum
             .averaged
             .iter()
-            .zip(kept_sites(sum))
+            .zip(sum.kept_sites())
             .zip(&sum.alignment.flipped)
             .map(|((p, kept), f)| MappedVgp { pole: *p, kept, flipped: a.northern && *f })
             .collect(),

@@ -24,17 +24,28 @@ pub struct ScatterAssessment {
 impl ScatterAssessment {
     /// The note that says what is missing and why, when something is.
     pub fn note(&self) -> Option<String> {
-        let e = self.failure.as_ref()?;
-        Some(match self.scatter {
-            None => format!("VGP scatter skipped: {e}."),
-            Some(_) => format!("Scatter interval skipped: {e}."),
-        })
+        missing_note(self.scatter.as_ref(), self.failure.as_ref())
     }
 
     /// Which sites the cutoff kept (all of them when there is no scatter).
     pub fn kept(&self, n_sites: usize) -> Vec<bool> {
-        self.scatter.as_ref().map_or_else(|| vec![true; n_sites], |s| s.kept.clone())
+        kept_or_all(self.scatter.as_ref(), n_sites)
     }
+}
+
+/// The note of [`ScatterAssessment::note`], for a result that keeps the stage's parts in its own fields
+/// ([`super::PoleSummary`]).
+pub(super) fn missing_note(scatter: Option<&Scatter>, failure: Option<&Error>) -> Option<String> {
+    let e = failure?;
+    Some(match scatter {
+        None => format!("VGP scatter skipped: {e}."),
+        Some(_) => format!("Scatter interval skipped: {e}."),
+    })
+}
+
+/// The sites `scatter` kept, or all `n_sites` when there is no scatter.
+pub(super) fn kept_or_all(scatter: Option<&Scatter>, n_sites: usize) -> Vec<bool> {
+    scatter.map_or_else(|| vec![true; n_sites], |s| s.kept.clone())
 }
 
 /// See [`ScatterAssessment`]: [`vgp_scatter`] of `sites` with `cutoff`, then [`bootstrap_scatter`]

@@ -1,9 +1,10 @@
 //! From a sites table to the paleopole and the VGP scatter: the steps `poles` takes, in one place so
 //! that the command line and the Python package give the same numbers.
 
+use super::scatter_stage::{kept_or_all, missing_note};
 use super::{
     align_polarity, assess_scatter, paleolatitude_range, paleopole, pole_oval, vgp, Cutoff, PaleolatitudeRange,
-    Paleopole, PolarityAlignment, PoleOval, Scatter, ScatterAssessment, ScatterInterval, ScatterSite, Vgp, WithinSite,
+    Paleopole, PolarityAlignment, PoleOval, Scatter, ScatterInterval, ScatterSite, Vgp, WithinSite,
 };
 use crate::error::{Error, Result};
 use crate::model::{SiteRecord, SiteSet};
@@ -78,12 +79,12 @@ pub struct PoleSummary {
 impl PoleSummary {
     /// The note that says why the scatter or its interval is missing, when one is.
     pub fn scatter_note(&self) -> Option<String> {
-        ScatterAssessment {
-            scatter: self.scatter.clone(),
-            interval: self.interval,
-            failure: self.scatter_failure.clone(),
-        }
-        .note()
+        missing_note(self.scatter.as_ref(), self.scatter_failure.as_ref())
+    }
+
+    /// Which sites the cutoff kept (all of them when there is no scatter, as for one site).
+    pub fn kept_sites(&self) -> Vec<bool> {
+        kept_or_all(self.scatter.as_ref(), self.sites.len())
     }
 
     /// Sites lacking the within-site terms (n and k, or n and α95).

@@ -131,18 +131,10 @@ pub fn sites_sheet(set: &SiteSet, sum: &PoleSummary, title: &str) -> Sheet {
     sites
 }
 
-/// Which sites the cutoff kept (all of them when there is no scatter).
-pub fn kept_sites(sum: &PoleSummary) -> Vec<bool> {
-    match &sum.scatter {
-        Some(sc) => sc.kept.clone(),
-        None => vec![true; sum.sites.len()],
-    }
-}
-
 /// The VGPs, paleopole and scatter `sum` of the sites `set`.
 pub fn poles(set: &SiteSet, sum: &PoleSummary, l: &PoleLabels) -> Presentation {
     let sites = sites_sheet(set, sum, &format!("Virtual geomagnetic poles of {}", l.file));
-    let kept = kept_sites(sum);
+    let kept = sum.kept_sites();
     let mut sites_json = Vec::new();
     for (i, (r, sp)) in set.records.iter().zip(&sum.sites).enumerate() {
         sites_json.push(SiteJson {

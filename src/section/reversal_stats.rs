@@ -89,7 +89,8 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale, mc: &MonteCarlo<'_
         out.warnings.push(format!("Renewal fit failed: {}: {}.", f.model.name(), f.reason));
     }
     out.n_intervals = sample.n();
-    out.elapsed = rec.elapsed(None).ok();
+    let elapsed = rec.elapsed(None);
+    out.elapsed = elapsed.as_ref().ok().copied();
     renewal_table(&mut out, &fits, &sample, mc);
     let best = fits.fits.iter().max_by(|a, b| a.weight.total_cmp(&b.weight)).expect("non-empty");
     out.stage.result = format!(
@@ -111,7 +112,7 @@ pub(super) fn reversal_statistics(name: &str, ts: &TimeScale, mc: &MonteCarlo<'_
     }
     let fig = IntervalFigure::new(&sample, &fits, name);
     out.add_figure(super::stage::draw(&fig, "intervals", "Lengths of the complete polarity intervals (empirical distribution) with the distribution functions of the fitted renewal models; the open chron's present length is marked.".into()));
-    match rec.elapsed(None) {
+    match elapsed {
         Ok(elapsed) => hazard(&mut out, &fits, &sample, elapsed, mc, name),
         Err(e) => out.warnings.push(format!("Hazard skipped: {e}.")),
     }
